@@ -1,0 +1,144 @@
+import { z } from "zod";
+
+/**
+ * The study file format (`content/studies/<id>/study.yaml`), defined once: the loader
+ * validates with it and `npm run schema` turns it into `schema/study.schema.json` for editors.
+ * Units are in key names; angles in degrees, heights in metres, powers in dBm, gains in dBi.
+ */
+
+const kValue = z
+  .union([
+    z.number().positive(),
+    z.string().regex(/^(inf|\d+(\.\d+)?\/\d+(\.\d+)?)$/, "a fraction such as 4/3, or inf"),
+    z.object({ gradient_n_km: z.number().gt(-157).describe("refractivity gradient dN/dh in the lowest km (N-units/km); k by ITU-R P.453") }).strict(),
+  ])
+  .describe("effective Earth-radius factor: a positive number, a fraction like 4/3, inf, or {gradient_n_km}");
+
+const latitude = z.number().min(-90).max(90).describe("WGS84 latitude (decimal degrees, north positive)");
+const longitude = z.number().min(-180).max(180).describe("WGS84 longitude (decimal degrees, east positive)");
+const id = z.string().regex(/^[A-Za-z0-9][A-Za-z0-9_.-]*$/, "letters, digits, '-', '_' or '.'");
+
+const terrain = z
+  .union([
+    z.object({ file: z.string().min(1).describe("a .hgt tile, a folder of .hgt tiles, or a GeoTIFF, relative to the study folder") }).strict(),
+    z.object({ constant_m: z.number().describe("smooth Earth at this height above mean sea level (sea paths)") }).strict(),
+    z
+      .object({
+        synthetic: z
+          .object({
+            seed: z.number().int(),
+            south_deg: latitude,
+            west_deg: longitude,
+            north_deg: latitude,
+            east_deg: longitude,
+            spacing_arcsec: z.number().positive().optional(),
+          })
+          .strict()
+          .describe("seeded synthetic terrain for demonstrations — not real ground"),
+      })
+      .strict(),
+  ])
+  .describe("where ground heights come from");
+
+const linkEnd = z
+  .object({
+    site: id.describe("id of a site in `sites`"),
+    antenna_m: z.number().min(0).max(1000).describe("antenna centre height above ground (m)"),
+    gain_dbi: z.number().min(-10).max(70).describe("antenna gain (dBi)"),
+    feeder_loss_db: z.number().min(0).max(50).default(0).describe("feeder and branching loss at this end (dB)"),
+  })
+  .strict();
+
+export const studySchema = z
+  .object({
+    $schema: z.string().optional(),
+    title: z.string().min(1),
+    client: z.string().min(1),
+    prepared_by: z.string().min(1),
+    revision: z.union([z.string(), z.number()]).transform(String),
+    date: z
+      .string()
+      .regex(/^\d{4}-\d{2}-\d{2}$/, "a date as YYYY-MM-DD")
+      .describe("issue date of this revision (YYYY-MM-DD)"),
+    summary: z.string().optional(),
+    terrain,
+    design: z
+      .object({
+        k_factors: z.array(kValue).min(1).default(["4/3", "2/3"]),
+        clearance_criteria: z
+          .array(z.object({ k: kValue, min_f1: z.number().min(-5).max(5).describe("required clearance as a fraction of the first Fresnel radius") }).strict())
+          .default([
+            { k: "4/3", min_f1: 1.0 },
+            { k: "2/3", min_f1: 0.6 },
+          ]),
+        availability_pct: z.number().gt(0).lt(100).default(99.99).describe("required annual availability (%)"),
+        diffraction_method: z.enum(["knife_edge", "deygout", "epstein_peterson", "bullington", "delta_bullington"]).default("delta_bullington"),
+        profile_step_m: z.number().positive().optional().describe("profile sample spacing (m); default and upper bound: the terrain's own spacing"),
+        field_margin_db: z.number().min(0).max(30).default(0).describe("allowance for ageing, misalignment and the like (dB)"),
+        structure_notice_height_m: z.number().positive().default(45).describe("antennas higher than this above ground get a structure/aviation notice"),
+      })
+      .strict()
+      .default({} as never),
+    climate: z
+      .object({
+        rain_rate_mm_h: z.number().min(0).max(300).optional().describe("rain rate exceeded 0.01 % of an average year, R0.01 (mm/h)"),
+        pressure_hpa: z.number().min(300).max(1100).default(1013.25).describe("total atmospheric pressure (hPa)"),
+        temperature_c: z.number().min(-60).max(60).default(15),
+        water_vapour_g_m3: z.number().min(0).max(50).default(7.5),
+        dn1: z.number().min(-2000).max(500).default(-400).describe("point refractivity gradient in the lowest 65 m not exceeded 1 % of an average year, dN1 (ITU-R P.453)"),
+        sa_m: z.number().min(0).max(1000).optional().describe("terrain roughness: standard deviation of heights in a 110 km × 110 km area (m), ITU-R P.530"),
+        ground: z.enum(["sea_water", "fresh_water", "wet_ground", "medium_dry_ground", "very_dry_ground"]).default("medium_dry_ground"),
+      })
+      .strict()
+      .default({} as never),
+    radios: z
+      .array(
+        z
+          .object({
+            id,
+            name: z.string().optional(),
+            frequency_ghz: z.number().positive().max(1000).describe("carrier frequency (GHz)"),
+            tx_power_dbm: z.number().min(-30).max(70),
+            rx_threshold_dbm: z.number().min(-150).max(0).describe("receiver threshold at the stated bit-error ratio (dBm)"),
+            threshold_ber: z.union([z.number(), z.string()]).transform(String).default("1e-6"),
+          })
+          .strict(),
+      )
+      .min(1),
+    sites: z
+      .array(
+        z
+          .object({
+            id,
+            name: z.string().min(1),
+            lat_deg: latitude,
+            lon_deg: longitude,
+            ground_m: z.number().min(-500).max(9000).optional().describe("surveyed ground elevation (m amsl); default: from the terrain"),
+            notes: z.string().optional(),
+          })
+          .strict(),
+      )
+      .min(1),
+    links: z
+      .array(
+        z
+          .object({
+            id,
+            from: linkEnd,
+            to: linkEnd,
+            radio: id.describe("id of a radio in `radios`"),
+            polarization: z.enum(["h", "v"]).default("v"),
+            profile_csv: z.string().optional().describe("surveyed profile CSV (distance_m,elevation_m[,obstruction_m]) used instead of the terrain"),
+            availability_pct: z.number().gt(0).lt(100).optional().describe("overrides design.availability_pct for this link"),
+          })
+          .strict(),
+      )
+      .default([]),
+    chains: z
+      .array(z.object({ id, name: z.string().optional(), links: z.array(id).min(1) }).strict())
+      .default([]),
+  })
+  .strict();
+
+export type StudyInput = z.output<typeof studySchema>;
+export type KValueInput = z.output<typeof kValue>;
