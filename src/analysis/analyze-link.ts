@@ -1,0 +1,114 @@
+import { readFileSync } from "node:fs";
+import { resolve } from "node:path";
+import { geodesicPath } from "../geo/geodesic-path.ts";
+import { EARTH_RADIUS_M, wavelengthM } from "../physics/constants.ts";
+import { freeSpaceLossDb } from "../physics/free-space-loss.ts";
+import type { Study } from "../study/study.ts";
+import type { Terrain } from "../terrain/terrain.ts";
+import { parseProfileCsv } from "../terrain/profile-csv.ts";
+import { pathClearance } from "./clearance.ts";
+import { terrainProfile, type LinkProfile } from "./link-profile.ts";
+import type { ClearanceRow, LinkEndResult, LinkResult } from "./results.ts";
+import { linkLosses } from "./link-losses.ts";
+
+type LinkInput = Study["links"][number];
+
+/** What the report needs to draw a link beyond its JSON result. */
+export interface LinkFigureData {
+  profile: LinkProfile;
+  lambda_m: number;
+  ks: { label: string; ae_m: number; worst: { at_distance_m: number; clearance_f1: number } }[];
+}
+
+/** Heights of a site's ground: the study's surveyed value, else the terrain under it. */
+export function siteGroundM(site: Study["sites"][number], terrain: Terrain): number {
+  return site.ground_m ?? terrain.elevation(site.lat_deg, site.lon_deg);
+}
+
+/**
+ * Analyse one link: geodesic, profile, clearance at each design k, free-space loss, then the
+ * losses, budget and availability. Pure computation on already validated inputs.
+ */
+export function analyzeLink(study: Study, link: LinkInput, terrain: Terrain): { result: LinkResult; figure: LinkFigureData } {
+  const warnings: string[] = [];
+  const radio = study.radios.find((r) => r.id === link.radio)!;
+  const siteA = study.sites.find((s) => s.id === link.from.site)!;
+  const siteB = study.sites.find((s) => s.id === link.to.site)!;
+  const geo = geodesicPath(siteA.lat_deg, siteA.lon_deg, siteB.lat_deg, siteB.lon_deg, Infinity);
+  let profile: LinkProfile;
+  if (link.profile_csv) {
+    const csvPath = resolve(study.dir, link.profile_csv);
+    const csv = parseProfileCsv(readFileSync(csvPath, "utf8"), csvPath);
+    const n = csv.d_m.length;
+    profile = {
+      source: `surveyed: ${link.profile_csv}`,
+      d_m: csv.d_m,
+      terrain_m: csv.h_m,
+      obstruction_m: csv.obstruction_m,
+      step_m: n > 1 ? csv.d_m[n - 1] / (n - 1) : 0,
+      void_filled: 0,
+      outside: 0,
+    };
+    const len = csv.d_m[n - 1];
+    if (Math.abs(len - geo.distance_m) > Math.max(50, 0.01 * geo.distance_m)) {
+      warnings.push(`The surveyed profile is ${(len / 1000).toFixed(3)} km long but the sites are ${(geo.distance_m / 1000).toFixed(3)} km apart; the profile is used as given.`);
+    }
+  } else {
+    profile = terrainProfile([siteA.lat_deg, siteA.lon_deg], [siteB.lat_deg, siteB.lon_deg], terrain, study.design.profile_step_m).profile;
+    if (profile.void_filled > 0) warnings.push(`${profile.void_filled} profile samples fall on DEM voids that were filled by interpolation.`);
+  }
+  const n = profile.d_m.length;
+  const D = profile.d_m[n - 1];
+  const end = (e: LinkInput["from"], site: Study["sites"][number], h: number): LinkEndResult => {
+    const ground_m = site.ground_m ?? h;
+    if (site.ground_m !== undefined && Number.isFinite(h) && Math.abs(site.ground_m - h) > 10) {
+      warnings.push(`Site ${site.id}: surveyed ground ${site.ground_m} m differs from the profile's ${h.toFixed(1)} m by more than 10 m.`);
+    }
+    return { site: site.id, name: site.name, ground_m, antenna_m: e.antenna_m, antenna_amsl_m: ground_m + e.antenna_m, gain_dbi: e.gain_dbi, feeder_loss_db: e.feeder_loss_db };
+  };
+  const from = end(link.from, siteA, profile.terrain_m[0]);
+  const to = end(link.to, siteB, profile.terrain_m[n - 1]);
+  const lambda_m = wavelengthM(radio.frequency_ghz);
+  const required = new Map(study.design.clearance_criteria.map((c) => [c.k.k, c.min_f1]));
+  const ks: LinkFigureData["ks"] = [];
+  const clearance: ClearanceRow[] = study.design.k_factors.map((kf) => {
+    const ae_m = kf.k * EARTH_RADIUS_M;
+    const c = pathClearance({ d_m: profile.d_m, terrain_m: profile.terrain_m, obstruction_m: profile.obstruction_m, hts_m: from.antenna_amsl_m, hrs_m: to.antenna_amsl_m, lambda_m, ae_m });
+    ks.push({ label: kf.label, ae_m, worst: { at_distance_m: c.at_distance_m, clearance_f1: c.min_clearance_f1 } });
+    const req = required.get(kf.k);
+    return {
+      k: Number.isFinite(kf.k) ? kf.k : "inf",
+      k_label: kf.label,
+      min_clearance_f1: c.min_clearance_f1,
+      at_distance_m: c.at_distance_m,
+      clearance_m: c.clearance_m,
+      f1_m: c.f1_m,
+      required_f1: req ?? null,
+      met: req === undefined ? null : c.min_clearance_f1 >= req,
+    };
+  });
+  for (const c of study.design.clearance_criteria) {
+    if (!study.design.k_factors.some((k) => k.k === c.k.k)) warnings.push(`Clearance criterion for k = ${c.k.label} is not checked: that k is not in design.k_factors.`);
+  }
+  const clearance_met = clearance.every((c) => c.met !== false);
+  const base: LinkResult = {
+    id: link.id,
+    from: siteA.id,
+    to: siteB.id,
+    radio: radio.id,
+    frequency_ghz: radio.frequency_ghz,
+    polarization: link.polarization,
+    distance_m: geo.distance_m,
+    azimuth_from_deg: geo.azimuth_from_deg,
+    azimuth_to_deg: geo.azimuth_to_deg,
+    ends: { from, to },
+    profile: { source: profile.source, samples: n, step_m: profile.step_m },
+    clearance,
+    clearance_met,
+    losses_db: { free_space: freeSpaceLossDb(D, radio.frequency_ghz) },
+    target_met: clearance_met,
+    warnings,
+  };
+  const result = linkLosses(study, link, radio, base, profile);
+  return { result, figure: { profile, lambda_m, ks } };
+}

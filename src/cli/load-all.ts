@@ -1,0 +1,58 @@
+import { existsSync, readdirSync } from "node:fs";
+import { join, resolve } from "node:path";
+import { analyzeStudy, type AnalyzedStudy } from "../analysis/analyze-study.ts";
+import { InputError, type InputProblem } from "../study/input-error.ts";
+import { loadStudy } from "../study/load-study.ts";
+import type { Study } from "../study/study.ts";
+
+/** Study folders under `root` (those holding a study.yaml), sorted by id; optionally only `ids`. */
+export function findStudies(root: string, ids?: string[]): string[] {
+  const abs = resolve(root);
+  const all = existsSync(abs)
+    ? readdirSync(abs, { withFileTypes: true })
+        .filter((d) => d.isDirectory() && existsSync(join(abs, d.name, "study.yaml")))
+        .map((d) => d.name)
+        .sort()
+    : [];
+  if (ids && ids.length) {
+    const missing = ids.filter((id) => !all.includes(id));
+    if (missing.length) {
+      throw new InputError(missing.map((id) => ({ file: join(abs, id, "study.yaml"), field: "", received: `study id "${id}"`, expected: `one of the studies in ${root}: ${all.join(", ") || "(none)"}` })));
+    }
+    return ids.map((id) => join(abs, id, "study.yaml"));
+  }
+  return all.map((id) => join(abs, id, "study.yaml"));
+}
+
+/** Load every study, reporting the problems of all of them together. */
+export function loadStudies(files: string[]): Study[] {
+  const problems: InputProblem[] = [];
+  const studies: Study[] = [];
+  for (const f of files) {
+    try {
+      studies.push(loadStudy(f));
+    } catch (e) {
+      if (e instanceof InputError) problems.push(...e.problems);
+      else throw e;
+    }
+  }
+  if (problems.length) throw new InputError(problems);
+  return studies;
+}
+
+/** Load and analyse the studies under `root` (all, or those named). */
+export async function loadAllStudies(root: string, options: { ids?: string[]; onProgress?: (study: string, done: number, total: number) => void } = {}): Promise<AnalyzedStudy[]> {
+  const studies = loadStudies(findStudies(root, options.ids));
+  const out: AnalyzedStudy[] = [];
+  const problems: InputProblem[] = [];
+  for (const s of studies) {
+    try {
+      out.push(await analyzeStudy(s, { onProgress: (d, t) => options.onProgress?.(s.id, d, t) }));
+    } catch (e) {
+      if (e instanceof InputError) problems.push(...e.problems);
+      else throw e;
+    }
+  }
+  if (problems.length) throw new InputError(problems);
+  return out;
+}

@@ -1,0 +1,139 @@
+import { scaleLinear } from "d3-scale";
+import { area, line } from "d3-shape";
+import { earthBulgeM } from "../../physics/earth-bulge.ts";
+import { fresnelRadiusM } from "../../physics/fresnel-radius.ts";
+import { bottomAxis, leftAxis } from "./axes.ts";
+import { escapeXml, px } from "./escape.ts";
+
+export interface ProfilePlotInput {
+  /** Used for element ids; must be unique on the page. */
+  id: string;
+  title: string;
+  d_m: ArrayLike<number>;
+  terrain_m: ArrayLike<number>;
+  obstruction_m: ArrayLike<number>;
+  /** Ground (m amsl) and antenna height above ground (m) at the two ends. */
+  from: { name: string; ground_m: number; antenna_m: number };
+  to: { name: string; ground_m: number; antenna_m: number };
+  lambda_m: number;
+  /** Effective Earth radius per k; the first is drawn filled, the others as lines. */
+  ks: { label: string; ae_m: number; worst?: { at_distance_m: number; clearance_f1: number } }[];
+  /** Specular reflection points to mark (m from the from-end). */
+  reflections?: { at_distance_m: number; label: string }[];
+  width?: number;
+  height?: number;
+}
+
+const K_STYLES = ["k-primary", "k-second", "k-third", "k-fourth"];
+
+/**
+ * Path-profile plot as an SVG string: terrain plus Earth bulge at each k (so the ray is a
+ * straight line), obstructions, antenna masts, the ray, the first Fresnel zone and its 0.6
+ * fraction, the worst-clearance point at each k and any reflection points.
+ */
+export function profilePlotSvg(p: ProfilePlotInput): string {
+  const W = p.width ?? 880;
+  const H = p.height ?? 380;
+  const m = { top: 28, right: 24, bottom: 48, left: 64 };
+  const n = p.d_m.length;
+  const D = p.d_m[n - 1];
+  const hts = p.from.ground_m + p.from.antenna_m;
+  const hrs = p.to.ground_m + p.to.antenna_m;
+  const ray = (d: number) => hts + ((hrs - hts) * d) / D;
+  const idx = Array.from({ length: n }, (_, i) => i);
+  const bulged = p.ks.map((k) => idx.map((i) => p.terrain_m[i] + earthBulgeM(p.d_m[i], D - p.d_m[i], k.ae_m)));
+  const r1 = idx.map((i) => fresnelRadiusM(1, p.lambda_m, p.d_m[i], D - p.d_m[i]));
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (let i = 0; i < n; i++) {
+    for (const b of bulged) {
+      lo = Math.min(lo, p.terrain_m[i]);
+      hi = Math.max(hi, b[i] + p.obstruction_m[i]);
+    }
+    hi = Math.max(hi, ray(p.d_m[i]) + r1[i]);
+    lo = Math.min(lo, ray(p.d_m[i]) - r1[i]);
+  }
+  const pad = (hi - lo) * 0.06 || 10;
+  const x = scaleLinear().domain([0, D]).range([m.left, W - m.right]);
+  const y = scaleLinear().domain([lo - pad, hi + pad]).nice().range([H - m.bottom, m.top]);
+  const yBase = y.range()[0];
+  const pts = (f: (i: number) => number) => line<number>().x((i) => x(p.d_m[i])).y((i) => y(f(i))).digits(1)(idx) ?? "";
+  const out: string[] = [];
+  const titleId = `${p.id}-title`;
+  const descId = `${p.id}-desc`;
+  out.push(
+    `<svg xmlns="http://www.w3.org/2000/svg" class="profile-plot" viewBox="0 0 ${W} ${H}" width="${W}" height="${H}" role="img" aria-labelledby="${titleId} ${descId}">`,
+    `<title id="${titleId}">${escapeXml(p.title)}</title>`,
+    `<desc id="${descId}">${escapeXml(
+      `Path profile from ${p.from.name} (antenna ${p.from.antenna_m} m above ground) to ${p.to.name} (antenna ${p.to.antenna_m} m), ${(D / 1000).toFixed(2)} km. ` +
+        p.ks.map((k) => (k.worst ? `At k = ${k.label} the least clearance is ${k.worst.clearance_f1.toFixed(2)} of the first Fresnel radius at ${(k.worst.at_distance_m / 1000).toFixed(2)} km.` : "")).join(" "),
+    )}</desc>`,
+    leftAxis(y, m.left, W - m.left - m.right, "Height above mean sea level (m)", (v) => String(v)),
+    bottomAxis(x, yBase, "Distance (km)", (v) => (v / 1000).toString()),
+  );
+  // Terrain at the first k, filled; obstructions on top of it.
+  const b0 = bulged[0];
+  out.push(`<path class="terrain ${K_STYLES[0]}" d="${area<number>().x((i) => x(p.d_m[i])).y0(yBase).y1((i) => y(b0[i])).digits(1)(idx)}" />`);
+  if (Array.from(p.obstruction_m).some((o) => o > 0)) {
+    out.push(`<path class="obstruction" d="${area<number>().defined((i) => p.obstruction_m[i] > 0).x((i) => x(p.d_m[i])).y0((i) => y(b0[i])).y1((i) => y(b0[i] + p.obstruction_m[i])).digits(1)(idx)}" />`);
+  }
+  for (let j = 1; j < bulged.length; j++) out.push(`<path class="terrain-line ${K_STYLES[j % K_STYLES.length]}" d="${pts((i) => bulged[j][i])}" />`);
+  // Fresnel envelopes and the ray.
+  out.push(`<path class="fresnel f1" d="${pts((i) => ray(p.d_m[i]) + r1[i])}" />`);
+  out.push(`<path class="fresnel f1" d="${pts((i) => ray(p.d_m[i]) - r1[i])}" />`);
+  out.push(`<path class="fresnel f06" d="${pts((i) => ray(p.d_m[i]) - 0.6 * r1[i])}" />`);
+  out.push(`<line class="ray" x1="${px(x(0))}" y1="${px(y(hts))}" x2="${px(x(D))}" y2="${px(y(hrs))}" />`);
+  // Masts.
+  for (const [end, d, anchor, dx] of [
+    [p.from, 0, "start", 6],
+    [p.to, D, "end", -6],
+  ] as const) {
+    const top = end.ground_m + end.antenna_m;
+    out.push(
+      `<line class="mast" x1="${px(x(d))}" x2="${px(x(d))}" y1="${px(y(end.ground_m))}" y2="${px(y(top))}" /><circle class="antenna" cx="${px(x(d))}" cy="${px(y(top))}" r="4" />`,
+      `<text class="mast-label" x="${px(x(d) + dx)}" y="${px(y(top) - 8)}" text-anchor="${anchor}">${escapeXml(`${end.name} · ${end.antenna_m} m`)}</text>`,
+    );
+  }
+  // Worst clearance at each k.
+  p.ks.forEach((k, j) => {
+    if (!k.worst || !Number.isFinite(k.worst.at_distance_m)) return;
+    const d = k.worst.at_distance_m;
+    const i = nearestIndex(p.d_m, d);
+    const g = bulged[j][i] + p.obstruction_m[i];
+    out.push(
+      `<g class="worst ${K_STYLES[j % K_STYLES.length]}"><line x1="${px(x(d))}" x2="${px(x(d))}" y1="${px(y(g))}" y2="${px(y(ray(d)))}" /><path d="M${px(x(d))},${px(y(g) + 2)}l-5,9h10z" />` +
+        `<text x="${px(x(d))}" y="${px(y(g) + 24)}" text-anchor="middle">${escapeXml(`k=${k.label}: ${k.worst.clearance_f1.toFixed(2)} F1`)}</text></g>`,
+    );
+  });
+  for (const r of p.reflections ?? []) {
+    const i = nearestIndex(p.d_m, r.at_distance_m);
+    out.push(`<g class="reflection"><circle cx="${px(x(r.at_distance_m))}" cy="${px(y(b0[i]))}" r="5" /><text x="${px(x(r.at_distance_m))}" y="${px(y(b0[i]) - 9)}" text-anchor="middle">${escapeXml(r.label)}</text></g>`);
+  }
+  // Legend.
+  const legend: [string, string][] = [
+    ["ray", "Line of sight"],
+    ["fresnel f1", "First Fresnel zone"],
+    ["fresnel f06", "0.6 × first Fresnel radius"],
+    ...p.ks.map((k, j): [string, string] => [`terrain-line ${K_STYLES[j % K_STYLES.length]}`, `Terrain + bulge, k = ${k.label}`]),
+  ];
+  out.push(`<g class="legend" transform="translate(${m.left + 8},${m.top - 14})">`);
+  let lx = 0;
+  for (const [cls, text] of legend) {
+    out.push(`<line class="${cls}" x1="${lx}" x2="${lx + 22}" y1="0" y2="0" /><text x="${lx + 26}" y="0" dy="0.32em">${escapeXml(text)}</text>`);
+    lx += 34 + text.length * 6.2;
+  }
+  out.push("</g>");
+  out.push("</svg>");
+  return out.join("");
+}
+
+function nearestIndex(d: ArrayLike<number>, v: number): number {
+  let lo = 0;
+  let hi = d.length - 1;
+  while (hi - lo > 1) {
+    const mid = (lo + hi) >> 1;
+    if (d[mid] <= v) lo = mid;
+    else hi = mid;
+  }
+  return Math.abs(d[lo] - v) <= Math.abs(d[hi] - v) ? lo : hi;
+}
