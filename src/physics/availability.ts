@@ -1,9 +1,9 @@
 /**
  * How Ridgeline combines outage contributions into availability (for reports and warnings).
  *
- * Link: unavailability = multipath outage % + rain outage %. ITU-R P.530-18 §8 (and
- * P.530-16 §8) assigns clear-air (multipath) outage mainly to error performance and rain
- * outage to unavailability; adding both into one unavailability figure is a common-practice
+ * Link: unavailability = multipath outage % + rain outage %. ITU-R P.530-16 (section
+ * "Prediction of total outage") apportions clear-air (multipath) outage mainly to error
+ * performance and rain outage to unavailability; adding both into one figure is a common-practice
  * simplification that is conservative, more so because the multipath percentage is for the
  * average worst month while the rain percentage is for an average year.
  * Chain: hops in tandem add their unavailabilities (default, common practice); the product
@@ -21,7 +21,8 @@ function clampPct(x: number): number {
 
 /**
  * Unavailability (%) of one link: U = p_multipath + p_rain, bounded to [0, 100].
- * Reference: common practice; ITU-R P.530-16 §8 for the split between performance and availability.
+ * Reference: common practice; ITU-R P.530-16 "Prediction of total outage" for the split
+ * between performance and availability.
  * @param parts.multipath_outage_pct multipath outage, average worst month (%)
  * @param parts.rain_outage_pct rain outage, average year (%)
  */

@@ -1,4 +1,4 @@
-import { P676_OXYGEN_LINES, P676_WATER_VAPOUR_LINES, type P676Line } from "./p676-lines.ts";
+import { P676_OXYGEN_LINES, P676_WATER_VAPOUR_LINES } from "./p676-lines.ts";
 
 /** Where the gaseous-attenuation method applies (for warnings at the boundary). */
 export const GAS_P676_VALIDITY = {
@@ -89,7 +89,7 @@ function oxygenLineSum(f: number, p: number, e: number, theta: number): number {
 /** Σ S_i·F_i over the water-vapour lines (P.676-12 eqs. (3), (5)–(7); δ = 0). */
 function waterVapourLineSum(f: number, p: number, e: number, theta: number): number {
   let sum = 0;
-  for (const [fi, b1, b2, b3, b4, b5, b6] of P676_WATER_VAPOUR_LINES as readonly P676Line[]) {
+  for (const [fi, b1, b2, b3, b4, b5, b6] of P676_WATER_VAPOUR_LINES) {
     const S = b1 * 1e-1 * e * theta ** 3.5 * Math.exp(b2 * (1 - theta)); // P.676-12 eq. (3)
     const df0 = b3 * 1e-4 * (p * theta ** b4 + b5 * e * theta ** b6); // P.676-12 eq. (6a)
     const df = 0.535 * df0 + Math.sqrt(0.217 * df0 * df0 + (2.1316e-12 * fi * fi) / theta); // P.676-12 eq. (6b), Doppler
