@@ -14,6 +14,7 @@ import { rainAttenuation001, rainOutagePercent, RAIN_P530_VALIDITY } from "../ph
 import { POLARISATION_TILT_DEG } from "../physics/rain-specific-attenuation.ts";
 import type { Study } from "../study/study.ts";
 import type { LinkProfile } from "./link-profile.ts";
+import { linkReflection } from "./link-reflection.ts";
 import { rangeWarning } from "./range-warning.ts";
 import type { LinkResult } from "./results.ts";
 
@@ -140,6 +141,7 @@ export function linkLosses(study: Study, link: LinkInput, radio: RadioInput, bas
       geoclimatic_k: mp.K,
       path_inclination_mrad: mp.epsilon_p_mrad,
     },
+    reflection: linkReflection(study, profile, base.ends, f, link.polarization),
     received_dbm,
     fade_margin_db,
     availability_pct,

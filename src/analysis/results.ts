@@ -1,3 +1,5 @@
+import type { ReflectionResult } from "./link-reflection.ts";
+
 /** Plain-JSON results of a study (no NaN: the boundary turns NaN into errors or null with a warning). */
 
 export interface SiteResult {
@@ -49,7 +51,7 @@ export interface LinkResult {
   diffraction_db_by_method?: Record<string, number>;
   budget?: Record<string, number | null>;
   availability?: Record<string, number | null>;
-  reflection?: unknown;
+  reflection?: ReflectionResult;
   received_dbm?: number;
   fade_margin_db?: number;
   availability_pct?: number;
