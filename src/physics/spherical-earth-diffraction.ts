@@ -1,0 +1,89 @@
+import { sphericalEarthFirstTermLoss, type FirstTermOptions } from "./spherical-earth-first-term.ts";
+
+/** Result of the spherical-Earth diffraction loss, with its intermediates. */
+export interface SphericalEarthResult {
+  /** spherical-Earth diffraction loss Ldsph (dB) */
+  Ldsph: number;
+  /** marginal line-of-sight distance dlos (m) */
+  dlos_m: number;
+  /** true when d ≥ dlos (transhorizon) */
+  transhorizon: boolean;
+  /** smallest clearance hse between the ray and the spherical Earth (m); NaN beyond dlos */
+  hse_m: number;
+  /** clearance needed for zero loss hreq (m); NaN beyond dlos */
+  hreq_m: number;
+  /** Earth radius for marginal line of sight aem (m); NaN beyond dlos */
+  aem_m: number;
+  /** first-term loss Ldft (dB) used */
+  Ldft: number;
+}
+
+/**
+ * Diffraction loss (dB) over a smooth spherical Earth for any distance, with antenna
+ * heights h1, h2 above the smooth surface.
+ *
+ * Method: ITU-R P.526-15 §3.2 in SI units (the same steps as P.452-17 §4.2.2, which writes
+ * them with km and the constant 17.456 = 0.552·sqrt(1000)):
+ *   dlos = sqrt(2a)·(sqrt(h1) + sqrt(h2));
+ *   d ≥ dlos: Ldsph = Ldft(a_dft = a);
+ *   else c = (h1 − h2)/(h1 + h2), m = d²/(4a·(h1 + h2)),
+ *     b = 2·sqrt((m + 1)/(3m))·cos(π/3 + (1/3)·arccos((3c/2)·sqrt(3m/(m + 1)³))),
+ *     d1 = d(1 + b)/2, d2 = d − d1,
+ *     h = [(h1 − d1²/(2a))·d2 + (h2 − d2²/(2a))·d1]/d,
+ *     hreq = 0.552·sqrt(d1·d2·λ/d);
+ *     h > hreq: Ldsph = 0; else aem = 0.5·(d/(sqrt(h1) + sqrt(h2)))², Ldft(a_dft = aem),
+ *     Ldsph = 0 if Ldft < 0, else (1 − h/hreq)·Ldft.
+ * First-term loss from `sphericalEarthFirstTermLoss`. (Equation numbers are not quoted:
+ * the tags name the section and the quantity.)
+ * ae = Infinity (flat Earth) gives Ldsph = 0; negative heights give NaN.
+ * Validity: see DIFFRACTION_VALIDITY.delta_bullington (P.526-15 §3.2 states 10 MHz and above).
+ * @param d_m path length (m)
+ * @param hte_m Tx height above the smooth Earth, h1 (m)
+ * @param hre_m Rx height above the smooth Earth, h2 (m)
+ * @param ae_m effective Earth radius (m)
+ * @param lambda_m wavelength (m)
+ * @param options ground and polarisation of the first term
+ * @returns Ldsph (dB) and intermediates
+ */
+export function sphericalEarthDiffractionLoss(
+  d_m: number,
+  hte_m: number,
+  hre_m: number,
+  ae_m: number,
+  lambda_m: number,
+  options: FirstTermOptions = {},
+): SphericalEarthResult {
+  const d = d_m;
+  const a = ae_m;
+  const h1 = hte_m;
+  const h2 = hre_m;
+  const lambda = lambda_m;
+  const dlos = Math.sqrt(2 * a) * (Math.sqrt(h1) + Math.sqrt(h2)); // P.526-15 §3.2 (dlos)
+  if (Number.isNaN(dlos + d + lambda) || !(lambda > 0)) {
+    return { Ldsph: NaN, dlos_m: NaN, transhorizon: false, hse_m: NaN, hreq_m: NaN, aem_m: NaN, Ldft: NaN };
+  }
+  if (a === Infinity) {
+    // Flat Earth (k = ∞): the surface never rises into the ray; Ldsph → 0 as a → ∞.
+    return { Ldsph: 0, dlos_m: Infinity, transhorizon: false, hse_m: NaN, hreq_m: NaN, aem_m: NaN, Ldft: NaN };
+  }
+  if (d >= dlos) {
+    const Ldft = sphericalEarthFirstTermLoss(d, h1, h2, a, lambda, options); // P.526-15 §3.2 (d ≥ dlos)
+    return { Ldsph: Ldft, dlos_m: dlos, transhorizon: true, hse_m: NaN, hreq_m: NaN, aem_m: NaN, Ldft };
+  }
+  const c = (h1 - h2) / (h1 + h2); // P.526-15 §3.2 (c)
+  const m = (d * d) / (4 * a * (h1 + h2)); // P.526-15 §3.2 (m)
+  const b =
+    2 * Math.sqrt((m + 1) / (3 * m)) *
+    Math.cos(Math.PI / 3 + (1 / 3) * Math.acos(((3 * c) / 2) * Math.sqrt((3 * m) / ((m + 1) ** 3)))); // P.526-15 §3.2 (b)
+  const d1 = (d / 2) * (1 + b); // P.526-15 §3.2 (d1)
+  const d2 = d - d1; // P.526-15 §3.2 (d2)
+  const h = ((h1 - (d1 * d1) / (2 * a)) * d2 + (h2 - (d2 * d2) / (2 * a)) * d1) / d; // P.526-15 §3.2 (h)
+  const hreq = 0.552 * Math.sqrt((d1 * d2 * lambda) / d); // P.526-15 §3.2 (hreq)
+  if (h > hreq) {
+    return { Ldsph: 0, dlos_m: dlos, transhorizon: false, hse_m: h, hreq_m: hreq, aem_m: NaN, Ldft: NaN };
+  }
+  const aem = 0.5 * (d / (Math.sqrt(h1) + Math.sqrt(h2))) ** 2; // P.526-15 §3.2 (aem)
+  const Ldft = sphericalEarthFirstTermLoss(d, h1, h2, aem, lambda, options);
+  const Ldsph = Ldft < 0 ? 0 : (1 - h / hreq) * Ldft; // P.526-15 §3.2 (A = (1 − h/hreq)·Ah)
+  return { Ldsph, dlos_m: dlos, transhorizon: false, hse_m: h, hreq_m: hreq, aem_m: aem, Ldft };
+}
