@@ -55,6 +55,9 @@ export interface DeltaBullingtonResult {
  *   Ld = Lbulla + max(Ldsph − Lbulls, 0).
  * J(ν) is the approximation of P.526-15 eq. (31) throughout. Checked against all 20 ITU-R
  * Study Group 3 validation cases (test/reference/delta-bullington.test.ts).
+ * Ld is not monotone in every obstacle height: raising ground near a terminal moves the
+ * smooth-Earth surface and can raise hts' or hrs' enough to lower Ldsph − Lbulls (a
+ * property of the published method; test/unit/diffraction-methods.test.ts shows a case).
  * Validity: see DIFFRACTION_VALIDITY.delta_bullington. Antenna heights below the ground
  * at the terminals give NaN.
  * @param path profile (m, m amsl), antenna heights (m amsl), frequency (GHz), ae (m)

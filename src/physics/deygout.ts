@@ -37,8 +37,9 @@ export interface DeygoutResult {
  * (`knifeEdgeObstructionLoss`). Subsidiary edges are evaluated only when the main edge
  * itself causes loss (J(ν_m) > 0), so a cleared path costs 0 dB (common practice).
  * Validity: well-separated edges; tends to overestimate closely spaced edges of similar
- * height. The total can jump when the main edge moves to another sample, so it is not
- * monotone in every obstacle height. See DIFFRACTION_VALIDITY.deygout.
+ * height. Not monotone in every obstacle height: raising the main edge lowers its
+ * subsidiary edges' ν, and the total jumps when the main edge moves to another sample.
+ * See DIFFRACTION_VALIDITY.deygout.
  * @param path profile, antenna heights (m amsl), frequency (GHz), ae (m)
  * @returns total and per-edge losses (dB) and ν; NaN fields for a bad path
  */

@@ -26,8 +26,10 @@ export interface DiffractionValidity {
  *   compared with the Fresnel zone. Deygout and Epstein–Peterson are common practice for
  *   a few well-separated edges; no ITU-R Recommendation in force sets their range, so the
  *   project uses the same 30 MHz–50 GHz envelope.
- * The minimum distance of 1 km for the profile methods is common practice (below it the
- * profile sampling, not the method, limits accuracy).
+ * The distance limits are common practice, not the Recommendations': 1 km minimum (below
+ * it profile sampling rather than the method limits accuracy), 200 km for the knife-edge
+ * methods (terrestrial line-of-sight and near-line-of-sight links) and 3 000 km for the
+ * Bullington schemes (the upper end of P.1812-6).
  */
 export const DIFFRACTION_VALIDITY: Readonly<Record<
   "single_knife_edge" | "deygout" | "epstein_peterson" | "bullington" | "delta_bullington",

@@ -167,3 +167,55 @@ describe("speed", () => {
     expect(ms).toBeLessThan(3000);
   });
 });
+
+describe("documented limits of the methods (behaviour of the published constructions, not defects)", () => {
+  const mk = (len: number, h: number[], tx_agl: number, rx_agl: number, f: number): DiffractionPath => {
+    const n = h.length;
+    return {
+      d_m: Float64Array.from({ length: n }, (_, i) => (len * i) / (n - 1)),
+      h_m: Float64Array.from(h),
+      hts_m: h[0] + tx_agl,
+      hrs_m: h[n - 1] + rx_agl,
+      frequency_ghz: f,
+      ae_m: 8_500_000,
+    };
+  };
+  const withHeight = (p: DiffractionPath, i: number, h: number): DiffractionPath => {
+    const hh = Float64Array.from(p.h_m);
+    hh[i] = h;
+    return { ...p, h_m: hh };
+  };
+
+  it("Deygout: raising the main edge lowers its subsidiary edge's loss more than it raises its own", () => {
+    // 2 km flat path, 5 m masts, 100 MHz: all three samples partly obstruct the Fresnel zone.
+    const p = mk(2000, [0, 0, 0, 0, 0], 5, 5, 0.1);
+    const before = deygoutLoss(p);
+    const after = deygoutLoss(withHeight(p, 2, 1));
+    expect(after.main_index).toBe(before.main_index);
+    expect(after.loss_main_db).toBeGreaterThan(before.loss_main_db);
+    expect(after.loss_db).toBeLessThan(before.loss_db - 0.1);
+  });
+
+  it("Epstein–Peterson: a second edge next to the first splits its sub-path and lowers the total", () => {
+    // 20 km flat path, 10 m masts, 1 GHz; a 100 m edge at 10 km; a second sample 200 m
+    // beyond it rises to 99.5 m and joins the string.
+    const h = Array.from({ length: 101 }, (_, i) => (i === 50 ? 100 : 0));
+    const p = mk(20_000, h, 10, 10, 1);
+    const one = epsteinPetersonLoss(p);
+    const two = epsteinPetersonLoss(withHeight(p, 51, 99.5));
+    expect(one.edge_indices).toEqual([50]);
+    expect(two.edge_indices).toEqual([50, 51]);
+    expect(two.loss_db).toBeLessThan(one.loss_db - 5);
+  });
+
+  it("delta-Bullington: raising ground near the Tx lowers the smooth-Earth surface there and can lower Ld", () => {
+    // 70 km, Tx at the foot of a 200 m escarpment; raising its edge by 100 m moves the
+    // smooth-Earth surface (hobs, αobt) so that hts' grows and Ldsph − Lbulls shrinks.
+    const p = mk(70_000, [0, 200, 200, 230, 200], 10, 10, 2.5);
+    const before = deltaBullingtonLoss(p);
+    const after = deltaBullingtonLoss(withHeight(p, 1, 300));
+    expect(after.Lbulla).toBeGreaterThanOrEqual(before.Lbulla);
+    expect(after.hts_prime_m).toBeGreaterThan(before.hts_prime_m);
+    expect(after.Ld).toBeLessThan(before.Ld - 10);
+  });
+});
