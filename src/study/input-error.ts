@@ -49,7 +49,8 @@ export class InputError extends RidgelineError {
 }
 
 function where(p: InputProblem): string {
-  const file = relative(process.cwd(), p.file) || p.file;
+  const rel = relative(process.cwd(), p.file);
+  const file = rel && !rel.startsWith("..") ? rel : p.file;
   if (p.line === undefined) return file;
   return `${file}:${p.line}${p.col !== undefined ? `:${p.col}` : ""}`;
 }

@@ -78,7 +78,7 @@ export const studySchema = z
         structure_notice_height_m: z.number().positive().default(45).describe("antennas higher than this above ground get a structure/aviation notice"),
       })
       .strict()
-      .default({} as never),
+      .prefault({}),
     climate: z
       .object({
         rain_rate_mm_h: z.number().min(0).max(300).optional().describe("rain rate exceeded 0.01 % of an average year, R0.01 (mm/h)"),
@@ -90,7 +90,7 @@ export const studySchema = z
         ground: z.enum(["sea_water", "fresh_water", "wet_ground", "medium_dry_ground", "very_dry_ground"]).default("medium_dry_ground"),
       })
       .strict()
-      .default({} as never),
+      .prefault({}),
     radios: z
       .array(
         z

@@ -17,15 +17,16 @@ export interface YamlSource {
 export function parseYamlSource(file: string, text: string): YamlSource {
   const lineCounter = new LineCounter();
   const doc = parseDocument(text, { lineCounter, prettyErrors: false, uniqueKeys: true });
-  const syntaxProblems: InputProblem[] = doc.errors.map((e) => {
-    const pos = e.linePos?.[0];
+  // Report the first syntax error only: later ones are usually its echoes.
+  const syntaxProblems: InputProblem[] = doc.errors.slice(0, 1).map((e) => {
+    const pos = lineCounter.linePos(e.pos[0]);
     return {
       file,
-      line: pos?.line,
-      col: pos?.col,
+      line: pos.line,
+      col: pos.col,
       field: "",
       received: `YAML that does not parse (${e.message.split("\n")[0].replace(/ at line \d+, column \d+:?$/, "")})`,
-      expected: "valid YAML: check indentation, colons after keys and closing quotes",
+      expected: "valid YAML: check the indentation of this line and the one before, colons after keys and closing quotes",
     };
   });
   const at = (offset: number) => {
