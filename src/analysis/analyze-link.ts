@@ -7,6 +7,8 @@ import type { Study } from "../study/study.ts";
 import type { Terrain } from "../terrain/terrain.ts";
 import { parseProfileCsv } from "../terrain/profile-csv.ts";
 import { pathClearance } from "./clearance.ts";
+import { minimumAntennaHeights } from "./minimum-heights.ts";
+import { obstructedHeights } from "./link-losses.ts";
 import { terrainProfile, type LinkProfile } from "./link-profile.ts";
 import type { ClearanceRow, LinkEndResult, LinkResult } from "./results.ts";
 import { linkLosses } from "./link-losses.ts";
@@ -91,6 +93,18 @@ export function analyzeLink(study: Study, link: LinkInput, terrain: Terrain): { 
     if (!study.design.k_factors.some((k) => k.k === c.k.k)) warnings.push(`Clearance criterion for k = ${c.k.label} is not checked: that k is not in design.k_factors.`);
   }
   const clearance_met = clearance.every((c) => c.met !== false);
+  const search = study.design.antenna_search;
+  const minimum = minimumAntennaHeights({
+    d_m: profile.d_m,
+    ground_m: obstructedHeights(profile),
+    from_ground_m: from.ground_m,
+    to_ground_m: to.ground_m,
+    lambda_m,
+    criteria: study.design.clearance_criteria.map((c) => ({ ae_m: c.k.k * EARTH_RADIUS_M, min_f1: c.min_f1 })),
+    step_m: search.step_m,
+    max_m: search.max_m,
+  });
+  if (!minimum) warnings.push(`No pair of antenna heights up to ${search.max_m} m meets the clearance criteria.`);
   const base: LinkResult = {
     id: link.id,
     from: siteA.id,
@@ -105,6 +119,7 @@ export function analyzeLink(study: Study, link: LinkInput, terrain: Terrain): { 
     profile: { source: profile.source, samples: n, step_m: profile.step_m },
     clearance,
     clearance_met,
+    minimum_heights: minimum ? { ...minimum, step_m: search.step_m } : null,
     losses_db: { free_space: freeSpaceLossDb(D, radio.frequency_ghz) },
     target_met: clearance_met,
     warnings,

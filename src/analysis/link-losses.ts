@@ -4,6 +4,7 @@ import { bullingtonLoss } from "../physics/bullington.ts";
 import { EARTH_RADIUS_M } from "../physics/constants.ts";
 import { deltaBullingtonLoss } from "../physics/delta-bullington.ts";
 import { deygoutLoss } from "../physics/deygout.ts";
+import { DIFFRACTION_VALIDITY } from "../physics/diffraction-validity.ts";
 import { epsteinPetersonLoss } from "../physics/epstein-peterson.ts";
 import { dryPressureFromTotalHpa, gasPathAttenuation, gasSpecificAttenuation, GAS_P676_VALIDITY } from "../physics/gas-attenuation.ts";
 import { groundConstants, type GroundClass } from "../physics/ground-constants.ts";
@@ -65,7 +66,9 @@ export function linkLosses(study: Study, link: LinkInput, radio: RadioInput, bas
   const byMethod = diffractionByMethod(path, { polarization: link.polarization, epsilon_r: ground.epsilon_r, sigma_s_m: ground.sigma_s_m, omega });
   const method = study.design.diffraction_method;
   const diffraction = byMethod[method];
-  warn(rangeWarning("Diffraction (ITU-R P.526-15 §4.5)", "frequency", f, [0.03, 50], "GHz"));
+  const validity = DIFFRACTION_VALIDITY[method === "knife_edge" ? "single_knife_edge" : method];
+  warn(rangeWarning(`Diffraction, ${validity.source}`, "frequency", f, [validity.frequency_ghz.min, validity.frequency_ghz.max], "GHz"));
+  warn(rangeWarning(`Diffraction, ${validity.source}`, "path length", d_km, [validity.distance_m.min / 1000, validity.distance_m.max / 1000], "km"));
 
   // Gases: P.676 Annex 1 at the study's atmosphere, specific attenuation times path length.
   const T_k = study.climate.temperature_c + 273.15;

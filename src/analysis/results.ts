@@ -46,6 +46,8 @@ export interface LinkResult {
   profile: { source: string; samples: number; step_m: number };
   clearance: ClearanceRow[];
   clearance_met: boolean;
+  /** Lowest antenna heights above ground meeting the clearance criteria, on the search step; null if none. */
+  minimum_heights: { from_antenna_m: number; to_antenna_m: number; step_m: number } | null;
   losses_db: { free_space: number; diffraction?: number; gases?: number; rain_0_01pct?: number | null };
   diffraction_method?: string;
   diffraction_db_by_method?: Record<string, number>;

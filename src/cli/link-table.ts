@@ -12,6 +12,7 @@ export function printLinkTable(l: LinkResult): void {
       `Clearance at k = ${c.k_label}`,
       `${f(c.min_clearance_f1, 2)} F1 (${f(c.clearance_m, 1)} m) at ${f(c.at_distance_m / 1000, 2)} km${c.required_f1 === null ? "" : `; required ${f(c.required_f1, 2)} F1: ${c.met ? "meets" : "SHORT"}`}`,
     ]),
+    ["Lowest antenna heights", l.minimum_heights ? `${l.minimum_heights.from_antenna_m} m / ${l.minimum_heights.to_antenna_m} m (step ${l.minimum_heights.step_m} m) meet the clearance criteria` : "none up to the search limit"],
     ["Free-space loss", `${f(l.losses_db.free_space, 2)} dB`],
   ];
   if (l.losses_db.diffraction !== undefined) rows.push(["Diffraction", `${f(l.losses_db.diffraction, 2)} dB (${l.diffraction_method})`]);

@@ -94,10 +94,33 @@ export function reflectionPoints(input: {
     return { zp, psiT, psiR, F: psiT - psiR };
   };
 
+  // Visibility of each sample from each antenna (running horizon). The surface is linear
+  // between samples and the slope of the sight line from an antenna to a point moving along a
+  // segment is monotone, so a segment whose two ends are hidden from an antenna is hidden
+  // everywhere: it cannot hold a usable reflection point and is skipped. This prunes the
+  // search without changing its result (the blocking test of step 4 still decides).
+  const seenT = new Uint8Array(n);
+  const seenR = new Uint8Array(n);
+  let maxT = -Infinity;
+  for (let k = 1; k < n; k++) {
+    const s = (z[k] - hts_m) / x[k];
+    if (s >= maxT - 1e-12) seenT[k] = 1;
+    if (s > maxT) maxT = s;
+  }
+  seenT[0] = 1;
+  let maxR = -Infinity;
+  for (let k = n - 2; k >= 0; k--) {
+    const s = (z[k] - hrs_m) / (D - x[k]);
+    if (s >= maxR - 1e-12) seenR[k] = 1;
+    if (s > maxR) maxR = s;
+  }
+  seenR[n - 1] = 1;
+
   // Step 3: bracket and refine the zeros of F
   const roots: { i: number; x: number }[] = [];
   const tolX = 1e-9 * Math.max(1, D);
   for (let i = 0; i < n - 1; i++) {
+    if (!(seenT[i] || seenT[i + 1]) || !(seenR[i] || seenR[i + 1])) continue;
     const xs = [x[i], (x[i] + x[i + 1]) / 2, x[i + 1]];
     for (let j = 0; j < 2; j++) {
       let lo = xs[j];

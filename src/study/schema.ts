@@ -75,6 +75,13 @@ export const studySchema = z
         diffraction_method: z.enum(["knife_edge", "deygout", "epstein_peterson", "bullington", "delta_bullington"]).default("delta_bullington"),
         profile_step_m: z.number().positive().optional().describe("profile sample spacing (m); default and upper bound: the terrain's own spacing"),
         field_margin_db: z.number().min(0).max(30).default(0).describe("allowance for ageing, misalignment and the like (dB)"),
+        antenna_search: z
+          .object({
+            step_m: z.number().positive().max(50).default(1).describe("candidate step for the minimum-antenna-height search (m)"),
+            max_m: z.number().positive().max(1000).default(100).describe("tallest antenna height the search considers (m)"),
+          })
+          .strict()
+          .prefault({}),
         structure_notice_height_m: z.number().positive().default(45).describe("antennas higher than this above ground get a structure/aviation notice"),
       })
       .strict()

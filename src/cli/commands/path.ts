@@ -62,6 +62,7 @@ export async function pathCommand(argv: string[]): Promise<number> {
       availability_pct: num("availability-pct", DEFAULTS.availability_pct, (x) => x > 0 && x < 100, "a percentage between 0 and 100"),
       diffraction_method: "delta_bullington",
       field_margin_db: 0,
+      antenna_search: { step_m: 1, max_m: 100 },
       structure_notice_height_m: 45,
     },
     climate: { pressure_hpa: 1013.25, temperature_c: 15, water_vapour_g_m3: 7.5, dn1: -400, ground: "medium_dry_ground", ...(rain !== undefined ? { rain_rate_mm_h: rain } : {}) },
