@@ -3,6 +3,7 @@ import { resolve } from "node:path";
 import { geodesicPath } from "../geo/geodesic-path.ts";
 import { EARTH_RADIUS_M, wavelengthM } from "../physics/constants.ts";
 import { freeSpaceLossDb } from "../physics/free-space-loss.ts";
+import { InputError } from "../study/input-error.ts";
 import type { Study } from "../study/study.ts";
 import type { Terrain } from "../terrain/terrain.ts";
 import { parseProfileCsv } from "../terrain/profile-csv.ts";
@@ -56,7 +57,21 @@ export function analyzeLink(study: Study, link: LinkInput, terrain: Terrain): { 
       warnings.push(`The surveyed profile is ${(len / 1000).toFixed(3)} km long but the sites are ${(geo.distance_m / 1000).toFixed(3)} km apart; the profile is used as given.`);
     }
   } else {
-    profile = terrainProfile([siteA.lat_deg, siteA.lon_deg], [siteB.lat_deg, siteB.lon_deg], terrain, study.design.profile_step_m).profile;
+    const sampled = terrainProfile([siteA.lat_deg, siteA.lon_deg], [siteB.lat_deg, siteB.lon_deg], terrain, study.design.profile_step_m);
+    profile = sampled.profile;
+    if (profile.outside > 0) {
+      const i = profile.terrain_m.findIndex((h) => Number.isNaN(h));
+      const why = terrain.whyOutside(sampled.geo.lat_deg[i], sampled.geo.lon_deg[i]) ?? "the terrain has no data there";
+      throw new InputError([
+        {
+          file: study.file,
+          ...study.locate(["links", link.index]),
+          field: `links[${link.index}] (${link.id})`,
+          received: `a path that leaves the terrain ${(profile.d_m[i] / 1000).toFixed(2)} km from ${siteA.id}`,
+          expected: `a path covered by the terrain: ${why}`,
+        },
+      ]);
+    }
     if (profile.void_filled > 0) warnings.push(`${profile.void_filled} profile samples fall on DEM voids that were filled by interpolation.`);
   }
   const n = profile.d_m.length;

@@ -1,4 +1,4 @@
-import { existsSync, mkdtempSync, readFileSync, rmSync, statSync } from "node:fs";
+import { existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync, statSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
@@ -45,6 +45,13 @@ const cases: Case[] = [
   },
   { name: "missing terrain file", yaml: sub("  constant_m: 50", "  file: dem/N00W071.hgt"), expect: ["terrain.file", "dem/N00W071.hgt", "exists"], line: 7 },
   { name: "site outside the DEM", yaml: sub("  constant_m: 50", "  file: S34W071.hgt").replace("lon_deg: -70.6000", "lon_deg: -69.5000"), expect: ["sites[1]", "-69.5", "S34W070.hgt"], line: 20 },
+  {
+    name: "path leaving the DEM",
+    // Both sites on tile S34W071 near its southern edge; the geodesic between them bows ~90 m
+    // poleward (south) mid-path and crosses into S35W071, which is missing.
+    yaml: sub("  constant_m: 50", "  file: dem").replace("lat_deg: -33.4500", "lat_deg: -33.9995").replace("lon_deg: -70.6600", "lon_deg: -70.9500").replace("lat_deg: -33.5000", "lat_deg: -33.9995").replace("lon_deg: -70.6000", "lon_deg: -70.0500"),
+    expect: ["links[0] (a-b)", "leaves the terrain", "S35W071.hgt"],
+  },
   { name: "frequency 0", yaml: sub("frequency_ghz: 6", "frequency_ghz: 0"), expect: ["radios[0].frequency_ghz", "0", "> 0"], line: 10 },
   { name: "empty study", yaml: "# nothing here yet\n", expect: ["empty study"] },
   { name: "unknown field", yaml: sub("    radio: r1\n", "    radio: r1\n    polarisation: v\n"), expect: ["links[0].polarisation", "unknown field"], line: 27 },
@@ -57,6 +64,11 @@ describe("bad study files give a clear message and exit 2", () => {
     if (!existsSync(dir)) {
       writeStudy(root, "site-outside-the-DEM", "");
       writeHgtTile(join(dir, "S34W071.hgt"), -34, -71, 3, () => 50);
+    }
+    const dem = join(root, "path-leaving-the-DEM", "dem");
+    if (!existsSync(dem)) {
+      mkdirSync(dem, { recursive: true });
+      writeHgtTile(join(dem, "S34W071.hgt"), -34, -71, 3, () => 50);
     }
   });
 
