@@ -1,8 +1,10 @@
 import { loadAllStudies } from "../cli/load-all.ts";
-import { profilePlotSvg } from "../render/svg/profile-plot.ts";
-import { formatNumber } from "./format.ts";
+import { cssString } from "./css-string.ts";
+import { formatDuration, formatNumber, formatSmall } from "./format.ts";
+import { linkFresnelSvg, linkHeightGainSvg, linkProfileSvg } from "./link-figures.ts";
 import { relativeUrl } from "./relative-url.ts";
 import { analyzedStudy, getAnalyzedStudies, setAnalyzedStudies, siteData } from "./site-data.ts";
+import { studyMapSvg } from "./study-map.ts";
 
 // Eleventy's config object is untyped here; only the calls below are used.
 interface EleventyConfig {
@@ -13,6 +15,9 @@ interface EleventyConfig {
   ignores: { add(glob: string): void };
   setQuietMode(q: boolean): void;
 }
+
+/** Overview maps drawn for this build (they need sharp, which is asynchronous), by study id. */
+const maps = new Map<string, string>();
 
 /**
  * The Eleventy side of Ridgeline: global data `ridgeline` (the analysed studies), filters for
@@ -26,28 +31,26 @@ export default function ridgelineSite(eleventyConfig: EleventyConfig): void {
       studies = await loadAllStudies("content/studies");
       setAnalyzedStudies(studies);
     }
+    maps.clear();
+    const svgs = await Promise.all(studies.map((s) => studyMapSvg(s)));
+    studies.forEach((s, i) => maps.set(s.study.id, svgs[i]));
     return siteData(studies);
   });
   eleventyConfig.addFilter("rel", function (this: { page?: { url?: string } }, target: string) {
     return relativeUrl(this.page?.url ?? "/", target);
   });
   eleventyConfig.addFilter("num", (v: unknown, digits = 1) => formatNumber(v, digits));
+  eleventyConfig.addFilter("small", (v: unknown, sig = 3) => formatSmall(v, sig));
+  eleventyConfig.addFilter("duration", (v: unknown) => formatDuration(v));
+  eleventyConfig.addFilter("cssString", (v: unknown) => cssString(v));
   eleventyConfig.addFilter("json", (v: unknown) => JSON.stringify(v, null, 2));
-  eleventyConfig.addShortcode("profilePlot", (studyId: string, linkId: string) => {
-    const s = analyzedStudy(studyId);
-    const link = s.result.links.find((l) => l.id === linkId)!;
-    const fig = s.figures.get(linkId)!;
-    return profilePlotSvg({
-      id: `profile-${linkId}`,
-      title: `Path profile ${link.ends.from.name} – ${link.ends.to.name}`,
-      d_m: fig.profile.d_m,
-      terrain_m: fig.profile.terrain_m,
-      obstruction_m: fig.profile.obstruction_m,
-      from: { name: link.ends.from.name, ground_m: link.ends.from.ground_m, antenna_m: link.ends.from.antenna_m },
-      to: { name: link.ends.to.name, ground_m: link.ends.to.ground_m, antenna_m: link.ends.to.antenna_m },
-      lambda_m: fig.lambda_m,
-      ks: fig.ks,
-    });
+  eleventyConfig.addShortcode("profilePlot", (studyId: string, linkId: string) => linkProfileSvg(analyzedStudy(studyId), linkId));
+  eleventyConfig.addShortcode("fresnelSection", (studyId: string, linkId: string) => linkFresnelSvg(analyzedStudy(studyId), linkId));
+  eleventyConfig.addShortcode("heightGain", (studyId: string, linkId: string) => linkHeightGainSvg(analyzedStudy(studyId), linkId));
+  eleventyConfig.addShortcode("overviewMap", (studyId: string) => {
+    const svg = maps.get(studyId);
+    if (svg === undefined) throw new Error(`No overview map was drawn for study ${studyId}.`);
+    return svg;
   });
   eleventyConfig.addPassthroughCopy({ "content/assets": "assets" });
   eleventyConfig.ignores.add("content/studies/**");

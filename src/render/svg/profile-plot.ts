@@ -4,6 +4,8 @@ import { earthBulgeM } from "../../physics/earth-bulge.ts";
 import { fresnelRadiusM } from "../../physics/fresnel-radius.ts";
 import { bottomAxis, leftAxis } from "./axes.ts";
 import { escapeXml, px } from "./escape.ts";
+import { fixed } from "./number-text.ts";
+import { placeLabel, textWidthPx, type Box } from "./label-placement.ts";
 
 export interface ProfilePlotInput {
   /** Used for element ids; must be unique on the page. */
@@ -18,8 +20,10 @@ export interface ProfilePlotInput {
   lambda_m: number;
   /** Effective Earth radius per k; the first is drawn filled, the others as lines. */
   ks: { label: string; ae_m: number; worst?: { at_distance_m: number; clearance_f1: number } }[];
-  /** Specular reflection points to mark (m from the from-end). */
+  /** Specular reflection points to mark (m from the from-end); label is the point's tooltip. */
   reflections?: { at_distance_m: number; label: string }[];
+  /** Legend text for the reflection markers, e.g. "Reflection point (k = 4/3)". */
+  reflectionLegend?: string;
   width?: number;
   height?: number;
 }
@@ -34,7 +38,19 @@ const K_STYLES = ["k-primary", "k-second", "k-third", "k-fourth"];
 export function profilePlotSvg(p: ProfilePlotInput): string {
   const W = p.width ?? 880;
   const H = p.height ?? 380;
-  const m = { top: 28, right: 24, bottom: 48, left: 64 };
+  const refl = p.reflections ?? [];
+  const legend = legendLayout(
+    [
+      ["ray", "Line of sight"],
+      ["fresnel f1", "First Fresnel zone"],
+      ["fresnel f06", "0.6 × first Fresnel radius"],
+      ...p.ks.map((k, j): [string, string] => [j === 0 ? "terrain-swatch" : `terrain-line ${K_STYLES[j % K_STYLES.length]}`, `Terrain + bulge, k = ${k.label}`]),
+      ...(refl.length ? [["reflection", p.reflectionLegend ?? "Reflection point"] as [string, string]] : []),
+    ],
+    72,
+    (p.width ?? 880) - 96,
+  );
+  const m = { top: 18 + legend.rows * 16, right: 24, bottom: 48, left: 64 };
   const n = p.d_m.length;
   const D = p.d_m[n - 1];
   const hts = p.from.ground_m + p.from.antenna_m;
@@ -94,37 +110,64 @@ export function profilePlotSvg(p: ProfilePlotInput): string {
       `<text class="mast-label" x="${px(x(d) + dx)}" y="${px(y(top) - 8)}" text-anchor="${anchor}">${escapeXml(`${end.name} · ${end.antenna_m} m`)}</text>`,
     );
   }
-  // Worst clearance at each k.
+  if (refl.length) {
+    out.push(`<g class="reflection">`);
+    for (const r of refl) {
+      const i = nearestIndex(p.d_m, r.at_distance_m);
+      out.push(`<circle cx="${px(x(r.at_distance_m))}" cy="${px(y(b0[i]))}" r="4"><title>${escapeXml(r.label)}</title></circle>`);
+    }
+    out.push("</g>");
+  }
+  // Worst clearance at each k: marker at the point, labels stacked so that two k's never overlap.
+  const plotBox: Box = { x: m.left, y: m.top, w: W - m.left - m.right, h: H - m.top - m.bottom };
+  const labelBoxes: Box[] = [];
   p.ks.forEach((k, j) => {
     if (!k.worst || !Number.isFinite(k.worst.at_distance_m)) return;
     const d = k.worst.at_distance_m;
     const i = nearestIndex(p.d_m, d);
     const g = bulged[j][i] + p.obstruction_m[i];
+    const text = `k = ${k.label}: ${fixed(k.worst.clearance_f1, 2)} F1`;
+    const w = textWidthPx(text, 11) + 4;
+    const xx = x(d);
+    const x0 = Math.min(Math.max(xx - w / 2, plotBox.x + 2), plotBox.x + plotBox.w - w - 2);
+    const cands: Box[] = [];
+    for (let row = 0; row < 8; row++) cands.push({ x: x0, y: y(g) + 14 + row * 14, w, h: 13 });
+    for (let row = 0; row < 8; row++) cands.push({ x: x0, y: y(Math.max(g, ray(d))) - 26 - row * 14, w, h: 13 });
+    const box = cands[placeLabel(cands, labelBoxes, plotBox)];
+    labelBoxes.push(box);
     out.push(
-      `<g class="worst ${K_STYLES[j % K_STYLES.length]}"><line x1="${px(x(d))}" x2="${px(x(d))}" y1="${px(y(g))}" y2="${px(y(ray(d)))}" /><path d="M${px(x(d))},${px(y(g) + 2)}l-5,9h10z" />` +
-        `<text x="${px(x(d))}" y="${px(y(g) + 24)}" text-anchor="middle">${escapeXml(`k=${k.label}: ${k.worst.clearance_f1.toFixed(2)} F1`)}</text></g>`,
+      `<g class="worst ${K_STYLES[j % K_STYLES.length]}"><line x1="${px(xx)}" x2="${px(xx)}" y1="${px(y(g))}" y2="${px(y(ray(d)))}" /><path d="M${px(xx)},${px(y(g) + 2)}l-5,9h10z" />` +
+        `<text class="halo" x="${px(box.x + w / 2)}" y="${px(box.y + 10)}" text-anchor="middle">${escapeXml(text)}</text></g>`,
     );
   });
-  for (const r of p.reflections ?? []) {
-    const i = nearestIndex(p.d_m, r.at_distance_m);
-    out.push(`<g class="reflection"><circle cx="${px(x(r.at_distance_m))}" cy="${px(y(b0[i]))}" r="5" /><text x="${px(x(r.at_distance_m))}" y="${px(y(b0[i]) - 9)}" text-anchor="middle">${escapeXml(r.label)}</text></g>`);
-  }
-  // Legend.
-  const legend: [string, string][] = [
-    ["ray", "Line of sight"],
-    ["fresnel f1", "First Fresnel zone"],
-    ["fresnel f06", "0.6 × first Fresnel radius"],
-    ...p.ks.map((k, j): [string, string] => [`terrain-line ${K_STYLES[j % K_STYLES.length]}`, `Terrain + bulge, k = ${k.label}`]),
-  ];
-  out.push(`<g class="legend" transform="translate(${m.left + 8},${m.top - 14})">`);
-  let lx = 0;
-  for (const [cls, text] of legend) {
-    out.push(`<line class="${cls}" x1="${lx}" x2="${lx + 22}" y1="0" y2="0" /><text x="${lx + 26}" y="0" dy="0.32em">${escapeXml(text)}</text>`);
-    lx += 34 + text.length * 6.2;
-  }
-  out.push("</g>");
+  out.push(`<g class="legend">${legend.items.join("")}</g>`);
   out.push("</svg>");
   return out.join("");
+}
+
+/** Legend entries laid out in rows that wrap at `maxWidth`, starting at (x0, 14). */
+function legendLayout(entries: [string, string][], x0: number, maxWidth: number): { items: string[]; rows: number } {
+  const items: string[] = [];
+  let lx = 0;
+  let row = 0;
+  for (const [cls, text] of entries) {
+    const w = 34 + textWidthPx(text, 11);
+    if (lx > 0 && lx + w > maxWidth) {
+      lx = 0;
+      row++;
+    }
+    const x = x0 + lx;
+    const y = 14 + row * 16;
+    const mark =
+      cls === "reflection"
+        ? `<circle class="reflection" cx="${x + 11}" cy="${y}" r="4" />`
+        : cls === "terrain-swatch"
+          ? `<rect class="terrain k-primary" x="${x}" y="${y - 5}" width="22" height="10" />`
+          : `<line class="${cls}" x1="${x}" x2="${x + 22}" y1="${y}" y2="${y}" />`;
+    items.push(`${mark}<text x="${x + 26}" y="${y}" dy="0.32em">${escapeXml(text)}</text>`);
+    lx += w;
+  }
+  return { items, rows: row + 1 };
 }
 
 function nearestIndex(d: ArrayLike<number>, v: number): number {

@@ -1,0 +1,106 @@
+import type { LinkResult } from "../analysis/results.ts";
+
+/** Names and references of the diffraction methods, in report order. */
+export const DIFFRACTION_LABELS: Record<string, { name: string; reference: string }> = {
+  knife_edge: { name: "Single knife edge (highest edge)", reference: "ITU-R P.526-15 §4.1, eqs. (22), (26)–(27)" },
+  deygout: { name: "Deygout (main edge and subsidiary edges)", reference: "Deygout construction; ν by P.526-15 eq. (22)" },
+  epstein_peterson: { name: "Epstein–Peterson", reference: "Epstein & Peterson (1953); ν by P.526-15 eq. (22)" },
+  bullington: { name: "Bullington", reference: "ITU-R P.526-15 §4.5.1" },
+  delta_bullington: { name: "Delta-Bullington", reference: "ITU-R P.526-15 §4.5 (§4.5.1 with the spherical-Earth correction of §4.5.2)" },
+};
+
+/** One line of a table: a label, a value and its unit, and where it comes from. */
+export interface Row {
+  label: string;
+  value: number | null;
+  unit: string;
+  note?: string;
+  /** A subtotal line (EIRP, received level, fade margin). */
+  total?: boolean;
+  /** A "+" or "−" in front of the value (budget items). */
+  sign?: "+" | "−" | "";
+}
+
+export interface DiffractionRow {
+  method: string;
+  name: string;
+  reference: string;
+  loss_db: number | null;
+  used: boolean;
+}
+
+export interface AvailabilityRow {
+  mechanism: string;
+  reference: string;
+  worst_month_pct: number | null;
+  annual_pct: number | null;
+  seconds_per_year: number | null;
+  total?: boolean;
+}
+
+/** What a link page shows besides the raw result. */
+export interface LinkReport {
+  radio_name: string;
+  budget: Row[];
+  losses: Row[];
+  availability: AvailabilityRow[];
+  diffraction: DiffractionRow[];
+  /** Reflection points at the first k. */
+  reflection_k: string | null;
+  reflections: NonNullable<LinkResult["reflection"]>["per_k"][number]["points"];
+  /** Height step of the height-gain curve (m), or null without one. */
+  height_gain_step_m: number | null;
+}
+
+const SECONDS_PER_YEAR = 365.25 * 86_400;
+const num = (v: unknown): number | null => (typeof v === "number" && Number.isFinite(v) ? v : null);
+
+/** Tables of one link, from its result (values are never recomputed here, only arranged). */
+export function linkReport(l: LinkResult, radioName: string | undefined, diffractionMethod: string): LinkReport {
+  const b = l.budget ?? {};
+  const av = l.availability ?? {};
+  const method = l.diffraction_method ?? diffractionMethod;
+  const methodName = DIFFRACTION_LABELS[method]?.name ?? method;
+  const budget: Row[] = [
+    { label: `Transmitter power (${l.ends.from.name})`, value: num(b.tx_power_dbm), unit: "dBm", sign: "" },
+    { label: "Transmit feeder and branching loss", value: num(b.tx_feeder_loss_db), unit: "dB", sign: "−" },
+    { label: "Transmit antenna gain", value: num(b.tx_gain_dbi), unit: "dBi", sign: "+" },
+    { label: "EIRP", value: num(b.eirp_dbm), unit: "dBm", total: true, sign: "" },
+    { label: "Free-space loss", value: num(b.free_space_db), unit: "dB", sign: "−", note: "ITU-R P.525-4" },
+    { label: "Diffraction loss", value: num(b.diffraction_db), unit: "dB", sign: "−", note: methodName },
+    { label: "Gaseous absorption", value: num(b.gases_db), unit: "dB", sign: "−", note: "ITU-R P.676-12 Annex 1" },
+    { label: `Receive antenna gain (${l.ends.to.name})`, value: num(b.rx_gain_dbi), unit: "dBi", sign: "+" },
+    { label: "Receive feeder and branching loss", value: num(b.rx_feeder_loss_db), unit: "dB", sign: "−" },
+    { label: "Median received level", value: num(b.received_dbm), unit: "dBm", total: true, sign: "" },
+    { label: "Receiver threshold", value: num(b.rx_threshold_dbm), unit: "dBm", sign: "" },
+    { label: "Field margin", value: num(b.field_margin_db), unit: "dB", sign: "−" },
+    { label: "Flat fade margin", value: num(b.fade_margin_db), unit: "dB", total: true, sign: "", note: "received level − threshold − field margin" },
+  ];
+  const losses: Row[] = [
+    { label: "Free space", value: num(l.losses_db.free_space), unit: "dB", note: "ITU-R P.525-4, 20·log10(4πd/λ)" },
+    { label: "Diffraction", value: num(l.losses_db.diffraction), unit: "dB", note: `${methodName}, ${DIFFRACTION_LABELS[method]?.reference ?? ""}, at the first k` },
+    { label: "Gaseous absorption", value: num(l.losses_db.gases), unit: "dB", note: "ITU-R P.676-12 Annex 1 (oxygen and water vapour)" },
+    { label: "Rain, exceeded 0.01 % of the year", value: num(l.losses_db.rain_0_01pct), unit: "dB", note: "ITU-R P.838-3 and P.530-16 §2.4.1 — for availability, not in the median budget" },
+  ];
+  const mpWm = num(av.multipath_worst_month_pct);
+  const mpYr = num(av.multipath_annual_pct);
+  const rain = num(av.rain_annual_pct);
+  const tot = num(av.unavailability_pct);
+  const secs = (p: number | null) => (p === null ? null : (p / 100) * SECONDS_PER_YEAR);
+  const availability: AvailabilityRow[] = [
+    { mechanism: "Multipath fading", reference: "ITU-R P.530-16 §2.3", worst_month_pct: mpWm, annual_pct: mpYr, seconds_per_year: secs(mpYr) },
+    { mechanism: "Rain", reference: "ITU-R P.530-16 §2.4.1", worst_month_pct: null, annual_pct: rain, seconds_per_year: secs(rain) },
+    { mechanism: "Total unavailability", reference: "sum of the above (common practice)", worst_month_pct: null, annual_pct: tot, seconds_per_year: secs(tot), total: true },
+  ];
+  const diffraction: DiffractionRow[] = Object.keys(DIFFRACTION_LABELS).map((m) => ({
+    method: m,
+    name: DIFFRACTION_LABELS[m].name,
+    reference: DIFFRACTION_LABELS[m].reference,
+    loss_db: num(l.diffraction_db_by_method?.[m]),
+    used: m === method,
+  }));
+  const first = l.reflection?.per_k[0];
+  const hg = l.reflection?.height_gain ?? [];
+  const height_gain_step_m = hg.length > 1 ? num(hg[1].rx_antenna_m - hg[0].rx_antenna_m) : null;
+  return { radio_name: radioName ?? l.radio, budget, losses, availability, diffraction, reflection_k: first?.k_label ?? null, reflections: first?.points ?? [], height_gain_step_m };
+}

@@ -1,0 +1,63 @@
+import type { AnalyzedStudy } from "../analysis/analyze-study.ts";
+import { shadedRelief, TINT_STOPS } from "../render/raster/elevation-tint.ts";
+import { hillshade } from "../render/raster/hillshade.ts";
+import { projectedElevationGrid } from "../render/raster/projected-grid.ts";
+import { rgbaPngDataUri } from "../render/raster/rgba-png.ts";
+import { fitMapProjection, mapHeightFor } from "../render/svg/map-projection.ts";
+import { overviewMapSvg, type MapBackdrop, type MapSite } from "../render/svg/overview-map.ts";
+
+const MAP_W = 880;
+/** Map pixels per hillshade cell: the image is drawn at 1.5× its cell size, smooth and small. */
+const SHADE_STEP_PX = 1.5;
+
+const cache = new WeakMap<AnalyzedStudy, Promise<string>>();
+
+/**
+ * The study's overview map (SVG string): sites and links in a transverse Mercator projection
+ * fitted to the sites, over a hillshade of the study's own terrain (sun from 315° at 45°)
+ * sampled on the map's pixel grid. Computed once per analysed study.
+ */
+export function studyMapSvg(s: AnalyzedStudy): Promise<string> {
+  let p = cache.get(s);
+  if (!p) {
+    p = drawMap(s);
+    cache.set(s, p);
+  }
+  return p;
+}
+
+async function drawMap(s: AnalyzedStudy): Promise<string> {
+  const sites: MapSite[] = s.result.sites.map((x) => ({ id: x.id, name: x.name, lat_deg: x.lat_deg, lon_deg: x.lon_deg }));
+  const byId = new Map(sites.map((x) => [x.id, x]));
+  const MAP_H = mapHeightFor(sites, MAP_W, 56, [440, 720]);
+  const projection = fitMapProjection(sites, MAP_W, MAP_H, 56);
+  let backdrop: MapBackdrop | undefined;
+  const terrain = await s.openTerrain();
+  if (terrain.kind !== "constant") {
+    const grid = projectedElevationGrid((lat, lon) => terrain.elevation(lat, lon), projection, MAP_W, MAP_H, SHADE_STEP_PX);
+    const { shade, valid } = hillshade(grid.z, grid.width, grid.height, { dx_m: grid.dx_m, dy_m: grid.dy_m, azimuth_deg: 315, altitude_deg: 45 });
+    let lo = Infinity;
+    let hi = -Infinity;
+    grid.z.forEach((v, i) => {
+      if (valid[i]) {
+        lo = Math.min(lo, v);
+        hi = Math.max(hi, v);
+      }
+    });
+    if (Number.isFinite(lo)) {
+      const href = await rgbaPngDataUri(shadedRelief(grid.z, shade, valid, lo, hi), grid.width, grid.height);
+      const what = s.result.terrain.synthetic ? "synthetic terrain" : "terrain";
+      backdrop = { href, label: `Shaded relief of the ${what}, ${Math.round(lo)}–${Math.round(hi)} m`, ramp: TINT_STOPS.map(([r, g, b]) => `rgb(${r},${g},${b})`) };
+    }
+  }
+  return overviewMapSvg({
+    id: `map-${s.study.id}`,
+    title: `Overview map of ${s.result.title}`,
+    sites,
+    links: s.result.links.map((l) => ({ id: l.id, from: byId.get(l.from)!, to: byId.get(l.to)!, met: l.target_met })),
+    projection,
+    width: MAP_W,
+    height: MAP_H,
+    backdrop,
+  });
+}

@@ -1,0 +1,118 @@
+import type { AnalyzedStudy } from "../analysis/analyze-study.ts";
+import { studyCautions, type StudyCautions } from "./cautions.ts";
+import { formatNumber } from "./format.ts";
+import { DIFFRACTION_LABELS } from "./link-report.ts";
+
+/** A statement of the study's basis: what, the value, and where it comes from. */
+export interface AssumptionRow {
+  topic: string;
+  value: string;
+  basis: string;
+}
+
+export interface MethodRow {
+  quantity: string;
+  method: string;
+}
+
+export interface ChainRow {
+  id: string;
+  name: string;
+  links: { id: string; availability_pct: number | null }[];
+  availability_pct: number | null;
+  target_pct: number;
+  met: boolean;
+}
+
+/** What the study page shows besides the raw results. */
+export interface StudyReport {
+  links_total: number;
+  links_met: number;
+  assumptions: AssumptionRow[];
+  methods: MethodRow[];
+  chains: ChainRow[];
+  cautions: StudyCautions;
+}
+
+const COMMON_CRITERIA = [
+  { k: 4 / 3, min_f1: 1.0 },
+  { k: 2 / 3, min_f1: 0.6 },
+];
+
+const GROUND_NAMES: Record<string, string> = {
+  sea_water: "sea water",
+  fresh_water: "fresh water",
+  wet_ground: "wet ground",
+  medium_dry_ground: "medium dry ground",
+  very_dry_ground: "very dry ground",
+};
+
+/** Methods and editions the analysis uses, in report order. */
+export const METHODS: MethodRow[] = [
+  { quantity: "Path geometry", method: "WGS84 geodesics (GeographicLib, Karney 2013); Earth bulge and first Fresnel radius by the standard formulas" },
+  { quantity: "Free-space loss", method: "ITU-R P.525-4, 20·log10(4πd/λ) with c = 299 792 458 m/s" },
+  { quantity: "Diffraction", method: "ITU-R P.526-15 §4.5 (Bullington, delta-Bullington); §4.1 single knife edge; Deygout and Epstein–Peterson constructions for comparison" },
+  { quantity: "Gaseous absorption", method: "ITU-R P.676-12 Annex 1 (line-by-line), specific attenuation times path length" },
+  { quantity: "Rain", method: "ITU-R P.838-3 specific attenuation; ITU-R P.530-16 §2.4.1 path attenuation and outage" },
+  { quantity: "Multipath fading", method: "ITU-R P.530-16 §2.3 (§2.3.1, §2.3.2 worst month; converted to the average year)" },
+  { quantity: "Reflection", method: "Specular points by geometrical optics over the profile; ground constants of ITU-R P.527 classes" },
+  { quantity: "Availability", method: "Unavailability of multipath and rain added per link, and per hop in a chain (common practice)" },
+];
+
+/** Build the study page's statements, summaries and cautions from an analysed study. */
+export function studyReport(s: AnalyzedStudy): StudyReport {
+  const r = s.result;
+  const d = s.study.design;
+  const c = s.study.climate;
+  const ks = d.k_factors.map((k) => k.label);
+  const crit = d.clearance_criteria;
+  const isCommon = crit.length === COMMON_CRITERIA.length && crit.every((cr, i) => Math.abs(cr.k.k - COMMON_CRITERIA[i].k) < 1e-9 && cr.min_f1 === COMMON_CRITERIA[i].min_f1);
+  const overrides = s.study.links.filter((l) => l.availability_pct !== undefined);
+  const assumptions: AssumptionRow[] = [
+    { topic: "Effective Earth-radius factors k", value: ks.join(", "), basis: `Clearance is checked at each; diffraction loss, reflection and height gain use the first, k = ${ks[0]}.` },
+    {
+      topic: "Clearance criteria",
+      value: crit.map((cr) => `at least ${cr.min_f1.toFixed(2)} F1 at k = ${cr.k.label}`).join("; "),
+      basis: isCommon ? "Common-practice defaults for line-of-sight microwave paths." : "Set for this study.",
+    },
+    {
+      topic: "Availability target",
+      value: `${d.availability_pct} % of an average year per link`,
+      basis: overrides.length ? `Overridden for ${overrides.map((l) => `${l.id} (${l.availability_pct} %)`).join(", ")}.` : "Applies to every link.",
+    },
+    { topic: "Diffraction method used in the budget", value: DIFFRACTION_LABELS[d.diffraction_method]?.name ?? d.diffraction_method, basis: "Other methods are shown on each link page for comparison." },
+    { topic: "Field margin", value: `${d.field_margin_db} dB`, basis: "Allowance for ageing, misalignment and the like, subtracted from the fade margin." },
+    {
+      topic: "Rain rate R0.01",
+      value: c.rain_rate_mm_h === undefined ? "not given" : `${c.rain_rate_mm_h} mm/h`,
+      basis: c.rain_rate_mm_h === undefined ? "Rain attenuation is not computed." : "Rain rate exceeded for 0.01 % of an average year, as entered for the study area.",
+    },
+    { topic: "Atmosphere", value: `${c.pressure_hpa} hPa, ${c.temperature_c} °C, water vapour ${c.water_vapour_g_m3} g/m³`, basis: "Surface values for gaseous absorption (P.676-12)." },
+    { topic: "Refractivity gradient dN1", value: `${formatNumber(c.dn1, 0)} N-units/km`, basis: "Point gradient in the lowest 65 m not exceeded for 1 % of an average year (P.453), for multipath fading." },
+    {
+      topic: "Terrain roughness sa",
+      value: c.sa_m === undefined ? "not given" : `${c.sa_m} m`,
+      basis: c.sa_m === undefined ? "Multipath uses the quick-planning geoclimatic factor of P.530-16 §2.3.1." : "Detailed geoclimatic factor of P.530-16 §2.3.1.",
+    },
+    { topic: "Ground", value: GROUND_NAMES[c.ground] ?? c.ground, basis: "Electrical constants for reflection and for the spherical-Earth part of delta-Bullington." },
+    { topic: "Terrain", value: r.terrain.description, basis: r.terrain.synthetic ? "Synthetic: the figures show invented ground, not a real place." : "Elevation data named in the study." },
+    { topic: "Structure notice height", value: `${d.structure_notice_height_m} m above ground`, basis: "Antennas above it are listed under Cautions." },
+  ];
+  const byId = new Map(r.links.map((l) => [l.id, l]));
+  const chains: ChainRow[] = (r.chains as { id: string; name: string; links: string[]; availability_pct: number | null; target_availability_pct: number; target_met: boolean }[]).map((ch) => ({
+    id: ch.id,
+    name: ch.name,
+    links: ch.links.map((id) => ({ id, availability_pct: byId.get(id)?.availability_pct ?? null })),
+    availability_pct: ch.availability_pct,
+    target_pct: ch.target_availability_pct,
+    met: ch.target_met,
+  }));
+  return {
+    links_total: r.links.length,
+    links_met: r.links.filter((l) => l.target_met).length,
+    assumptions,
+    methods: METHODS,
+    chains,
+    cautions: studyCautions(s),
+  };
+}
