@@ -4,6 +4,7 @@ import { UsageError } from "./args.ts";
 import { buildCommand } from "./commands/build.ts";
 import { checkCommand } from "./commands/check.ts";
 import { pathCommand } from "./commands/path.ts";
+import { pdfCommand } from "./commands/pdf.ts";
 
 const USAGE = `Usage: ridgeline <command> [options]
 
@@ -11,6 +12,7 @@ Commands:
   build [study-id…]     compute the studies in content/studies and render the site into _site/
   check [study-id…]     compute without rendering; exit 0 when every target is met, 1 when one is missed
   path                  one link from the command line (ridgeline path --help)
+  pdf <study-id>        print the study and every link to _site/studies/<id>/<id>.pdf (system Chromium)
   serve                 build, then serve _site and rebuild on change
 
 Exit codes: 0 success, 1 a design target missed (check only), 2 bad input.`;
@@ -21,6 +23,7 @@ const COMMANDS: Record<string, Command> = {
   build: buildCommand,
   check: checkCommand,
   path: pathCommand,
+  pdf: pdfCommand,
 };
 
 /** Run the CLI; returns the exit code. Bad input prints a message (no stack) and returns 2. */
