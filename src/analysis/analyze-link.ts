@@ -81,7 +81,8 @@ export function analyzeLink(study: Study, link: LinkInput, terrain: Terrain): { 
     if (site.ground_m !== undefined && Number.isFinite(h) && Math.abs(site.ground_m - h) > 10) {
       warnings.push(`Site ${site.id}: surveyed ground ${site.ground_m} m differs from the profile's ${h.toFixed(1)} m by more than 10 m.`);
     }
-    return { site: site.id, name: site.name, ground_m, antenna_m: e.antenna_m, antenna_amsl_m: ground_m + e.antenna_m, gain_dbi: e.gain_dbi, feeder_loss_db: e.feeder_loss_db };
+    const eirp_dbm = radio.tx_power_dbm - e.feeder_loss_db + e.gain_dbi;
+    return { site: site.id, name: site.name, ground_m, antenna_m: e.antenna_m, antenna_amsl_m: ground_m + e.antenna_m, gain_dbi: e.gain_dbi, feeder_loss_db: e.feeder_loss_db, eirp_dbm };
   };
   const from = end(link.from, siteA, profile.terrain_m[0]);
   const to = end(link.to, siteB, profile.terrain_m[n - 1]);
@@ -125,6 +126,8 @@ export function analyzeLink(study: Study, link: LinkInput, terrain: Terrain): { 
     from: siteA.id,
     to: siteB.id,
     radio: radio.id,
+    radio_name: radio.name ?? radio.id,
+    threshold_ber: radio.threshold_ber,
     frequency_ghz: radio.frequency_ghz,
     polarization: link.polarization,
     distance_m: geo.distance_m,

@@ -1,3 +1,4 @@
+import type { ChainResult } from "./chains.ts";
 import type { ReflectionResult } from "./link-reflection.ts";
 
 /** Plain-JSON results of a study (no NaN: the boundary turns NaN into errors or null with a warning). */
@@ -19,6 +20,8 @@ export interface LinkEndResult {
   antenna_amsl_m: number;
   gain_dbi: number;
   feeder_loss_db: number;
+  /** EIRP of this end when it transmits: radio power − feeder loss + gain (dBm). */
+  eirp_dbm: number;
 }
 
 export interface ClearanceRow {
@@ -37,6 +40,9 @@ export interface LinkResult {
   from: string;
   to: string;
   radio: string;
+  radio_name: string;
+  /** Bit-error ratio at which rx_threshold_dbm is stated. */
+  threshold_ber: string;
   frequency_ghz: number;
   polarization: "h" | "v";
   distance_m: number;
@@ -81,7 +87,7 @@ export interface StudyResult {
   assumptions: Record<string, unknown>;
   sites: SiteResult[];
   links: LinkResult[];
-  chains: unknown[];
+  chains: ChainResult[];
   coverage: unknown[];
   warnings: string[];
   provenance: Provenance;
