@@ -1,6 +1,10 @@
 import { createHash } from "node:crypto";
 import { readFileSync } from "node:fs";
 import { resolve } from "node:path";
+import { linkKeyer, terrainFactsKey } from "../cache/cache-keys.ts";
+import { MemoTerrain, TerrainQueryMiss } from "../cache/memo-terrain.ts";
+import type { ResultCache } from "../cache/result-cache.ts";
+import { terrainSourceKey } from "../cache/terrain-source-key.ts";
 import { InputError, type InputProblem } from "../study/input-error.ts";
 import type { Study } from "../study/study.ts";
 import { openTerrain, type TerrainSpec } from "../terrain/open-terrain.ts";
@@ -9,7 +13,7 @@ import { TerrainError } from "../terrain/terrain-error.ts";
 import { ProfileCsvError } from "../terrain/profile-csv-error.ts";
 import { analyzeLink, siteGroundM, type LinkFigureData } from "./analyze-link.ts";
 import { chainResults } from "./chains.ts";
-import { gitState, TOOL_VERSION } from "./provenance.ts";
+import { gitStateAsync, TOOL_VERSION } from "./provenance.ts";
 import type { LinkResult, StudyResult } from "./results.ts";
 import { sanitizeNumbers } from "./sanitize.ts";
 
@@ -17,12 +21,34 @@ export interface AnalyzedStudy {
   study: Study;
   result: StudyResult;
   figures: Map<string, LinkFigureData>;
-  terrain: Terrain;
+  /** The study's terrain if it was opened; null when every result came from the cache. */
+  readonly terrain: Terrain | null;
+  /** Open the study's terrain (once) for work beyond the cached results. */
+  openTerrain(): Promise<Terrain>;
+  /** Links whose result and figure data came from the cache, and links computed. */
+  cache: { hits: number; misses: number };
 }
 
 export interface AnalyzeOptions {
   /** Called after each link with (done, total). */
   onProgress?: (done: number, total: number) => void;
+  /** Look results up here and store what is computed; null or absent: compute everything. */
+  cache?: ResultCache | null;
+}
+
+/** A link's cached result and figure data. */
+interface CachedLink {
+  result: LinkResult;
+  figure: LinkFigureData;
+}
+
+/** What a study needs of its terrain beyond the links: cached so a full hit never opens it. */
+interface TerrainFacts {
+  kind: Terrain["kind"];
+  description: string;
+  synthetic: boolean;
+  /** Ground (m amsl) under each site, in study order (NaN when unknown). */
+  ground_m: number[];
 }
 
 /** The terrain spec a study names. */
@@ -57,31 +83,92 @@ export function checkSitesOnTerrain(study: Study, terrain: Terrain): void {
   if (problems.length) throw new InputError(problems);
 }
 
-/** Analyse every link of a study and assemble its JSON result. */
+const sha256 = (b: Buffer | string): string => createHash("sha256").update(b).digest("hex");
+
+/**
+ * Analyse every link of a study and assemble its JSON result. With a cache, each link's
+ * result and figure data are looked up by a key over everything they depend on
+ * (cache-keys.ts) and only the misses are computed; the terrain is opened only when
+ * something must be computed from it. Results are identical with and without the cache.
+ */
 export async function analyzeStudy(study: Study, options: AnalyzeOptions = {}): Promise<AnalyzedStudy> {
-  const terrain = await openStudyTerrain(study);
-  checkSitesOnTerrain(study, terrain);
+  const cache = options.cache ?? null;
+  const git = gitStateAsync(study.dir); // runs while the links are read or computed
+  let terrain: Terrain | null = null;
+  const open = async (): Promise<Terrain> => (terrain ??= await openStudyTerrain(study));
+  // The terrain's content key, without opening it; an unreadable file is reported by opening.
+  const terrainKey = terrainSourceKey(study.terrain, study.dir, cache) ?? (await open()).fingerprint();
+  const csvSha = new Map<string, string | null>();
+  for (const l of study.links) {
+    if (!l.profile_csv) continue;
+    try {
+      csvSha.set(l.id, sha256(readFileSync(resolve(study.dir, l.profile_csv))));
+    } catch {
+      csvSha.set(l.id, null);
+    }
+  }
+
+  // --- Terrain facts: description and ground under each site ---
+  const factsKey = cache ? terrainFactsKey(study, terrainKey) : null;
+  let facts = factsKey ? cache!.get<TerrainFacts>("terrain-facts", factsKey) : undefined;
+  if (typeof facts?.kind !== "string" || facts.ground_m?.length !== study.sites.length) {
+    const t = await open();
+    checkSitesOnTerrain(study, t);
+    facts = { kind: t.kind, description: t.description, synthetic: t.synthetic, ground_m: study.sites.map((s) => siteGroundM(s, t)) };
+    if (factsKey) cache!.put("terrain-facts", factsKey, facts);
+  }
+
+  // --- Links: from the cache, or computed (through remembered terrain queries when possible) ---
+  const keyOf = cache ? linkKeyer(study, terrainKey) : null;
+  const identity = facts;
+  const computeLink = async (link: Study["links"][number]) => {
+    if (!cache) return analyzeLink(study, link, await open());
+    if (!terrain) {
+      try {
+        return analyzeLink(study, link, new MemoTerrain(cache, terrainKey, identity, null));
+      } catch (e) {
+        if (!(e instanceof TerrainQueryMiss)) throw e;
+      }
+    }
+    return analyzeLink(study, link, new MemoTerrain(cache, terrainKey, identity, await open()));
+  };
   const figures = new Map<string, LinkFigureData>();
   const links: LinkResult[] = [];
-  const hash = createHash("sha256").update(study.file_sha256).update(terrain.fingerprint()).update(TOOL_VERSION);
   const problems: InputProblem[] = [];
-  study.links.forEach((link, i) => {
-    try {
-      if (link.profile_csv) hash.update(readFileSync(resolve(study.dir, link.profile_csv)));
-      const { result, figure } = analyzeLink(study, link, terrain);
-      const warnings = [...result.warnings];
-      links.push({ ...sanitizeNumbers(result, warnings, `link ${link.id}`), warnings });
-      figures.set(link.id, figure);
-    } catch (e) {
-      if (e instanceof ProfileCsvError) {
-        problems.push({ file: e.detail.path, line: e.detail.line, col: e.detail.column, field: `${e.detail.field} (profile of link ${link.id})`, received: JSON.stringify(e.detail.value), expected: e.detail.expected });
-      } else throw e;
+  let hits = 0;
+  for (const [i, link] of study.links.entries()) {
+    const key = keyOf ? keyOf(link, csvSha.get(link.id) ?? null) : null;
+    const hit = key ? cache!.get<CachedLink>("link", key) : undefined;
+    if (hit && hit.result?.id === link.id && hit.figure?.profile?.d_m instanceof Float64Array) {
+      links.push(hit.result);
+      figures.set(link.id, hit.figure);
+      hits++;
+    } else {
+      try {
+        const { result, figure } = await computeLink(link);
+        const warnings = [...result.warnings];
+        const clean = { ...sanitizeNumbers(result, warnings, `link ${link.id}`), warnings };
+        links.push(clean);
+        figures.set(link.id, figure);
+        if (key) cache!.put("link", key, { result: clean, figure });
+      } catch (e) {
+        if (e instanceof ProfileCsvError) {
+          problems.push({ file: e.detail.path, line: e.detail.line, col: e.detail.column, field: `${e.detail.field} (profile of link ${link.id})`, received: JSON.stringify(e.detail.value), expected: e.detail.expected });
+        } else if (e instanceof InputError) {
+          problems.push(...e.problems); // every link's problem is reported together
+        } else throw e;
+      }
     }
     options.onProgress?.(i + 1, study.links.length);
-  });
+  }
   if (problems.length) throw new InputError(problems);
+
+  // --- The study's result ---
+  const inputs = createHash("sha256").update(study.file_sha256).update(terrainKey).update(TOOL_VERSION);
+  for (const l of study.links) if (csvSha.has(l.id)) inputs.update(csvSha.get(l.id) ?? "unreadable");
   const warnings: string[] = [];
-  if (terrain.synthetic) warnings.push(`Terrain is synthetic (${terrain.description}): figures show invented ground, not a real place.`);
+  if (facts.synthetic) warnings.push(`Terrain is synthetic (${facts.description}): figures show invented ground, not a real place.`);
+  const ground_m = facts.ground_m;
   const result: StudyResult = {
     id: study.id,
     title: study.meta.title,
@@ -90,7 +177,7 @@ export async function analyzeStudy(study: Study, options: AnalyzeOptions = {}): 
     revision: study.meta.revision,
     date: study.meta.date,
     ...(study.meta.summary ? { summary: study.meta.summary } : {}),
-    terrain: { description: terrain.description, synthetic: terrain.synthetic },
+    terrain: { description: facts.description, synthetic: facts.synthetic },
     assumptions: {
       k_factors: study.design.k_factors.map((k) => k.label),
       clearance_criteria: study.design.clearance_criteria.map((c) => ({ k: c.k.label, min_f1: c.min_f1 })),
@@ -99,12 +186,45 @@ export async function analyzeStudy(study: Study, options: AnalyzeOptions = {}): 
       field_margin_db: study.design.field_margin_db,
       climate: study.climate,
     },
-    sites: study.sites.map((s) => ({ id: s.id, name: s.name, lat_deg: s.lat_deg, lon_deg: s.lon_deg, ground_m: siteGroundM(s, terrain), ...(s.notes ? { notes: s.notes } : {}) })),
+    sites: study.sites.map((s, i) => ({ id: s.id, name: s.name, lat_deg: s.lat_deg, lon_deg: s.lon_deg, ground_m: ground_m[i], ...(s.notes ? { notes: s.notes } : {}) })),
     links,
     chains: chainResults(study, links),
     coverage: [],
     warnings,
-    provenance: { tool_version: TOOL_VERSION, inputs_sha256: hash.digest("hex"), ...gitState(study.dir) },
+    provenance: { tool_version: TOOL_VERSION, inputs_sha256: inputs.digest("hex"), ...(await git) },
   };
-  return { study, result: sanitizeNumbers(result, warnings, `study ${study.id}`), figures, terrain };
+  // Link results were sanitised one by one above; the rest of the study is checked here.
+  const clean = { ...sanitizeNumbers({ ...result, links: [] }, warnings, `study ${study.id}`), links };
+  return {
+    study,
+    result: clean,
+    figures,
+    get terrain() {
+      return terrain;
+    },
+    openTerrain: open,
+    cache: { hits, misses: study.links.length - hits },
+  };
+}
+
+/**
+ * Analyse several studies, reporting the input problems of all of them together.
+ * @param onProgress called after each link with the study id, links done and links in that study
+ */
+export async function analyzeStudies(
+  studies: Study[],
+  options: { cache?: ResultCache | null; onProgress?: (study: string, done: number, total: number) => void } = {},
+): Promise<AnalyzedStudy[]> {
+  const out: AnalyzedStudy[] = [];
+  const problems: InputProblem[] = [];
+  for (const s of studies) {
+    try {
+      out.push(await analyzeStudy(s, { cache: options.cache, onProgress: (d, t) => options.onProgress?.(s.id, d, t) }));
+    } catch (e) {
+      if (e instanceof InputError) problems.push(...e.problems);
+      else throw e;
+    }
+  }
+  if (problems.length) throw new InputError(problems);
+  return out;
 }

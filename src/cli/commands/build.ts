@@ -1,23 +1,72 @@
+import { analyzeStudies, type AnalyzedStudy } from "../../analysis/analyze-study.ts";
+import { DEFAULT_CACHE_DIR, ResultCache } from "../../cache/result-cache.ts";
 import { parseArgs } from "../args.ts";
 import { buildSite } from "../build-site.ts";
-import { loadAllStudies } from "../load-all.ts";
+import { findStudies, loadStudies } from "../load-all.ts";
 import { progressReporter } from "../progress.ts";
 
-/** `ridgeline build [study-id…] [--out DIR] [--path-prefix /sub/]` */
-export async function buildCommand(argv: string[]): Promise<number> {
-  const args = parseArgs(argv, { values: ["out", "path-prefix", "studies-dir"] });
+export interface BuildOptions {
+  /** Study ids to build (default: every study under studiesDir). */
+  ids?: string[];
+  studiesDir?: string;
+  outDir?: string;
+  pathPrefix?: string;
+  /** Cache folder, or null to compute everything. */
+  cacheDir?: string | null;
+}
+
+/** What a build did, for the summary line and for `serve`. */
+export interface BuildReport {
+  outDir: string;
+  studies: AnalyzedStudy[];
+  links: number;
+  fromCache: number;
+  cacheUsed: boolean;
+  compute_s: number;
+  render_s: number;
+}
+
+/** Load, analyse (with the cache) and render; throws InputError on bad input. */
+export async function runBuild(options: BuildOptions = {}): Promise<BuildReport> {
   const t0 = performance.now();
+  const cache = options.cacheDir === null ? null : new ResultCache(options.cacheDir ?? DEFAULT_CACHE_DIR);
   const progress = progressReporter("links");
-  const studies = await loadAllStudies(args.values.get("studies-dir")?.[0] ?? "content/studies", {
-    ids: args.positional,
-    onProgress: (_s, d, t) => progress.update(d, t),
-  });
-  progress.stop();
+  let studies: AnalyzedStudy[];
+  try {
+    studies = await analyzeStudies(loadStudies(findStudies(options.studiesDir ?? "content/studies", options.ids)), { cache, onProgress: (_s, d, t) => progress.update(d, t) });
+  } finally {
+    progress.stop();
+  }
   const t1 = performance.now();
-  const { outDir } = await buildSite(studies, { outDir: args.values.get("out")?.[0], pathPrefix: args.values.get("path-prefix")?.[0] });
-  const links = studies.reduce((n, s) => n + s.result.links.length, 0);
-  process.stderr.write(
-    `Built ${studies.length} stud${studies.length === 1 ? "y" : "ies"}, ${links} links into ${outDir} (compute ${((t1 - t0) / 1000).toFixed(2)} s, render ${((performance.now() - t1) / 1000).toFixed(2)} s).\n`,
-  );
+  const { outDir } = await buildSite(studies, { outDir: options.outDir, pathPrefix: options.pathPrefix });
+  return {
+    outDir,
+    studies,
+    links: studies.reduce((n, s) => n + s.result.links.length, 0),
+    fromCache: studies.reduce((n, s) => n + s.cache.hits, 0),
+    cacheUsed: cache !== null,
+    compute_s: (t1 - t0) / 1000,
+    render_s: (performance.now() - t1) / 1000,
+  };
+}
+
+/** The one-line summary of a build, e.g. "Built 1 study, 8 links into _site (8 of 8 links from cache; …)". */
+export function buildSummary(r: BuildReport): string {
+  const n = r.studies.length;
+  const cache = r.cacheUsed ? `${r.fromCache} of ${r.links} links from cache` : "cache off";
+  return `Built ${n} stud${n === 1 ? "y" : "ies"}, ${r.links} links into ${r.outDir} (${cache}; compute ${r.compute_s.toFixed(2)} s, render ${r.render_s.toFixed(2)} s).`;
+}
+
+/** `ridgeline build [study-id…] [--out DIR] [--path-prefix /sub/] [--studies-dir DIR] [--cache-dir DIR] [--no-cache]` */
+export async function buildCommand(argv: string[]): Promise<number> {
+  const args = parseArgs(argv, { values: ["out", "path-prefix", "studies-dir", "cache-dir"], flags: ["no-cache"] });
+  const report = await runBuild({
+    ids: args.positional,
+    studiesDir: args.values.get("studies-dir")?.[0],
+    outDir: args.values.get("out")?.[0],
+    pathPrefix: args.values.get("path-prefix")?.[0],
+    cacheDir: args.flags.has("no-cache") ? null : args.values.get("cache-dir")?.[0],
+  });
+  process.stderr.write(`${buildSummary(report)}\n`);
   return 0;
 }

@@ -1,0 +1,28 @@
+import { createHash } from "node:crypto";
+import { readFileSync, statSync } from "node:fs";
+import { resolve } from "node:path";
+import type { ResultCache } from "./result-cache.ts";
+
+/** A file's bytes must be this much older than now before its digest is remembered (s). */
+const SETTLE_S = 2;
+
+/**
+ * sha256 (hex) of a file's bytes. With a cache, the digest is remembered under the file's
+ * identity (absolute path, size, inode, modification and change times in nanoseconds), so a
+ * 25 MB DEM tile is hashed once rather than on every build; any write to the file changes its
+ * change time and so its identity. As git does for its index, a file modified within the last
+ * 2 s is hashed every time and not remembered: a second write in the same clock tick could
+ * otherwise go unseen on file systems with coarse timestamps.
+ */
+export function fileDigest(path: string, cache: ResultCache | null = null): string {
+  const abs = resolve(path);
+  if (!cache) return createHash("sha256").update(readFileSync(abs)).digest("hex");
+  const st = statSync(abs, { bigint: true });
+  const identity = createHash("sha256").update(`file-digest-v1\0${abs}\0${st.size}\0${st.ino}\0${st.dev}\0${st.mtimeNs}\0${st.ctimeNs}`).digest("hex");
+  const known = cache.get<string>("file-digest", identity);
+  if (typeof known === "string") return known;
+  const digest = createHash("sha256").update(readFileSync(abs)).digest("hex");
+  const newest_ns = st.mtimeNs > st.ctimeNs ? st.mtimeNs : st.ctimeNs;
+  if (BigInt(Date.now()) * 1_000_000n - newest_ns > BigInt(SETTLE_S) * 1_000_000_000n) cache.put("file-digest", identity, digest);
+  return digest;
+}

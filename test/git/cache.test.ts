@@ -1,0 +1,86 @@
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { analyzeStudy, type AnalyzedStudy } from "../../src/analysis/analyze-study.ts";
+import { ResultCache } from "../../src/cache/result-cache.ts";
+import { loadStudy } from "../../src/study/load-study.ts";
+import { bcProfileCsv, smallStudyYaml, writeSmallStudy, writeSmallTile } from "./small-study.ts";
+
+// Issue 6, acceptance: the cache reports hits and misses, recomputes only what changed, and
+// invalidates when a terrain file changes. Results with the cache must equal results without.
+
+let root: string;
+let dir: string;
+let cache: ResultCache;
+const analyze = (withCache = true) => analyzeStudy(loadStudy(join(dir, "study.yaml")), { cache: withCache ? cache : null });
+const figures = (a: AnalyzedStudy) => [...a.figures].map(([id, f]) => [id, Array.from(f.profile.d_m), Array.from(f.profile.terrain_m), Array.from(f.profile.obstruction_m), f.ks]);
+
+beforeAll(() => {
+  root = mkdtempSync(join(tmpdir(), "ridgeline-cache-"));
+  dir = writeSmallStudy(root);
+  cache = new ResultCache(join(root, "cache"));
+});
+afterAll(() => rmSync(root, { recursive: true, force: true }));
+
+describe("content-addressed link cache", () => {
+  it("misses everything on an empty cache, then hits everything, with identical results", async () => {
+    const plain = await analyze(false);
+    const cold = await analyze();
+    expect(cold.cache).toEqual({ hits: 0, misses: 3 });
+    const warm = await analyze();
+    expect(warm.cache).toEqual({ hits: 3, misses: 0 });
+    expect(warm.terrain).toBeNull(); // a full hit never opens the terrain
+    for (const a of [cold, warm]) {
+      expect(JSON.stringify(a.result)).toBe(JSON.stringify(plain.result));
+      expect(figures(a)).toEqual(figures(plain));
+    }
+    expect(warm.figures.get("a-b")!.profile.d_m).toBeInstanceOf(Float64Array);
+  });
+
+  it("recomputes only the link whose antenna height changed, without opening the terrain", async () => {
+    writeFileSync(join(dir, "study.yaml"), smallStudyYaml({ antennaAB: 25 }));
+    const a = await analyze();
+    expect(a.cache).toEqual({ hits: 2, misses: 1 });
+    // The path did not move: its terrain samples came from the cache too.
+    expect(a.terrain).toBeNull();
+    const plain = await analyze(false);
+    expect(JSON.stringify(a.result)).toBe(JSON.stringify(plain.result));
+    expect(a.result.links.find((l) => l.id === "a-b")!.ends.from.antenna_m).toBe(25);
+  });
+
+  it("recomputes only the link whose surveyed profile CSV changed", async () => {
+    writeFileSync(join(dir, "b-c.csv"), bcProfileCsv(25));
+    const a = await analyze();
+    expect(a.cache).toEqual({ hits: 2, misses: 1 });
+    const plain = await analyze(false);
+    expect(JSON.stringify(a.result)).toBe(JSON.stringify(plain.result));
+  });
+
+  it("recomputes the terrain-sampled links when the terrain file changes", async () => {
+    const before = await analyze();
+    expect(before.cache.hits).toBe(3);
+    const sha = before.result.provenance.inputs_sha256;
+    writeSmallTile(dir, 2); // same size, a ridge twice as high
+    const after = await analyze();
+    // a-b and a-c sample the DEM; b-c uses its surveyed profile, which did not change.
+    expect(after.cache).toEqual({ hits: 1, misses: 2 });
+    expect(after.result.provenance.inputs_sha256).not.toBe(sha);
+    const fm = (x: AnalyzedStudy) => x.result.links.find((l) => l.id === "a-b")!.fade_margin_db!;
+    expect(fm(after)).toBeLessThan(fm(before) - 1); // a higher ridge costs the obstructed link
+    const plain = await analyze(false);
+    expect(JSON.stringify(after.result)).toBe(JSON.stringify(plain.result));
+  });
+
+  it("treats a corrupt entry as a miss and rewrites it", async () => {
+    const c = new ResultCache(join(root, "cache2"));
+    const s = loadStudy(join(dir, "study.yaml"));
+    await analyzeStudy(s, { cache: c });
+    const { readdirSync } = await import("node:fs");
+    const linkDir = join(c.dir, "link");
+    for (const sub of readdirSync(linkDir)) for (const f of readdirSync(join(linkDir, sub))) writeFileSync(join(linkDir, sub, f), readFileSync(join(linkDir, sub, f)).subarray(0, 40));
+    const again = await analyzeStudy(s, { cache: c });
+    expect(again.cache).toEqual({ hits: 0, misses: 3 });
+    expect((await analyzeStudy(s, { cache: c })).cache).toEqual({ hits: 3, misses: 0 });
+  });
+});
