@@ -1,29 +1,31 @@
 import { RidgelineError } from "../errors.ts";
 import { InputError } from "../study/input-error.ts";
 import { UsageError } from "./args.ts";
-import { buildCommand } from "./commands/build.ts";
-import { checkCommand } from "./commands/check.ts";
-import { pathCommand } from "./commands/path.ts";
-import { pdfCommand } from "./commands/pdf.ts";
 
 const USAGE = `Usage: ridgeline <command> [options]
 
 Commands:
   build [study-id…]     compute the studies in content/studies and render the site into _site/
   check [study-id…]     compute without rendering; exit 0 when every target is met, 1 when one is missed
+  diff <rev> [<rev>]    compare the studies at two git revisions (second: the working tree); ridgeline diff --help
   path                  one link from the command line (ridgeline path --help)
   pdf <study-id>        print the study and every link to _site/studies/<id>/<id>.pdf (system Chromium)
-  serve                 build, then serve _site and rebuild on change
+  serve                 build, serve _site on http://127.0.0.1:8080 and rebuild on change (ridgeline serve --help)
+
+build, diff and serve keep computed link results in .ridgeline-cache/ (--no-cache to compute everything).
 
 Exit codes: 0 success, 1 a design target missed (check only), 2 bad input.`;
 
 type Command = (argv: string[]) => Promise<number>;
 
-const COMMANDS: Record<string, Command> = {
-  build: buildCommand,
-  check: checkCommand,
-  path: pathCommand,
-  pdf: pdfCommand,
+// Loaded on demand, so that `check` and `path` do not load Eleventy (only build and serve need it).
+const COMMANDS: Record<string, () => Promise<Command>> = {
+  build: async () => (await import("./commands/build.ts")).buildCommand,
+  check: async () => (await import("./commands/check.ts")).checkCommand,
+  diff: async () => (await import("./commands/diff.ts")).diffCommand,
+  path: async () => (await import("./commands/path.ts")).pathCommand,
+  pdf: async () => (await import("./commands/pdf.ts")).pdfCommand,
+  serve: async () => (await import("./commands/serve.ts")).serveCommand,
 };
 
 /** Run the CLI; returns the exit code. Bad input prints a message (no stack) and returns 2. */
@@ -33,13 +35,13 @@ export async function main(argv: string[]): Promise<number> {
     process.stdout.write(`${USAGE}\n`);
     return name ? 0 : 2;
   }
-  const cmd = COMMANDS[name];
-  if (!cmd) {
+  const load = Object.hasOwn(COMMANDS, name) ? COMMANDS[name] : undefined;
+  if (!load) {
     process.stderr.write(`ridgeline: unknown command "${name}".\n\n${USAGE}\n`);
     return 2;
   }
   try {
-    return await cmd(rest);
+    return await (await load())(rest);
   } catch (e) {
     if (e instanceof InputError || e instanceof UsageError || e instanceof RidgelineError) {
       process.stderr.write(`ridgeline ${name}: ${e.message}\n`);
