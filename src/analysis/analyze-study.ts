@@ -1,7 +1,9 @@
 import { createHash } from "node:crypto";
 import { readFileSync } from "node:fs";
 import { resolve } from "node:path";
-import { linkKeyer, terrainFactsKey } from "../cache/cache-keys.ts";
+import { linkKeyer, terrainFactsKey, toolIdentity } from "../cache/cache-keys.ts";
+import { canonicalJson } from "../cache/canonical-json.ts";
+import { modulesFingerprint } from "../cache/code-fingerprint.ts";
 import { MemoTerrain, TerrainQueryMiss } from "../cache/memo-terrain.ts";
 import type { ResultCache } from "../cache/result-cache.ts";
 import { terrainSourceKey } from "../cache/terrain-source-key.ts";
@@ -27,6 +29,14 @@ export interface AnalyzedStudy {
   openTerrain(): Promise<Terrain>;
   /** Links whose result and figure data came from the cache, and links computed. */
   cache: { hits: number; misses: number };
+  /**
+   * A value computed from the study's terrain and `inputs` (e.g. a shaded-relief grid for a
+   * map), kept in the build's cache when there is one, so that a hit does not open the
+   * terrain. `modules` are the modules whose code computes it (pass `import.meta.url`; their
+   * project imports are followed), so changing that code computes it again. The value must be
+   * plain data (objects, arrays, strings, numbers, typed arrays). Without a cache: computed.
+   */
+  remember<T>(name: string, inputs: unknown, modules: string[], compute: (terrain: Terrain) => T | Promise<T>): Promise<T>;
 }
 
 export interface AnalyzeOptions {
@@ -204,6 +214,15 @@ export async function analyzeStudy(study: Study, options: AnalyzeOptions = {}): 
     },
     openTerrain: open,
     cache: { hits, misses: study.links.length - hits },
+    async remember<T>(name: string, inputs: unknown, modules: string[], compute: (terrain: Terrain) => T | Promise<T>): Promise<T> {
+      if (!cache) return compute(await open());
+      const key = sha256(canonicalJson(["study-value", toolIdentity(), modulesFingerprint(modules), terrainKey, name, inputs]));
+      const hit = cache.get<{ v: T }>("study-value", key);
+      if (hit !== undefined && "v" in hit) return hit.v;
+      const v = await compute(await open());
+      cache.put("study-value", key, { v });
+      return v;
+    },
   };
 }
 

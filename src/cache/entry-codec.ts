@@ -33,7 +33,8 @@ const pad8 = (n: number): number => (n + 7) & ~7;
 
 /** Set an own property, even one named "__proto__" (plain assignment would set the prototype). */
 const setOwn = (o: Record<string, unknown>, k: string, v: unknown): void => {
-  Object.defineProperty(o, k, { value: v, enumerable: true, writable: true, configurable: true });
+  if (k === "__proto__") Object.defineProperty(o, k, { value: v, enumerable: true, writable: true, configurable: true });
+  else o[k] = v;
 };
 
 /**

@@ -72,6 +72,26 @@ describe("content-addressed link cache", () => {
     expect(JSON.stringify(after.result)).toBe(JSON.stringify(plain.result));
   });
 
+  it("remembers a value computed from the terrain, so a later build need not open it", async () => {
+    const calls: string[] = [];
+    const ridgeTop = async (a: AnalyzedStudy) =>
+      a.remember("ridge-top", { lon_deg: -32.5 }, [import.meta.url], (t) => {
+        calls.push(t.description);
+        return { h_m: Float64Array.from([-41.6, -41.5, -41.4], (lat) => t.elevation(lat, -32.5)) };
+      });
+    const first = await analyze();
+    const v1 = await ridgeTop(first);
+    expect(calls).toHaveLength(1);
+    const second = await analyze();
+    const v2 = await ridgeTop(second);
+    expect(calls).toHaveLength(1);
+    expect(second.terrain).toBeNull();
+    expect(Array.from(v2.h_m)).toEqual(Array.from(v1.h_m));
+    expect(v1.h_m[1]).toBeCloseTo(100 + 2 * 60, 6); // the doubled ridge of the previous test, on its crest
+    await ridgeTop(await analyze(false)); // without a cache: computed every time
+    expect(calls).toHaveLength(2);
+  });
+
   it("treats a corrupt entry as a miss and rewrites it", async () => {
     const c = new ResultCache(join(root, "cache2"));
     const s = loadStudy(join(dir, "study.yaml"));
