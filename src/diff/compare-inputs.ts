@@ -124,5 +124,6 @@ export function compareStudyInputs(before: Study | null, after: Study | null): I
     }
   });
   byId("chain", before.chains, after.chains, () => "chain", () => [], (x, y) => fields("chain", `chain ${y.id}`, { ...x, links: x.links.join(", ") }, { ...y, links: y.links.join(", ") }, []));
+  byId("coverage", before.coverage ?? [], after.coverage ?? [], () => "coverage", () => []);
   return out;
 }

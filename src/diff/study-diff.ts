@@ -1,7 +1,7 @@
 /** What changed between two revisions of the studies: inputs and results per link. */
 
 /** Kinds of input change, by the part of the study they touch. */
-export type InputChangeKind = "study" | "meta" | "terrain" | "design" | "target" | "climate" | "radio" | "site" | "site-moved" | "link" | "antenna" | "profile" | "chain";
+export type InputChangeKind = "study" | "meta" | "terrain" | "design" | "target" | "climate" | "radio" | "site" | "site-moved" | "link" | "antenna" | "profile" | "chain" | "coverage";
 
 export type DiffValue = string | number | boolean | null;
 

@@ -26,6 +26,7 @@ const KIND_NAMES: Record<InputChange["kind"], string> = {
   antenna: "Antenna",
   profile: "Profile",
   chain: "Chain",
+  coverage: "Coverage",
 };
 
 const cell = (v: unknown): string => (v === null || v === undefined ? "—" : typeof v === "number" ? showNumber(v) : String(v));
