@@ -1,10 +1,11 @@
 import { EARTH_RADIUS_M, wavelengthM } from "../physics/constants.ts";
 import { divergenceFactor } from "../physics/divergence-factor.ts";
+import { earthBulgeM } from "../physics/earth-bulge.ts";
 import { groundConstants, type GroundClass } from "../physics/ground-constants.ts";
 import { reflectionCoefficient } from "../physics/reflection-coefficient.ts";
 import { reflectionPoints, type SpecularPoint } from "../physics/reflection-point.ts";
 import { roughnessFactor } from "../physics/surface-roughness.ts";
-import { spaceDiversitySpacing, twoRayRelativeLevelDb } from "../physics/two-ray.ts";
+import { twoRayRelativeLevelDb } from "../physics/two-ray.ts";
 import type { Study } from "../study/study.ts";
 import type { LinkProfile } from "./link-profile.ts";
 import type { LinkEndResult } from "./results.ts";
@@ -38,10 +39,10 @@ export interface ReflectionResult {
 
 /** Half-width (samples) of the window for the terrain roughness around a reflection point. */
 const ROUGHNESS_HALF_WINDOW = 5;
-/** Height-gain range either side of the design height (m), coarse geometry step and fine step (m). */
+/** Height-gain range either side of the design height (m) and the bounds of its step (m). */
 const HG_HALF_RANGE_M = 15;
-const HG_COARSE_STEP_M = 1.5;
-const HG_FINE_STEP_M = 0.1;
+const HG_MAX_STEP_M = 0.1;
+const HG_MIN_STEP_M = 0.02;
 
 /** Standard deviation (m) of the terrain about its straight-line fit over a few samples around i. */
 function localRoughnessM(d: ArrayLike<number>, h: ArrayLike<number>, i: number): number {
@@ -76,10 +77,11 @@ interface Ray {
  * Specular reflection analysis of a link (geometrical optics): reflection points at each k,
  * their path difference, delay and reflection coefficient for the study's ground class
  * (ITU-R P.527 classes), reduced by the divergence of a curved Earth and by the terrain's
- * roughness around the point (Ament factor); the height-gain curve at the receiving end with
+ * roughness around the point (Ament factor); the height-gain curve at the receiving end from
  * the dominant reflection (the largest effective coefficient — common practice: one
- * reflected ray, not a coherent sum of every specular point of a rugged profile) sampled
- * finely enough to resolve the interference lobes; and a suggested space-diversity spacing.
+ * reflected ray off the plane tangent at that point, not a coherent sum of every specular point
+ * of a rugged profile) sampled finely enough to resolve the interference lobes; and a
+ * suggested space-diversity spacing.
  */
 export function linkReflection(study: Study, profile: LinkProfile, ends: { from: LinkEndResult; to: LinkEndResult }, frequency_ghz: number, polarization: "h" | "v"): ReflectionResult {
   const cls = study.climate.ground.replace(/_/g, "-") as GroundClass;
@@ -116,44 +118,64 @@ export function linkReflection(study: Study, profile: LinkProfile, ends: { from:
     })),
   }));
 
-  // Height gain: geometry at coarse heights, the dominant ray's path difference, grazing angle
-  // and divergence interpolated linearly between them (smooth in height while the same
-  // reflection stays dominant), the level evaluated at every fine step.
+  // Height gain (common practice, image method): the reflecting plane is the local tangent of
+  // the effective-Earth surface at the dominant reflection point for the design height. For each
+  // receive height the two antennas' heights above that plane (h1', h2') and their separation
+  // along it (L) give Δ = sqrt(L² + (h1'+h2')²) − sqrt(L² + (h1'−h2')²) and ψ = atan((h1'+h2')/L);
+  // the level is the two-ray sum with the plane's Fresnel coefficient, divergence and roughness.
   const ae0 = study.design.k_factors[0].k * EARTH_RADIUS_M;
-  const h0 = ends.to.antenna_m;
-  const lo = Math.max(1, h0 - HG_HALF_RANGE_M);
-  const hi = h0 + HG_HALF_RANGE_M;
-  const coarse: { h: number; ray: Ray | null }[] = [];
-  for (let h = lo; h <= hi + 1e-9; h += HG_COARSE_STEP_M) coarse.push({ h, ray: dominant(rays(ends.to.ground_m + h, ae0)) });
+  const main = dominant(rays(ends.to.antenna_amsl_m, ae0));
   const height_gain: ReflectionResult["height_gain"] = [];
-  const steps = Math.round((hi - lo) / HG_FINE_STEP_M);
-  for (let s = 0; s <= steps; s++) {
-    const h = lo + s * HG_FINE_STEP_M;
-    const j = Math.min(coarse.length - 2, Math.max(0, Math.floor((h - lo) / HG_COARSE_STEP_M)));
-    const a = coarse[j];
-    const b = coarse[j + 1] ?? a;
+  const bulged = (k: number) => h_m[k] + earthBulgeM(d_m[k], D - d_m[k], ae0);
+  let plane: { xp: number; zp: number; c: number; s: number } | null = null;
+  if (main && strength(main) > 0) {
+    const i = Math.min(n - 2, Math.max(0, main.point.segment));
+    const beta = Math.atan2(bulged(i + 1) - bulged(i), d_m[i + 1] - d_m[i]);
+    const xp = main.point.distance_m;
+    plane = { xp, zp: main.point.height_m + earthBulgeM(xp, D - xp, ae0), c: Math.cos(beta), s: Math.sin(beta) };
+  }
+  // Space diversity (common practice): half the interference period at the receiver, so one
+  // antenna sits on a peak when the other is in a null. On the tangent plane the phase kΔ
+  // advances by 2π when h2' grows by λL/(2h1'); a vertical step dh raises h2' by dh·cos β.
+  let space_diversity_spacing_m: number | null = null;
+  let period_m = Infinity;
+  if (main && plane && strength(main) >= 0.1) {
+    const h1p = -(0 - plane.xp) * plane.s + (ends.from.antenna_amsl_m - plane.zp) * plane.c;
+    const L = (D - plane.xp) * plane.c + (ends.to.antenna_amsl_m - plane.zp) * plane.s - ((0 - plane.xp) * plane.c + (ends.from.antenna_amsl_m - plane.zp) * plane.s);
+    const spacing = (lambda_m * L) / (4 * h1p * plane.c);
+    period_m = 2 * spacing;
+    space_diversity_spacing_m = spacing > 0 && Number.isFinite(spacing) ? spacing : null;
+  }
+  // About three lobes either side of the design height (at least 2 m, at most 15 m) and at
+  // least ten points per lobe, steps between 2 cm and 10 cm.
+  const lobes = period_m > 0 && Number.isFinite(period_m);
+  const half = lobes ? Math.min(HG_HALF_RANGE_M, Math.max(2, 3 * period_m)) : HG_HALF_RANGE_M;
+  const h0 = ends.to.antenna_m;
+  const lo = Math.max(1, h0 - half);
+  const hi = h0 + half;
+  const hgStep = lobes ? Math.min(HG_MAX_STEP_M, Math.max(HG_MIN_STEP_M, period_m / 10)) : HG_MAX_STEP_M;
+  const steps = Math.round((hi - lo) / hgStep);
+  for (let step = 0; step <= steps; step++) {
+    const h = lo + step * hgStep;
     let level = 0;
-    // Interpolate while the same reflection stays dominant (its point moves little between nodes).
-    if (a.ray && b.ray && Math.abs(a.ray.point.distance_m - b.ray.point.distance_m) <= 0.05 * D) {
-      const t = b.h === a.h ? 0 : (h - a.h) / (b.h - a.h);
-      const lerp = (x: number, y: number) => x + t * (y - x);
-      const psi = lerp(a.ray.point.grazing_angle_rad, b.ray.point.grazing_angle_rad);
-      const R = reflectionCoefficient({ epsilon_r: g.epsilon_r, sigma_s_m: g.sigma_s_m, frequency_ghz, grazing_angle_rad: psi, polarization: pol });
-      const rough = roughnessFactor({ sigma_h_m: lerp(a.ray.sigma_m, b.ray.sigma_m), grazing_angle_rad: psi, lambda_m });
-      level = twoRayRelativeLevelDb({ path_difference_m: lerp(a.ray.point.path_difference_m, b.ray.point.path_difference_m), lambda_m, reflection: { magnitude: R.magnitude * rough, phase_rad: R.phase_rad }, divergence: lerp(a.ray.divergence, b.ray.divergence) });
-    } else {
-      const r = (h - a.h <= b.h - h ? a : b).ray;
-      if (r) level = twoRayRelativeLevelDb({ path_difference_m: r.point.path_difference_m, lambda_m, reflection: { magnitude: r.R.magnitude * r.roughness, phase_rad: r.R.phase_rad }, divergence: r.divergence });
+    if (main && plane) {
+      // Coordinates along (u) and above (v) the plane, for the two antennas.
+      const rel = (x: number, z: number) => ({ u: (x - plane!.xp) * plane!.c + (z - plane!.zp) * plane!.s, v: -(x - plane!.xp) * plane!.s + (z - plane!.zp) * plane!.c });
+      const T = rel(0, ends.from.antenna_amsl_m);
+      const R = rel(D, ends.to.ground_m + h);
+      const L = R.u - T.u;
+      if (T.v > 0 && R.v > 0 && L > 0) {
+        const delta = Math.hypot(L, T.v + R.v) - Math.hypot(L, T.v - R.v);
+        const psi = Math.atan((T.v + R.v) / L);
+        const d1 = (L * T.v) / (T.v + R.v);
+        const coef = reflectionCoefficient({ epsilon_r: g.epsilon_r, sigma_s_m: g.sigma_s_m, frequency_ghz, grazing_angle_rad: psi, polarization: pol });
+        const rough = roughnessFactor({ sigma_h_m: main.sigma_m, grazing_angle_rad: psi, lambda_m });
+        const div = divergenceFactor({ d1_m: d1, d2_m: L - d1, grazing_angle_rad: psi, ae_m: ae0 });
+        level = twoRayRelativeLevelDb({ path_difference_m: delta, lambda_m, reflection: { magnitude: coef.magnitude * rough, phase_rad: coef.phase_rad }, divergence: div });
+      }
     }
     height_gain.push({ rx_antenna_m: Math.round(h * 100) / 100, relative_db: Math.round(level * 1000) / 1000 });
   }
 
-  const main = dominant(rays(ends.to.antenna_amsl_m, ae0));
-  let space_diversity_spacing_m: number | null = null;
-  if (main && strength(main) > 0.1) {
-    const plane = main.point.height_m;
-    const s = spaceDiversitySpacing({ lambda_m, d_m: D, h1_m: ends.from.antenna_amsl_m - plane, h2_m: ends.to.antenna_amsl_m - plane, ae_m: ae0 });
-    space_diversity_spacing_m = Number.isFinite(s.spacing_m) ? s.spacing_m : null;
-  }
-  return { ground: study.climate.ground, epsilon_r: g.epsilon_r, sigma_s_m: g.sigma_s_m, per_k, height_gain, height_gain_step_m: HG_FINE_STEP_M, space_diversity_spacing_m };
+  return { ground: study.climate.ground, epsilon_r: g.epsilon_r, sigma_s_m: g.sigma_s_m, per_k, height_gain, height_gain_step_m: hgStep, space_diversity_spacing_m };
 }

@@ -31,11 +31,12 @@ export function linkProfileSvg(s: AnalyzedStudy, linkId: string): string {
     to: { name: link.ends.to.name, ground_m: link.ends.to.ground_m, antenna_m: link.ends.to.antenna_m },
     lambda_m: fig.lambda_m,
     ks: fig.ks,
-    reflections: (first?.points ?? []).map((p) => ({
+    // Mark the reflections that matter: effective coefficient (|Γ| × divergence × roughness) ≥ 0.1.
+    reflections: (first?.points ?? []).filter((p) => p.effective_coefficient >= 0.1).map((p) => ({
       at_distance_m: p.distance_m,
       label: `Reflection point at ${(p.distance_m / 1000).toFixed(2)} km (k = ${first!.k_label}), grazing ${p.grazing_angle_mrad.toFixed(1)} mrad`,
     })),
-    reflectionLegend: first ? `Reflection point (k = ${first.k_label})` : undefined,
+    reflectionLegend: first ? `Reflection point, effective coefficient ≥ 0.1 (k = ${first.k_label})` : undefined,
   });
 }
 
