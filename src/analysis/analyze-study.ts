@@ -146,9 +146,12 @@ export async function analyzeStudy(study: Study, options: AnalyzeOptions = {}): 
   const links: LinkResult[] = [];
   const problems: InputProblem[] = [];
   let hits = 0;
+  const keys = study.links.map((link) => (keyOf ? keyOf(link, csvSha.get(link.id) ?? null) : null));
+  // Every lookup starts now; the reads proceed together while earlier entries are decoded.
+  const lookups = keys.map((key) => (key ? cache!.getAsync<CachedLink>("link", key) : Promise.resolve(undefined)));
   for (const [i, link] of study.links.entries()) {
-    const key = keyOf ? keyOf(link, csvSha.get(link.id) ?? null) : null;
-    const hit = key ? cache!.get<CachedLink>("link", key) : undefined;
+    const key = keys[i];
+    const hit = await lookups[i];
     if (hit && hit.result?.id === link.id && hit.figure?.profile?.d_m instanceof Float64Array) {
       links.push(hit.result);
       figures.set(link.id, hit.figure);

@@ -1,5 +1,6 @@
 import { execFile, execFileSync } from "node:child_process";
-import { readFileSync } from "node:fs";
+import { existsSync, readFileSync } from "node:fs";
+import { dirname, join, resolve } from "node:path";
 
 /** Ridgeline's version, from package.json. */
 export const TOOL_VERSION: string = JSON.parse(readFileSync(new URL("../../package.json", import.meta.url), "utf8")).version;
@@ -22,11 +23,21 @@ function gitEnv(): NodeJS.ProcessEnv {
   return env;
 }
 
+const notInGit = (): GitState => ({ git_commit: null, git_dirty: null });
+
 function parseStatus(out: string): GitState {
   const lines = out.split("\n").filter((l) => l.length > 0);
   const oid = lines.find((l) => l.startsWith("# branch.oid "))?.slice("# branch.oid ".length).trim();
-  if (!oid || !/^[0-9a-f]{40,64}$/.test(oid)) return { git_commit: null, git_dirty: null };
+  if (!oid || !/^[0-9a-f]{40,64}$/.test(oid)) return notInGit();
   return { git_commit: oid, git_dirty: lines.some((l) => !l.startsWith("#")) };
+}
+
+/** Whether `dir` or a folder above it holds a `.git` (folder, or file for a worktree); starting git costs more than looking. */
+function insideGitWorkTree(dir: string): boolean {
+  for (let d = resolve(dir); ; d = dirname(d)) {
+    if (existsSync(join(d, ".git"))) return true;
+    if (dirname(d) === d) return false;
+  }
 }
 
 /**
@@ -34,20 +45,22 @@ function parseStatus(out: string): GitState {
  * ones included; both null outside git or before the first commit.
  */
 export function gitState(dir: string): GitState {
+  if (!insideGitWorkTree(dir)) return notInGit();
   try {
     return parseStatus(execFileSync("git", STATUS, { cwd: dir, env: gitEnv(), stdio: ["ignore", "pipe", "ignore"] }).toString());
   } catch {
-    return { git_commit: null, git_dirty: null };
+    return notInGit();
   }
 }
 
 /** gitState without blocking: git runs while other work goes on. */
 export function gitStateAsync(dir: string): Promise<GitState> {
-  return new Promise((resolve) => {
+  if (!insideGitWorkTree(dir)) return Promise.resolve(notInGit());
+  return new Promise((done) => {
     try {
-      execFile("git", STATUS, { cwd: dir, env: gitEnv() }, (err, stdout) => resolve(err ? { git_commit: null, git_dirty: null } : parseStatus(stdout.toString())));
+      execFile("git", STATUS, { cwd: dir, env: gitEnv() }, (err, stdout) => done(err ? notInGit() : parseStatus(stdout.toString())));
     } catch {
-      resolve({ git_commit: null, git_dirty: null });
+      done(notInGit());
     }
   });
 }

@@ -116,11 +116,17 @@ export function decodeEntry(buf: Buffer): unknown {
   }
   // Restore typed arrays and non-finite numbers in place (the parsed tree is ours to change).
   let ok = true;
+  const onlyKey = (o: Record<string, unknown>): boolean => {
+    let n = 0;
+    for (const _ in o) if (++n > 1) return false;
+    return n === 1;
+  };
   const special = (o: Record<string, unknown>): unknown => {
-    const keys = Object.keys(o);
-    if (keys.length !== 1) return undefined;
-    if (keys[0] === "$f" && typeof o.$f === "string") return Number(o.$f);
-    if (keys[0] === "$table" && Array.isArray(o.$table)) {
+    // Most objects are ordinary: three property lookups tell, without allocating.
+    if (o.$f === undefined && o.$bin === undefined && o.$table === undefined) return undefined;
+    if (!onlyKey(o)) return undefined;
+    if (typeof o.$f === "string") return Number(o.$f);
+    if (Array.isArray(o.$table)) {
       const [names, ...cols] = o.$table as [string[], ...unknown[]];
       const columns = cols.map((c) => special(c as Record<string, unknown>)) as Float64Array[];
       if (!ok || columns.some((c) => !(c instanceof Float64Array))) {
@@ -135,7 +141,7 @@ export function decodeEntry(buf: Buffer): unknown {
       }
       return rows;
     }
-    if (keys[0] === "$bin" && Array.isArray(o.$bin)) {
+    if (Array.isArray(o.$bin)) {
       const [type, off, length] = o.$bin as [string, number, number];
       const Ctor = CTORS[type];
       const bytesPer = Ctor ? (Ctor as unknown as { BYTES_PER_ELEMENT: number }).BYTES_PER_ELEMENT : 0;

@@ -1,4 +1,5 @@
 import { mkdirSync, readFileSync, renameSync, rmSync, writeFileSync } from "node:fs";
+import { readFile } from "node:fs/promises";
 import { join, resolve } from "node:path";
 import { decodeEntry, encodeEntry } from "./entry-codec.ts";
 
@@ -33,6 +34,21 @@ export class ResultCache {
     let buf: Buffer;
     try {
       buf = readFileSync(this.file(kind, key));
+    } catch {
+      return undefined;
+    }
+    const v = decodeEntry(buf);
+    return v === null ? undefined : (v as T);
+  }
+
+  /**
+   * The stored value, read without blocking: start many reads at once (they proceed on the
+   * I/O threads) and decode each as it is awaited.
+   */
+  async getAsync<T>(kind: string, key: string): Promise<T | undefined> {
+    let buf: Buffer;
+    try {
+      buf = await readFile(this.file(kind, key));
     } catch {
       return undefined;
     }
