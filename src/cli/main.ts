@@ -9,6 +9,7 @@ Commands:
   check [study-id…]     compute without rendering; exit 0 when every target is met, 1 when one is missed
   diff <rev> [<rev>]    compare the studies at two git revisions (second: the working tree); ridgeline diff --help
   path                  one link from the command line (ridgeline path --help)
+  coverage              one coverage raster from the command line (ridgeline coverage --help)
   pdf <study-id>        print the study and every link to _site/studies/<id>/<id>.pdf (system Chromium)
   serve                 build, serve _site on http://127.0.0.1:8080 and rebuild on change (ridgeline serve --help)
 
@@ -24,6 +25,7 @@ const COMMANDS: Record<string, () => Promise<Command>> = {
   check: async () => (await import("./commands/check.ts")).checkCommand,
   diff: async () => (await import("./commands/diff.ts")).diffCommand,
   path: async () => (await import("./commands/path.ts")).pathCommand,
+  coverage: async () => (await import("./commands/coverage.ts")).coverageCommand,
   pdf: async () => (await import("./commands/pdf.ts")).pdfCommand,
   serve: async () => (await import("./commands/serve.ts")).serveCommand,
 };

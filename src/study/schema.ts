@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { patternTableProblem } from "./pattern-table.ts";
 
 /**
  * The study file format (`content/studies/<id>/study.yaml`), defined once: the loader
@@ -46,6 +47,58 @@ const linkEnd = z
     antenna_m: z.number().min(0).max(1000).describe("antenna centre height above ground (m)"),
     gain_dbi: z.number().min(-10).max(70).describe("antenna gain (dBi)"),
     feeder_loss_db: z.number().min(0).max(50).default(0).describe("feeder and branching loss at this end (dB)"),
+  })
+  .strict();
+
+const patternTable = (lo: number, hi: number, what: string) =>
+  z
+    .array(z.tuple([z.number(), z.number()]))
+    .superRefine((rows, ctx) => {
+      const problem = patternTableProblem(rows, lo, hi);
+      if (problem) ctx.addIssue({ code: "custom", message: problem });
+    })
+    .describe(`[${what} relative to the boresight (deg), attenuation (dB)] rows, angles rising from ${lo} to ${hi}`);
+
+const ascending = (v: number[]) => v.every((x, i) => i === 0 || x > v[i - 1]);
+
+const coverageEntry = z
+  .object({
+    id,
+    site: id.describe("id of a site in `sites`: the transmitter"),
+    method: z.enum(["visibility", "delta-bullington", "hata"]).default("delta-bullington").describe("visibility (radio line of sight), delta-bullington (free space + ITU-R P.526-15 §4.5) or hata (Okumura–Hata / COST-231)"),
+    frequency_ghz: z.number().positive().max(1000).describe("carrier frequency (GHz)"),
+    antenna_m: z.number().min(0).max(1000).describe("antenna centre height above ground (m)"),
+    gain_dbi: z.number().min(-10).max(40).default(0).describe("antenna gain toward the boresight (dBi)"),
+    pattern: z
+      .object({
+        azimuth_deg: z.number().min(0).lt(360).default(0).describe("boresight azimuth, clockwise from true north (deg)"),
+        downtilt_deg: z.number().min(-90).max(90).default(0).describe("boresight below the horizontal (deg)"),
+        horizontal: patternTable(0, 360, "azimuth").optional(),
+        vertical: patternTable(-90, 90, "elevation").optional(),
+      })
+      .strict()
+      .optional()
+      .describe("tabulated antenna pattern; omit for an omnidirectional antenna"),
+    tx_power_dbm: z.number().min(-30).max(80).default(0).describe("transmitter output power (dBm)"),
+    tx_losses_db: z.number().min(0).max(50).default(0).describe("feeder and other losses between transmitter and antenna (dB)"),
+    receiver_m: z.number().min(0).max(1000).default(1.5).describe("receiver antenna height above ground (m)"),
+    receiver_gain_dbi: z.number().min(-20).max(40).default(0).describe("receiver antenna gain (dBi)"),
+    receiver_losses_db: z.number().min(0).max(50).default(0).describe("receiver feeder and body losses (dB)"),
+    radius_km: z.number().gt(0).max(500).describe("radius of the coverage around the site (km)"),
+    resolution_m: z.number().positive().default(30).describe("cell size (m); a single-raster terrain uses its own grid"),
+    thresholds: z.array(z.number()).default([]).refine(ascending, "levels in strictly ascending order, e.g. [-100, -90, -80]").describe("levels whose covered area is reported and contoured"),
+    threshold_unit: z.enum(["dBm", "dBuV/m"]).default("dBm").describe("unit of the thresholds: received level (dBm) or field strength (dBµV/m)"),
+    k: kValue.default("4/3"),
+    clearance_f1: z.number().min(0).max(5).default(0).describe("visibility: required clearance as a fraction of the first Fresnel radius (0: geometric line of sight)"),
+    polarization: z.enum(["h", "v"]).default("v"),
+    hata: z
+      .object({
+        environment: z.enum(["urban", "suburban", "open"]).default("urban"),
+        city_size: z.enum(["small-medium", "large"]).default("small-medium"),
+      })
+      .strict()
+      .prefault({})
+      .describe("hata: area type and city size"),
   })
   .strict();
 
@@ -144,8 +197,10 @@ export const studySchema = z
     chains: z
       .array(z.object({ id, name: z.string().optional(), links: z.array(id).min(1) }).strict())
       .default([]),
+    coverage: z.array(coverageEntry).default([]).describe("coverage maps around base sites"),
   })
   .strict();
 
 export type StudyInput = z.output<typeof studySchema>;
 export type KValueInput = z.output<typeof kValue>;
+export type CoverageEntryInput = z.output<typeof coverageEntry>;

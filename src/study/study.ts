@@ -12,6 +12,7 @@ export type TerrainInput = StudyInput["terrain"];
 export type RadioInput = StudyInput["radios"][number];
 export type SiteInput = StudyInput["sites"][number];
 export type LinkInput = StudyInput["links"][number];
+export type CoverageInput = StudyInput["coverage"][number];
 
 /** A validated study: plain objects, units in names, references resolved. */
 export interface Study {
@@ -31,6 +32,8 @@ export interface Study {
   sites: SiteInput[];
   links: (LinkInput & { index: number })[];
   chains: StudyInput["chains"];
+  /** Coverage maps (optional until every loader fills it). */
+  coverage?: CoverageInput[];
   /** Where a field path sits in study.yaml (for errors found after loading). */
   locate(path: ReadonlyArray<PropertyKey>): { line: number; col: number };
   /** sha256 of the study file's bytes. */

@@ -1,0 +1,120 @@
+import { createRequire } from "node:module";
+import { dirname, join } from "node:path";
+import { pathToFileURL } from "node:url";
+import { Worker } from "node:worker_threads";
+import type { CoverageJob } from "./coverage-job.ts";
+import { coverageUnits, createChunkRunner } from "./coverage-kernel.ts";
+import { mergeTallies, type TallyData } from "./coverage-tally.ts";
+import type { ToWorker } from "./coverage-worker.ts";
+
+/** Progress callback: units done of units total. */
+export type CoverageProgress = (done: number, total: number) => void;
+
+/**
+ * Worker threads for coverage jobs. Start it early (the threads load their code while the
+ * caller reads the terrain); `run` hands out chunks of a job — radials or rows — one at a
+ * time to whichever thread is free, so uneven chunks balance out. Elevations and results
+ * live in SharedArrayBuffers: the terrain is not copied per thread, and each cell is written
+ * by exactly one thread.
+ */
+export class CoveragePool {
+  private readonly workers: Worker[];
+  private readonly ready: Promise<void>[];
+  private failure: Error | null = null;
+
+  private constructor(count: number) {
+    const req = createRequire(import.meta.url);
+    // Each thread registers tsx itself (module hooks are not inherited by worker threads in Node 20).
+    const tsxApi = pathToFileURL(join(dirname(req.resolve("tsx/package.json")), "dist/esm/api/index.mjs")).href;
+    const entry = new URL("./coverage-worker.ts", import.meta.url).href;
+    const code = `import(${JSON.stringify(tsxApi)}).then(async (m) => { await m.register(); await import(${JSON.stringify(entry)}); });`;
+    this.workers = [];
+    this.ready = [];
+    for (let i = 0; i < count; i++) {
+      const w = new Worker(code, { eval: true });
+      this.workers.push(w);
+      this.ready.push(
+        new Promise<void>((resolve, reject) => {
+          w.once("message", () => resolve());
+          w.once("error", reject);
+        }),
+      );
+      w.on("error", (e) => (this.failure ??= e));
+    }
+  }
+
+  /** Start `count` threads (≥ 1). */
+  static start(count: number): CoveragePool {
+    return new CoveragePool(Math.max(1, Math.floor(count)));
+  }
+
+  get size(): number {
+    return this.workers.length;
+  }
+
+  /** Compute a job over every thread; resolves with the merged tally. */
+  async run(job: CoverageJob, onProgress?: CoverageProgress): Promise<TallyData> {
+    await Promise.all(this.ready);
+    const total = coverageUnits(job);
+    const chunk = Math.max(1, Math.ceil(total / (this.workers.length * 48)));
+    let next = 0;
+    let done = 0;
+    const tallies: TallyData[] = [];
+    await Promise.all(
+      this.workers.map(
+        (w) =>
+          new Promise<void>((resolve, reject) => {
+            const onError = (e: Error) => reject(e);
+            const onMessage = (m: { type: string; tally: TallyData; units: number }) => {
+              if (m.type !== "done") return;
+              tallies.push(m.tally);
+              done += m.units;
+              onProgress?.(done, total);
+              send();
+            };
+            const send = () => {
+              if (next >= total) {
+                w.off("message", onMessage);
+                w.off("error", onError);
+                resolve();
+                return;
+              }
+              const from = next;
+              const to = Math.min(total, from + chunk);
+              next = to;
+              w.postMessage({ type: "chunk", from, to } satisfies ToWorker);
+            };
+            w.on("message", onMessage);
+            w.on("error", onError);
+            w.postMessage({ type: "job", job } satisfies ToWorker);
+            send();
+          }),
+      ),
+    );
+    if (this.failure) throw this.failure;
+    return mergeTallies(tallies, job.thresholds_dbm.length);
+  }
+
+  /** Stop the threads. */
+  async close(): Promise<void> {
+    await Promise.all(this.workers.map((w) => w.terminate()));
+  }
+}
+
+/**
+ * Compute a job in the calling thread, chunk by chunk (small jobs, tests, or one core),
+ * yielding to the event loop between chunks so progress can be drawn.
+ */
+export async function runInThisThread(job: CoverageJob, onProgress?: CoverageProgress): Promise<TallyData> {
+  const runner = createChunkRunner(job);
+  const total = coverageUnits(job);
+  const chunk = Math.max(1, Math.ceil(total / 64));
+  const tallies: TallyData[] = [];
+  for (let from = 0; from < total; from += chunk) {
+    const to = Math.min(total, from + chunk);
+    tallies.push(runner.run(from, to));
+    onProgress?.(to, total);
+    if (onProgress) await new Promise((r) => setImmediate(r));
+  }
+  return mergeTallies(tallies, job.thresholds_dbm.length);
+}

@@ -1,0 +1,163 @@
+import { readFileSync } from "node:fs";
+import { availableParallelism } from "node:os";
+import { resolve } from "node:path";
+import { latLonArg, numberArg, parseArgs, UsageError } from "../args.ts";
+
+export const COVERAGE_USAGE = `Usage: ridgeline coverage --site LAT,LON --antenna-m H --receiver-m H --terrain PATH|constant:M
+         --radius-km R --resolution-m X --frequency-ghz F --method visibility|delta-bullington|hata
+         [--clearance-f1 F] [--k K] [--tx-power-dbm P] [--gain-dbi G] [--thresholds-dbm A,B,…]
+         [--pattern CSV] [--azimuth-deg A] [--threads N] [--json] --out FILE.tif
+  Writes one GeoTIFF on the terrain raster's own grid (a single GeoTIFF/.hgt/synthetic DEM, cropped
+  to the radius) or on a UTM grid of X m: float32 received level (dBm, nodata −9999) or, for
+  visibility, uint8 1 = visible, 0 = not (nodata 255).
+  --pattern: CSV "azimuth_deg,attenuation_db" from 0 to 360 (relative to --azimuth-deg).
+  --threads: worker threads (default: all cores; 0 computes in the main thread).`;
+
+const METHODS = ["visibility", "delta-bullington", "hata"] as const;
+
+/** `ridgeline coverage …`: one coverage raster without a study file. Exit 0 on success, 2 on bad input. */
+export async function coverageCommand(argv: string[]): Promise<number> {
+  if (argv.includes("--help")) {
+    process.stdout.write(`${COVERAGE_USAGE}\n`);
+    return 0;
+  }
+  const a = parseArgs(argv, {
+    values: ["site", "antenna-m", "receiver-m", "terrain", "radius-km", "resolution-m", "frequency-ghz", "method", "clearance-f1", "k", "tx-power-dbm", "gain-dbi", "thresholds-dbm", "pattern", "azimuth-deg", "threads", "out"],
+    flags: ["json"],
+  });
+  const v = (n: string) => a.values.get(n)?.[0];
+  if (a.positional.length) throw new UsageError(`unexpected argument "${a.positional[0]}".\n${COVERAGE_USAGE}`);
+  for (const req of ["site", "antenna-m", "receiver-m", "terrain", "radius-km", "resolution-m", "frequency-ghz", "method", "out"]) {
+    if (v(req) === undefined) throw new UsageError(`--${req} is required.\n${COVERAGE_USAGE}`);
+  }
+  const method = v("method") as (typeof METHODS)[number];
+  if (!METHODS.includes(method)) throw new UsageError(`--method: received "${v("method")}"; expected one of ${METHODS.join(", ")}.`);
+  const [lat, lon] = latLonArg("site", v("site"));
+  const num = (name: string, dflt: number | undefined, ok: (x: number) => boolean, what: string) => (v(name) === undefined ? dflt! : numberArg(name, v(name), ok, what));
+  const radius_km = num("radius-km", undefined, (x) => x > 0 && x <= 500, "a radius above 0 and up to 500 km");
+  const resolution_m = num("resolution-m", undefined, (x) => x > 0, "a cell size above 0 m");
+  const kText = (v("k") ?? "4/3").trim();
+  const k = kText === "inf" ? Infinity : /^\d+(\.\d+)?\/\d+(\.\d+)?$/.test(kText) ? Number(kText.split("/")[0]) / Number(kText.split("/")[1]) : Number(kText);
+  if (!(k > 0)) throw new UsageError(`--k: received "${v("k")}"; expected a positive number, a fraction such as 4/3, or inf.`);
+  const thresholds = (v("thresholds-dbm") ?? "").split(",").filter((s) => s.trim() !== "").map((s) => {
+    const x = Number(s);
+    if (!Number.isFinite(x)) throw new UsageError(`--thresholds-dbm: received "${v("thresholds-dbm")}"; expected levels in dBm separated by commas, e.g. -100,-90,-80.`);
+    return x;
+  });
+  const threads = num("threads", undefined as unknown as number, (x) => Number.isInteger(x) && x >= 0 && x <= 256, "a whole number of threads from 0 to 256");
+  const out = resolve(v("out")!);
+
+  // Heavy modules load only for this command.
+  const [{ prepareCoverage, runCoverage }, { CoveragePool }, { CoverageError }, { parseTerrainArg, openTerrain }, { TerrainError }, { writeGeoTiff }, { coverageResult }, { crsFromEpsg }] = await Promise.all([
+    import("../../analysis/coverage/compute-coverage.ts"),
+    import("../../analysis/coverage/coverage-pool.ts"),
+    import("../../analysis/coverage/coverage-error.ts"),
+    import("../../terrain/open-terrain.ts"),
+    import("../../terrain/terrain-error.ts"),
+    import("../../geo/geotiff-writer.ts"),
+    import("../../analysis/coverage/coverage-result.ts"),
+    import("../../terrain/crs-from-epsg.ts"),
+  ]);
+  const pattern = v("pattern") === undefined ? undefined : { azimuth_deg: num("azimuth-deg", 0, (x) => x >= 0 && x < 360, "an azimuth from 0 to below 360°"), horizontal: readPatternCsv(v("pattern")!) };
+  const request = {
+    site: { lat_deg: lat, lon_deg: lon },
+    method,
+    antenna_m: num("antenna-m", undefined, Number.isFinite, "a height above ground (m)"),
+    receiver_m: num("receiver-m", undefined, Number.isFinite, "a height above ground (m)"),
+    radius_m: radius_km * 1000,
+    resolution_m,
+    frequency_ghz: num("frequency-ghz", undefined, (x) => x > 0 && x <= 1000, "a frequency in GHz above 0 and up to 1000"),
+    k,
+    clearance_f1: num("clearance-f1", 0, (x) => x >= 0 && x <= 5, "a fraction of the first Fresnel radius from 0 to 5"),
+    tx_power_dbm: num("tx-power-dbm", 0, Number.isFinite, "a power in dBm"),
+    tx_losses_db: 0,
+    gain_dbi: num("gain-dbi", 0, Number.isFinite, "a gain in dBi"),
+    rx_gain_dbi: 0,
+    rx_losses_db: 0,
+    pattern,
+    thresholds_dbm: thresholds,
+    polarization: "v" as const,
+    ground: "medium-dry-ground" as const,
+    atmosphere: { pressure_hpa: 1013.25, temperature_c: 15, water_vapour_g_m3: 7.5 },
+    hata: { environment: "urban" as const, city_size: "small-medium" as const },
+  };
+  const names = {
+    radius_m: "--radius-km",
+    resolution_m: "--resolution-m",
+    frequency_ghz: "--frequency-ghz",
+    antenna_m: "--antenna-m",
+    receiver_m: "--receiver-m",
+    thresholds_dbm: "--thresholds-dbm",
+    k: "--k",
+    clearance_f1: "--clearance-f1",
+    site: "--site",
+  };
+  // Threads load their code while the terrain is read; small requests stay in this thread.
+  const estimate = ((2 * request.radius_m) / resolution_m) ** 2;
+  const nThreads = threads ?? (estimate < 2e6 ? 0 : availableParallelism());
+  const pool = nThreads > 0 ? CoveragePool.start(nThreads) : null;
+  try {
+    let prepared;
+    try {
+      // The terrain is only needed to fill the grid's elevations; it is let go before the
+      // result is allocated, so its raster and the result are not in memory together.
+      const terrain = await openTerrain(parseTerrainArg(v("terrain")!), process.cwd());
+      prepared = prepareCoverage(terrain, request, { names, patternField: "--pattern" });
+    } catch (e) {
+      if (e instanceof TerrainError) throw new UsageError(`--terrain: ${e.message}`);
+      if (e instanceof CoverageError) throw new UsageError(e.field.startsWith("--") || e.message.startsWith("--") ? e.message : `--${e.field.replace(/_/g, "-")}: ${e.message}`);
+      throw e;
+    }
+    const progress = (await import("../progress.ts")).progressReporter("coverage");
+    let computed;
+    try {
+      computed = await runCoverage(prepared, { pool, onProgress: (phase, d, t) => phase === "compute" && progress.update(d, t) });
+    } finally {
+      progress.stop();
+    }
+    const g = computed.grid;
+    const isLevel = method !== "visibility";
+    const t0 = performance.now();
+    writeGeoTiff(out, {
+      width: g.width,
+      height: g.height,
+      data: computed.values,
+      geoTransform: g.geoTransform,
+      epsg: g.epsg,
+      nodata: isLevel ? -9999 : 255,
+      description: isLevel ? "received level" : "radio line of sight (1 visible, 0 not)",
+      unit: isLevel ? "dBm" : "",
+    });
+    const write_s = (performance.now() - t0) / 1000;
+    const result = coverageResult("coverage", ["site"], computed, { geotiff: out });
+    for (const w of computed.warnings) process.stderr.write(`warning: ${w}\n`);
+    process.stderr.write(
+      `Wrote ${out}: ${g.width}×${g.height} cells, ${crsFromEpsg(g.epsg)?.name}; ${(computed.tally.cells / 1e6).toFixed(2)} M cells inside ${radius_km} km ` +
+        `(terrain ${computed.timing.terrain_s.toFixed(2)} s, compute ${computed.timing.compute_s.toFixed(2)} s on ${computed.timing.threads} thread${computed.timing.threads === 1 ? "" : "s"}, write ${write_s.toFixed(2)} s)` +
+        `${result.thresholds.length ? `; ${result.thresholds.map((t) => `${t.label} ${t.pct.toFixed(1)} %`).join(", ")}` : ""}.\n`,
+    );
+    if (a.flags.has("json")) process.stdout.write(`${JSON.stringify(result, null, 2)}\n`);
+    return 0;
+  } finally {
+    await pool?.close();
+  }
+}
+
+/** A horizontal pattern from a CSV of azimuth_deg,attenuation_db (header optional). */
+function readPatternCsv(path: string): [number, number][] {
+  let text: string;
+  try {
+    text = readFileSync(path, "utf8");
+  } catch (e) {
+    throw new UsageError(`--pattern: ${path} could not be read (${(e as NodeJS.ErrnoException).code ?? (e as Error).message}); give a CSV of azimuth_deg,attenuation_db.`);
+  }
+  const rows: [number, number][] = [];
+  text.split(/\r?\n/).forEach((line, i) => {
+    const t = line.trim();
+    if (t === "" || t.startsWith("#") || (i === 0 && /[a-z]/i.test(t))) return;
+    const [a, b] = t.split(",").map(Number);
+    if (!Number.isFinite(a) || !Number.isFinite(b)) throw new UsageError(`--pattern: ${path}:${i + 1}: received "${t}"; expected azimuth_deg,attenuation_db.`);
+    rows.push([a, b]);
+  });
+  return rows;
+}

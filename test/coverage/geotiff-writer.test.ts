@@ -1,0 +1,67 @@
+import { execFileSync } from "node:child_process";
+import { mkdtempSync, rmSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import { afterAll, describe, expect, it } from "vitest";
+import { writeGeoTiff, type GeoTiffRaster } from "../../src/geo/geotiff-writer.ts";
+import { mulberry32 } from "../../src/terrain/mulberry32.ts";
+import { expectClose } from "../helpers/expect-close.ts";
+
+// Reference: GDAL 3.6 reading the files we write — `gdalinfo -json` for size, georeferencing,
+// CRS, type, nodata, description and unit, `gdallocationinfo -valonly` for pixel values.
+
+const dir = mkdtempSync(join(tmpdir(), "ridgeline-geotiff-writer-"));
+afterAll(() => rmSync(dir, { recursive: true, force: true }));
+
+function gdalinfo(path: string): any {
+  return JSON.parse(execFileSync("gdalinfo", ["-json", path]).toString());
+}
+
+/** Pixel values at (col, row) pairs, one gdallocationinfo call. */
+function gdalValues(path: string, pts: [number, number][]): number[] {
+  const out = execFileSync("gdallocationinfo", ["-valonly", path], { input: pts.map(([c, r]) => `${c} ${r}`).join("\n") }).toString();
+  return out.trim().split(/\s+/).map(Number);
+}
+
+const cases: { name: string; raster: GeoTiffRaster; epsgText: string; type: string }[] = (() => {
+  const rnd = mulberry32(3);
+  const W = 257;
+  const H = 131;
+  const f32 = new Float32Array(W * H).map((_, i) => (i % 11 === 0 ? -9999 : -140 + 100 * rnd()));
+  const u8 = new Uint8Array(W * H).map((_, i) => (i % 13 === 0 ? 255 : rnd() < 0.5 ? 1 : 0));
+  const i16 = new Int16Array(W * H).map(() => Math.round(-400 + 5000 * rnd()));
+  return [
+    { name: "float32 received level, UTM 32N, uncompressed", epsgText: '"EPSG",32632', type: "Float32", raster: { width: W, height: H, data: f32, geoTransform: [412000, 30, 0, 5_030_000, 0, -30], epsg: 32632, nodata: -9999, description: "received level", unit: "dBm" } },
+    { name: "uint8 visibility, EPSG:4326, deflate", epsgText: '"EPSG",4326', type: "Byte", raster: { width: W, height: H, data: u8, geoTransform: [7.25, 1 / 3600, 0, 46.5, 0, -1 / 3600], epsg: 4326, nodata: 255, compression: "deflate" } },
+    { name: "int16 heights, UTM 33S, deflate", epsgText: '"EPSG",32733', type: "Int16", raster: { width: W, height: H, data: i16, geoTransform: [300000, 90, 0, 8_000_000, 0, -90], epsg: 32733, nodata: -32768, compression: "deflate" } },
+  ];
+})();
+
+describe("GeoTIFF writer: GDAL reads what we write", () => {
+  it.each(cases)("$name", ({ raster, epsgText, type }) => {
+    const path = join(dir, `${type}.tif`);
+    writeGeoTiff(path, raster);
+    const info = gdalinfo(path);
+    expect(info.size).toEqual([raster.width, raster.height]);
+    info.geoTransform.forEach((v: number, i: number) => expectClose(v, raster.geoTransform[i], { abs: 1e-12, rel: 1e-15 }, `geoTransform[${i}]`));
+    expect(info.coordinateSystem.wkt).toContain(epsgText);
+    expect(info.metadata[""].AREA_OR_POINT).toBe("Area");
+    const band = info.bands[0];
+    expect(band.type).toBe(type);
+    expect(band.noDataValue).toBe(raster.nodata);
+    if (raster.description) expect(band.description).toBe(raster.description);
+    if (raster.unit) expect(band.unit).toBe(raster.unit);
+    const rnd = mulberry32(9);
+    const pts: [number, number][] = [[0, 0], [raster.width - 1, raster.height - 1], [raster.width - 1, 0], [0, raster.height - 1]];
+    for (let i = 0; i < 60; i++) pts.push([Math.floor(rnd() * raster.width), Math.floor(rnd() * raster.height)]);
+    const got = gdalValues(path, pts);
+    // gdallocationinfo prints 15 significant digits: float32 values compare to 1e-12 relative
+    pts.forEach(([c, r], i) => expectClose(got[i], raster.data[r * raster.width + c], { abs: 0, rel: 1e-12 }, `pixel ${c},${r}`));
+  });
+
+  it("a failed write leaves no file under the target name", () => {
+    const path = join(dir, "bad.tif");
+    expect(() => writeGeoTiff(path, { ...cases[0].raster, width: 10 })).toThrow(RangeError);
+    expect(() => execFileSync("gdalinfo", [path], { stdio: "ignore" })).toThrow();
+  });
+});
