@@ -1,5 +1,5 @@
-import { existsSync, renameSync, rmSync } from "node:fs";
-import { resolve } from "node:path";
+import { cpSync, existsSync, renameSync, rmSync } from "node:fs";
+import { join, resolve } from "node:path";
 import Eleventy from "@11ty/eleventy";
 import type { AnalyzedStudy } from "../analysis/analyze-study.ts";
 import { setAnalyzedStudies } from "../site/site-data.ts";
@@ -28,6 +28,9 @@ export async function buildSite(studies: AnalyzedStudy[], options: { outDir?: st
     rmSync(tmp, { recursive: true, force: true });
     throw e;
   }
+  // Keep the changes page that `ridgeline diff` wrote into the previous site.
+  const changes = join(outDir, "changes");
+  if (existsSync(changes) && !existsSync(join(tmp, "changes"))) cpSync(changes, join(tmp, "changes"), { recursive: true });
   if (existsSync(outDir)) renameSync(outDir, old);
   renameSync(tmp, outDir);
   rmSync(old, { recursive: true, force: true });

@@ -1,6 +1,7 @@
 import { existsSync, readdirSync } from "node:fs";
 import { join, resolve } from "node:path";
-import { analyzeStudy, type AnalyzedStudy } from "../analysis/analyze-study.ts";
+import { analyzeStudies, type AnalyzedStudy } from "../analysis/analyze-study.ts";
+import { DEFAULT_CACHE_DIR, ResultCache } from "../cache/result-cache.ts";
 import { InputError, type InputProblem } from "../study/input-error.ts";
 import { loadStudy } from "../study/load-study.ts";
 import type { Study } from "../study/study.ts";
@@ -40,19 +41,14 @@ export function loadStudies(files: string[]): Study[] {
   return studies;
 }
 
-/** Load and analyse the studies under `root` (all, or those named). */
-export async function loadAllStudies(root: string, options: { ids?: string[]; onProgress?: (study: string, done: number, total: number) => void } = {}): Promise<AnalyzedStudy[]> {
-  const studies = loadStudies(findStudies(root, options.ids));
-  const out: AnalyzedStudy[] = [];
-  const problems: InputProblem[] = [];
-  for (const s of studies) {
-    try {
-      out.push(await analyzeStudy(s, { onProgress: (d, t) => options.onProgress?.(s.id, d, t) }));
-    } catch (e) {
-      if (e instanceof InputError) problems.push(...e.problems);
-      else throw e;
-    }
-  }
-  if (problems.length) throw new InputError(problems);
-  return out;
+/**
+ * Load and analyse the studies under `root` (all, or those named), through the result cache
+ * unless `cache` is null.
+ */
+export async function loadAllStudies(
+  root: string,
+  options: { ids?: string[]; cache?: ResultCache | null; onProgress?: (study: string, done: number, total: number) => void } = {},
+): Promise<AnalyzedStudy[]> {
+  const cache = options.cache === undefined ? new ResultCache(DEFAULT_CACHE_DIR) : options.cache;
+  return analyzeStudies(loadStudies(findStudies(root, options.ids)), { cache, onProgress: options.onProgress });
 }

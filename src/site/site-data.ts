@@ -34,7 +34,7 @@ function handover(): Handover {
 /** Hand the analysed studies to the site before Eleventy runs (the CLI does this). */
 export function setAnalyzedStudies(studies: AnalyzedStudy[], pathPrefix = "/"): void {
   const h = handover();
-  h.analyzed = [...studies].sort((a, b) => a.study.id.localeCompare(b.study.id));
+  h.analyzed = [...studies].sort((a, b) => (a.study.id < b.study.id ? -1 : a.study.id > b.study.id ? 1 : 0));
   h.prefix = pathPrefix;
 }
 

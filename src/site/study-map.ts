@@ -32,9 +32,15 @@ async function drawMap(s: AnalyzedStudy): Promise<string> {
   const MAP_H = mapHeightFor(sites, MAP_W, 56, [440, 720]);
   const projection = fitMapProjection(sites, MAP_W, MAP_H, 56);
   let backdrop: MapBackdrop | undefined;
-  const terrain = await s.openTerrain();
-  if (terrain.kind !== "constant") {
-    const grid = projectedElevationGrid((lat, lon) => terrain.elevation(lat, lon), projection, MAP_W, MAP_H, SHADE_STEP_PX);
+  if (!("constant_m" in s.study.terrain)) {
+    // The relief grid only depends on the terrain and the map frame: keep it in the result
+    // cache so that a rebuild with unchanged sites does not open the terrain at all.
+    const modules = [import.meta.url, new URL("../render/raster/projected-grid.ts", import.meta.url).href, new URL("../render/svg/map-projection.ts", import.meta.url).href];
+    const stored = await s.remember("study-map-relief", { sites, MAP_W, MAP_H, SHADE_STEP_PX }, modules, (terrain) => {
+      const g = projectedElevationGrid((lat, lon) => terrain.elevation(lat, lon), projection, MAP_W, MAP_H, SHADE_STEP_PX);
+      return { ...g, z: Array.from(g.z, (v) => (Number.isFinite(v) ? v : null)) };
+    });
+    const grid = { ...stored, z: Float64Array.from(stored.z, (v) => (v === null ? NaN : v)) };
     const { shade, valid } = hillshade(grid.z, grid.width, grid.height, { dx_m: grid.dx_m, dy_m: grid.dy_m, azimuth_deg: 315, altitude_deg: 45 });
     let lo = Infinity;
     let hi = -Infinity;
