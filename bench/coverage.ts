@@ -134,7 +134,7 @@ export async function benchCoverage(options: CoverageBenchOptions = {}): Promise
     const summary = /(\d+\.\d+) M cells inside .*compute (\d+\.\d+) s on (\d+) thread/.exec(db.stderr);
     const cells = summary ? Number(summary[1]) * 1e6 : NaN;
     const compute_s = summary ? Number(summary[2]) : NaN;
-    const visSummary = /terrain (\d+\.\d+) s, compute (\d+\.\d+) s on (\d+) thread.*write (\d+\.\d+) s/.exec(ours[ours.length - 1].stderr);
+    const visSummary = /read terrain (\d+\.\d+) s, grid elevations (\d+\.\d+) s, compute (\d+\.\d+) s on (\d+) thread.*write (\d+\.\d+) s/.exec(ours[ours.length - 1].stderr);
     return {
       dem: { cells: n * n, size: `${n} × ${n}`, cell_m: res, crs: "EPSG:32632", type: "Int16 GeoTIFF", generate_s: r3(generate_s) },
       radius_km,
@@ -148,7 +148,7 @@ export async function benchCoverage(options: CoverageBenchOptions = {}): Promise
         ratio: r3(visOurs / visGdal),
         target_ratio: 1.5,
         target_met: visOurs / visGdal <= 1.5,
-        ridgeline_phases_s: visSummary ? { terrain_window: Number(visSummary[1]), compute: Number(visSummary[2]), write: Number(visSummary[4]) } : null,
+        ridgeline_phases_s: visSummary ? { read_terrain: Number(visSummary[1]), grid_elevations: Number(visSummary[2]), compute: Number(visSummary[3]), write: Number(visSummary[5]) } : null,
         ridgeline_max_rss_mib: Math.round(Math.max(...ours.map((r) => r.max_rss_mib))),
         gdal_viewshed_max_rss_mib: Math.round(Math.max(...gdal.map((r) => r.max_rss_mib))),
         cells_agreeing_with_gdal_pct: r3(100 * agree),

@@ -98,6 +98,9 @@ export function planCoverageGrid(
     const col1 = Math.min(raster.width - 1, Math.max(ca, cb));
     row0 = Math.max(0, Math.min(ra, rb));
     const row1 = Math.min(raster.height - 1, Math.max(ra, rb));
+    if (col0 > Math.min(ca, cb) + 1 || row0 > Math.min(ra, rb) + 1 || col1 < Math.max(ca, cb) - 1 || row1 < Math.max(ra, rb) - 1) {
+      warnings.push("The terrain raster covers only part of the coverage circle; the coverage stops at its edge.");
+    }
     width = col1 - col0 + 1;
     height = row1 - row0 + 1;
     checkCells(width, height, maxCells, `the terrain raster's own grid (${fmtCell(raster.geoTransform, crs)} cells)`);

@@ -1,17 +1,18 @@
 import type { Terrain } from "../../terrain/terrain.ts";
 import { cellCentreLatLon, type CoverageGrid } from "./coverage-grid.ts";
 
-/** Spacing (cells) of the exactly projected nodes between which cell positions are interpolated. */
-const MESH = 32;
+/** Spacing (m, about) of the exactly projected nodes between which cell positions are interpolated. */
+const MESH_M = 500;
 
 /**
  * The elevations of a coverage grid in a SharedArrayBuffer (Float32, row-major, NaN nodata),
  * read from the terrain once and shared by every worker thread.
  * - Raster source: a copy of the window of the terrain's own raster (no resampling).
  * - Otherwise: each cell centre is converted to latitude/longitude and the terrain sampled
- *   there (bilinear, as for a link profile). Positions are projected exactly every MESH cells
- *   in both directions and interpolated bilinearly in between; the projection is smooth, so
- *   the interpolation error is far below a centimetre (test/coverage/coverage-grid.test.ts).
+ *   there (bilinear, as for a link profile). Positions are projected exactly about every
+ *   500 m in both directions and interpolated bilinearly in between: the error is bounded by
+ *   L²/8 times the curvature of the inverse projection (about tan(lat)/R² for UTM), 0.5 cm
+ *   for L = 500 m at 46°N (test/coverage/coverage-grid.test.ts).
  * @param onRow optional progress callback (rows done, rows)
  */
 export function elevationWindow(terrain: Terrain, grid: CoverageGrid, onRow?: (done: number, total: number) => void): Float32Array {
@@ -45,11 +46,13 @@ export function elevationWindow(terrain: Terrain, grid: CoverageGrid, onRow?: (d
 }
 
 /**
- * Latitude/longitude of the cell centres of a grid, exact at every MESH-th row and column and
- * interpolated bilinearly in between. `row(r, lat, lon)` fills one row.
+ * Latitude/longitude of the cell centres of a grid, exact at every MESH-th row and column
+ * (MESH cells ≈ 500 m) and interpolated bilinearly in between. `row(r, lat, lon)` fills one row.
  */
 export function latLonMesh(grid: Pick<CoverageGrid, "epsg" | "geoTransform" | "width" | "height">): { row(r: number, lat: Float64Array, lon: Float64Array): void } {
   const { width: W, height: H } = grid;
+  const cellM = grid.epsg === 4326 ? Math.abs(grid.geoTransform[1]) * 111_000 : Math.abs(grid.geoTransform[1]);
+  const MESH = Math.max(1, Math.round(MESH_M / cellM));
   const nc = Math.ceil((W - 1) / MESH) + 1;
   const nr = Math.ceil((H - 1) / MESH) + 1;
   const mLat = new Float64Array(nc * nr);

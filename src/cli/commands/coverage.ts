@@ -98,10 +98,13 @@ export async function coverageCommand(argv: string[]): Promise<number> {
   const pool = nThreads > 0 ? CoveragePool.start(nThreads) : null;
   try {
     let prepared;
+    let open_s = 0;
     try {
       // The terrain is only needed to fill the grid's elevations; it is let go before the
       // result is allocated, so its raster and the result are not in memory together.
+      const tOpen = performance.now();
       const terrain = await openTerrain(parseTerrainArg(v("terrain")!), process.cwd());
+      open_s = (performance.now() - tOpen) / 1000;
       prepared = prepareCoverage(terrain, request, { names, patternField: "--pattern" });
     } catch (e) {
       if (e instanceof TerrainError) throw new UsageError(`--terrain: ${e.message}`);
@@ -129,11 +132,11 @@ export async function coverageCommand(argv: string[]): Promise<number> {
       unit: isLevel ? "dBm" : "",
     });
     const write_s = (performance.now() - t0) / 1000;
-    const result = coverageResult("coverage", ["site"], computed, { geotiff: out });
+    const result = coverageResult("coverage", [`${lat},${lon}`], computed, { geotiff: out });
     for (const w of computed.warnings) process.stderr.write(`warning: ${w}\n`);
     process.stderr.write(
       `Wrote ${out}: ${g.width}×${g.height} cells, ${crsFromEpsg(g.epsg)?.name}; ${(computed.tally.cells / 1e6).toFixed(2)} M cells inside ${radius_km} km ` +
-        `(terrain ${computed.timing.terrain_s.toFixed(2)} s, compute ${computed.timing.compute_s.toFixed(2)} s on ${computed.timing.threads} thread${computed.timing.threads === 1 ? "" : "s"}, write ${write_s.toFixed(2)} s)` +
+        `(read terrain ${open_s.toFixed(2)} s, grid elevations ${computed.timing.terrain_s.toFixed(2)} s, compute ${computed.timing.compute_s.toFixed(2)} s on ${computed.timing.threads} thread${computed.timing.threads === 1 ? "" : "s"}, write ${write_s.toFixed(2)} s)` +
         `${result.thresholds.length ? `; ${result.thresholds.map((t) => `${t.label} ${t.pct.toFixed(1)} %`).join(", ")}` : ""}.\n`,
     );
     if (a.flags.has("json")) process.stdout.write(`${JSON.stringify(result, null, 2)}\n`);
