@@ -1,6 +1,8 @@
 import { readFileSync } from "node:fs";
 import { availableParallelism } from "node:os";
 import { resolve } from "node:path";
+import { setFlagsFromString } from "node:v8";
+import { runInNewContext } from "node:vm";
 import { latLonArg, numberArg, parseArgs, UsageError } from "../args.ts";
 
 export const COVERAGE_USAGE = `Usage: ridgeline coverage --site LAT,LON --antenna-m H --receiver-m H --terrain PATH|constant:M
@@ -105,12 +107,14 @@ export async function coverageCommand(argv: string[]): Promise<number> {
       const tOpen = performance.now();
       const terrain = await openTerrain(parseTerrainArg(v("terrain")!), process.cwd());
       open_s = (performance.now() - tOpen) / 1000;
+      collectGarbage(); // the reader's file bytes and decoding buffers
       prepared = prepareCoverage(terrain, request, { names, patternField: "--pattern" });
     } catch (e) {
       if (e instanceof TerrainError) throw new UsageError(`--terrain: ${e.message}`);
       if (e instanceof CoverageError) throw new UsageError(e.field.startsWith("--") || e.message.startsWith("--") ? e.message : `--${e.field.replace(/_/g, "-")}: ${e.message}`);
       throw e;
     }
+    collectGarbage(); // the terrain's own raster, now copied into the grid
     const progress = (await import("../progress.ts")).progressReporter("coverage");
     let computed;
     try {
@@ -143,6 +147,22 @@ export async function coverageCommand(argv: string[]): Promise<number> {
     return 0;
   } finally {
     await pool?.close();
+  }
+}
+
+/**
+ * Run a full garbage collection now. Large typed arrays are freed by the collector, which the
+ * engine does not hurry for memory held outside its heap; here the terrain reader's buffers
+ * (file bytes, decoded band) and then the terrain's raster would otherwise stay resident while
+ * the result is allocated, raising the peak memory by their size. Best effort: without the
+ * V8 hook this does nothing.
+ */
+function collectGarbage(): void {
+  try {
+    setFlagsFromString("--expose-gc");
+    (runInNewContext("gc") as () => void)();
+  } catch {
+    // not available: leave it to the engine
   }
 }
 
