@@ -3,7 +3,7 @@ import { extname, isAbsolute, relative, resolve } from "node:path";
 import { ConstantTerrain } from "./constant.ts";
 import { openGeoTiff } from "./geotiff.ts";
 import { openHgt } from "./hgt.ts";
-import { syntheticTerrain } from "./synthetic.ts";
+import { syntheticTerrain, type SyntheticTerrainParams } from "./synthetic.ts";
 import type { Terrain } from "./terrain.ts";
 import { TerrainError } from "./terrain-error.ts";
 
@@ -11,15 +11,7 @@ import { TerrainError } from "./terrain-error.ts";
 export type TerrainSpec =
   | { kind: "file"; path: string }
   | { kind: "constant"; height_m: number }
-  | {
-      kind: "synthetic";
-      seed: number;
-      south_deg: number;
-      west_deg: number;
-      north_deg: number;
-      east_deg: number;
-      spacing_arcsec?: number;
-    };
+  | ({ kind: "synthetic" } & SyntheticTerrainParams);
 
 /**
  * Open the terrain a spec names. A file path is resolved against `baseDir` (the study's
