@@ -3,6 +3,12 @@ import { mkdirSync, mkdtempSync, rmSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { parse as parseYaml } from "yaml";
+import { analyzeCoverage } from "../../src/analysis/coverage/analyze-coverage.ts";
+import { InputError } from "../../src/study/input-error.ts";
+import { loadStudy } from "../../src/study/load-study.ts";
+import { studySchema } from "../../src/study/schema.ts";
+import { ConstantTerrain } from "../../src/terrain/constant.ts";
 import { cellLatLon, runCli, writeUtmDem } from "./coverage-fixtures.ts";
 
 // Bad coverage input must end in a clear message and exit code 2, never a stack trace,
@@ -97,6 +103,25 @@ coverage:
 ${coverage}`;
 
 describe("study coverage entries: bad input → exit 2 naming file, line and field", () => {
+  it.each([
+    ["a request over 200 M cells", "    resolution_m: 0.5\n", /coverage\[0\]\.radius_km \(cov-a\)\n {4}received a request of \d+ × \d+ = \d+\.\d M cells on a 0.5 m grid; expected at most 200 M cells; reduce the radius/],
+    ["a site that is not in sites", "    site: Z\n", /coverage\[0\]\.site \(cov-a\)\n {4}received "Z"; expected the id of a site in sites \(A\)/],
+  ])("when computed: %s", async (_name, yaml, message) => {
+    const file = join(dir, `computed-${Math.random().toString(36).slice(2)}`, "study.yaml");
+    mkdirSync(join(file, ".."), { recursive: true });
+    const text = STUDY(yaml).replace(/\n {4}site: A\n(?=[\s\S]*\n {4}site: Z)/, "\n");
+    writeFileSync(file, text);
+    const study = loadStudy(file);
+    study.coverage = studySchema.parse(parseYaml(text)).coverage;
+    const err = await analyzeCoverage(study, study.coverage[0], new ConstantTerrain(50), { outDir: join(dir, "never"), index: 0 }).then(
+      () => null,
+      (e) => e,
+    );
+    expect(err).toBeInstanceOf(InputError);
+    expect(err.message).toMatch(message);
+    expect(err.message).toMatch(/study\.yaml:\d+:\d+/);
+  });
+
   it.each([
     ["unsorted thresholds", "    thresholds: [-80, -100]\n", /study\.yaml:\d+:\d+ {2}coverage\[0\]\.thresholds\n {4}received \[-80,-100\]; expected levels in strictly ascending order, e\.g\. \[-100, -90, -80\]/],
     [

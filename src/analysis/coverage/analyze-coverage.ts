@@ -48,7 +48,10 @@ export interface AnalyzedCoverage {
 /** The computation request of a study's coverage entry (SI units, thresholds in dBm). */
 export function coverageRequestOf(study: Study, entry: CoverageInput): CoverageRequest {
   const site = study.sites.find((s) => s.id === entry.site);
-  if (!site) throw new CoverageError(`site: "${entry.site}" is not the id of a site in sites (${study.sites.map((s) => s.id).join(", ")})`, "site");
+  if (!site) {
+    const expected = `the id of a site in sites (${study.sites.map((s) => s.id).join(", ")})`;
+    throw new CoverageError(`site: "${entry.site}" is not ${expected}`, "site", { received: `"${entry.site}"`, expected });
+  }
   const rxNet = entry.receiver_gain_dbi - entry.receiver_losses_db;
   const thresholds_dbm = entry.threshold_unit === "dBuV/m" ? entry.thresholds.map((e) => isotropicPowerDbm(e, entry.frequency_ghz) + rxNet) : [...entry.thresholds];
   return {
@@ -95,7 +98,18 @@ export async function analyzeCoverage(study: Study, entry: CoverageInput, terrai
     if (e instanceof CoverageError) {
       const field = e.field.split(".")[0];
       const path = ["coverage", i, ...(field in entry ? [field] : [])];
-      throw new InputError([{ file: study.file, ...study.locate(path), field: `coverage[${i}]${field in entry ? `.${field}` : ""} (${entry.id})`, received: "the values given", expected: e.message }], { cause: e });
+      throw new InputError(
+        [
+          {
+            file: study.file,
+            ...study.locate(path),
+            field: `coverage[${i}]${field in entry ? `.${e.field}` : ""} (${entry.id})`,
+            received: e.detail.received ?? "this coverage",
+            expected: e.detail.expected ?? e.message,
+          },
+        ],
+        { cause: e },
+      );
     }
     throw e;
   }

@@ -43,7 +43,7 @@ export function buildPatternTables(p: AntennaPatternInput | undefined, field: st
 
 function dense(rows: [number, number][], lo: number, hi: number, steps: number, field: string, what: string): Float32Array {
   const problem = patternTableProblem(rows, lo, hi);
-  if (problem) throw new CoverageError(`${field}: the ${what} pattern needs ${problem}`, field);
+  if (problem) throw new CoverageError(`${field}: the ${what} pattern needs ${problem}`, field, { received: JSON.stringify(rows).slice(0, 80), expected: problem });
   const out = new Float32Array(what === "azimuth" ? steps : steps + 1);
   let j = 0;
   for (let i = 0; i < out.length; i++) {

@@ -10,6 +10,8 @@ export class CoverageError extends RidgelineError {
   constructor(
     message: string,
     readonly field: string,
+    /** the value received and what would be accepted, when the message is of that form */
+    readonly detail: { received?: string; expected?: string } = {},
     options?: { cause?: unknown },
   ) {
     super(message, options);

@@ -63,7 +63,7 @@ export function planCoverageGrid(
   const maxCells = options.maxCells ?? MAX_COVERAGE_CELLS;
   const warnings: string[] = [];
   const why = terrain.whyOutside(site.lat_deg, site.lon_deg);
-  if (why !== null) throw new CoverageError(`the site is not on the terrain: ${why}`, "site");
+  if (why !== null) throw new CoverageError(`the site is not on the terrain: ${why}`, "site", { received: `${site.lat_deg}, ${site.lon_deg}`, expected: `a site on the terrain: ${why}` });
   const raster = terrain.raster;
   let epsg: number;
   let gt: CoverageGrid["geoTransform"];
@@ -195,10 +195,11 @@ function gridBearingOfTrueNorth(crs: Crs, lat_deg: number, lon_deg: number): num
 function checkCells(width: number, height: number, maxCells: number, what: string): void {
   const cells = width * height;
   if (!(cells <= maxCells)) {
-    throw new CoverageError(
-      `the coverage needs ${width} × ${height} = ${(cells / 1e6).toFixed(1)} M cells on ${what}, more than the limit of ${maxCells / 1e6} M; reduce the radius or coarsen the resolution (cells grow with (2·radius/resolution)²)`,
-      "radius_km",
-    );
+    const expected = `at most ${maxCells / 1e6} M cells; reduce the radius or coarsen the resolution (cells grow with (2·radius/resolution)²)`;
+    throw new CoverageError(`the coverage needs ${width} × ${height} = ${(cells / 1e6).toFixed(1)} M cells on ${what}, more than the limit of ${maxCells / 1e6} M; reduce the radius or coarsen the resolution (cells grow with (2·radius/resolution)²)`, "radius_km", {
+      received: `a request of ${width} × ${height} = ${(cells / 1e6).toFixed(1)} M cells on ${what}`,
+      expected,
+    });
   }
 }
 

@@ -48,7 +48,7 @@ export type FieldNames = Partial<Record<keyof CoverageRequest | "site", string>>
 export function validateCoverageRequest(req: CoverageRequest, names: FieldNames = {}, patternField = "pattern"): PatternTables {
   const name = (k: keyof CoverageRequest) => names[k] ?? k;
   const need = (ok: boolean, k: keyof CoverageRequest, received: unknown, expected: string) => {
-    if (!ok) throw new CoverageError(`${name(k)}: received ${String(received)}; expected ${expected}`, name(k));
+    if (!ok) throw new CoverageError(`${name(k)}: received ${String(received)}; expected ${expected}`, name(k), { received: String(received), expected });
   };
   need(req.radius_m > 0 && req.radius_m <= 500_000, "radius_m", req.radius_m / 1000, "a radius above 0 and up to 500 km");
   need(req.resolution_m > 0 && Number.isFinite(req.resolution_m), "resolution_m", req.resolution_m, "a cell size above 0 m");
@@ -64,10 +64,8 @@ export function validateCoverageRequest(req: CoverageRequest, names: FieldNames 
   for (let i = 0; i < t.length; i++) {
     need(Number.isFinite(t[i]), "thresholds_dbm", `[${t.join(", ")}]`, "finite levels");
     if (i > 0 && !(t[i] > t[i - 1])) {
-      throw new CoverageError(
-        `${name("thresholds_dbm")}: received [${t.join(", ")}]; expected levels in strictly ascending order (entry ${i}, ${t[i]}, is not above ${t[i - 1]}), e.g. [${[...t].sort((a, b) => a - b).join(", ")}]`,
-        name("thresholds_dbm"),
-      );
+      const expected = `levels in strictly ascending order (entry ${i}, ${t[i]}, is not above ${t[i - 1]}), e.g. [${[...t].sort((a, b) => a - b).join(", ")}]`;
+      throw new CoverageError(`${name("thresholds_dbm")}: received [${t.join(", ")}]; expected ${expected}`, name("thresholds_dbm"), { received: `[${t.join(", ")}]`, expected });
     }
   }
   return buildPatternTables(req.pattern, patternField);
