@@ -1,6 +1,7 @@
 import { createHash } from "node:crypto";
-import { readFileSync } from "node:fs";
-import { resolve } from "node:path";
+import { mkdtempSync, readFileSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join, resolve } from "node:path";
 import { linkKeyer, terrainFactsKey, toolIdentity } from "../cache/cache-keys.ts";
 import { canonicalJson } from "../cache/canonical-json.ts";
 import { modulesFingerprint } from "../cache/code-fingerprint.ts";
@@ -15,6 +16,7 @@ import { TerrainError } from "../terrain/terrain-error.ts";
 import { ProfileCsvError } from "../terrain/profile-csv-error.ts";
 import { analyzeLink, siteGroundM, type LinkFigureData } from "./analyze-link.ts";
 import { chainResults } from "./chains.ts";
+import { analyzeStudyCoverage } from "./coverage/analyze-coverage.ts";
 import { gitStateAsync, TOOL_VERSION } from "./provenance.ts";
 import type { LinkResult, StudyResult } from "./results.ts";
 import { sanitizeNumbers } from "./sanitize.ts";
@@ -29,6 +31,8 @@ export interface AnalyzedStudy {
   openTerrain(): Promise<Terrain>;
   /** Links whose result and figure data came from the cache, and links computed. */
   cache: { hits: number; misses: number };
+  /** The study's coverage maps: page figures and the folder holding their files; null without coverage. */
+  coverage: StudyCoverage | null;
   /**
    * A value computed from the study's terrain and `inputs` (e.g. a shaded-relief grid for a
    * map), kept in the build's cache when there is one, so that a hit does not open the
@@ -44,6 +48,14 @@ export interface AnalyzeOptions {
   onProgress?: (done: number, total: number) => void;
   /** Look results up here and store what is computed; null or absent: compute everything. */
   cache?: ResultCache | null;
+}
+
+/** Coverage maps of a study: the folder their files were written to, and each map's SVG. */
+export interface StudyCoverage {
+  /** Folder holding every coverage file (GeoTIFF, PNG, GeoJSON, KML), named as in results. */
+  dir: string;
+  /** Page map (SVG) of each coverage entry, in study order, then the composite when there is one. */
+  maps: { id: string; svg: string }[];
 }
 
 /** A link's cached result and figure data. */
@@ -176,11 +188,23 @@ export async function analyzeStudy(study: Study, options: AnalyzeOptions = {}): 
   }
   if (problems.length) throw new InputError(problems);
 
+  // --- Coverage maps: computed on every build (not cached), into a temporary folder that the
+  // site build copies next to the study page ---
+  let coverage: StudyCoverage | null = null;
+  const warnings: string[] = [];
+  let coverageResults: StudyResult["coverage"] = [];
+  if (study.coverage?.length) {
+    const dir = mkdtempSync(join(tmpdir(), `ridgeline-coverage-${study.id}-`));
+    const cov = await analyzeStudyCoverage(study, await open(), { outDir: dir });
+    coverageResults = cov.results.map(({ compute_s: _timing, ...r }) => r); // no clock in results
+    warnings.push(...cov.warnings);
+    coverage = { dir, maps: [...cov.items.map((it) => ({ id: it.result.id, svg: it.svg })), ...(cov.composite ? [{ id: "composite", svg: cov.composite.svg }] : [])] };
+  }
+
   // --- The study's result ---
   const inputs = createHash("sha256").update(study.file_sha256).update(terrainKey).update(TOOL_VERSION);
   for (const l of study.links) if (csvSha.has(l.id)) inputs.update(csvSha.get(l.id) ?? "unreadable");
-  const warnings: string[] = [];
-  if (facts.synthetic) warnings.push(`Terrain is synthetic (${facts.description}): figures show invented ground, not a real place.`);
+  if (facts.synthetic) warnings.unshift(`Terrain is synthetic (${facts.description}): figures show invented ground, not a real place.`);
   const ground_m = facts.ground_m;
   const result: StudyResult = {
     id: study.id,
@@ -197,12 +221,13 @@ export async function analyzeStudy(study: Study, options: AnalyzeOptions = {}): 
       availability_pct: study.design.availability_pct,
       diffraction_method: study.design.diffraction_method,
       field_margin_db: study.design.field_margin_db,
+      structure_notice_height_m: study.design.structure_notice_height_m,
       climate: study.climate,
     },
     sites: study.sites.map((s, i) => ({ id: s.id, name: s.name, lat_deg: s.lat_deg, lon_deg: s.lon_deg, ground_m: ground_m[i], ...(s.notes ? { notes: s.notes } : {}) })),
     links,
     chains: chainResults(study, links),
-    coverage: [],
+    coverage: coverageResults,
     warnings,
     provenance: { tool_version: TOOL_VERSION, inputs_sha256: inputs.digest("hex"), ...(await git) },
   };
@@ -217,6 +242,7 @@ export async function analyzeStudy(study: Study, options: AnalyzeOptions = {}): 
     },
     openTerrain: open,
     cache: { hits, misses: study.links.length - hits },
+    coverage,
     async remember<T>(name: string, inputs: unknown, modules: string[], compute: (terrain: Terrain) => T | Promise<T>): Promise<T> {
       if (!cache) return compute(await open());
       const key = sha256(canonicalJson(["study-value", toolIdentity(), modulesFingerprint(modules), terrainKey, name, inputs]));

@@ -1,4 +1,5 @@
 import type { ChainResult } from "./chains.ts";
+import type { CoverageResult } from "./coverage/coverage-result.ts";
 import type { ReflectionResult } from "./link-reflection.ts";
 
 /** Plain-JSON results of a study (no NaN: the boundary turns NaN into errors or null with a warning). */
@@ -88,7 +89,7 @@ export interface StudyResult {
   sites: SiteResult[];
   links: LinkResult[];
   chains: ChainResult[];
-  coverage: unknown[];
+  coverage: CoverageResult[];
   warnings: string[];
   provenance: Provenance;
 }

@@ -28,6 +28,10 @@ export async function buildSite(studies: AnalyzedStudy[], options: { outDir?: st
     rmSync(tmp, { recursive: true, force: true });
     throw e;
   }
+  // Coverage files (GeoTIFF, PNG, GeoJSON, KML) next to each study page.
+  for (const s of studies) {
+    if (s.coverage) cpSync(s.coverage.dir, join(tmp, "studies", s.study.id, "coverage"), { recursive: true });
+  }
   // Keep the changes page that `ridgeline diff` wrote into the previous site.
   const changes = join(outDir, "changes");
   if (existsSync(changes) && !existsSync(join(tmp, "changes"))) cpSync(changes, join(tmp, "changes"), { recursive: true });

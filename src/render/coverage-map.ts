@@ -46,8 +46,12 @@ export function coverageMapSvg(d: CoverageMapData): string {
         `<text x="${px(s.x_px + 8)}" y="${px(s.y_px - 8)}" stroke="#fff" stroke-width="3" paint-order="stroke">${escapeXml(s.name)}</text></g>`,
     )
     .join("");
-  return `<svg xmlns="http://www.w3.org/2000/svg" xmlns:xlink="http://www.w3.org/1999/xlink" width="${W}" height="${H}" viewBox="0 0 ${W} ${H}" font-family="DejaVu Sans, Arial, sans-serif" font-size="12" role="img" aria-label="${escapeXml(d.title)}">
-<title>${escapeXml(d.title)}</title>
+  // Ids for the text alternative, unique per map on a page (from the title).
+  const id = `cov-${d.title.replace(/[^A-Za-z0-9]+/g, "-").replace(/^-|-$/g, "").slice(0, 60)}`;
+  const desc = `Coverage map around ${d.sites.map((s) => s.name).join(", ")}. ${d.legend.map((l) => l.label).join("; ")}. Scale bar ${sb.label}. ${d.crs_note}.`;
+  return `<svg xmlns="http://www.w3.org/2000/svg" xmlns:xlink="http://www.w3.org/1999/xlink" width="${W}" height="${H}" viewBox="0 0 ${W} ${H}" font-family="DejaVu Sans, Arial, sans-serif" font-size="12" role="img" aria-labelledby="${id}-t ${id}-d">
+<title id="${id}-t">${escapeXml(d.title)}</title>
+<desc id="${id}-d">${escapeXml(desc)}</desc>
 <rect width="${W}" height="${H}" fill="#f4f4f2"/>
 <image x="0" y="0" width="${W}" height="${H}" href="${d.image_href}" xlink:href="${d.image_href}" preserveAspectRatio="none"/>
 ${sites}

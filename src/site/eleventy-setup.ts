@@ -52,6 +52,11 @@ export default function ridgelineSite(eleventyConfig: EleventyConfig): void {
     if (svg === undefined) throw new Error(`No overview map was drawn for study ${studyId}.`);
     return svg;
   });
+  eleventyConfig.addShortcode("coverageMap", (studyId: string, coverageId: string) => {
+    const map = analyzedStudy(studyId).coverage?.maps.find((m) => m.id === coverageId);
+    if (!map) throw new Error(`No coverage map ${coverageId} was drawn for study ${studyId}.`);
+    return map.svg;
+  });
   eleventyConfig.addPassthroughCopy({ "content/assets": "assets" });
   eleventyConfig.ignores.add("content/studies/**");
   eleventyConfig.setQuietMode(true);

@@ -55,6 +55,7 @@ export function loadStudy(file: string): Study {
     sites: input.sites,
     links: input.links.map((l, index) => ({ ...l, index })),
     chains: input.chains,
+    coverage: input.coverage,
     locate: src.locate,
     file_sha256: createHash("sha256").update(bytes).digest("hex"),
   };

@@ -43,7 +43,8 @@ export interface CoverageResult {
   files: Record<string, string>;
   assumptions: string[];
   warnings: string[];
-  compute_s: number;
+  /** compute time (s): for the one-off command only; a study's results omit it so builds are reproducible */
+  compute_s?: number;
 }
 
 /**
