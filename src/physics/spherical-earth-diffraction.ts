@@ -72,18 +72,25 @@ export function sphericalEarthDiffractionLoss(
   }
   const c = (h1 - h2) / (h1 + h2); // P.526-15 §3.2 (c)
   const m = (d * d) / (4 * a * (h1 + h2)); // P.526-15 §3.2 (m)
-  const b =
-    2 * Math.sqrt((m + 1) / (3 * m)) *
-    Math.cos(Math.PI / 3 + (1 / 3) * Math.acos(((3 * c) / 2) * Math.sqrt((3 * m) / ((m + 1) ** 3)))); // P.526-15 §3.2 (b)
+  // The arccos argument is (3c/2)·sqrt(3m/(m + 1)³), at most |c| ≤ 1 (the root factor peaks
+  // at 2/3 for m = 1/2); with one height at or near 0 (|c| → 1) rounding can push it a few ulp
+  // past ±1, where acos gives NaN. Clamp it to [−1, 1] (the exact value is ±1 there).
+  const arg = ((3 * c) / 2) * Math.sqrt((3 * m) / ((m + 1) ** 3));
+  const b = 2 * Math.sqrt((m + 1) / (3 * m)) * Math.cos(Math.PI / 3 + (1 / 3) * Math.acos(arg > 1 ? 1 : arg < -1 ? -1 : arg)); // P.526-15 §3.2 (b)
   const d1 = (d / 2) * (1 + b); // P.526-15 §3.2 (d1)
   const d2 = d - d1; // P.526-15 §3.2 (d2)
   const h = ((h1 - (d1 * d1) / (2 * a)) * d2 + (h2 - (d2 * d2) / (2 * a)) * d1) / d; // P.526-15 §3.2 (h)
-  const hreq = 0.552 * Math.sqrt((d1 * d2 * lambda) / d); // P.526-15 §3.2 (hreq)
+  // d1·d2 ≥ 0 exactly (0 ≤ b ≤ 1); rounding can leave it a few ulp below 0 when b → 1.
+  const d1d2 = d1 * d2 > 0 ? d1 * d2 : 0;
+  const hreq = 0.552 * Math.sqrt((d1d2 * lambda) / d); // P.526-15 §3.2 (hreq)
   if (h > hreq) {
     return { Ldsph: 0, dlos_m: dlos, transhorizon: false, hse_m: h, hreq_m: hreq, aem_m: NaN, Ldft: NaN };
   }
   const aem = 0.5 * (d / (Math.sqrt(h1) + Math.sqrt(h2))) ** 2; // P.526-15 §3.2 (aem)
   const Ldft = sphericalEarthFirstTermLoss(d, h1, h2, aem, lambda, options);
-  const Ldsph = Ldft < 0 ? 0 : (1 - h / hreq) * Ldft; // P.526-15 §3.2 (A = (1 − h/hreq)·Ah)
+  // With a terminal on the surface (b = 1, d2 = 0) the closest approach is at that terminal:
+  // h = O(d2) while hreq = O(√d2), so h/hreq → 0 (full first-term loss), not 0/0.
+  const ratio = hreq > 0 ? h / hreq : 0;
+  const Ldsph = Ldft < 0 ? 0 : (1 - ratio) * Ldft; // P.526-15 §3.2 (A = (1 − h/hreq)·Ah)
   return { Ldsph, dlos_m: dlos, transhorizon: false, hse_m: h, hreq_m: hreq, aem_m: aem, Ldft };
 }
