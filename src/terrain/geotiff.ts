@@ -1,7 +1,11 @@
 import { createHash } from "node:crypto";
+import { closeSync, fstatSync, openSync, readFileSync } from "node:fs";
 import { readFile } from "node:fs/promises";
-import { fromArrayBuffer } from "geotiff";
-import { makeRasterGrid, RasterTerrain } from "./raster-terrain.ts";
+import { makeRasterGrid, RasterTerrain, type RasterTerrainOptions } from "./raster-terrain.ts";
+import { bilinearGrid } from "./bilinear-grid.ts";
+import { crsFromEpsg } from "./crs-from-epsg.ts";
+import { bandLayout, decodeBands, readBandFloat32, waitForBands, type BandLayout, type PixelWindow, type TiffBandSource } from "./tiff-band-reader.ts";
+import { readTiffDirectory } from "./tiff-directory.ts";
 import type { RasterGrid } from "./terrain.ts";
 import { TerrainError } from "./terrain-error.ts";
 
@@ -10,9 +14,13 @@ const RASTER_PIXEL_IS_POINT = 2;
 
 /**
  * Open a GeoTIFF DEM (first band, elevations in metres) in EPSG:4326 or a WGS84 UTM zone
- * (EPSG:326zz / 327zz). The file is read once: its bytes are hashed for the fingerprint
- * and parsed with geotiff.js (`fromArrayBuffer`, one `readRasters` of band 1 into a
- * Float32Array).
+ * (EPSG:326zz / 327zz).
+ *
+ * Reading: the common layouts of a single-band DEM (strips or tiles, uncompressed or
+ * Deflate, UInt16/Int16/Int32/Float32, see tiff-band-reader.ts) are decoded strip by strip
+ * straight into a Float32Array on a SharedArrayBuffer; anything else (BigTIFF, other
+ * compressions, multi-band…) goes through geotiff.js (`fromArrayBuffer`, one `readRasters` of
+ * band 1). Both give the same raster.
  *
  * Georeferencing follows GDAL's reading of the same tags, so `raster.geoTransform` equals
  * what `gdalinfo` reports:
@@ -24,58 +32,256 @@ const RASTER_PIXEL_IS_POINT = 2;
  * - The GDAL_NODATA tag: samples equal to it become NaN (compared in the band's own type).
  * Scale/offset metadata and vertical datums are not applied.
  *
+ * The fingerprint (sha256 of the file bytes) is computed when first asked for, by reading
+ * the file again; a file changed on disk after opening is reported by its new bytes.
+ *
  * @param path file path (absolute or relative to the working directory)
  * @param options.label how messages name the file (default: the path)
+ * @param options.deferPixels decode the band only when `raster.data` is first read (the fast
+ *   path only); single elevations and `readWindow` read just the pixels they need meanwhile
  * @throws TerrainError when the file is missing, unreadable, not georeferenced or in another CRS
  */
-export async function openGeoTiff(path: string, options: { label?: string } = {}): Promise<RasterTerrain> {
+export async function openGeoTiff(path: string, options: { label?: string; deferPixels?: boolean } = {}): Promise<RasterTerrain> {
   const label = options.label ?? path;
-  let bytes: Buffer;
-  try {
-    bytes = await readFile(path);
-  } catch (e) {
-    throw new TerrainError(
+  const unreadable = (e: unknown) =>
+    new TerrainError(
       `GeoTIFF ${label} could not be read (${(e as NodeJS.ErrnoException).code ?? (e as Error).message}); ` +
         "check the path in the study's terrain setting",
       { path, hint: "check the terrain path" },
       { cause: e },
     );
+  let raster: RasterGrid | null = null;
+  let pixels: DeferredPixels | null = null;
+  try {
+    const head = readGeoTiffHeader(path, label);
+    if (head !== null) {
+      pixels = new DeferredPixels(path, label, head.layout, head.nodata);
+      raster = makeRasterGrid(head.width, head.height, head.gt, head.epsg, EMPTY, path);
+      const px = pixels;
+      Object.defineProperty(raster, "data", { enumerable: true, get: () => px.all() });
+      if (!options.deferPixels) px.all();
+    }
+  } catch (e) {
+    if (e instanceof TerrainError) throw e;
+    throw unreadable(e);
   }
-  const fingerprint = createHash("sha256").update(bytes).digest("hex");
-  const raster = await parseGeoTiff(bytes, path, label);
+  if (raster === null) {
+    let bytes: Buffer;
+    try {
+      bytes = await readFile(path);
+    } catch (e) {
+      throw unreadable(e);
+    }
+    raster = await parseGeoTiff(bytes, path, label);
+  }
   const res = `${fmtRes(raster)}`;
-  return new RasterTerrain(raster, {
+  return new GeoTiffTerrain(path, raster, pixels, {
     kind: "geotiff",
     description: `GeoTIFF ${label} (EPSG:${raster.epsg}, ${raster.width}×${raster.height}, ${res})`,
     synthetic: false,
     label,
-    fingerprint,
+    fingerprint: "",
   });
 }
 
-async function parseGeoTiff(bytes: Buffer, path: string, label: string): Promise<RasterGrid> {
-  const fail = (what: string, hint: string, cause?: unknown): TerrainError =>
-    new TerrainError(`GeoTIFF ${label}: ${what}; ${hint}`, { path, hint }, { cause });
-  const ab =
-    bytes.byteOffset === 0 && bytes.byteLength === bytes.buffer.byteLength
-      ? (bytes.buffer as ArrayBuffer)
-      : (bytes.buffer.slice(bytes.byteOffset, bytes.byteOffset + bytes.byteLength) as ArrayBuffer);
-  let image;
-  try {
-    const tiff = await fromArrayBuffer(ab);
-    image = await tiff.getImage(0);
-  } catch (e) {
-    throw fail(`not a readable TIFF (${(e as Error).message})`, "export the DEM as a GeoTIFF, e.g. gdal_translate -of GTiff in out.tif", e);
-  }
-  const width = image.getWidth();
-  const height = image.getHeight();
-  const keys = image.getGeoKeys() ?? {};
-  const dir = image.fileDirectory;
-  const scale = (await dir.loadValue("ModelPixelScale")) as number[] | undefined;
-  const tie = (await dir.loadValue("ModelTiepoint")) as number[] | undefined;
-  const mt = (await dir.loadValue("ModelTransformation")) as number[] | undefined;
+const EMPTY = new Float32Array(0);
 
-  // --- Geotransform (pixel-corner origin, as GDAL) ---
+/**
+ * Hands a window decode to other threads: each is to call decodeBands(fd, src, window, out,
+ * ctrl) with the same arguments (see tiff-band-reader.ts) and may start late or never.
+ */
+export type ShareDecode = (src: TiffBandSource, window: PixelWindow, out: Float32Array, ctrl: Int32Array) => void;
+
+/**
+ * Band 1 of a GeoTIFF the fast reader handles, decoded on first use: all of it (`all`) or a
+ * window (`window`, read from the file unless the whole band is already in memory).
+ */
+class DeferredPixels {
+  private data: Float32Array | null = null;
+  constructor(
+    private readonly path: string,
+    private readonly label: string,
+    private readonly layout: BandLayout,
+    private readonly nodata: number | null,
+  ) {}
+
+  get decoded(): boolean {
+    return this.data !== null;
+  }
+
+  /** The band as plain data, for threads that decode shares of a window. */
+  get source(): TiffBandSource {
+    return { path: this.path, layout: this.layout, nodata: this.nodata };
+  }
+
+  /** A window decoded by this thread together with others (see decodeBands); null when a band failed. */
+  windowShared(w: PixelWindow, share: ShareDecode): Float32Array | null {
+    const out = new Float32Array(new SharedArrayBuffer(w.width * w.height * 4));
+    const ctrl = new Int32Array(new SharedArrayBuffer(12));
+    const src = this.source;
+    share(src, w, out, ctrl);
+    const fd = openSync(this.path, "r");
+    try {
+      decodeBands(fd, src, w, out, ctrl);
+    } finally {
+      closeSync(fd);
+    }
+    return waitForBands(src, w, ctrl) ? out : null;
+  }
+
+  all(): Float32Array {
+    this.data ??= this.read();
+    return this.data;
+  }
+
+  window(w: PixelWindow): Float32Array {
+    if (this.data === null) return this.read(w);
+    const out = new Float32Array(new SharedArrayBuffer(w.width * w.height * 4));
+    const W = this.layout.width;
+    for (let r = 0; r < w.height; r++) {
+      const from = (w.row0 + r) * W + w.col0;
+      out.set(this.data.subarray(from, from + w.width), r * w.width);
+    }
+    return out;
+  }
+
+  private read(w?: PixelWindow): Float32Array {
+    let fd: number | null = null;
+    try {
+      fd = openSync(this.path, "r");
+      return readBandFloat32(fd, this.layout, this.nodata, w);
+    } catch (e) {
+      throw new TerrainError(
+        `GeoTIFF ${this.label}: its pixels could not be decoded (${(e as NodeJS.ErrnoException).code ?? (e as Error).message}); rewrite it with gdal_translate -co COMPRESS=DEFLATE in.tif out.tif`,
+        { path: this.path, hint: "rewrite it with gdal_translate -co COMPRESS=DEFLATE in.tif out.tif" },
+        { cause: e },
+      );
+    } finally {
+      if (fd !== null) closeSync(fd);
+    }
+  }
+}
+
+/**
+ * A GeoTIFF terrain: the fingerprint is hashed from the file on first request; with deferred
+ * pixels, single elevations and windows are read from the file without decoding the band.
+ */
+class GeoTiffTerrain extends RasterTerrain {
+  private hashed: string | null = null;
+  constructor(
+    private readonly path: string,
+    raster: RasterGrid,
+    private readonly pixels: DeferredPixels | null,
+    options: RasterTerrainOptions,
+  ) {
+    super(raster, options);
+  }
+
+  override fingerprint(): string {
+    this.hashed ??= createHash("sha256").update(readFileSync(this.path)).digest("hex");
+    return this.hashed;
+  }
+
+  /**
+   * Bilinear elevation as RasterTerrain computes it; before the band is decoded, from the 4×4
+   * pixels around the point (clamped to the raster), which hold every pixel the interpolation
+   * reads, at the same fractional position (an integer shift of the coordinates is exact).
+   */
+  override elevation(lat_deg: number, lon_deg: number): number {
+    if (this.pixels === null || this.pixels.decoded) return super.elevation(lat_deg, lon_deg);
+    const r = this.raster;
+    const crs = crsFromEpsg(r.epsg)!;
+    const [x, y] = crs.geographic ? [lon_deg, lat_deg] : crs.toCrs(lat_deg, lon_deg);
+    const [x0, dx, , y0, , dy] = r.geoTransform;
+    const col = (x - x0) / dx - 0.5;
+    const row = (y - y0) / dy - 0.5;
+    if (!(col >= -0.5 && col <= r.width - 0.5 && row >= -0.5 && row <= r.height - 0.5)) return NaN;
+    const c0 = Math.max(0, Math.floor(col) - 1);
+    const r0 = Math.max(0, Math.floor(row) - 1);
+    const w = { col0: c0, row0: r0, width: Math.min(r.width, Math.floor(col) + 3) - c0, height: Math.min(r.height, Math.floor(row) + 3) - r0 };
+    const c1 = c0 + w.width === r.width;
+    const r1 = r0 + w.height === r.height;
+    // the window keeps the raster's own edges where it reaches them, and stays ≥ 1 pixel clear of its own otherwise
+    if (!(c0 === 0 || col - c0 >= 1) || !(r0 === 0 || row - r0 >= 1) || !(c1 || c0 + w.width - 1 - col >= 1) || !(r1 || r0 + w.height - 1 - row >= 1)) {
+      return super.elevation(lat_deg, lon_deg);
+    }
+    return bilinearGrid(this.pixels.window(w), w.width, w.height, col - c0, row - r0);
+  }
+
+  /**
+   * Elevations of a window of the raster's own pixels (Float32 on a SharedArrayBuffer, NaN
+   * nodata), read straight from the file when the band is not decoded yet — with `share`,
+   * by this thread and the threads `share` hands the same work to (see decodeBands).
+   */
+  readWindow(window: PixelWindow, share?: ShareDecode): Float32Array {
+    if (this.pixels !== null && share && !this.pixels.decoded) {
+      // shared by other threads; on a failed band, read it again here to report the error
+      return this.pixels.windowShared(window, share) ?? this.pixels.window(window);
+    }
+    if (this.pixels !== null) return this.pixels.window(window);
+    const { width: W, data } = this.raster;
+    const out = new Float32Array(new SharedArrayBuffer(window.width * window.height * 4));
+    for (let r = 0; r < window.height; r++) {
+      const from = (window.row0 + r) * W + window.col0;
+      out.set(data.subarray(from, from + window.width), r * window.width);
+    }
+    return out;
+  }
+}
+
+/** What georeferencing needs of a GeoTIFF's tags, whichever reader found them. */
+interface GeoTiffMeta {
+  scale?: number[];
+  tie?: number[];
+  mt?: number[];
+  keys: Record<string, number | undefined>;
+}
+
+/**
+ * The fast path: parse the directory and georeference without geotiff.js. Null when the
+ * file's layout needs the general reader.
+ */
+function readGeoTiffHeader(
+  path: string,
+  label: string,
+): { width: number; height: number; gt: RasterGrid["geoTransform"]; epsg: number; layout: BandLayout; nodata: number | null } | null {
+  const fd = openSync(path, "r");
+  try {
+    const dir = readTiffDirectory(fd, fstatSync(fd).size);
+    if (dir === null) return null;
+    const layout = bandLayout(dir);
+    if (layout === null) return null;
+    const t = dir.tags;
+    const num = (tag: number) => (Array.isArray(t.get(tag)) ? (t.get(tag) as number[]) : undefined);
+    const meta: GeoTiffMeta = { scale: num(33550), tie: num(33922), mt: num(34264), keys: geoKeys(num(34735), num(34736)) };
+    const { gt, epsg } = georeference(meta, path, label);
+    const nd = t.get(42113);
+    const nodata = typeof nd === "string" && nd !== "" ? Number(nd) : null;
+    return { width: layout.width, height: layout.height, gt, epsg, layout, nodata };
+  } finally {
+    closeSync(fd);
+  }
+}
+
+/** The GeoKeyDirectory (GeoTIFF 1.1 §7.1.3) as key name → value, for the keys used here. */
+function geoKeys(dirValues: number[] | undefined, doubles: number[] | undefined): Record<string, number | undefined> {
+  const names: Record<number, string> = { 1024: "GTModelTypeGeoKey", 1025: "GTRasterTypeGeoKey", 2048: "GeographicTypeGeoKey", 3072: "ProjectedCSTypeGeoKey" };
+  const keys: Record<string, number | undefined> = {};
+  if (!dirValues || dirValues.length < 4) return keys;
+  const n = dirValues[3];
+  for (let i = 0; i < n && 4 + 4 * i + 3 < dirValues.length; i++) {
+    const [id, loc, , value] = dirValues.slice(4 + 4 * i, 8 + 4 * i);
+    if (!(id in names)) continue;
+    if (loc === 0) keys[names[id]] = value;
+    else if (loc === 34736 && doubles) keys[names[id]] = doubles[value];
+  }
+  return keys;
+}
+
+/** Geotransform (pixel-corner origin, as GDAL) and EPSG code from the tags. */
+function georeference(meta: GeoTiffMeta, path: string, label: string): { gt: RasterGrid["geoTransform"]; epsg: number } {
+  const fail = (what: string, hint: string): TerrainError => new TerrainError(`GeoTIFF ${label}: ${what}; ${hint}`, { path, hint });
+  const { scale, tie, mt, keys } = meta;
   let gt: RasterGrid["geoTransform"];
   if (scale && tie && tie.length >= 6) {
     const [I, J, , X, Y] = tie;
@@ -89,16 +295,43 @@ async function parseGeoTiff(bytes: Buffer, path: string, label: string): Promise
     gt[0] -= 0.5 * gt[1] + 0.5 * gt[2];
     gt[3] -= 0.5 * gt[4] + 0.5 * gt[5];
   }
-
-  // --- CRS ---
-  const model = keys.GTModelTypeGeoKey as number | undefined;
-  const epsg = (model === 1 ? keys.ProjectedCSTypeGeoKey : model === 2 ? keys.GeographicTypeGeoKey : undefined) as number | undefined;
+  const model = keys.GTModelTypeGeoKey;
+  const epsg = model === 1 ? keys.ProjectedCSTypeGeoKey : model === 2 ? keys.GeographicTypeGeoKey : undefined;
   if (epsg === undefined || epsg === 32767) {
     throw fail(
       `its coordinate reference system is ${model === undefined ? "missing" : "not given as an EPSG code"}`,
       "assign or reproject to EPSG:4326 or a WGS84 UTM zone, e.g. gdalwarp -t_srs EPSG:4326 in.tif out.tif",
     );
   }
+  return { gt, epsg };
+}
+
+/** The general reader: geotiff.js, loaded only when a file needs it. */
+async function parseGeoTiff(bytes: Buffer, path: string, label: string): Promise<RasterGrid> {
+  const fail = (what: string, hint: string, cause?: unknown): TerrainError =>
+    new TerrainError(`GeoTIFF ${label}: ${what}; ${hint}`, { path, hint }, { cause });
+  const ab =
+    bytes.byteOffset === 0 && bytes.byteLength === bytes.buffer.byteLength
+      ? (bytes.buffer as ArrayBuffer)
+      : (bytes.buffer.slice(bytes.byteOffset, bytes.byteOffset + bytes.byteLength) as ArrayBuffer);
+  let image;
+  try {
+    const { fromArrayBuffer } = await import("geotiff");
+    const tiff = await fromArrayBuffer(ab);
+    image = await tiff.getImage(0);
+  } catch (e) {
+    throw fail(`not a readable TIFF (${(e as Error).message})`, "export the DEM as a GeoTIFF, e.g. gdal_translate -of GTiff in out.tif", e);
+  }
+  const width = image.getWidth();
+  const height = image.getHeight();
+  const dir = image.fileDirectory;
+  const meta: GeoTiffMeta = {
+    scale: (await dir.loadValue("ModelPixelScale")) as number[] | undefined,
+    tie: (await dir.loadValue("ModelTiepoint")) as number[] | undefined,
+    mt: (await dir.loadValue("ModelTransformation")) as number[] | undefined,
+    keys: (image.getGeoKeys() ?? {}) as Record<string, number | undefined>,
+  };
+  const { gt, epsg } = georeference(meta, path, label);
 
   // --- Band 1 → Float32Array with NaN for nodata ---
   let band: ArrayLike<number>;
@@ -108,7 +341,8 @@ async function parseGeoTiff(bytes: Buffer, path: string, label: string): Promise
   } catch (e) {
     throw fail(`its pixels could not be decoded (${(e as Error).message})`, "rewrite it with gdal_translate -co COMPRESS=DEFLATE in.tif out.tif", e);
   }
-  const data = band instanceof Float32Array ? new Float32Array(band) : Float32Array.from(band);
+  const data = new Float32Array(new SharedArrayBuffer(band.length * 4));
+  data.set(band);
   const nodata = image.getGDALNoData();
   if (nodata !== null && !Number.isNaN(nodata)) {
     // Compare in the band's own type, as GDAL does (a float32 band stores fround(nodata)).

@@ -2,6 +2,7 @@ import { EARTH_RADIUS_M, wavelengthM } from "../../physics/constants.ts";
 import { dryPressureFromTotalHpa, gasSpecificAttenuation, GAS_P676_VALIDITY } from "../../physics/gas-attenuation.ts";
 import { groundConstants } from "../../physics/ground-constants.ts";
 import { hataLoss } from "../../physics/hata.ts";
+import type { ShareDecode } from "../../terrain/geotiff.ts";
 import type { Terrain } from "../../terrain/terrain.ts";
 import { rangeWarning } from "../range-warning.ts";
 import { planCoverageGrid, type CoverageGrid } from "./coverage-grid.ts";
@@ -41,6 +42,8 @@ export interface ComputeOptions {
   names?: FieldNames;
   patternField?: string;
   maxCells?: number;
+  /** hands a GeoTIFF window decode to worker threads as well (CoveragePool.shareDecode) */
+  shareDecode?: ShareDecode;
 }
 
 /** A coverage laid out and ready to compute: everything but the result buffer. */
@@ -86,7 +89,7 @@ export function prepareCoverage(terrain: Terrain, req: CoverageRequest, options:
   const pattern = validateCoverageRequest(req, options.names, options.patternField);
   const t0 = performance.now();
   const { grid, warnings } = planCoverageGrid(terrain, req.site, req.radius_m, req.resolution_m, { maxCells: options.maxCells });
-  const dem = elevationWindow(terrain, grid, (d, t) => options.onProgress?.("terrain", d, t));
+  const dem = elevationWindow(terrain, grid, (d, t) => options.onProgress?.("terrain", d, t), options.shareDecode);
   const t1 = performance.now();
   const site_ground_m = terrain.elevation(req.site.lat_deg, req.site.lon_deg);
   const f = req.frequency_ghz;

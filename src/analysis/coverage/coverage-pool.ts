@@ -1,10 +1,9 @@
-import { createRequire } from "node:module";
-import { dirname, join } from "node:path";
-import { pathToFileURL } from "node:url";
 import { Worker } from "node:worker_threads";
+import type { PixelWindow, TiffBandSource } from "../../terrain/tiff-band-reader.ts";
 import type { CoverageJob } from "./coverage-job.ts";
 import { coverageUnits, createChunkRunner } from "./coverage-kernel.ts";
 import { mergeTallies, type TallyData } from "./coverage-tally.ts";
+import { coverageWorkerCode } from "./worker-code.ts";
 import type { ToWorker } from "./coverage-worker.ts";
 
 /** Progress callback: units done of units total. */
@@ -23,11 +22,7 @@ export class CoveragePool {
   private failure: Error | null = null;
 
   private constructor(count: number) {
-    const req = createRequire(import.meta.url);
-    // Each thread registers tsx itself (module hooks are not inherited by worker threads in Node 20).
-    const tsxApi = pathToFileURL(join(dirname(req.resolve("tsx/package.json")), "dist/esm/api/index.mjs")).href;
-    const entry = new URL("./coverage-worker.ts", import.meta.url).href;
-    const code = `import(${JSON.stringify(tsxApi)}).then(async (m) => { await m.register(); await import(${JSON.stringify(entry)}); });`;
+    const code = coverageWorkerCode();
     this.workers = [];
     this.ready = [];
     for (let i = 0; i < count; i++) {
@@ -46,6 +41,19 @@ export class CoveragePool {
   /** Start `count` threads (≥ 1). */
   static start(count: number): CoveragePool {
     return new CoveragePool(Math.max(1, Math.floor(count)));
+  }
+
+  /**
+   * Have every thread decode shares of a GeoTIFF window too (see decodeBands); the caller
+   * decodes its own shares and waits for theirs. Threads still loading join when ready.
+   */
+  shareDecode(src: TiffBandSource, window: PixelWindow, out: Float32Array, ctrl: Int32Array): void {
+    for (const w of this.workers) w.postMessage({ type: "decode", src, window, out, ctrl } satisfies ToWorker);
+  }
+
+  /** Resolves when every thread has loaded its code. */
+  async whenReady(): Promise<void> {
+    await Promise.all(this.ready);
   }
 
   get size(): number {

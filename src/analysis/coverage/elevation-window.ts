@@ -1,3 +1,5 @@
+import type { ShareDecode } from "../../terrain/geotiff.ts";
+import type { PixelWindow } from "../../terrain/tiff-band-reader.ts";
 import type { Terrain } from "../../terrain/terrain.ts";
 import { cellCentreLatLon, type CoverageGrid } from "./coverage-grid.ts";
 
@@ -7,18 +9,27 @@ const MESH_M = 500;
 /**
  * The elevations of a coverage grid in a SharedArrayBuffer (Float32, row-major, NaN nodata),
  * read from the terrain once and shared by every worker thread.
- * - Raster source: a copy of the window of the terrain's own raster (no resampling).
+ * - Raster source: a copy of the window of the terrain's own raster (no resampling), read
+ *   straight from the file by terrains that offer `readWindow` (GeoTIFF).
  * - Otherwise: each cell centre is converted to latitude/longitude and the terrain sampled
  *   there (bilinear, as for a link profile). Positions are projected exactly about every
  *   500 m in both directions and interpolated bilinearly in between: the error is bounded by
  *   L²/8 times the curvature of the inverse projection (about tan(lat)/R² for UTM), 0.5 cm
  *   for L = 500 m at 46°N (test/coverage/coverage-grid.test.ts).
  * @param onRow optional progress callback (rows done, rows)
+ * @param share hands a GeoTIFF window decode to worker threads as well (CoveragePool.shareDecode)
  */
-export function elevationWindow(terrain: Terrain, grid: CoverageGrid, onRow?: (done: number, total: number) => void): Float32Array {
+export function elevationWindow(terrain: Terrain, grid: CoverageGrid, onRow?: (done: number, total: number) => void, share?: ShareDecode): Float32Array {
   const { width: W, height: H } = grid;
-  const out = new Float32Array(new SharedArrayBuffer(W * H * 4));
   const src = grid.source;
+  // A terrain that reads windows of its raster itself (GeoTIFF) decodes only the grid's pixels, once.
+  const readWindow = (terrain as { readWindow?: (w: PixelWindow, share?: ShareDecode) => Float32Array }).readWindow;
+  if (src.kind === "raster" && typeof readWindow === "function") {
+    const out = readWindow.call(terrain, { col0: src.col0, row0: src.row0, width: W, height: H }, share);
+    onRow?.(H, H);
+    return out;
+  }
+  const out = new Float32Array(new SharedArrayBuffer(W * H * 4));
   if (src.kind === "raster") {
     const r = terrain.raster!;
     for (let row = 0; row < H; row++) {

@@ -1,8 +1,10 @@
-import { readFileSync } from "node:fs";
+import { readFileSync, statSync } from "node:fs";
 import { availableParallelism } from "node:os";
-import { resolve } from "node:path";
+import { isAbsolute, relative, resolve } from "node:path";
 import { setFlagsFromString } from "node:v8";
 import { runInNewContext } from "node:vm";
+import type { TerrainSpec } from "../../terrain/open-terrain.ts";
+import type { Terrain } from "../../terrain/terrain.ts";
 import { latLonArg, numberArg, parseArgs, UsageError } from "../args.ts";
 
 export const COVERAGE_USAGE = `Usage: ridgeline coverage --site LAT,LON --antenna-m H --receiver-m H --terrain PATH|constant:M
@@ -19,6 +21,7 @@ const METHODS = ["visibility", "delta-bullington", "hata"] as const;
 
 /** `ridgeline coverage …`: one coverage raster without a study file. Exit 0 on success, 2 on bad input. */
 export async function coverageCommand(argv: string[]): Promise<number> {
+  mark("command");
   if (argv.includes("--help")) {
     process.stdout.write(`${COVERAGE_USAGE}\n`);
     return 0;
@@ -60,6 +63,8 @@ export async function coverageCommand(argv: string[]): Promise<number> {
     import("../../analysis/coverage/coverage-result.ts"),
     import("../../terrain/crs-from-epsg.ts"),
   ]);
+  const { openGeoTiff } = await import("../../terrain/geotiff.ts");
+  mark("imports");
   const pattern = v("pattern") === undefined ? undefined : { azimuth_deg: num("azimuth-deg", 0, (x) => x >= 0 && x < 360, "an azimuth from 0 to below 360°"), horizontal: readPatternCsv(v("pattern")!) };
   const request = {
     site: { lat_deg: lat, lon_deg: lon },
@@ -98,6 +103,7 @@ export async function coverageCommand(argv: string[]): Promise<number> {
   const estimate = ((2 * request.radius_m) / resolution_m) ** 2;
   const nThreads = threads ?? (estimate < 2e6 ? 0 : availableParallelism());
   const pool = nThreads > 0 ? CoveragePool.start(nThreads) : null;
+  if (TIMINGS) void pool?.whenReady().then(() => mark("threads ready"));
   try {
     let prepared;
     let open_s = 0;
@@ -105,10 +111,12 @@ export async function coverageCommand(argv: string[]): Promise<number> {
       // The terrain is only needed to fill the grid's elevations; it is let go before the
       // result is allocated, so its raster and the result are not in memory together.
       const tOpen = performance.now();
-      const terrain = await openTerrain(parseTerrainArg(v("terrain")!), process.cwd());
+      const terrain = await openCoverageTerrain(parseTerrainArg(v("terrain")!), openTerrain, openGeoTiff);
       open_s = (performance.now() - tOpen) / 1000;
+      mark("terrain opened");
       collectGarbage(); // the reader's file bytes and decoding buffers
-      prepared = prepareCoverage(terrain, request, { names, patternField: "--pattern" });
+      prepared = prepareCoverage(terrain, request, { names, patternField: "--pattern", shareDecode: pool ? (...a) => pool.shareDecode(...a) : undefined });
+      mark("grid elevations");
     } catch (e) {
       if (e instanceof TerrainError) throw new UsageError(`--terrain: ${e.message}`);
       if (e instanceof CoverageError) throw new UsageError(e.field.startsWith("--") || e.message.startsWith("--") ? e.message : `--${e.field.replace(/_/g, "-")}: ${e.message}`);
@@ -122,6 +130,7 @@ export async function coverageCommand(argv: string[]): Promise<number> {
     } finally {
       progress.stop();
     }
+    mark("computed");
     const g = computed.grid;
     const isLevel = method !== "visibility";
     const t0 = performance.now();
@@ -136,6 +145,7 @@ export async function coverageCommand(argv: string[]): Promise<number> {
       unit: isLevel ? "dBm" : "",
     });
     const write_s = (performance.now() - t0) / 1000;
+    mark("written");
     const result = coverageResult("coverage", [`${lat},${lon}`], computed, { geotiff: out });
     for (const w of computed.warnings) process.stderr.write(`warning: ${w}\n`);
     process.stderr.write(
@@ -148,6 +158,39 @@ export async function coverageCommand(argv: string[]): Promise<number> {
   } finally {
     await pool?.close();
   }
+}
+
+/** RIDGELINE_TIMINGS=1: print milestones (seconds since the process started) to stderr. */
+const TIMINGS = process.env.RIDGELINE_TIMINGS === "1";
+function mark(what: string): void {
+  if (TIMINGS) process.stderr.write(`[timing] ${(performance.now() / 1000).toFixed(3)} s ${what} (epoch ${((performance.timeOrigin + performance.now()) / 1000).toFixed(3)})\n`);
+}
+
+/**
+ * Open the terrain as `openTerrain` does, except that a single GeoTIFF file is opened with
+ * its pixels deferred: the coverage reads only the window it needs, once, straight into the
+ * grid's shared buffer (see elevation-window.ts), instead of decoding the whole band and
+ * copying the window out of it. Paths that are not a .tif/.tiff file go to `openTerrain`
+ * (which also words every error about a missing or unknown path).
+ */
+async function openCoverageTerrain(
+  spec: TerrainSpec,
+  openTerrain: (spec: TerrainSpec, baseDir: string) => Promise<Terrain>,
+  openGeoTiff: (path: string, options: { label?: string; deferPixels?: boolean }) => Promise<Terrain>,
+): Promise<Terrain> {
+  const base = process.cwd();
+  if (spec.kind === "file" && /\.tiff?$/i.test(spec.path)) {
+    const path = isAbsolute(spec.path) ? spec.path : resolve(base, spec.path);
+    const label = isAbsolute(spec.path) ? spec.path : relative(base, path) || spec.path;
+    let isFile = false;
+    try {
+      isFile = statSync(path).isFile();
+    } catch {
+      // missing: openTerrain says so
+    }
+    if (isFile) return openGeoTiff(path, { label, deferPixels: true });
+  }
+  return openTerrain(spec, base);
 }
 
 /**

@@ -1,0 +1,260 @@
+import { readSync } from "node:fs";
+import { inflateSync } from "node:zlib";
+import { readAt, type TiffDirectory } from "./tiff-directory.ts";
+
+/** A window of a raster in pixels (columns col0…col0+width−1, rows row0…row0+height−1). */
+export interface PixelWindow {
+  col0: number;
+  row0: number;
+  width: number;
+  height: number;
+}
+
+type SampleKind = "u16" | "i16" | "i32" | "f32";
+
+/** How band 1 of a TIFF is stored, for the layouts readBandFloat32 decodes. */
+export interface BandLayout {
+  width: number;
+  height: number;
+  kind: SampleKind;
+  littleEndian: boolean;
+  deflate: boolean;
+  predictor: 1 | 2 | 3;
+  tiled: boolean;
+  /** block (tile or strip) width and height in pixels */
+  bw: number;
+  bh: number;
+  across: number;
+  offsets: number[];
+  counts: number[];
+}
+
+/**
+ * The layout of band 1 when readBandFloat32 can decode it: strips or tiles; no compression
+ * or Deflate (TIFF compression 8 / 32946, a zlib stream, RFC 1950); predictor 1 (none),
+ * 2 (horizontal differencing, TIFF 6.0 §14) for integers or 3 (floating point, Adobe TIFF
+ * Technical Note 3) for little-endian Float32; one sample per pixel of UInt16, Int16, Int32 or Float32.
+ * Null for anything else (the caller then uses the general reader).
+ */
+export function bandLayout(dir: TiffDirectory): BandLayout | null {
+  const t = dir.tags;
+  const one = (tag: number, dflt?: number) => {
+    const v = t.get(tag);
+    return Array.isArray(v) && v.length > 0 ? v[0] : dflt;
+  };
+  const W = one(256);
+  const H = one(257);
+  const bits = (t.get(258) as number[] | undefined) ?? [1];
+  const format = one(339, 1)!;
+  const compression = one(259, 1)!;
+  const predictor = one(317, 1)!;
+  const spp = one(277, 1)!;
+  if (W === undefined || H === undefined || !(W > 0 && H > 0) || spp !== 1 || bits.length !== 1) return null;
+  const kind: SampleKind | null =
+    bits[0] === 16 && format === 1 ? "u16" : bits[0] === 16 && format === 2 ? "i16" : bits[0] === 32 && format === 2 ? "i32" : bits[0] === 32 && format === 3 ? "f32" : null;
+  if (kind === null) return null;
+  const deflate = compression === 8 || compression === 32946;
+  if (compression !== 1 && !deflate) return null;
+  if (!(predictor === 1 || (predictor === 2 && kind !== "f32") || (predictor === 3 && kind === "f32"))) return null;
+  if (predictor !== 1 && !deflate) return null;
+  // Big-endian files with the floating-point predictor are read differently by GDAL 3.6 and
+  // geotiff.js (which recovers the values written): left to geotiff.js, as before this reader.
+  if (predictor === 3 && !dir.littleEndian) return null;
+  // strips are tiles as wide as the image
+  const tiled = t.has(322);
+  const bw = tiled ? one(322)! : W;
+  const bh = tiled ? one(323)! : Math.min(one(278, H)!, H);
+  const offsets = t.get(tiled ? 324 : 273) as number[] | undefined;
+  const counts = t.get(tiled ? 325 : 279) as number[] | undefined;
+  if (!offsets || !counts || !(bw > 0) || !(bh > 0)) return null;
+  const across = Math.ceil(W / bw);
+  const down = Math.ceil(H / bh);
+  if (offsets.length < across * down || counts.length < across * down) return null;
+  return { width: W, height: H, kind, littleEndian: dir.littleEndian, deflate, predictor: predictor as 1 | 2 | 3, tiled, bw, bh, across, offsets, counts };
+}
+
+/**
+ * Decode band 1 straight into a Float32Array backed by a SharedArrayBuffer (so worker
+ * threads can share it without a copy), samples equal to `nodata` (compared in the band's
+ * own type, as GDAL does) as NaN. Reads only the strips or tiles that intersect `window`
+ * (default: the whole raster), one at a time.
+ * @param fd open file descriptor
+ * @param layout from bandLayout
+ * @param nodata the GDAL_NODATA value, or null
+ * @param window pixels to read (inside the raster)
+ * @param into where to write the window (row-major, window.width × window.height; default a new array)
+ * @throws Error when a block is truncated or its compressed stream is corrupt
+ */
+export function readBandFloat32(fd: number, layout: BandLayout, nodata: number | null, window?: PixelWindow, into?: Float32Array): Float32Array {
+  const { width: W, height: H, kind, deflate, predictor, tiled, bw, bh, across, offsets, counts } = layout;
+  const win = window ?? { col0: 0, row0: 0, width: W, height: H };
+  const out = into ?? new Float32Array(new SharedArrayBuffer(win.width * win.height * 4));
+  const bps = kind === "u16" || kind === "i16" ? 2 : 4;
+  const scratch = new ArrayBuffer(bw * bh * bps);
+  // Nodata in the band's own type: integers only match an integer, Float32 its rounding.
+  const nd = nodata === null || Number.isNaN(nodata) ? null : kind === "f32" ? Math.fround(nodata) : Number.isInteger(nodata) ? nodata : null;
+  const by0 = Math.floor(win.row0 / bh);
+  const by1 = Math.floor((win.row0 + win.height - 1) / bh);
+  const bx0 = Math.floor(win.col0 / bw);
+  const bx1 = Math.floor((win.col0 + win.width - 1) / bw);
+  for (let by = by0; by <= by1; by++) {
+    // strips: the last one holds only the rows left
+    const rowsInBlock = tiled ? bh : Math.min(bh, H - by * bh);
+    for (let bx = bx0; bx <= bx1; bx++) {
+      const b = by * across + bx;
+      const need = bw * rowsInBlock * bps;
+      const bytes = new Uint8Array(scratch, 0, need);
+      if (deflate) {
+        const inflated = inflateSync(readAt(fd, offsets[b], counts[b]));
+        if (inflated.length < need) throw new Error(`block ${b} decompresses to ${inflated.length} bytes, expected ${need}`);
+        bytes.set(inflated.subarray(0, need));
+      } else {
+        const got = readInto(fd, bytes, offsets[b]);
+        if (got < need) throw new Error(`block ${b} holds ${got} bytes, expected ${need}`);
+      }
+      if (predictor === 3) floatPredictor(bytes, bw, rowsInBlock);
+      else if (!layout.littleEndian) swapBytes(bytes, bps);
+      const samples = view(kind, scratch, bw * rowsInBlock, predictor === 3);
+      if (predictor === 2) horizontalPredictor(samples as Int16Array | Uint16Array | Int32Array, bw, rowsInBlock);
+      // --- copy the block's part of the window ---
+      const r0 = Math.max(win.row0, by * bh);
+      const r1 = Math.min(win.row0 + win.height, by * bh + rowsInBlock, H);
+      const c0 = Math.max(win.col0, bx * bw);
+      const c1 = Math.min(win.col0 + win.width, bx * bw + bw, W);
+      for (let r = r0; r < r1; r++) {
+        const src = (r - by * bh) * bw - bx * bw;
+        const dst = (r - win.row0) * win.width - win.col0;
+        if (nd === null) {
+          for (let c = c0; c < c1; c++) out[dst + c] = samples[src + c];
+        } else {
+          for (let c = c0; c < c1; c++) {
+            const v = samples[src + c];
+            out[dst + c] = v === nd ? NaN : v;
+          }
+        }
+      }
+    }
+  }
+  return out;
+}
+
+/** Fill `into` from the file at `offset`; returns the bytes read (fewer at the end of the file). */
+function readInto(fd: number, into: Uint8Array, offset: number): number {
+  let got = 0;
+  while (got < into.length) {
+    const r = readSync(fd, into, got, into.length - got, offset + got);
+    if (r === 0) break;
+    got += r;
+  }
+  return got;
+}
+
+function view(kind: SampleKind, buf: ArrayBuffer, n: number, bigEndianFloat: boolean): ArrayLike<number> {
+  if (kind === "f32" && bigEndianFloat) {
+    // the floating-point predictor leaves big-endian words: read them through a DataView
+    const dv = new DataView(buf);
+    const f = new Float32Array(n);
+    for (let i = 0; i < n; i++) f[i] = dv.getFloat32(4 * i, false);
+    return f;
+  }
+  switch (kind) {
+    case "u16":
+      return new Uint16Array(buf, 0, n);
+    case "i16":
+      return new Int16Array(buf, 0, n);
+    case "i32":
+      return new Int32Array(buf, 0, n);
+    default:
+      return new Float32Array(buf, 0, n);
+  }
+}
+
+/** File (big-endian) byte order → this machine's (little-endian) for words of `size` bytes. */
+function swapBytes(b: Uint8Array, size: number): void {
+  if (size === 2) Buffer.from(b.buffer, b.byteOffset, b.byteLength).swap16();
+  else if (size === 4) Buffer.from(b.buffer, b.byteOffset, b.byteLength).swap32();
+}
+
+/** Undo horizontal differencing (TIFF 6.0 §14, predictor 2): each sample adds its left neighbour, per row, in the sample's type. */
+function horizontalPredictor(s: Int16Array | Uint16Array | Int32Array, w: number, h: number): void {
+  for (let r = 0; r < h; r++) {
+    const o = r * w;
+    for (let c = 1; c < w; c++) s[o + c] += s[o + c - 1];
+  }
+}
+
+/**
+ * Undo the floating-point predictor (Adobe TIFF Technical Note 3, predictor 3): per row, bytes
+ * were split into planes (most significant first) and differenced; accumulate the bytes, then
+ * gather each word's bytes back from the planes, leaving big-endian words in place.
+ */
+function floatPredictor(b: Uint8Array, w: number, h: number): void {
+  const rowBytes = 4 * w;
+  const tmp = new Uint8Array(rowBytes);
+  for (let r = 0; r < h; r++) {
+    const o = r * rowBytes;
+    for (let i = 1; i < rowBytes; i++) b[o + i] = (b[o + i] + b[o + i - 1]) & 0xff;
+    tmp.set(b.subarray(o, o + rowBytes));
+    for (let c = 0; c < w; c++) {
+      b[o + 4 * c] = tmp[c];
+      b[o + 4 * c + 1] = tmp[w + c];
+      b[o + 4 * c + 2] = tmp[2 * w + c];
+      b[o + 4 * c + 3] = tmp[3 * w + c];
+    }
+  }
+}
+
+/** A band the fast reader decodes, as plain data (it is sent to worker threads). */
+export interface TiffBandSource {
+  path: string;
+  layout: BandLayout;
+  nodata: number | null;
+}
+
+/**
+ * One share of a window decoded by several threads at once: the window is cut into bands of
+ * whole block rows (strips or tile rows), and each thread takes the next band from a shared
+ * counter (`ctrl[0]`), decodes it into `out` and counts it done (`ctrl[1]`, notified). Every
+ * thread that calls this returns when no band is left to take; `waitForBands` then waits for
+ * the bands others are still decoding.
+ * @param out the window's elevations (Float32 on a SharedArrayBuffer, window.width × window.height)
+ * @param ctrl Int32Array(3) on a SharedArrayBuffer, zeroed before the first call: next band,
+ *   bands done, 1 when a band failed
+ */
+export function decodeBands(fd: number, src: TiffBandSource, window: PixelWindow, out: Float32Array, ctrl: Int32Array): void {
+  const n = bandCount(src.layout, window);
+  const bh = src.layout.bh;
+  for (;;) {
+    const k = Atomics.add(ctrl, 0, 1);
+    if (k >= n) return;
+    const first = Math.floor(window.row0 / bh);
+    const r0 = Math.max(window.row0, (first + k) * bh);
+    const r1 = Math.min(window.row0 + window.height, (first + k + 1) * bh);
+    const w = { col0: window.col0, row0: r0, width: window.width, height: r1 - r0 };
+    const at = (r0 - window.row0) * window.width;
+    try {
+      readBandFloat32(fd, src.layout, src.nodata, w, out.subarray(at, at + w.width * w.height));
+    } catch {
+      out.fill(NaN, at, at + w.width * w.height);
+      Atomics.store(ctrl, 2, 1); // failed: the caller reports it
+    }
+    Atomics.add(ctrl, 1, 1);
+    Atomics.notify(ctrl, 1);
+  }
+}
+
+/** Block-row bands of a window (see decodeBands). */
+export function bandCount(layout: BandLayout, window: PixelWindow): number {
+  return Math.floor((window.row0 + window.height - 1) / layout.bh) - Math.floor(window.row0 / layout.bh) + 1;
+}
+
+/** Block until every band of the window is decoded; false when one failed. */
+export function waitForBands(src: TiffBandSource, window: PixelWindow, ctrl: Int32Array): boolean {
+  const n = bandCount(src.layout, window);
+  for (;;) {
+    const done = Atomics.load(ctrl, 1);
+    if (done >= n) break;
+    Atomics.wait(ctrl, 1, done, 1000);
+  }
+  return Atomics.load(ctrl, 2) === 0;
+}
