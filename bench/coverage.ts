@@ -48,7 +48,7 @@ const r3 = (x: number) => Math.round(x * 1000) / 1000;
  * The issue's "1° × 1.5°" cannot hold a 100 km radius (1° of latitude is 111 km), so the DEM is
  * the 200 km square the radius needs.
  */
-function writeDem(path: string, n: number, cell: number, x0: number, y0: number): void {
+export function writeDem(path: string, n: number, cell: number, x0: number, y0: number): void {
   const rnd = mulberry32(2024);
   const relief = new FractalNoise(6, 6, 0.55, rnd);
   const detail = new FractalNoise(64, 2, 0.5, rnd);

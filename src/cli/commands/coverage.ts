@@ -52,20 +52,32 @@ export async function coverageCommand(argv: string[]): Promise<number> {
   const threads = num("threads", undefined as unknown as number, (x) => Number.isInteger(x) && x >= 0 && x <= 256, "a whole number of threads from 0 to 256");
   const out = resolve(v("out")!);
 
-  // Heavy modules load only for this command.
-  const [{ prepareCoverage, runCoverage }, { CoveragePool }, { CoverageError }, { parseTerrainArg, openTerrain }, { TerrainError }, { writeGeoTiff }, { coverageResult }, { crsFromEpsg }] = await Promise.all([
+  const pattern = v("pattern") === undefined ? undefined : { azimuth_deg: num("azimuth-deg", 0, (x) => x >= 0 && x < 360, "an azimuth from 0 to below 360°"), horizontal: readPatternCsv(v("pattern")!) };
+  // Threads load their code while this thread loads its modules and reads the terrain; small
+  // requests stay in this thread.
+  const estimate = ((2 * radius_km * 1000) / resolution_m) ** 2;
+  const nThreads = threads ?? (estimate < 2e6 ? 0 : availableParallelism());
+  const { CoveragePool } = await import("../../analysis/coverage/coverage-pool.ts");
+  const pool = nThreads > 0 ? CoveragePool.start(nThreads) : null;
+  if (TIMINGS) void pool?.whenReady().then(() => mark("threads ready"));
+  // Heavy modules load only for this command (nothing below may throw before the try that closes the pool, but a failing import).
+  const [{ prepareCoverage, runCoverage }, { CoverageError }, { parseTerrainArg, openTerrain }, { TerrainError }, { writeGeoTiff }, { coverageResult }, { crsFromEpsg }] = await Promise.all([
     import("../../analysis/coverage/compute-coverage.ts"),
-    import("../../analysis/coverage/coverage-pool.ts"),
     import("../../analysis/coverage/coverage-error.ts"),
     import("../../terrain/open-terrain.ts"),
     import("../../terrain/terrain-error.ts"),
     import("../../geo/geotiff-writer.ts"),
     import("../../analysis/coverage/coverage-result.ts"),
     import("../../terrain/crs-from-epsg.ts"),
-  ]);
-  const { openGeoTiff } = await import("../../terrain/geotiff.ts");
+  ]).catch(async (e) => {
+    await pool?.close();
+    throw e;
+  });
+  const { openGeoTiff } = await import("../../terrain/geotiff.ts").catch(async (e) => {
+    await pool?.close();
+    throw e;
+  });
   mark("imports");
-  const pattern = v("pattern") === undefined ? undefined : { azimuth_deg: num("azimuth-deg", 0, (x) => x >= 0 && x < 360, "an azimuth from 0 to below 360°"), horizontal: readPatternCsv(v("pattern")!) };
   const request = {
     site: { lat_deg: lat, lon_deg: lon },
     method,
@@ -99,11 +111,6 @@ export async function coverageCommand(argv: string[]): Promise<number> {
     clearance_f1: "--clearance-f1",
     site: "--site",
   };
-  // Threads load their code while the terrain is read; small requests stay in this thread.
-  const estimate = ((2 * request.radius_m) / resolution_m) ** 2;
-  const nThreads = threads ?? (estimate < 2e6 ? 0 : availableParallelism());
-  const pool = nThreads > 0 ? CoveragePool.start(nThreads) : null;
-  if (TIMINGS) void pool?.whenReady().then(() => mark("threads ready"));
   try {
     let prepared;
     let open_s = 0;
