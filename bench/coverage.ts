@@ -25,6 +25,8 @@ export interface CoverageBenchOptions {
 
 interface ProcessRun {
   wall_s: number;
+  /** user + system CPU time of the child (s): less sensitive than wall time to other load on the machine */
+  cpu_s: number;
   max_rss_mib: number;
   status: number | null;
   stderr: string;
@@ -36,7 +38,10 @@ function timed(cmd: string, args: string[]): ProcessRun {
   const r = spawnSync("/usr/bin/time", ["-v", cmd, ...args], { encoding: "utf8", cwd: ROOT, maxBuffer: 1 << 26 });
   const wall_s = (performance.now() - t0) / 1000;
   const rss = /Maximum resident set size \(kbytes\): (\d+)/.exec(r.stderr);
-  return { wall_s, max_rss_mib: rss ? Number(rss[1]) / 1024 : NaN, status: r.status, stderr: r.stderr };
+  const user = /User time \(seconds\): ([\d.]+)/.exec(r.stderr);
+  const sys = /System time \(seconds\): ([\d.]+)/.exec(r.stderr);
+  const cpu_s = user && sys ? Number(user[1]) + Number(sys[1]) : NaN;
+  return { wall_s, cpu_s, max_rss_mib: rss ? Number(rss[1]) / 1024 : NaN, status: r.status, stderr: r.stderr };
 }
 
 const median = (v: number[]) => [...v].sort((a, b) => a - b)[Math.floor(v.length / 2)];
@@ -99,7 +104,7 @@ let PROJWIN: number[] = [];
 export async function benchCoverage(options: CoverageBenchOptions = {}): Promise<Record<string, unknown>> {
   const radius_km = options.radius_km ?? 100;
   const res = options.resolution_m ?? 30;
-  const runs = options.runs ?? 3;
+  const runs = options.runs ?? 5;
   const dir = mkdtempSync(join(tmpdir(), "ridgeline-bench-coverage-"));
   try {
     const n = 2 * Math.ceil((radius_km * 1000) / res) + 3;
@@ -143,6 +148,8 @@ export async function benchCoverage(options: CoverageBenchOptions = {}): Promise
       visibility: {
         ridgeline_wall_s: ours.map((r) => r3(r.wall_s)),
         gdal_viewshed_wall_s: gdal.map((r) => r3(r.wall_s)),
+        ridgeline_cpu_s: ours.map((r) => r3(r.cpu_s)),
+        gdal_viewshed_cpu_s: gdal.map((r) => r3(r.cpu_s)),
         ridgeline_median_s: r3(visOurs),
         gdal_viewshed_median_s: r3(visGdal),
         ratio: r3(visOurs / visGdal),
