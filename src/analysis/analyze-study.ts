@@ -1,9 +1,11 @@
 import { createHash } from "node:crypto";
-import { mkdtempSync, readFileSync } from "node:fs";
+import { mkdtempSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join, resolve } from "node:path";
 import { linkKeyer, terrainFactsKey, toolIdentity } from "../cache/cache-keys.ts";
 import { canonicalJson } from "../cache/canonical-json.ts";
+import { decodeEntry } from "../cache/entry-codec.ts";
+import { fileDigest } from "../cache/file-digest.ts";
 import { modulesFingerprint } from "../cache/code-fingerprint.ts";
 import { MemoTerrain, TerrainQueryMiss } from "../cache/memo-terrain.ts";
 import type { ResultCache } from "../cache/result-cache.ts";
@@ -124,7 +126,7 @@ export async function analyzeStudy(study: Study, options: AnalyzeOptions = {}): 
   for (const l of study.links) {
     if (!l.profile_csv) continue;
     try {
-      csvSha.set(l.id, sha256(readFileSync(resolve(study.dir, l.profile_csv))));
+      csvSha.set(l.id, fileDigest(resolve(study.dir, l.profile_csv), cache)); // remembered by file identity with a cache
     } catch {
       csvSha.set(l.id, null);
     }
@@ -159,14 +161,21 @@ export async function analyzeStudy(study: Study, options: AnalyzeOptions = {}): 
   const problems: InputProblem[] = [];
   let hits = 0;
   const keys = study.links.map((link) => (keyOf ? keyOf(link, csvSha.get(link.id) ?? null) : null));
-  // Every lookup starts now; the reads proceed together while earlier entries are decoded.
-  const lookups = keys.map((key) => (key ? cache!.getAsync<CachedLink>("link", key) : Promise.resolve(undefined)));
+  // The study's pack holds the last build's entries in one file; a link it lacks is looked up
+  // on its own. Every lookup starts now; the reads proceed together while entries are decoded.
+  const packName = cache ? sha256(`study-pack-v1\0${resolve(study.file)}`) : "";
+  const pack = cache ? await cache.readPack(packName) : new Map<string, Buffer>();
+  const lookups = keys.map((key) => (!key ? undefined : (pack.get(key) ?? cache!.getBytesAsync("link", key))));
+  const packed: [string, Buffer][] = []; // this build's entries, in study order, for the next build's pack
   for (const [i, link] of study.links.entries()) {
     const key = keys[i];
-    const hit = await lookups[i];
+    const bytes = await lookups[i];
+    // Typed arrays are read in place (views of the bytes just read), not copied.
+    const hit = bytes ? (decodeEntry(bytes, { views: true }) as CachedLink | null) : null;
     if (hit && hit.result?.id === link.id && hit.figure?.profile?.d_m instanceof Float64Array) {
       links.push(hit.result);
       figures.set(link.id, hit.figure);
+      packed.push([key!, bytes!]);
       hits++;
     } else {
       try {
@@ -175,7 +184,8 @@ export async function analyzeStudy(study: Study, options: AnalyzeOptions = {}): 
         const clean = { ...sanitizeNumbers(result, warnings, `link ${link.id}`), warnings };
         links.push(clean);
         figures.set(link.id, figure);
-        if (key) cache!.put("link", key, { result: clean, figure });
+        const stored = key ? cache!.put("link", key, { result: clean, figure }) : null;
+        if (stored) packed.push([key!, stored]);
       } catch (e) {
         if (e instanceof ProfileCsvError) {
           problems.push({ file: e.detail.path, line: e.detail.line, col: e.detail.column, field: `${e.detail.field} (profile of link ${link.id})`, received: JSON.stringify(e.detail.value), expected: e.detail.expected });
@@ -186,6 +196,11 @@ export async function analyzeStudy(study: Study, options: AnalyzeOptions = {}): 
     }
     options.onProgress?.(i + 1, study.links.length);
   }
+  // Rewrite the pack (≈ 25 kB a link) when more than one link in 20 was not in it; until then
+  // those few are read on their own. So a one-link change does not rewrite the whole study's
+  // pack, and the pack is rewritten once for every few changed links, as they accumulate.
+  const unpacked = packed.filter(([k, b]) => pack.get(k) !== b).length;
+  if (cache && !problems.length && unpacked * 20 > packed.length) cache.writePack(packName, packed);
   if (problems.length) throw new InputError(problems);
 
   // --- Coverage maps: computed on every build (not cached), into a temporary folder that the

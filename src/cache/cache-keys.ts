@@ -5,7 +5,7 @@ import { canonicalJson } from "./canonical-json.ts";
 import { codeFingerprint } from "./code-fingerprint.ts";
 
 /** Bump when the cache entry layout or what a key covers changes. */
-export const CACHE_FORMAT = 1;
+export const CACHE_FORMAT = 2;
 
 const sha256 = (text: string): string => createHash("sha256").update(text).digest("hex");
 
@@ -28,13 +28,16 @@ export function toolIdentity(): string {
  * profile, which never reads the terrain). The parts shared by every link are hashed once.
  */
 export function linkKeyer(study: Study, terrainKey: string): (link: Study["links"][number], profileCsvSha256: string | null) => string {
-  const shared = sha256(canonicalJson(["study-part", ...toolPart(), study.design, study.climate]));
-  const radios = new Map(study.radios.map((r) => [r.id, r]));
-  const sites = new Map(study.sites.map((s) => [s.id, s]));
+  const shared = canonicalJson(sha256(canonicalJson(["study-part", ...toolPart(), study.design, study.climate])));
+  // The text canonicalJson gives each radio and site, made once rather than once per link;
+  // the key is the sha256 of exactly canonicalJson(["link", shared, input, radio, from, to, ground]).
+  const radios = new Map(study.radios.map((r) => [r.id, canonicalJson(r)]));
+  const sites = new Map(study.sites.map((s) => [s.id, canonicalJson(s)]));
   return (link, profileCsvSha256) => {
     const { index: _index, ...input } = link;
-    const ground = link.profile_csv ? ["profile", profileCsvSha256] : ["terrain", terrainKey];
-    return sha256(canonicalJson(["link", shared, input, radios.get(link.radio) ?? null, sites.get(link.from.site) ?? null, sites.get(link.to.site) ?? null, ground]));
+    const ground = canonicalJson(link.profile_csv ? ["profile", profileCsvSha256] : ["terrain", terrainKey]);
+    const parts = [canonicalJson("link"), shared, canonicalJson(input), radios.get(link.radio) ?? "null", sites.get(link.from.site) ?? "null", sites.get(link.to.site) ?? "null", ground];
+    return sha256(`[${parts.join(",")}]`);
   };
 }
 

@@ -2,6 +2,7 @@ import { mkdirSync, readFileSync, renameSync, rmSync, writeFileSync } from "node
 import { readFile } from "node:fs/promises";
 import { join, resolve } from "node:path";
 import { decodeEntry, encodeEntry } from "./entry-codec.ts";
+import { decodePack, encodePack } from "./entry-pack.ts";
 
 /** Default cache folder, relative to the project root (the working directory). */
 export const DEFAULT_CACHE_DIR = ".ridgeline-cache";
@@ -15,6 +16,11 @@ let tmpCounter = 0;
  * temporary file and renamed into place, so concurrent builds never read half an entry; an
  * unreadable or corrupt entry counts as a miss. Failing to write (read-only disk, full disk)
  * never fails a build: the value is simply not cached and `writeErrors` counts it.
+ *
+ * Beside the entries, a pack (entry-pack.ts) `<dir>/pack/<k0k1>/<name>.bin` gathers the
+ * entries one study needs into one file, read in one go on the next build. A pack is only a
+ * faster way to the same entries: it is looked up by the same content keys, so a pack left by
+ * an older study version merely lacks (or has extra) keys, and the entries stay on their own too.
  */
 export class ResultCache {
   readonly dir: string;
@@ -56,13 +62,51 @@ export class ResultCache {
     return v === null ? undefined : (v as T);
   }
 
-  /** Store a value (atomically replacing any entry under that key). */
-  put(kind: string, key: string, value: unknown): void {
+  /** An entry's bytes (for decodeEntry, or to pack), read without blocking; undefined when absent. */
+  async getBytesAsync(kind: string, key: string): Promise<Buffer | undefined> {
+    try {
+      return await readFile(this.file(kind, key));
+    } catch {
+      return undefined;
+    }
+  }
+
+  /**
+   * Store a value (atomically replacing any entry under that key). Returns the entry's bytes
+   * (for a pack), or null when the value could not be encoded.
+   */
+  put(kind: string, key: string, value: unknown): Buffer | null {
+    let bytes: Buffer;
+    try {
+      bytes = encodeEntry(value);
+    } catch {
+      this.writeErrors++;
+      return null;
+    }
+    this.writeFile(kind, key, bytes);
+    return bytes;
+  }
+
+  /** The entries of the pack `name` (key → entry bytes); empty when absent or unreadable. */
+  async readPack(name: string): Promise<Map<string, Buffer>> {
+    try {
+      return decodePack(await readFile(this.file("pack", name)));
+    } catch {
+      return new Map();
+    }
+  }
+
+  /** Replace the pack `name` with these entries (key and entry bytes), atomically. */
+  writePack(name: string, entries: Iterable<readonly [string, Uint8Array]>): void {
+    this.writeFile("pack", name, encodePack(entries));
+  }
+
+  private writeFile(kind: string, key: string, bytes: Uint8Array): void {
     const file = this.file(kind, key);
     const tmp = `${file}.tmp-${process.pid}-${tmpCounter++}`;
     try {
       mkdirSync(join(this.dir, kind, key.slice(0, 2)), { recursive: true });
-      writeFileSync(tmp, encodeEntry(value));
+      writeFileSync(tmp, bytes);
       renameSync(tmp, file);
     } catch {
       this.writeErrors++;

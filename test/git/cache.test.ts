@@ -98,9 +98,37 @@ describe("content-addressed link cache", () => {
     await analyzeStudy(s, { cache: c });
     const { readdirSync } = await import("node:fs");
     const linkDir = join(c.dir, "link");
-    for (const sub of readdirSync(linkDir)) for (const f of readdirSync(join(linkDir, sub))) writeFileSync(join(linkDir, sub, f), readFileSync(join(linkDir, sub, f)).subarray(0, 40));
+    const packDir = join(c.dir, "pack");
+    for (const d of [linkDir, packDir]) for (const sub of readdirSync(d)) for (const f of readdirSync(join(d, sub))) writeFileSync(join(d, sub, f), readFileSync(join(d, sub, f)).subarray(0, 40));
     const again = await analyzeStudy(s, { cache: c });
     expect(again.cache).toEqual({ hits: 0, misses: 3 });
     expect((await analyzeStudy(s, { cache: c })).cache).toEqual({ hits: 3, misses: 0 });
+  });
+
+  it("reads a rebuild's unchanged links from the study's pack, and the changed one on its own", async () => {
+    const c = new ResultCache(join(root, "cache3"));
+    const load = () => loadStudy(join(dir, "study.yaml"));
+    writeFileSync(join(dir, "study.yaml"), smallStudyYaml({ antennaAB: 31 }));
+    await analyzeStudy(load(), { cache: c });
+    const { readdirSync } = await import("node:fs");
+    const entries = (kind: string) => readdirSync(join(c.dir, kind), { recursive: true }).filter((f) => String(f).endsWith(".bin")).map((f) => join(c.dir, kind, String(f)));
+    expect(entries("pack")).toHaveLength(1);
+    // With the single entries gone, every link still comes from the pack.
+    for (const f of entries("link")) rmSync(f);
+    const packed = await analyzeStudy(load(), { cache: c });
+    expect(packed.cache).toEqual({ hits: 3, misses: 0 });
+    // One link changed: computed and stored on its own; the pack (1 of 3 links not in it) is rewritten.
+    writeFileSync(join(dir, "study.yaml"), smallStudyYaml({ antennaAB: 32 }));
+    const pack = readFileSync(entries("pack")[0]);
+    const changed = await analyzeStudy(load(), { cache: c });
+    expect(changed.cache).toEqual({ hits: 2, misses: 1 });
+    expect(entries("link")).toHaveLength(1);
+    expect(readFileSync(entries("pack")[0]).equals(pack)).toBe(false);
+    for (const f of entries("link")) rmSync(f);
+    const again = await analyzeStudy(load(), { cache: c });
+    expect(again.cache).toEqual({ hits: 3, misses: 0 });
+    const plain = await analyzeStudy(load(), { cache: null });
+    expect(JSON.stringify(again.result)).toBe(JSON.stringify(plain.result));
+    expect(figures(again)).toEqual(figures(plain));
   });
 });

@@ -1,6 +1,7 @@
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
 import { decodeEntry, encodeEntry } from "../../src/cache/entry-codec.ts";
+import { decodePack, encodePack } from "../../src/cache/entry-pack.ts";
 
 // The cache's byte format must give back exactly what went in: bit-identical numbers
 // (including −0, NaN and ±∞), typed arrays of the same type, and objects with the same key
@@ -58,6 +59,49 @@ describe("cache entry codec", () => {
     expect(Buffer.from(back.profile.h.buffer).equals(Buffer.from(h.buffer))).toBe(true);
     expect(back.profile.k).toBe(Infinity);
     expect(back.profile.worst).toBeNaN();
+  });
+
+  it("gives back data that merely looks like the codec's marks as it was (property)", () => {
+    const lookalike = fc.oneof(
+      fc.constant({ $f: "Infinity" }),
+      fc.constant({ $bin: ["Float64Array", 0, 1] }),
+      fc.constant({ $table: [["a", "b"], { $bin: ["Float64Array", 0, 8] }, { $bin: ["Float64Array", 64, 8] }] }),
+    );
+    fc.assert(
+      fc.property(fc.array(fc.oneof(lookalike, tree), { maxLength: 6 }), (v) => {
+        expect(sameValue(v, decodeEntry(encodeEntry(v)))).toBe(true);
+      }),
+      { numRuns: 100 },
+    );
+  });
+
+  it("reads typed arrays in place with views, and copies them when they are not aligned", () => {
+    const h_m = Float64Array.from({ length: 300 }, (_, i) => Math.sin(i) * 1e3);
+    const bytes = encodeEntry({ profile: { h_m, n: Int16Array.of(1, -2, 3) }, k: -0 });
+    const inPlace = decodeEntry(bytes, { views: true }) as { profile: { h_m: Float64Array; n: Int16Array }; k: number };
+    expect(inPlace.profile.h_m.buffer).toBe(bytes.buffer);
+    expect(sameValue(inPlace.profile.h_m, h_m)).toBe(true);
+    expect(Object.is(inPlace.k, -0)).toBe(true);
+    const shifted = Buffer.alloc(bytes.length + 1);
+    bytes.copy(shifted, 1);
+    const copied = decodeEntry(shifted.subarray(1), { views: true }) as typeof inPlace;
+    expect(copied.profile.h_m.buffer).not.toBe(shifted.buffer);
+    expect(sameValue(copied.profile.h_m, h_m)).toBe(true);
+    expect(sameValue(copied.profile.n, Int16Array.of(1, -2, 3))).toBe(true);
+  });
+
+  it("packs entries by key and gives each back whole; a damaged pack gives none", () => {
+    const values = [{ a: Float64Array.of(1, 2, 3) }, { b: "ridge ″ crest", c: [NaN, Infinity] }, {}];
+    const bytes = values.map((v) => encodeEntry(v));
+    const pack = encodePack(bytes.map((b, i) => [`k${i}`, b] as const));
+    const back = decodePack(pack);
+    expect([...back.keys()]).toEqual(["k0", "k1", "k2"]);
+    values.forEach((v, i) => {
+      expect(back.get(`k${i}`)!.equals(bytes[i])).toBe(true);
+      expect(sameValue(decodeEntry(back.get(`k${i}`)!, { views: true }), v)).toBe(true);
+    });
+    expect(decodePack(pack.subarray(0, pack.length - 8)).size).toBe(0);
+    expect(decodePack(Buffer.from("not a pack")).size).toBe(0);
   });
 
   it("rejects truncated or foreign bytes instead of returning a wrong value", () => {

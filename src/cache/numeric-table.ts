@@ -1,0 +1,61 @@
+/**
+ * Arrays of same-shaped all-number records (a height-gain curve, reflection points) as
+ * columns: the cache entry codec stores each key's values as one float64 column, which reads
+ * back several times faster than the same numbers as JSON text.
+ */
+
+/** Set an own property, even one named "__proto__" (plain assignment would set the prototype). */
+export const setOwn = (o: Record<string, unknown>, k: string, v: unknown): void => {
+  if (k === "__proto__") Object.defineProperty(o, k, { value: v, enumerable: true, writable: true, configurable: true });
+  else o[k] = v;
+};
+
+/**
+ * The keys of an array of at least 8 objects that all have the same keys in the same order
+ * and only finite numbers as values; else null (the array is then stored as it is).
+ */
+export function numericTable(rows: unknown[]): string[] | null {
+  if (rows.length < 8) return null;
+  const first = rows[0];
+  if (!first || typeof first !== "object" || Array.isArray(first) || ArrayBuffer.isView(first)) return null;
+  const keys = Object.keys(first);
+  if (keys.length === 0) return null;
+  for (const row of rows) {
+    if (!row || typeof row !== "object" || Array.isArray(row)) return null;
+    const rk = Object.keys(row);
+    if (rk.length !== keys.length) return null;
+    for (let i = 0; i < rk.length; i++) {
+      const x = (row as Record<string, unknown>)[rk[i]];
+      if (rk[i] !== keys[i] || typeof x !== "number" || !Number.isFinite(x)) return null;
+    }
+  }
+  return keys;
+}
+
+/**
+ * The records of a stored table: row r has key names[c] = columns[c][r], keys in the order
+ * given. Two- and three-key tables are built from object literals, several times faster
+ * than adding keys one by one; the objects are the same.
+ */
+export function tableRows(parsedNames: string[], columns: ArrayLike<number>[]): Record<string, number>[] {
+  // Strings from JSON.parse are not yet property keys: made keys once here, not once a row.
+  const names = parsedNames.map((k) => Object.keys({ [k]: 0 })[0] ?? k);
+  const n = columns[0]?.length ?? 0;
+  const rows: Record<string, number>[] = new Array(n);
+  if (names.includes("__proto__") || names.length < 2 || names.length > 3) {
+    for (let r = 0; r < n; r++) {
+      const row: Record<string, number> = {};
+      for (let c = 0; c < names.length; c++) setOwn(row, names[c], columns[c][r]);
+      rows[r] = row;
+    }
+  } else if (names.length === 2) {
+    const [k0, k1] = names;
+    const [c0, c1] = columns;
+    for (let r = 0; r < n; r++) rows[r] = { [k0]: c0[r], [k1]: c1[r] };
+  } else {
+    const [k0, k1, k2] = names;
+    const [c0, c1, c2] = columns;
+    for (let r = 0; r < n; r++) rows[r] = { [k0]: c0[r], [k1]: c1[r], [k2]: c2[r] };
+  }
+  return rows;
+}
