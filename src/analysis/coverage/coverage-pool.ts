@@ -64,18 +64,21 @@ export class CoveragePool {
   async run(job: CoverageJob, onProgress?: CoverageProgress): Promise<TallyData> {
     await Promise.all(this.ready);
     const total = coverageUnits(job);
-    const chunk = Math.max(1, Math.ceil(total / (this.workers.length * 48)));
+    const chunk = chunkSize(total);
     let next = 0;
     let done = 0;
-    const tallies: TallyData[] = [];
+    // Each chunk's tally is kept with the chunk's start and merged in chunk order, so the
+    // floating-point sums do not depend on which thread finished first (reproducible builds).
+    const tallies: { from: number; tally: TallyData }[] = [];
     await Promise.all(
       this.workers.map(
         (w) =>
           new Promise<void>((resolve, reject) => {
+            let current = -1;
             const onError = (e: Error) => reject(e);
             const onMessage = (m: { type: string; tally: TallyData; units: number }) => {
               if (m.type !== "done") return;
-              tallies.push(m.tally);
+              tallies.push({ from: current, tally: m.tally });
               done += m.units;
               onProgress?.(done, total);
               send();
@@ -90,6 +93,7 @@ export class CoveragePool {
               const from = next;
               const to = Math.min(total, from + chunk);
               next = to;
+              current = from;
               w.postMessage({ type: "chunk", from, to } satisfies ToWorker);
             };
             w.on("message", onMessage);
@@ -100,7 +104,11 @@ export class CoveragePool {
       ),
     );
     if (this.failure) throw this.failure;
-    return mergeTallies(tallies, job.thresholds_dbm.length);
+    tallies.sort((a, b) => a.from - b.from);
+    return mergeTallies(
+      tallies.map((t) => t.tally),
+      job.thresholds_dbm.length,
+    );
   }
 
   /** Stop the threads. */
@@ -110,13 +118,21 @@ export class CoveragePool {
 }
 
 /**
+ * Units of work per chunk: a fixed share of the job whatever the number of threads, so the
+ * chunk tallies — and their sums, merged in chunk order — are the same on every machine.
+ */
+function chunkSize(total: number): number {
+  return Math.max(1, Math.ceil(total / 96));
+}
+
+/**
  * Compute a job in the calling thread, chunk by chunk (small jobs, tests, or one core),
  * yielding to the event loop between chunks so progress can be drawn.
  */
 export async function runInThisThread(job: CoverageJob, onProgress?: CoverageProgress): Promise<TallyData> {
   const runner = createChunkRunner(job);
   const total = coverageUnits(job);
-  const chunk = Math.max(1, Math.ceil(total / 64));
+  const chunk = chunkSize(total);
   const tallies: TallyData[] = [];
   for (let from = 0; from < total; from += chunk) {
     const to = Math.min(total, from + chunk);
