@@ -3,6 +3,8 @@ import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { analyzeStudy, type AnalyzedStudy } from "../../src/analysis/analyze-study.ts";
+import fc from "fast-check";
+import { canonicalJson } from "../../src/cache/canonical-json.ts";
 import { ResultCache } from "../../src/cache/result-cache.ts";
 import { loadStudy } from "../../src/study/load-study.ts";
 import { bcProfileCsv, smallStudyYaml, writeSmallStudy, writeSmallTile } from "./small-study.ts";
@@ -22,6 +24,22 @@ beforeAll(() => {
   cache = new ResultCache(join(root, "cache"));
 });
 afterAll(() => rmSync(root, { recursive: true, force: true }));
+
+describe("canonical JSON of key parts", () => {
+  it("writes sorted keys, non-finite numbers as strings, and leaves out undefined members", () => {
+    expect(canonicalJson({ z: [1, -0.5, Infinity, NaN], a: { y: "″", x: undefined, b: null }, k: Float64Array.of(2, 0.1) })).toBe('{"a":{"b":null,"y":"″"},"k":[2,0.1],"z":[1,-0.5,"Infinity","NaN"]}');
+  });
+
+  it("gives the same text whatever order the keys were written in (property)", () => {
+    fc.assert(
+      fc.property(fc.dictionary(fc.string(), fc.jsonValue()), (o) => {
+        const reversed = Object.fromEntries(Object.entries(o).reverse());
+        expect(canonicalJson(reversed)).toBe(canonicalJson(o));
+        expect(JSON.parse(canonicalJson(o))).toEqual(JSON.parse(JSON.stringify(o)));
+      }),
+    );
+  });
+});
 
 describe("content-addressed link cache", () => {
   it("misses everything on an empty cache, then hits everything, with identical results", async () => {
