@@ -1,4 +1,4 @@
-import { endianness } from "node:os";
+import { pad8, readFramed, writeFramed } from "./framed-buffer.ts";
 import { numericTable, setOwn, tableRows } from "./numeric-table.ts";
 
 /**
@@ -17,14 +17,11 @@ import { numericTable, setOwn, tableRows } from "./numeric-table.ts";
  */
 
 const MAGIC = "RLC2";
-const ORDER = endianness() === "LE" ? "L" : "B";
-const HEADER = 12;
 
 type TypedArray = Float64Array | Float32Array | Int32Array | Int16Array | Uint8Array | Uint16Array | Uint32Array | Int8Array;
 type ArrayCtor = { new (buffer: ArrayBufferLike, byteOffset?: number, length?: number): TypedArray; BYTES_PER_ELEMENT: number };
 const CTORS: Record<string, ArrayCtor> = { Float64Array, Float32Array, Int32Array, Int16Array, Int8Array, Uint8Array, Uint16Array, Uint32Array };
 
-const pad8 = (n: number): number => (n + 7) & ~7;
 const NON_ASCII = /[\u0080-\uffff]/g;
 const escapeChar = (c: string): string => `\\u${c.charCodeAt(0).toString(16).padStart(4, "0")}`;
 
@@ -79,17 +76,7 @@ export function encodeEntry(value: unknown): Buffer {
   };
   const tree = walk(value);
   const json = Buffer.from(JSON.stringify([tree, marks]).replace(NON_ASCII, escapeChar), "latin1");
-  const dataStart = pad8(HEADER + json.byteLength);
-  const out = Buffer.alloc(dataStart + offset);
-  out.write(MAGIC + ORDER, 0, "latin1");
-  out.writeUInt32LE(json.byteLength, 8);
-  json.copy(out, HEADER);
-  let at = dataStart;
-  for (const b of blobs) {
-    out.set(b, at);
-    at += pad8(b.byteLength);
-  }
-  return out;
+  return writeFramed(MAGIC, json, blobs);
 }
 
 /** How decodeEntry gives back typed arrays. */
@@ -105,13 +92,12 @@ export interface DecodeOptions {
 
 /** Decode what encodeEntry wrote; null for bytes that are not a whole entry of this machine's byte order. */
 export function decodeEntry(buf: Buffer, options: DecodeOptions = {}): unknown {
-  if (buf.byteLength < HEADER || buf.toString("latin1", 0, 5) !== MAGIC + ORDER) return null;
-  const jsonLength = buf.readUInt32LE(8);
-  if (HEADER + jsonLength > buf.byteLength) return null;
-  const dataStart = pad8(HEADER + jsonLength);
+  const framed = readFramed(MAGIC, buf, "latin1");
+  if (!framed) return null;
+  const { dataStart } = framed;
   let parsed: unknown;
   try {
-    parsed = JSON.parse(buf.toString("latin1", HEADER, HEADER + jsonLength));
+    parsed = JSON.parse(framed.json);
   } catch {
     return null;
   }

@@ -1,4 +1,4 @@
-import { endianness } from "node:os";
+import { pad8, readFramed, writeFramed } from "./framed-buffer.ts";
 
 /**
  * Many cache entries (encodeEntry's bytes) in one file, with an index by key, so that a
@@ -11,9 +11,6 @@ import { endianness } from "node:os";
  */
 
 const MAGIC = "RLP1";
-const ORDER = endianness() === "LE" ? "L" : "B";
-const HEADER = 12;
-const pad8 = (n: number): number => (n + 7) & ~7;
 
 /** The bytes of a pack holding `entries` (key and encoded entry), in the order given. */
 export function encodePack(entries: Iterable<readonly [string, Uint8Array]>): Buffer {
@@ -26,17 +23,7 @@ export function encodePack(entries: Iterable<readonly [string, Uint8Array]>): Bu
     offset += pad8(bytes.byteLength);
   }
   const json = Buffer.from(JSON.stringify(index), "utf8");
-  const dataStart = pad8(HEADER + json.byteLength);
-  const out = Buffer.alloc(dataStart + offset);
-  out.write(MAGIC + ORDER, 0, "latin1");
-  out.writeUInt32LE(json.byteLength, 8);
-  json.copy(out, HEADER);
-  let at = dataStart;
-  for (const p of parts) {
-    out.set(p, at);
-    at += pad8(p.byteLength);
-  }
-  return out;
+  return writeFramed(MAGIC, json, parts);
 }
 
 /**
@@ -46,13 +33,12 @@ export function encodePack(entries: Iterable<readonly [string, Uint8Array]>): Bu
  */
 export function decodePack(buf: Buffer): Map<string, Buffer> {
   const out = new Map<string, Buffer>();
-  if (buf.byteLength < HEADER || buf.toString("latin1", 0, 5) !== MAGIC + ORDER) return out;
-  const jsonLength = buf.readUInt32LE(8);
-  if (HEADER + jsonLength > buf.byteLength) return out;
-  const dataStart = pad8(HEADER + jsonLength);
+  const framed = readFramed(MAGIC, buf, "utf8");
+  if (!framed) return out;
+  const { dataStart } = framed;
   let index: unknown;
   try {
-    index = JSON.parse(buf.toString("utf8", HEADER, HEADER + jsonLength));
+    index = JSON.parse(framed.json);
   } catch {
     return out;
   }
