@@ -167,7 +167,9 @@ describe("monotone non-decreasing in an obstacle's height", () => {
   it("the knife-edge obstruction loss is non-decreasing in ν (J(ν) itself is not: +1.09 dB at ν = −1.87)", () => {
     fc.assert(
       fc.property(fc.double({ min: -3, max: 3, noNaN: true }), fc.double({ min: 0, max: 2, noNaN: true }), (nu, dnu) => {
-        return knifeEdgeObstructionLoss(nu + dnu) >= knifeEdgeObstructionLoss(nu);
+        // 1e-12 dB allows for rounding when ν + dν differs from ν by a few ulps
+        // (found by CI: ν = 1.9392, dν = 7.8e-16 gave a decrease of 1.4e-14 dB).
+        return knifeEdgeObstructionLoss(nu + dnu) >= knifeEdgeObstructionLoss(nu) - 1e-12;
       }),
       { numRuns: 3000 },
     );
