@@ -97,11 +97,8 @@ describe("openHgt on a folder of two 3″ tiles", () => {
     const lon = new Float64Array(n);
     for (let i = 0; i < n; i++) (lat[i] = 46.01 + (0.98 * i) / n), (lon[i] = 7.01 + (1.98 * i) / n);
     t.sample(lat, lon); // load tiles
-    const t0 = performance.now();
     const s = t.sample(lat, lon);
-    const ms = performance.now() - t0;
-    expect(s.outside).toBe(0);
-    expect(ms).toBeLessThan(1000); // measured ~10 ms; the bound only catches pathologies
+    expect(s.outside).toBe(0); // speed: bench/terrain-sample.ts (no timed assertions in tests)
   });
 });
 
