@@ -6,6 +6,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { parse as parseYaml } from "yaml";
 import { analyzeCoverage } from "../../src/analysis/coverage/analyze-coverage.ts";
 import { InputError } from "../../src/study/input-error.ts";
+import { studyHead } from "../helpers/tiny-study.ts";
 import { loadStudy } from "../../src/study/load-study.ts";
 import { studySchema } from "../../src/study/schema.ts";
 import { ConstantTerrain } from "../../src/terrain/constant.ts";
@@ -76,19 +77,7 @@ describe("ridgeline coverage: bad input → exit 2 with a clear message", () => 
   });
 });
 
-const STUDY = (coverage: string) => `title: Coverage input checks
-client: Test
-prepared_by: Test
-revision: A
-date: 2026-01-15
-terrain:
-  constant_m: 50
-radios:
-  - id: r1
-    frequency_ghz: 6
-    tx_power_dbm: 25
-    rx_threshold_dbm: -75
-sites:
+const STUDY = (coverage: string) => `${studyHead("Coverage input checks", "constant_m: 50", "Test", "Test")}sites:
   - id: A
     name: Alpha
     lat_deg: 46.0

@@ -12,6 +12,7 @@ import { studySchema } from "../../src/study/schema.ts";
 import type { Study } from "../../src/study/study.ts";
 import { openGeoTiff } from "../../src/terrain/geotiff.ts";
 import { expectClose } from "../helpers/expect-close.ts";
+import { studyHead } from "../helpers/tiny-study.ts";
 import { cellLatLon, roughTerrain, writeUtmDem } from "./coverage-fixtures.ts";
 
 // A study with three coverages (delta-Bullington with a sector antenna, Hata, visibility) on
@@ -31,19 +32,7 @@ beforeAll(async () => {
   const dem = writeUtmDem(join(dir, "dem.tif"), N, 30, (c, r) => f(c / (N - 1), r / (N - 1)));
   const [aLat, aLon] = cellLatLon(dem, 100, 150);
   const [bLat, bLon] = cellLatLon(dem, 210, 140);
-  const yaml = `title: Coverage study
-client: Test
-prepared_by: Test
-revision: A
-date: 2026-01-15
-terrain:
-  file: dem.tif
-radios:
-  - id: r1
-    frequency_ghz: 6
-    tx_power_dbm: 25
-    rx_threshold_dbm: -75
-sites:
+  const yaml = `${studyHead("Coverage study", "file: dem.tif", "Test", "Test")}sites:
   - { id: A, name: Alpha, lat_deg: ${aLat}, lon_deg: ${aLon} }
   - { id: B, name: Bravo, lat_deg: ${bLat}, lon_deg: ${bLon} }
 coverage:

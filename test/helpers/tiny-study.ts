@@ -1,20 +1,28 @@
 import { mkdirSync, writeFileSync } from "node:fs";
 import { join } from "node:path";
 
-/** A small valid study (constant terrain) as YAML text; tests edit it to break it. */
-export const TINY_STUDY = `title: Tiny test study
-client: Test client
-prepared_by: Test engineer
+/**
+ * The opening of a small test study: metadata, terrain (a YAML mapping body such as
+ * "constant_m: 50" or "file: dem.tif") and one 6 GHz radio `r1`. Sites, links and coverage follow.
+ */
+export function studyHead(title: string, terrain: string, client = "Test client", preparedBy = "Test engineer"): string {
+  return `title: ${title}
+client: ${client}
+prepared_by: ${preparedBy}
 revision: A
 date: 2026-01-15
 terrain:
-  constant_m: 50
+  ${terrain}
 radios:
   - id: r1
     frequency_ghz: 6
     tx_power_dbm: 25
     rx_threshold_dbm: -75
-sites:
+`;
+}
+
+/** A small valid study (constant terrain) as YAML text; tests edit it to break it. */
+export const TINY_STUDY = `${studyHead("Tiny test study", "constant_m: 50")}sites:
   - id: A
     name: Alpha
     lat_deg: -33.4500
