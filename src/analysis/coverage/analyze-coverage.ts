@@ -1,20 +1,18 @@
 import { availableParallelism } from "node:os";
 import { join } from "node:path";
-import { writeGeoTiff } from "../../geo/geotiff-writer.ts";
 import type { GroundClass } from "../../physics/ground-constants.ts";
 import type { CoverageMapData } from "../../render/coverage-map.ts";
 import { InputError } from "../../study/input-error.ts";
 import { parseK } from "../../study/load-study.ts";
 import type { CoverageInput, Study } from "../../study/study.ts";
 import type { Terrain } from "../../terrain/terrain.ts";
-import { compositeAreas, compositeCoverage } from "./composite-coverage.ts";
 import { computeCoverage, type ComputedCoverage } from "./compute-coverage.ts";
 import { CoverageError } from "./coverage-error.ts";
-import { cellCentreLatLon } from "./coverage-grid.ts";
 import { CoveragePool } from "./coverage-pool.ts";
 import type { CoverageRequest, FieldNames } from "./coverage-request.ts";
 import { coverageResult, formatDb, thresholdAreas, type CoverageResult } from "./coverage-result.ts";
 import { isotropicPowerDbm } from "./field-strength.ts";
+import { studyComposite, type CompositeMember, type CompositeOutputs } from "./study-composite.ts";
 import { coverageRaster, writeCoverageOutputs } from "./write-coverage-outputs.ts";
 
 /** Study field names of the request's quantities (for messages). */
@@ -126,16 +124,15 @@ export async function analyzeCoverage(study: Study, entry: CoverageInput, terrai
 /**
  * Every coverage of a study, then the multi-site composite (strongest level, best server) of
  * the level coverages when there are two or more. Starts the worker threads once for all.
- * This is the one call the study analysis makes:
- *   const coverage = await analyzeStudyCoverage(study, terrain, { outDir });
- *   result.coverage = coverage.results;
+ * Computes everything; a study build goes through cachedStudyCoverage (coverage-cache.ts),
+ * which computes only the maps its cache lacks, on the same code path.
  * @param options.workers threads to use (default: available parallelism; 0 computes in this thread)
  */
 export async function analyzeStudyCoverage(
   study: Study,
   terrain: Terrain,
   options: Omit<CoverageOptions, "pool"> & { workers?: number },
-): Promise<{ results: CoverageResult[]; items: AnalyzedCoverage[]; composite: { files: Record<string, string>; figure: CoverageMapData; svg: string } | null; warnings: string[] }> {
+): Promise<{ results: CoverageResult[]; items: AnalyzedCoverage[]; composite: CompositeOutputs | null; warnings: string[] }> {
   const entries = study.coverage ?? [];
   const warnings: string[] = [];
   if (entries.length === 0) return { results: [], items: [], composite: null, warnings };
@@ -148,67 +145,23 @@ export async function analyzeStudyCoverage(
     await pool?.close();
   }
   const results = items.map((it) => it.result);
-  const levels = items.filter((it) => it.computed.request.method !== "visibility");
+  const levels = items.map(compositeMemberOf).filter((m) => m !== null);
   if (levels.length < 2) return { results, items, composite: null, warnings };
-  const comp = compositeCoverage(levels.map((it) => it.computed));
-  if (typeof comp === "string") {
-    warnings.push(`No multi-site composite: ${comp}.`);
+  const comp = await studyComposite(study, levels, options.outDir);
+  if ("warning" in comp) {
+    warnings.push(comp.warning);
     return { results, items, composite: null, warnings };
   }
-  const thresholds = [...new Set(levels.flatMap((it) => it.computed.request.thresholds_dbm))].sort((a, b) => a - b);
-  const serveFrom = thresholds.length ? thresholds[0] : -Infinity;
-  const a = compositeAreas(comp, thresholds, levels.length, serveFrom);
-  const pct = (x: number) => (a.area_m2 > 0 ? (100 * x) / a.area_m2 : 0);
-  const areas = thresholds.map((t, j) => ({ label: `≥ ${formatDb(t)} dBm`, level_dbm: t, field_dbuv_m: null, area_km2: a.at_least_m2[j] / 1e6, pct: pct(a.at_least_m2[j]) }));
-  const siteOf = (it: AnalyzedCoverage) => study.sites.find((s) => s.id === it.result.sites[0])!;
-  const crsSites = levels.map((it, k) => {
-    const s = siteOf(it);
-    return { name: s.name, lat_deg: s.lat_deg, lon_deg: s.lon_deg, col: it.computed.grid.site_col + comp.offsets[k][0], row: it.computed.grid.site_row + comp.offsets[k][1] };
-  });
-  const title = `Composite of ${levels.map((it) => it.result.id).join(", ")}: strongest level`;
-  const out = await writeCoverageOutputs(
-    { title, values: comp.level, dem: comp.dem, width: comp.width, height: comp.height, geoTransform: comp.geoTransform, epsg: comp.epsg, cell_m: comp.cell_m, kind: "level", areas, sites: crsSites },
-    { dir: options.outDir, stem: "composite" },
-  );
-  out.files.best_server_geotiff = "composite-best-server.tif";
-  writeGeoTiff(join(options.outDir, out.files.best_server_geotiff), {
-    width: comp.width,
-    height: comp.height,
-    data: comp.best,
-    geoTransform: comp.geoTransform,
-    epsg: comp.epsg,
-    nodata: 255,
-    description: `best server: ${levels.map((it, k) => `${k + 1} = ${it.result.id}`).join(", ")}`,
-    compression: "deflate",
-  });
-  const [lat, lon] = cellCentreLatLon(comp, comp.width / 2, comp.height / 2);
-  results.push({
-    id: "composite",
-    sites: levels.map((it) => it.result.sites[0]),
-    method: "composite (strongest level, best server)",
-    frequency_ghz: levels[0].result.frequency_ghz,
-    radius_m: Math.max(...levels.map((it) => it.result.radius_m)),
-    antenna_m: null,
-    receiver_m: levels[0].result.receiver_m,
-    k: levels[0].result.k,
-    clearance_f1: null,
-    eirp_dbm: null,
-    grid: { epsg: comp.epsg, crs: levels[0].result.grid.crs, width: comp.width, height: comp.height, geotransform: [...comp.geoTransform], cell_m: comp.cell_m },
-    area_km2: a.area_m2 / 1e6,
-    cells: comp.level.reduce((n, v) => (v === -9999 ? n : n + 1), 0),
-    thresholds: areas,
-    level_min_dbm: null,
-    level_max_dbm: null,
-    files: out.files,
-    best_server: levels.map((it, k) => ({ index: k + 1, coverage: it.result.id, site: it.result.sites[0], area_km2: a.served_m2[k] / 1e6, pct: pct(a.served_m2[k]) })),
-    assumptions: [
-      `Each cell takes the strongest received level of the ${levels.length} coverages and the coverage providing it (best server; ${levels.map((it, k) => `${k + 1} = ${it.result.id}`).join(", ")}); the area a site serves counts cells where it is the best server at or above ${serveFrom} dBm.`,
-      `Centre of the composite grid: ${lat.toFixed(5)}, ${lon.toFixed(5)}.`,
-    ],
-    warnings: [],
-    compute_s: 0,
-  });
-  return { results, items, composite: { files: Object.fromEntries(Object.entries(out.files).map(([k, f]) => [k, join(options.outDir, f)])), figure: out.figure, svg: out.svg }, warnings };
+  results.push(comp.result);
+  return { results, items, composite: comp.outputs, warnings };
+}
+
+/** What the multi-site composite needs of an analysed coverage; null for a visibility coverage. */
+export function compositeMemberOf(it: Pick<AnalyzedCoverage, "result" | "computed">): CompositeMember | null {
+  const c = it.computed;
+  if (c.request.method === "visibility") return null;
+  const { epsg, geoTransform, width, height, site_col, site_row } = c.grid;
+  return { result: it.result, thresholds_dbm: c.request.thresholds_dbm, grid: { epsg, geoTransform, width, height, site_col, site_row }, values: c.values as Float32Array, dem: c.dem };
 }
 
 function methodName(m: string): string {

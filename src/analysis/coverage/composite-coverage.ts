@@ -1,8 +1,16 @@
 import { crsFromEpsg } from "../../terrain/crs-from-epsg.ts";
 import { metresPerDegree } from "../../terrain/metres-per-degree.ts";
-import type { ComputedCoverage } from "./compute-coverage.ts";
-import { pointScale } from "./coverage-grid.ts";
+import { pointScale, type CoverageGrid } from "./coverage-grid.ts";
 import { LEVEL_NODATA, VISIBILITY_NODATA } from "./coverage-job.ts";
+
+/** What the composite reads of a level coverage (a ComputedCoverage is one). */
+export interface CompositeInput {
+  grid: Pick<CoverageGrid, "epsg" | "geoTransform" | "width" | "height">;
+  /** received level (dBm, LEVEL_NODATA where not computed), row-major */
+  values: Float32Array | Uint8Array;
+  /** the grid's elevations (m) */
+  dem: Float32Array;
+}
 
 /** The multi-site composite of level coverages on their common grid. */
 export interface Composite {
@@ -31,7 +39,7 @@ export interface Composite {
  * resolution (their origins are multiples of it). Returns a reason string when they do not.
  * At most 254 inputs.
  */
-export function compositeCoverage(inputs: ComputedCoverage[]): Composite | string {
+export function compositeCoverage(inputs: readonly CompositeInput[]): Composite | string {
   if (inputs.length === 0) return "no level coverages";
   if (inputs.length > 254) return "more than 254 coverages";
   const g0 = inputs[0].grid;

@@ -21,6 +21,9 @@ export interface BuildReport {
   studies: AnalyzedStudy[];
   links: number;
   fromCache: number;
+  /** coverage maps built (each entry, and each study's composite) and how many came from the cache */
+  coverageMaps: number;
+  coverageFromCache: number;
   cacheUsed: boolean;
   compute_s: number;
   render_s: number;
@@ -44,16 +47,22 @@ export async function runBuild(options: BuildOptions = {}): Promise<BuildReport>
     studies,
     links: studies.reduce((n, s) => n + s.result.links.length, 0),
     fromCache: studies.reduce((n, s) => n + s.cache.hits, 0),
+    coverageMaps: studies.reduce((n, s) => n + s.cache.coverage.hits + s.cache.coverage.misses, 0),
+    coverageFromCache: studies.reduce((n, s) => n + s.cache.coverage.hits, 0),
     cacheUsed: cache !== null,
     compute_s: (t1 - t0) / 1000,
     render_s: (performance.now() - t1) / 1000,
   };
 }
 
-/** The one-line summary of a build, e.g. "Built 1 study, 8 links into _site (8 of 8 links from cache; …)". */
+/**
+ * The one-line summary of a build, e.g. "Built 1 study, 8 links into _site (8 of 8 links from
+ * cache, 3 of 4 coverage maps from cache; …)"; the coverage count only when there are maps.
+ */
 export function buildSummary(r: BuildReport): string {
   const n = r.studies.length;
-  const cache = r.cacheUsed ? `${r.fromCache} of ${r.links} links from cache` : "cache off";
+  const maps = r.coverageMaps > 0 ? `, ${r.coverageFromCache} of ${r.coverageMaps} coverage maps from cache` : "";
+  const cache = r.cacheUsed ? `${r.fromCache} of ${r.links} links from cache${maps}` : "cache off";
   return `Built ${n} stud${n === 1 ? "y" : "ies"}, ${r.links} links into ${r.outDir} (${cache}; compute ${r.compute_s.toFixed(2)} s, render ${r.render_s.toFixed(2)} s).`;
 }
 
