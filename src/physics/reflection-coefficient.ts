@@ -47,7 +47,9 @@ export function complexPermittivity(epsilon_r: number, sigma_s_m: number, freque
  * Validity: any ψ in [0, π/2], smooth surface (see `roughnessFactor` for the Rayleigh
  * criterion), plane-wave incidence (see `divergenceFactor` for a spherical Earth).
  * Limits: ψ → 0 gives R → −1 for both polarisations; σ = Infinity means a perfect conductor
- * (R_h = −1, R_v = +1 at every ψ). ψ outside [0, π/2] or non-finite inputs give NaN.
+ * (R_h = −1, R_v = +1 at every ψ); η = 1 (εr = 1, σ = 0: no contrast with the air above) gives
+ * R = 0 at every ψ, where the formulas would give 0/0 at ψ = 0. ψ outside [0, π/2] or
+ * non-finite inputs give NaN.
  * @param opts.epsilon_r relative permittivity (dimensionless)
  * @param opts.sigma_s_m conductivity (S/m); Infinity for a perfect conductor
  * @param opts.frequency_ghz frequency (GHz)
@@ -71,6 +73,7 @@ export function reflectionCoefficient(opts: {
     (polarization !== "horizontal" && polarization !== "vertical");
   if (bad) return fromComplex(complex(NaN, NaN));
   if (sigma_s_m === Infinity) return fromComplex(complex(polarization === "horizontal" ? -1 : 1, 0));
+  if (epsilon_r === 1 && sigma_s_m === 0) return fromComplex(complex(0, 0)); // no interface, no reflection
 
   const eta = complexPermittivity(epsilon_r, sigma_s_m, frequency_ghz);
   const sinPsi = Math.sin(psi);

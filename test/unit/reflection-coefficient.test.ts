@@ -89,6 +89,12 @@ describe("reflection coefficient: known limits", () => {
     );
   });
 
+  it("no contrast (εr = 1, σ = 0) reflects nothing at every ψ, grazing included (fast-check found 0/0 there)", () => {
+    for (const pol of ["horizontal", "vertical"] as const) {
+      for (const psi of [0, 1e-9, 0.3, Math.PI / 2]) expectClose(R(1, 0, 0.01, psi, pol).magnitude, 0, { abs: 1e-7 }, { pol, psi });
+    }
+  });
+
   it("NaN in → NaN out; ψ outside [0, π/2] and negative σ give NaN", () => {
     expect(R(NaN, 0.01, 1, 0.1, "horizontal").magnitude).toBeNaN();
     expect(R(15, NaN, 1, 0.1, "horizontal").magnitude).toBeNaN();
