@@ -18,7 +18,7 @@ import { TerrainError } from "../terrain/terrain-error.ts";
 import { ProfileCsvError } from "../terrain/profile-csv-error.ts";
 import { analyzeLink, siteGroundM, type LinkFigureData } from "./analyze-link.ts";
 import { chainResults } from "./chains.ts";
-import { analyzeStudyCoverage } from "./coverage/analyze-coverage.ts";
+import { cachedStudyCoverage } from "./coverage/coverage-cache.ts";
 import { gitStateAsync, TOOL_VERSION } from "./provenance.ts";
 import type { LinkResult, StudyResult } from "./results.ts";
 import { sanitizeNumbers } from "./sanitize.ts";
@@ -31,8 +31,11 @@ export interface AnalyzedStudy {
   readonly terrain: Terrain | null;
   /** Open the study's terrain (once) for work beyond the cached results. */
   openTerrain(): Promise<Terrain>;
-  /** Links whose result and figure data came from the cache, and links computed. */
-  cache: { hits: number; misses: number };
+  /**
+   * Links whose result and figure data came from the cache, and links computed; `coverage`:
+   * the same for coverage maps (each entry, and the composite when there is one).
+   */
+  cache: { hits: number; misses: number; coverage: { hits: number; misses: number } };
   /** The study's coverage maps: page figures and the folder holding their files; null without coverage. */
   coverage: StudyCoverage | null;
   /**
@@ -161,10 +164,10 @@ export async function analyzeStudy(study: Study, options: AnalyzeOptions = {}): 
   const problems: InputProblem[] = [];
   let hits = 0;
   const keys = study.links.map((link) => (keyOf ? keyOf(link, csvSha.get(link.id) ?? null) : null));
-  // The study's pack holds the last build's entries in one file; a link it lacks is looked up
-  // on its own. Every lookup starts now; the reads proceed together while entries are decoded.
+  // The study's pack holds the last build's entries in one file, read at once; a link it lacks
+  // is looked up on its own, those reads starting now and proceeding while entries are decoded.
   const packName = cache ? sha256(`study-pack-v1\0${resolve(study.file)}`) : "";
-  const pack = cache ? await cache.readPack(packName) : new Map<string, Buffer>();
+  const pack = cache ? cache.readPack(packName) : new Map<string, Buffer>();
   const lookups = keys.map((key) => (!key ? undefined : (pack.get(key) ?? cache!.getBytesAsync("link", key))));
   const packed: [string, Buffer][] = []; // this build's entries, in study order, for the next build's pack
   for (const [i, link] of study.links.entries()) {
@@ -203,15 +206,18 @@ export async function analyzeStudy(study: Study, options: AnalyzeOptions = {}): 
   if (cache && !problems.length && unpacked * 20 > packed.length) cache.writePack(packName, packed);
   if (problems.length) throw new InputError(problems);
 
-  // --- Coverage maps: computed on every build (not cached), into a temporary folder that the
-  // site build copies next to the study page ---
+  // --- Coverage maps: from the cache or computed (coverage-cache.ts; the terrain is opened only
+  // for a map that must be computed), into a temporary folder that the site build copies next
+  // to the study page ---
   let coverage: StudyCoverage | null = null;
   const warnings: string[] = [];
   let coverageResults: StudyResult["coverage"] = [];
+  let coverageCache = { hits: 0, misses: 0 };
   if (study.coverage?.length) {
     const dir = mkdtempSync(join(tmpdir(), `ridgeline-coverage-${study.id}-`));
-    const cov = await analyzeStudyCoverage(study, await open(), { outDir: dir });
-    coverageResults = cov.results.map(({ compute_s: _timing, ...r }) => r); // no clock in results
+    const cov = await cachedStudyCoverage(study, { outDir: dir, cache, terrainKey, openTerrain: open });
+    coverageResults = cov.results; // without compute time: no clock in results
+    coverageCache = cov.cache;
     warnings.push(...cov.warnings);
     coverage = { dir, maps: [...cov.items.map((it) => ({ id: it.result.id, svg: it.svg })), ...(cov.composite ? [{ id: "composite", svg: cov.composite.svg }] : [])] };
   }
@@ -256,7 +262,7 @@ export async function analyzeStudy(study: Study, options: AnalyzeOptions = {}): 
       return terrain;
     },
     openTerrain: open,
-    cache: { hits, misses: study.links.length - hits },
+    cache: { hits, misses: study.links.length - hits, coverage: coverageCache },
     coverage,
     async remember<T>(name: string, inputs: unknown, modules: string[], compute: (terrain: Terrain) => T | Promise<T>): Promise<T> {
       if (!cache) return compute(await open());

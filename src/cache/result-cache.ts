@@ -87,10 +87,14 @@ export class ResultCache {
     return bytes;
   }
 
-  /** The entries of the pack `name` (key → entry bytes); empty when absent or unreadable. */
-  async readPack(name: string): Promise<Map<string, Buffer>> {
+  /**
+   * The entries of the pack `name` (key → entry bytes); empty when absent or unreadable.
+   * Read in one call: a pack is a few megabytes, which readFile would fetch in 512 kB pieces,
+   * each a round trip through the I/O threads.
+   */
+  readPack(name: string): Map<string, Buffer> {
     try {
-      return decodePack(await readFile(this.file("pack", name)));
+      return decodePack(readFileSync(this.file("pack", name)));
     } catch {
       return new Map();
     }
