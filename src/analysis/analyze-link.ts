@@ -13,6 +13,7 @@ import { obstructedHeights } from "./link-losses.ts";
 import { terrainProfile, type LinkProfile } from "./link-profile.ts";
 import type { ClearanceRow, LinkEndResult, LinkResult } from "./results.ts";
 import { linkLosses } from "./link-losses.ts";
+import type { HeightGainCurve } from "./link-reflection.ts";
 
 type LinkInput = Study["links"][number];
 
@@ -21,6 +22,8 @@ export interface LinkFigureData {
   profile: LinkProfile;
   lambda_m: number;
   ks: { label: string; ae_m: number; worst: { at_distance_m: number; clearance_f1: number } }[];
+  /** The height-gain curve at the receiving end (a plot series; results carry its step). */
+  height_gain: HeightGainCurve;
 }
 
 /** Heights of a site's ground: the study's surveyed value, else the terrain under it. */
@@ -142,6 +145,6 @@ export function analyzeLink(study: Study, link: LinkInput, terrain: Terrain): { 
     target_met: clearance_met,
     warnings,
   };
-  const result = linkLosses(study, link, radio, base, profile);
-  return { result, figure: { profile, lambda_m, ks } };
+  const { result, height_gain } = linkLosses(study, link, radio, base, profile);
+  return { result, figure: { profile, lambda_m, ks, height_gain } };
 }

@@ -15,7 +15,7 @@ import { rainAttenuation001, rainOutagePercent, RAIN_P530_VALIDITY } from "../ph
 import { POLARISATION_TILT_DEG } from "../physics/rain-specific-attenuation.ts";
 import type { Study } from "../study/study.ts";
 import type { LinkProfile } from "./link-profile.ts";
-import { linkReflection } from "./link-reflection.ts";
+import { linkReflection, type HeightGainCurve } from "./link-reflection.ts";
 import { rangeWarning } from "./range-warning.ts";
 import type { LinkResult } from "./results.ts";
 
@@ -50,7 +50,7 @@ export function diffractionByMethod(path: DiffractionPath, options: { polarizati
  * length; rain by P.838-3 and P.530-16 §2.4.1; multipath by P.530-16 §2.3 converted from the
  * worst month to the average year (§2.3.4); unavailability = multipath + rain (common practice).
  */
-export function linkLosses(study: Study, link: LinkInput, radio: RadioInput, base: LinkResult, profile: LinkProfile): LinkResult {
+export function linkLosses(study: Study, link: LinkInput, radio: RadioInput, base: LinkResult, profile: LinkProfile): { result: LinkResult; height_gain: HeightGainCurve } {
   const warnings = [...base.warnings];
   const warn = (w: string | null) => {
     if (w && !warnings.includes(w)) warnings.push(w);
@@ -116,7 +116,8 @@ export function linkLosses(study: Study, link: LinkInput, radio: RadioInput, bas
   const target = link.availability_pct ?? study.design.availability_pct;
   if (fade_margin_db <= 0) warnings.push(`The median received level is ${(-fade_margin_db).toFixed(1)} dB short of the threshold plus field margin: the link does not close.`);
   const target_met = base.clearance_met && fade_margin_db > 0 && availability_pct >= target;
-  return {
+  const { reflection, height_gain } = linkReflection(study, profile, base.ends, f, link.polarization);
+  const result: LinkResult = {
     ...base,
     losses_db: { free_space: base.losses_db.free_space, diffraction, gases, rain_0_01pct: rain001 },
     diffraction_method: method,
@@ -144,7 +145,7 @@ export function linkLosses(study: Study, link: LinkInput, radio: RadioInput, bas
       geoclimatic_k: mp.K,
       path_inclination_mrad: mp.epsilon_p_mrad,
     },
-    reflection: linkReflection(study, profile, base.ends, f, link.polarization),
+    reflection,
     received_dbm,
     fade_margin_db,
     availability_pct,
@@ -152,4 +153,5 @@ export function linkLosses(study: Study, link: LinkInput, radio: RadioInput, bas
     target_met,
     warnings,
   };
+  return { result, height_gain };
 }

@@ -30,11 +30,21 @@ export interface ReflectionResult {
   epsilon_r: number;
   sigma_s_m: number;
   per_k: { k_label: string; points: ReflectionPointResult[] }[];
-  /** Receive-antenna height against level relative to free space, at the first k, dominant reflection only. */
-  height_gain: { rx_antenna_m: number; relative_db: number }[];
+  /** Height step of the height-gain curve (m). */
   height_gain_step_m: number;
   /** Vertical spacing for space diversity at the first k, from the dominant point (m); null without one. */
   space_diversity_spacing_m: number | null;
+}
+
+/**
+ * The height-gain curve at the receiving end: level relative to free space against the
+ * receive-antenna height, at the first k, dominant reflection only. Two columns of the same
+ * length: row i is rx_antenna_m[i] (m above ground) and relative_db[i] (dB). Figure data (a
+ * plot series, like the profile's samples), not part of the link's JSON result.
+ */
+export interface HeightGainCurve {
+  rx_antenna_m: Float64Array;
+  relative_db: Float64Array;
 }
 
 /** Half-width (samples) of the window for the terrain roughness around a reflection point. */
@@ -83,7 +93,7 @@ interface Ray {
  * of a rugged profile) sampled finely enough to resolve the interference lobes; and a
  * suggested space-diversity spacing.
  */
-export function linkReflection(study: Study, profile: LinkProfile, ends: { from: LinkEndResult; to: LinkEndResult }, frequency_ghz: number, polarization: "h" | "v"): ReflectionResult {
+export function linkReflection(study: Study, profile: LinkProfile, ends: { from: LinkEndResult; to: LinkEndResult }, frequency_ghz: number, polarization: "h" | "v"): { reflection: ReflectionResult; height_gain: HeightGainCurve } {
   const cls = study.climate.ground.replace(/_/g, "-") as GroundClass;
   const g = groundConstants(cls, frequency_ghz);
   const d_m = Array.from(profile.d_m);
@@ -125,7 +135,6 @@ export function linkReflection(study: Study, profile: LinkProfile, ends: { from:
   // the level is the two-ray sum with the plane's Fresnel coefficient, divergence and roughness.
   const ae0 = study.design.k_factors[0].k * EARTH_RADIUS_M;
   const main = dominant(rays(ends.to.antenna_amsl_m, ae0));
-  const height_gain: ReflectionResult["height_gain"] = [];
   const bulged = (k: number) => h_m[k] + earthBulgeM(d_m[k], D - d_m[k], ae0);
   let plane: { xp: number; zp: number; c: number; s: number } | null = null;
   if (main && strength(main) > 0) {
@@ -155,6 +164,7 @@ export function linkReflection(study: Study, profile: LinkProfile, ends: { from:
   const hi = h0 + half;
   const hgStep = lobes ? Math.min(HG_MAX_STEP_M, Math.max(HG_MIN_STEP_M, period_m / 10)) : HG_MAX_STEP_M;
   const steps = Math.round((hi - lo) / hgStep);
+  const height_gain: HeightGainCurve = { rx_antenna_m: new Float64Array(steps + 1), relative_db: new Float64Array(steps + 1) };
   for (let step = 0; step <= steps; step++) {
     const h = lo + step * hgStep;
     let level = 0;
@@ -174,8 +184,9 @@ export function linkReflection(study: Study, profile: LinkProfile, ends: { from:
         level = twoRayRelativeLevelDb({ path_difference_m: delta, lambda_m, reflection: { magnitude: coef.magnitude * rough, phase_rad: coef.phase_rad }, divergence: div });
       }
     }
-    height_gain.push({ rx_antenna_m: Math.round(h * 100) / 100, relative_db: Math.round(level * 1000) / 1000 });
+    height_gain.rx_antenna_m[step] = Math.round(h * 100) / 100;
+    height_gain.relative_db[step] = Math.round(level * 1000) / 1000;
   }
 
-  return { ground: study.climate.ground, epsilon_r: g.epsilon_r, sigma_s_m: g.sigma_s_m, per_k, height_gain, height_gain_step_m: hgStep, space_diversity_spacing_m };
+  return { reflection: { ground: study.climate.ground, epsilon_r: g.epsilon_r, sigma_s_m: g.sigma_s_m, per_k, height_gain_step_m: hgStep, space_diversity_spacing_m }, height_gain };
 }

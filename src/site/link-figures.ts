@@ -67,8 +67,9 @@ export function linkFresnelSvg(s: AnalyzedStudy, linkId: string): string {
 
 /** The height-gain figure at the receiving end, or "" when the link has no curve. */
 export function linkHeightGainSvg(s: AnalyzedStudy, linkId: string): string {
-  const { link } = linkOf(s, linkId);
-  const hg = (link.reflection?.height_gain ?? []).filter((p) => typeof p.relative_db === "number" && Number.isFinite(p.relative_db));
+  const { link, fig } = linkOf(s, linkId);
+  const curve = fig.height_gain;
+  const hg = Array.from(curve.rx_antenna_m, (rx_antenna_m, i) => ({ rx_antenna_m, relative_db: curve.relative_db[i] })).filter((p) => Number.isFinite(p.relative_db));
   if (hg.length < 2) return "";
   return heightGainSvg({
     id: `height-gain-${linkId}`,

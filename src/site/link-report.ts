@@ -100,7 +100,6 @@ export function linkReport(l: LinkResult, radioName: string | undefined, diffrac
     used: m === method,
   }));
   const first = l.reflection?.per_k[0];
-  const hg = l.reflection?.height_gain ?? [];
-  const height_gain_step_m = hg.length > 1 ? num(hg[1].rx_antenna_m - hg[0].rx_antenna_m) : null;
+  const height_gain_step_m = l.reflection ? num(l.reflection.height_gain_step_m) : null;
   return { radio_name: radioName ?? l.radio, budget, losses, availability, diffraction, reflection_k: first?.k_label ?? null, reflections: first?.points ?? [], height_gain_step_m };
 }

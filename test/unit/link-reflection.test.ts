@@ -17,9 +17,11 @@ describe("height-gain curve over a smooth flat sea", () => {
     const yaml = TINY_STUDY.replace("  constant_m: 50", "  constant_m: 0")
       .replace("radios:", 'design:\n  k_factors: ["inf"]\n  clearance_criteria: [{ k: "inf", min_f1: 0.6 }]\nclimate:\n  ground: sea_water\nradios:')
       .replace("frequency_ghz: 6", "frequency_ghz: 8");
-    const { result } = await analyzeStudy(loadStudy(writeStudy(root, "sea", yaml)));
+    const { result, figures } = await analyzeStudy(loadStudy(writeStudy(root, "sea", yaml)));
     const l = result.links[0];
-    const hg = l.reflection!.height_gain;
+    const curve = figures.get(l.id)!.height_gain;
+    expect(curve.relative_db.length).toBe(curve.rx_antenna_m.length);
+    const hg = Array.from(curve.rx_antenna_m, (rx_antenna_m, i) => ({ rx_antenna_m, relative_db: curve.relative_db[i] }));
     expect(hg.length).toBeGreaterThan(250);
     const d = l.distance_m;
     const lambda = 299_792_458 / 8e9;
