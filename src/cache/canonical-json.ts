@@ -18,7 +18,7 @@ export function canonicalJson(value: unknown): string {
   }
   if (typeof value === "object") {
     const o = value as Record<string, unknown>;
-    const keys = Object.keys(o).sort((a, b) => (a < b ? -1 : a > b ? 1 : 0));
+    const keys = Object.keys(o).sort(); // the default order of strings is by UTF-16 code unit
     let out = "{";
     let first = true;
     for (const k of keys) {
