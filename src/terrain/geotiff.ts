@@ -4,7 +4,7 @@ import { readFile } from "node:fs/promises";
 import { makeRasterGrid, RasterTerrain, type RasterTerrainOptions } from "./raster-terrain.ts";
 import { bilinearGrid } from "./bilinear-grid.ts";
 import { crsFromEpsg } from "./crs-from-epsg.ts";
-import { bandLayout, decodeBands, readBandFloat32, waitForBands, type BandLayout, type PixelWindow, type TiffBandSource } from "./tiff-band-reader.ts";
+import { bandLayout, decodeBands, readBandFloat32, readBandInt16, waitForBands, type BandLayout, type PixelWindow, type TiffBandSource } from "./tiff-band-reader.ts";
 import { readTiffDirectory } from "./tiff-directory.ts";
 import type { RasterGrid } from "./terrain.ts";
 import { TerrainError } from "./terrain-error.ts";
@@ -90,7 +90,7 @@ const EMPTY = new Float32Array(0);
  * Hands a window decode to other threads: each is to call decodeBands(fd, src, window, out,
  * ctrl) with the same arguments (see tiff-band-reader.ts) and may start late or never.
  */
-export type ShareDecode = (src: TiffBandSource, window: PixelWindow, out: Float32Array, ctrl: Int32Array) => void;
+export type ShareDecode = (src: TiffBandSource, window: PixelWindow, out: Float32Array | Int16Array, ctrl: Int32Array) => void;
 
 /**
  * Band 1 of a GeoTIFF the fast reader handles, decoded on first use: all of it (`all`) or a
@@ -114,9 +114,17 @@ class DeferredPixels {
     return { path: this.path, layout: this.layout, nodata: this.nodata };
   }
 
-  /** A window decoded by this thread together with others (see decodeBands); null when a band failed. */
-  windowShared(w: PixelWindow, share: ShareDecode): Float32Array | null {
-    const out = new Float32Array(new SharedArrayBuffer(w.width * w.height * 4));
+  /** Whether the band holds Int16 samples (a window can then be read as Int16: half the memory). */
+  get int16(): boolean {
+    return this.layout.kind === "i16";
+  }
+
+  /**
+   * A window decoded by this thread together with others (see decodeBands), as Int16 when
+   * asked and the band is Int16; null when a band failed.
+   */
+  windowShared(w: PixelWindow, share: ShareDecode, int16 = false): Float32Array | Int16Array | null {
+    const out = int16 && this.int16 ? new Int16Array(new SharedArrayBuffer(w.width * w.height * 2)) : new Float32Array(new SharedArrayBuffer(w.width * w.height * 4));
     const ctrl = new Int32Array(new SharedArrayBuffer(12));
     const src = this.source;
     share(src, w, out, ctrl);
@@ -134,8 +142,10 @@ class DeferredPixels {
     return this.data;
   }
 
-  window(w: PixelWindow): Float32Array {
-    if (this.data === null) return this.read(w);
+  window(w: PixelWindow): Float32Array;
+  window(w: PixelWindow, int16: boolean): Float32Array | Int16Array;
+  window(w: PixelWindow, int16 = false): Float32Array | Int16Array {
+    if (this.data === null) return int16 && this.int16 ? this.read(w, true) : this.read(w);
     const out = new Float32Array(new SharedArrayBuffer(w.width * w.height * 4));
     const W = this.layout.width;
     for (let r = 0; r < w.height; r++) {
@@ -145,11 +155,13 @@ class DeferredPixels {
     return out;
   }
 
-  private read(w?: PixelWindow): Float32Array {
+  private read(w?: PixelWindow): Float32Array;
+  private read(w: PixelWindow, int16: true): Int16Array;
+  private read(w?: PixelWindow, int16 = false): Float32Array | Int16Array {
     let fd: number | null = null;
     try {
       fd = openSync(this.path, "r");
-      return readBandFloat32(fd, this.layout, this.nodata, w);
+      return int16 ? readBandInt16(fd, this.layout, this.nodata, w) : readBandFloat32(fd, this.layout, this.nodata, w);
     } catch (e) {
       throw new TerrainError(
         `GeoTIFF ${this.label}: its pixels could not be decoded (${(e as NodeJS.ErrnoException).code ?? (e as Error).message}); rewrite it with gdal_translate -co COMPRESS=DEFLATE in.tif out.tif`,
@@ -211,14 +223,16 @@ class GeoTiffTerrain extends RasterTerrain {
   /**
    * Elevations of a window of the raster's own pixels (Float32 on a SharedArrayBuffer, NaN
    * nodata), read straight from the file when the band is not decoded yet — with `share`,
-   * by this thread and the threads `share` hands the same work to (see decodeBands).
+   * by this thread and the threads `share` hands the same work to (see decodeBands). With
+   * `int16` and an Int16 band read that way, an Int16Array instead (nodata INT16_NODATA):
+   * the same values in half the memory, which a 100 km coverage grid (≈ 45 M cells) feels.
    */
-  readWindow(window: PixelWindow, share?: ShareDecode): Float32Array {
+  readWindow(window: PixelWindow, share?: ShareDecode, int16 = false): Float32Array | Int16Array {
     if (this.pixels !== null && share && !this.pixels.decoded) {
       // shared by other threads; on a failed band, read it again here to report the error
-      return this.pixels.windowShared(window, share) ?? this.pixels.window(window);
+      return this.pixels.windowShared(window, share, int16) ?? this.pixels.window(window);
     }
-    if (this.pixels !== null) return this.pixels.window(window);
+    if (this.pixels !== null) return this.pixels.window(window, int16);
     const { width: W, data } = this.raster;
     const out = new Float32Array(new SharedArrayBuffer(window.width * window.height * 4));
     for (let r = 0; r < window.height; r++) {

@@ -73,6 +73,9 @@ export function bandLayout(dir: TiffDirectory): BandLayout | null {
   return { width: W, height: H, kind, littleEndian: dir.littleEndian, deflate, predictor: predictor as 1 | 2 | 3, tiled, bw, bh, across, offsets, counts };
 }
 
+/** Int16 elevations mark nodata with this value (GDAL's usual Int16 nodata; SRTM voids). */
+export const INT16_NODATA = -32768;
+
 /**
  * Decode band 1 straight into a Float32Array backed by a SharedArrayBuffer (so worker
  * threads can share it without a copy), samples equal to `nodata` (compared in the band's
@@ -86,13 +89,54 @@ export function bandLayout(dir: TiffDirectory): BandLayout | null {
  * @throws Error when a block is truncated or its compressed stream is corrupt
  */
 export function readBandFloat32(fd: number, layout: BandLayout, nodata: number | null, window?: PixelWindow, into?: Float32Array): Float32Array {
-  const { width: W, height: H, kind, deflate, predictor, tiled, bw, bh, across, offsets, counts } = layout;
-  const win = window ?? { col0: 0, row0: 0, width: W, height: H };
+  const win = window ?? { col0: 0, row0: 0, width: layout.width, height: layout.height };
   const out = into ?? new Float32Array(new SharedArrayBuffer(win.width * win.height * 4));
-  const bps = kind === "u16" || kind === "i16" ? 2 : 4;
-  const scratch = new ArrayBuffer(bw * bh * bps);
+  const kind = layout.kind;
   // Nodata in the band's own type: integers only match an integer, Float32 its rounding.
   const nd = nodata === null || Number.isNaN(nodata) ? null : kind === "f32" ? Math.fround(nodata) : Number.isInteger(nodata) ? nodata : null;
+  decodeWindow(fd, layout, win, (samples, src, dst, n) => {
+    if (kind === "i32" || !ArrayBuffer.isView(samples)) {
+      // Int32 → Float32 rounds: compare with nodata before converting
+      for (let c = 0; c < n; c++) {
+        const v = samples[src + c];
+        out[dst + c] = v === nd ? NaN : v;
+      }
+      return;
+    }
+    // 16-bit integers and Float32 convert exactly: copy the row in one native call (a loop over
+    // the sample array, whose type differs by file, runs several times slower), then mark nodata.
+    out.set((samples as Int16Array | Uint16Array | Float32Array).subarray(src, src + n), dst);
+    if (nd !== null) markNodata(out, dst, dst + n, nd);
+  });
+  return out;
+}
+
+/**
+ * Decode an Int16 band 1 (layout.kind "i16") into an Int16Array backed by a SharedArrayBuffer:
+ * half the memory of Float32 for the same exact values. Samples equal to `nodata` become
+ * INT16_NODATA (−32768), which therefore always means nodata. As readBandFloat32 otherwise.
+ * @throws Error for a band that is not Int16, a truncated block or a corrupt stream
+ */
+export function readBandInt16(fd: number, layout: BandLayout, nodata: number | null, window?: PixelWindow, into?: Int16Array): Int16Array {
+  if (layout.kind !== "i16") throw new Error(`readBandInt16: the band holds ${layout.kind} samples`);
+  const win = window ?? { col0: 0, row0: 0, width: layout.width, height: layout.height };
+  const out = into ?? new Int16Array(new SharedArrayBuffer(win.width * win.height * 2));
+  const nd = nodata !== null && Number.isInteger(nodata) && nodata !== INT16_NODATA ? nodata : null;
+  decodeWindow(fd, layout, win, (samples, src, dst, n) => {
+    out.set((samples as Int16Array).subarray(src, src + n), dst);
+    if (nd !== null) for (let i = dst; i < dst + n; i++) if (out[i] === nd) out[i] = INT16_NODATA;
+  });
+  return out;
+}
+
+/** Copies n samples of one row of a decoded block, from samples[src…] to the window at dst. */
+type CopyRow = (samples: ArrayLike<number>, src: number, dst: number, n: number) => void;
+
+/** Read and decode every block that intersects `win`, handing each row's part of the window to `copyRow`. */
+function decodeWindow(fd: number, layout: BandLayout, win: PixelWindow, copyRow: CopyRow): void {
+  const { width: W, height: H, kind, deflate, predictor, tiled, bw, bh, across, offsets, counts } = layout;
+  const bps = kind === "u16" || kind === "i16" ? 2 : 4;
+  const scratch = new ArrayBuffer(bw * bh * bps);
   const by0 = Math.floor(win.row0 / bh);
   const by1 = Math.floor((win.row0 + win.height - 1) / bh);
   const bx0 = Math.floor(win.col0 / bw);
@@ -116,26 +160,19 @@ export function readBandFloat32(fd: number, layout: BandLayout, nodata: number |
       else if (!layout.littleEndian) swapBytes(bytes, bps);
       const samples = view(kind, scratch, bw * rowsInBlock, predictor === 3);
       if (predictor === 2) horizontalPredictor(samples as Int16Array | Uint16Array | Int32Array, bw, rowsInBlock);
-      // --- copy the block's part of the window ---
+      // --- the block's part of the window ---
       const r0 = Math.max(win.row0, by * bh);
       const r1 = Math.min(win.row0 + win.height, by * bh + rowsInBlock, H);
       const c0 = Math.max(win.col0, bx * bw);
       const c1 = Math.min(win.col0 + win.width, bx * bw + bw, W);
-      for (let r = r0; r < r1; r++) {
-        const src = (r - by * bh) * bw - bx * bw;
-        const dst = (r - win.row0) * win.width - win.col0;
-        if (nd === null) {
-          for (let c = c0; c < c1; c++) out[dst + c] = samples[src + c];
-        } else {
-          for (let c = c0; c < c1; c++) {
-            const v = samples[src + c];
-            out[dst + c] = v === nd ? NaN : v;
-          }
-        }
-      }
+      for (let r = r0; r < r1; r++) copyRow(samples, (r - by * bh) * bw - bx * bw + c0, (r - win.row0) * win.width - win.col0 + c0, c1 - c0);
     }
   }
-  return out;
+}
+
+/** Replace every value equal to `nd` in out[from…to) by NaN. */
+function markNodata(out: Float32Array, from: number, to: number, nd: number): void {
+  for (let i = from; i < to; i++) if (out[i] === nd) out[i] = NaN;
 }
 
 /** Fill `into` from the file at `offset`; returns the bytes read (fewer at the end of the file). */
@@ -217,11 +254,11 @@ export interface TiffBandSource {
  * counter (`ctrl[0]`), decodes it into `out` and counts it done (`ctrl[1]`, notified). Every
  * thread that calls this returns when no band is left to take; `waitForBands` then waits for
  * the bands others are still decoding.
- * @param out the window's elevations (Float32 on a SharedArrayBuffer, window.width × window.height)
+ * @param out the window's elevations (Float32, or Int16 for an Int16 band, on a SharedArrayBuffer, window.width × window.height)
  * @param ctrl Int32Array(3) on a SharedArrayBuffer, zeroed before the first call: next band,
  *   bands done, 1 when a band failed
  */
-export function decodeBands(fd: number, src: TiffBandSource, window: PixelWindow, out: Float32Array, ctrl: Int32Array): void {
+export function decodeBands(fd: number, src: TiffBandSource, window: PixelWindow, out: Float32Array | Int16Array, ctrl: Int32Array): void {
   const n = bandCount(src.layout, window);
   const bh = src.layout.bh;
   for (;;) {
@@ -233,9 +270,10 @@ export function decodeBands(fd: number, src: TiffBandSource, window: PixelWindow
     const w = { col0: window.col0, row0: r0, width: window.width, height: r1 - r0 };
     const at = (r0 - window.row0) * window.width;
     try {
-      readBandFloat32(fd, src.layout, src.nodata, w, out.subarray(at, at + w.width * w.height));
+      if (out instanceof Int16Array) readBandInt16(fd, src.layout, src.nodata, w, out.subarray(at, at + w.width * w.height));
+      else readBandFloat32(fd, src.layout, src.nodata, w, out.subarray(at, at + w.width * w.height));
     } catch {
-      out.fill(NaN, at, at + w.width * w.height);
+      out.fill(out instanceof Int16Array ? INT16_NODATA : NaN, at, at + w.width * w.height);
       Atomics.store(ctrl, 2, 1); // failed: the caller reports it
     }
     Atomics.add(ctrl, 1, 1);

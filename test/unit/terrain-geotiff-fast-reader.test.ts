@@ -5,7 +5,7 @@ import { join } from "node:path";
 import { fromArrayBuffer } from "geotiff";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { openGeoTiff } from "../../src/terrain/geotiff.ts";
-import { bandLayout, decodeBands, readBandFloat32, waitForBands } from "../../src/terrain/tiff-band-reader.ts";
+import { bandLayout, decodeBands, INT16_NODATA, readBandFloat32, readBandInt16, waitForBands } from "../../src/terrain/tiff-band-reader.ts";
 import { readTiffDirectory } from "../../src/terrain/tiff-directory.ts";
 
 // The fast GeoTIFF reader (tiff-directory.ts, tiff-band-reader.ts) against geotiff.js, an
@@ -110,6 +110,43 @@ describe("fast GeoTIFF band reader", () => {
       } finally {
         closeSync(fd);
       }
+    }
+  });
+
+  it("Int16 bands read as Int16 windows: the same values, nodata as −32768, alone or in shared bands", async () => {
+    for (const name of ["int16-strips", "int16-strips-be", "int16-deflate-pred2"]) {
+      const path = join(dir, `${name}.tif`);
+      const whole = await reference(path);
+      const { fd, layout } = open(path);
+      try {
+        for (const w of [{ col0: 5, row0: 3, width: 100, height: 70 }, { col0: 0, row0: 0, width: W, height: H }, { col0: 150, row0: 90, width: 7, height: 3 }]) {
+          const expected = new Int16Array(w.width * w.height);
+          for (let r = 0; r < w.height; r++) {
+            for (let c = 0; c < w.width; c++) {
+              const v = whole[(w.row0 + r) * W + w.col0 + c];
+              expected[r * w.width + c] = Number.isNaN(v) ? INT16_NODATA : v;
+            }
+          }
+          expect(readBandInt16(fd, layout!, -9999, w), `${name} ${JSON.stringify(w)}`).toEqual(expected);
+          const out = new Int16Array(new SharedArrayBuffer(w.width * w.height * 2));
+          const ctrl = new Int32Array(new SharedArrayBuffer(12));
+          const src = { path, layout: layout!, nodata: -9999 };
+          decodeBands(fd, src, w, out, ctrl);
+          expect(waitForBands(src, w, ctrl)).toBe(true);
+          expect(out).toEqual(expected);
+        }
+        expect(Array.from(readBandInt16(fd, layout!, -9999)).filter((v) => v === INT16_NODATA).length).toBe(4); // the four nodata pixels of the source
+      } finally {
+        closeSync(fd);
+      }
+      const lazy = (await openGeoTiff(path, { deferPixels: true })) as unknown as { readWindow(w: object, share: undefined, int16: boolean): Float32Array | Int16Array };
+      expect(lazy.readWindow({ col0: 0, row0: 0, width: W, height: H }, undefined, true)).toBeInstanceOf(Int16Array);
+    }
+    const { fd, layout } = open(join(dir, "float32-tiled-deflate-pred3.tif"));
+    try {
+      expect(() => readBandInt16(fd, layout!, null)).toThrow(/f32/);
+    } finally {
+      closeSync(fd);
     }
   });
 

@@ -10,7 +10,7 @@ import { LEVEL_NODATA, VISIBILITY_NODATA, type CoverageJob } from "./coverage-jo
 import { runInThisThread, type CoveragePool, type CoverageProgress } from "./coverage-pool.ts";
 import { validateCoverageRequest, type CoverageRequest, type FieldNames } from "./coverage-request.ts";
 import type { TallyData } from "./coverage-tally.ts";
-import { elevationWindow } from "./elevation-window.ts";
+import { elevationWindow, type Elevations } from "./elevation-window.ts";
 import { raysPerHalfFace } from "./radial-sweep.ts";
 
 /** A computed coverage raster with what it was computed from. */
@@ -19,8 +19,8 @@ export interface ComputedCoverage {
   grid: CoverageGrid;
   /** received level (dBm, nodata LEVEL_NODATA) or visibility (1/0, nodata VISIBILITY_NODATA), row-major */
   values: Float32Array | Uint8Array;
-  /** the grid's elevations (m, NaN nodata) */
-  dem: Float32Array;
+  /** the grid's elevations (m; see Elevations for nodata) */
+  dem: Elevations;
   site_ground_m: number;
   /** EIRP toward the boresight (dBm) */
   eirp_dbm: number;
@@ -147,6 +147,7 @@ export function prepareCoverage(terrain: Terrain, req: CoverageRequest, options:
     cell_area_m2: grid.cell_area_m2,
     azimuth_offset_deg: grid.azimuth_offset_deg,
     dem: dem.buffer as SharedArrayBuffer,
+    dem_int16: dem instanceof Int16Array,
     site_ground_m,
     antenna_m: req.antenna_m,
     receiver_m: req.receiver_m,

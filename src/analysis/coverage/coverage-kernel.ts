@@ -1,4 +1,5 @@
 import type { CoverageJob } from "./coverage-job.ts";
+import { elevationAt, type Elevations } from "./elevation-window.ts";
 import { CoverageTally, type TallyData } from "./coverage-tally.ts";
 import { ClearanceVisitor, DeltaBullingtonVisitor, HorizonVisitor, patternLoss } from "./level-visitors.ts";
 import { maxSamplesPerRay, rayCount, sweepRays, type RayVisitor } from "./radial-sweep.ts";
@@ -14,7 +15,7 @@ export function coverageUnits(job: CoverageJob): number {
  * and, for small jobs, in the calling thread.
  */
 export function createChunkRunner(job: CoverageJob): { run(from: number, to: number): TallyData } {
-  const dem = new Float32Array(job.dem);
+  const dem: Elevations = job.dem_int16 ? new Int16Array(job.dem) : new Float32Array(job.dem);
   if (job.method === "hata") {
     return {
       run(from, to) {
@@ -47,7 +48,7 @@ export function createChunkRunner(job: CoverageJob): { run(from: number, to: num
  * one logarithm. Distances below half a cell are taken as half a cell. Terrain enters only
  * through the elevation angle of the antenna pattern (flat where the DEM has no data).
  */
-function hataRows(job: CoverageJob, dem: Float32Array, from: number, to: number, tally: CoverageTally): void {
+function hataRows(job: CoverageJob, dem: Elevations, from: number, to: number, tally: CoverageTally): void {
   const out = new Float32Array(job.out);
   const W = job.width;
   const R = job.radius_m;
@@ -67,7 +68,7 @@ function hataRows(job: CoverageJob, dem: Float32Array, from: number, to: number,
       const d = d0 < dmin ? dmin : d0;
       let level = base - job.hata_A_db - job.hata_B_db * Math.log10(d / 1000); // Hata (1980) / COST 231 §4.4.1, affine in log d
       if (usePattern) {
-        const hc = dem[r * W + c];
+        const hc = elevationAt(dem, r * W + c);
         const dh = hc === hc ? hc + job.receiver_m - hts : job.receiver_m - job.antenna_m;
         level -= patternLoss(job, d, dh, k2, e, ny);
       }

@@ -47,7 +47,7 @@ export class CoveragePool {
    * Have every thread decode shares of a GeoTIFF window too (see decodeBands); the caller
    * decodes its own shares and waits for theirs. Threads still loading join when ready.
    */
-  shareDecode(src: TiffBandSource, window: PixelWindow, out: Float32Array, ctrl: Int32Array): void {
+  shareDecode(src: TiffBandSource, window: PixelWindow, out: Float32Array | Int16Array, ctrl: Int32Array): void {
     for (const w of this.workers) w.postMessage({ type: "decode", src, window, out, ctrl } satisfies ToWorker);
   }
 

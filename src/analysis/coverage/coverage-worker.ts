@@ -10,7 +10,7 @@ import { createChunkRunner } from "./coverage-kernel.ts";
 export type ToWorker =
   | { type: "job"; job: CoverageJob }
   | { type: "chunk"; from: number; to: number }
-  | { type: "decode"; src: TiffBandSource; window: PixelWindow; out: Float32Array; ctrl: Int32Array };
+  | { type: "decode"; src: TiffBandSource; window: PixelWindow; out: Float32Array | Int16Array; ctrl: Int32Array };
 
 const port = parentPort!;
 let runner: ReturnType<typeof createChunkRunner> | null = null;

@@ -1,5 +1,5 @@
 import type { ShareDecode } from "../../terrain/geotiff.ts";
-import type { PixelWindow } from "../../terrain/tiff-band-reader.ts";
+import { INT16_NODATA, type PixelWindow } from "../../terrain/tiff-band-reader.ts";
 import type { Terrain } from "../../terrain/terrain.ts";
 import { cellCentreLatLon, type CoverageGrid } from "./coverage-grid.ts";
 
@@ -7,10 +7,33 @@ import { cellCentreLatLon, type CoverageGrid } from "./coverage-grid.ts";
 const MESH_M = 500;
 
 /**
- * The elevations of a coverage grid in a SharedArrayBuffer (Float32, row-major, NaN nodata),
- * read from the terrain once and shared by every worker thread.
+ * A coverage grid's elevations (m, row-major): Float32 with NaN for nodata, or — read from an
+ * Int16 raster — Int16 with INT16_NODATA (−32768) for nodata, the same values in half the
+ * memory. Read single values with `elevationAt`; hot loops compare with INT16_NODATA
+ * themselves (−32768 is never a height on Earth, so the test is the same for both types).
+ */
+export type Elevations = Float32Array | Int16Array;
+
+/** The elevation at index i (m), NaN for nodata of either type. */
+export function elevationAt(dem: Elevations, i: number): number {
+  const v = dem[i];
+  return v === INT16_NODATA ? NaN : v;
+}
+
+/** The elevations as Float32 with NaN nodata (the array itself when it already is). */
+export function elevationsFloat32(dem: Elevations): Float32Array {
+  if (dem instanceof Float32Array) return dem;
+  const out = new Float32Array(dem.length);
+  for (let i = 0; i < dem.length; i++) out[i] = dem[i] === INT16_NODATA ? NaN : dem[i];
+  return out;
+}
+
+/**
+ * The elevations of a coverage grid in a SharedArrayBuffer, read from the terrain once and
+ * shared by every worker thread.
  * - Raster source: a copy of the window of the terrain's own raster (no resampling), read
- *   straight from the file by terrains that offer `readWindow` (GeoTIFF).
+ *   straight from the file by terrains that offer `readWindow` (GeoTIFF) — as Int16 when the
+ *   file holds Int16 (see Elevations), else Float32.
  * - Otherwise: each cell centre is converted to latitude/longitude and the terrain sampled
  *   there (bilinear, as for a link profile). Positions are projected exactly about every
  *   500 m in both directions and interpolated bilinearly in between: the error is bounded by
@@ -19,13 +42,13 @@ const MESH_M = 500;
  * @param onRow optional progress callback (rows done, rows)
  * @param share hands a GeoTIFF window decode to worker threads as well (CoveragePool.shareDecode)
  */
-export function elevationWindow(terrain: Terrain, grid: CoverageGrid, onRow?: (done: number, total: number) => void, share?: ShareDecode): Float32Array {
+export function elevationWindow(terrain: Terrain, grid: CoverageGrid, onRow?: (done: number, total: number) => void, share?: ShareDecode): Elevations {
   const { width: W, height: H } = grid;
   const src = grid.source;
   // A terrain that reads windows of its raster itself (GeoTIFF) decodes only the grid's pixels, once.
-  const readWindow = (terrain as { readWindow?: (w: PixelWindow, share?: ShareDecode) => Float32Array }).readWindow;
+  const readWindow = (terrain as { readWindow?: (w: PixelWindow, share: ShareDecode | undefined, int16: boolean) => Elevations }).readWindow;
   if (src.kind === "raster" && typeof readWindow === "function") {
-    const out = readWindow.call(terrain, { col0: src.col0, row0: src.row0, width: W, height: H }, share);
+    const out = readWindow.call(terrain, { col0: src.col0, row0: src.row0, width: W, height: H }, share, true);
     onRow?.(H, H);
     return out;
   }

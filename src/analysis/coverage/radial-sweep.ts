@@ -1,3 +1,5 @@
+import { INT16_NODATA } from "../../terrain/tiff-band-reader.ts";
+
 /** What the sweep needs of the grid (plain numbers, sent to worker threads). */
 export interface SweepGeometry {
   width: number;
@@ -53,7 +55,8 @@ export function maxSamplesPerRay(g: SweepGeometry): number {
 }
 
 /**
- * Walk radials q0…q1−1 of the sweep over `dem` (row-major elevations, NaN nodata).
+ * Walk radials q0…q1−1 of the sweep over `dem` (row-major elevations, NaN or −32768 nodata:
+ * see Elevations in elevation-window.ts).
  *
  * Geometry (in pixel-centre coordinates of the grid). Cells split into four faces around the
  * site: east/west hold the cells with |Δrow| ≤ |Δcol|, north/south those with |Δcol| < |Δrow|.
@@ -74,7 +77,7 @@ export function maxSamplesPerRay(g: SweepGeometry): number {
  * exactly (site on a cell centre) belongs to no face and is visited by ray 0 with no inner
  * samples.
  */
-export function sweepRays(g: SweepGeometry, dem: Float32Array, rc: number, q0: number, q1: number, v: RayVisitor): void {
+export function sweepRays(g: SweepGeometry, dem: Float32Array | Int16Array, rc: number, q0: number, q1: number, v: RayVisitor): void {
   const W = g.width;
   const H = g.height;
   const xs = g.site_col;
@@ -92,7 +95,7 @@ export function sweepRays(g: SweepGeometry, dem: Float32Array, rc: number, q0: n
   if (q0 === 0 && Number.isInteger(xs) && Number.isInteger(ys) && xs >= 0 && xs < W && ys >= 0 && ys < H) {
     const idx = ys * W + xs;
     v.startRay();
-    v.cell(idx, ys, dMin, dem[idx], 0, 0);
+    v.cell(idx, ys, dMin, dem[idx] === INT16_NODATA ? NaN : dem[idx], 0, 0);
   }
 
   for (let q = q0; q < q1; q++) {
@@ -129,8 +132,10 @@ export function sweepRays(g: SweepGeometry, dem: Float32Array, rc: number, q0: n
         else (bf = bmax > 0 ? bmax - 1 : 0), (fr = bmax > 0 ? 1 : 0);
       }
       const i0 = a * aStride + bf * bStride;
-      const v0 = dem[i0];
-      const v1 = dem[i0 + bNext];
+      let v0 = dem[i0];
+      let v1 = dem[i0 + bNext];
+      if (v0 === INT16_NODATA) v0 = NaN;
+      if (v1 === INT16_NODATA) v1 = NaN;
       let hs = v0 + (v1 - v0) * fr;
       if (hs !== hs) {
         const nearest = fr < 0.5 ? v0 : v1;
@@ -163,7 +168,8 @@ export function sweepRays(g: SweepGeometry, dem: Float32Array, rc: number, q0: n
             const dc = Math.sqrt(ce * ce + cn * cn);
             if (dc <= R) {
               const idx = cr * W + cc;
-              v.cell(idx, cr, dc < dMin ? dMin : dc, dem[idx], ce, cn);
+              const hc = dem[idx];
+              v.cell(idx, cr, dc < dMin ? dMin : dc, hc === INT16_NODATA ? NaN : hc, ce, cn);
             }
           }
         }

@@ -1,3 +1,4 @@
+import { elevationsFloat32 } from "./elevation-window.ts";
 import { mkdirSync, writeFileSync } from "node:fs";
 import { join } from "node:path";
 import { writeGeoTiff } from "../../geo/geotiff-writer.ts";
@@ -111,7 +112,7 @@ export function coverageRaster(c: ComputedCoverage, title: string, areas: Thresh
   return {
     title,
     values: c.values,
-    dem: c.dem,
+    dem: elevationsFloat32(c.dem),
     width: g.width,
     height: g.height,
     geoTransform: g.geoTransform,
