@@ -1,5 +1,6 @@
 import type { CoverageJob } from "./coverage-job.ts";
 import { elevationAt, type Elevations } from "./elevation-window.ts";
+import { horizonSweep, horizonSweepApplies } from "./horizon-sweep.ts";
 import { CoverageTally, type TallyData } from "./coverage-tally.ts";
 import { ClearanceVisitor, DeltaBullingtonVisitor, HorizonVisitor, patternLoss } from "./level-visitors.ts";
 import { maxSamplesPerRay, rayCount, sweepRays, type RayVisitor } from "./radial-sweep.ts";
@@ -25,8 +26,20 @@ export function createChunkRunner(job: CoverageJob): { run(from: number, to: num
       },
     };
   }
-  const capacity = maxSamplesPerRay(job);
   const tally = new CoverageTally(job.thresholds_dbm);
+  if (job.method === "visibility" && !(job.clearance_f1 > 0) && horizonSweepApplies(job)) {
+    // geometric line of sight on a projected grid: the same sweep in one loop (horizon-sweep.ts)
+    const params = { hts_m: job.site_ground_m + job.antenna_m, receiver_m: job.receiver_m, k2: job.ae_m === Infinity ? 0 : 1 / (2 * job.ae_m) };
+    const out = new Uint8Array(job.out);
+    return {
+      run(from, to) {
+        tally.reset();
+        horizonSweep(job, dem, job.rc, from, to, params, out, job.cell_area_m2, tally);
+        return tally.data();
+      },
+    };
+  }
+  const capacity = maxSamplesPerRay(job);
   const visitor: RayVisitor =
     job.method === "delta-bullington"
       ? new DeltaBullingtonVisitor(job, capacity, tally)

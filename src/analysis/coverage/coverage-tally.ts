@@ -53,6 +53,16 @@ export class CoverageTally {
     }
   }
 
+  /** Add the sums of cells tallied elsewhere (same thresholds). */
+  addSums(s: TallyData): void {
+    this.cells += s.cells;
+    this.area += s.area_m2;
+    this.failed += s.failed;
+    for (let j = 0; j < this.atLeast.length; j++) this.atLeast[j] += s.at_least_m2[j];
+    if (s.min < this.min) this.min = s.min;
+    if (s.max > this.max) this.max = s.max;
+  }
+
   fail(): void {
     this.failed++;
   }

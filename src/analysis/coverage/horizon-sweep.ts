@@ -1,0 +1,200 @@
+import { INT16_NODATA } from "../../terrain/tiff-band-reader.ts";
+import type { CoverageTally } from "./coverage-tally.ts";
+import type { SweepGeometry } from "./radial-sweep.ts";
+
+/** What the geometric line-of-sight sweep needs beyond the grid. */
+export interface HorizonParams {
+  /** antenna height (m amsl) */
+  hts_m: number;
+  /** receiver height above ground (m) */
+  receiver_m: number;
+  /** 1/(2·ae) (1/m), 0 for k = ∞ */
+  k2: number;
+}
+
+/**
+ * Whether horizonSweep computes this grid (every row with the same metric: projected grids);
+ * otherwise sweepRays with a HorizonVisitor does.
+ */
+export function horizonSweepApplies(g: SweepGeometry): boolean {
+  return g.east_per_col_m[0] === g.east_per_col_m[g.height - 1] && g.north_per_row_m[0] === g.north_per_row_m[g.height - 1];
+}
+
+/**
+ * Radio line of sight over radials q0…q1−1: the radials, samples, cell ownership and
+ * arithmetic of sweepRays (radial-sweep.ts) with HorizonVisitor (level-visitors.ts), so every
+ * cell gets the same value, computed in another order: all the radials of a face advance
+ * together one column at a time (a wavefront), keeping each radial's running horizon in an
+ * array. Each column first visits its cells — the cell's owning radial found from the cell
+ * (t = round(Δminor·rc/Δmajor), then the exact ownership test of sweepRays) with that radial's
+ * horizon over the columns before — then adds each radial's sample to its horizon. The
+ * general sweep instead tests, at every sample of every radial, whether the radial owns a cell
+ * there: about 2.5 samples per cell on a 100 km grid, and a branch that cannot be predicted.
+ * Radials end where sweepRays ends them (leaving the grid or the radius, nodata), and their
+ * cells beyond are left unvisited as there. The tally adds the same cells in column order,
+ * so its area sums can differ from the general sweep's in the last bits. The tally's
+ * thresholds must be [1] (visible).
+ * Only for grids where horizonSweepApplies.
+ * @param out visibility raster (1 visible, 0 not), written for the cells these radials own
+ * @param area ground area of a cell per row (m²)
+ */
+export function horizonSweep(g: SweepGeometry, dem: Float32Array | Int16Array, rc: number, q0: number, q1: number, p: HorizonParams, out: Uint8Array, area: Float64Array, tally: CoverageTally): void {
+  const xs = g.site_col;
+  const ys = g.site_row;
+  const W = g.width;
+  const H = g.height;
+  const perFace = 2 * rc + 1;
+  const rs = Math.min(H - 1, Math.max(0, Math.round(ys)));
+  const dMin = 0.5 * Math.min(Math.abs(g.east_per_col_m[rs]), Math.abs(g.north_per_row_m[rs]));
+  if (q0 === 0 && Number.isInteger(xs) && Number.isInteger(ys) && xs >= 0 && xs < W && ys >= 0 && ys < H) {
+    // the cell holding the site, with no samples before it (as sweepRays)
+    const hc = dem[ys * W + xs];
+    if (hc === INT16_NODATA || hc !== hc) tally.fail();
+    else {
+      const v = (hc + p.receiver_m - dMin * dMin * p.k2 - p.hts_m) / dMin > -Infinity ? 1 : 0;
+      out[ys * W + xs] = v;
+      tally.add(v, area[ys]);
+    }
+  }
+  for (let face = Math.floor(q0 / perFace); face * perFace < q1; face++) {
+    const from = Math.max(q0, face * perFace) - face * perFace - rc;
+    const to = Math.min(q1, (face + 1) * perFace) - face * perFace - rc;
+    if (to > from) faceWavefront(g, dem, rc, face, from, to, p, out, area, tally, dMin);
+  }
+}
+
+/** The radials t = t0…t1−1 of one face (0 east, 1 west, 2 south, 3 north in grid terms), as one wavefront. */
+function faceWavefront(g: SweepGeometry, dem: Float32Array | Int16Array, rc: number, face: number, t0: number, t1: number, p: HorizonParams, out: Uint8Array, area: Float64Array, tally: CoverageTally, dMin: number): void {
+  const W = g.width;
+  const H = g.height;
+  const xs = g.site_col;
+  const ys = g.site_row;
+  const R = g.radius_m;
+  const rs = Math.min(H - 1, Math.max(0, Math.round(ys)));
+  const EXr = g.east_per_col_m[rs];
+  const NYr = g.north_per_row_m[rs];
+  const margin = 1.5 * Math.max(Math.abs(EXr), Math.abs(NYr));
+  const { hts_m: hts, receiver_m: hr, k2 } = p;
+  const xMajor = face < 2;
+  const sgn = face === 0 || face === 2 ? 1 : -1;
+  const as = xMajor ? xs : ys;
+  const bs = xMajor ? ys : xs;
+  const amax = xMajor ? W - 1 : H - 1;
+  const bmax = xMajor ? H - 1 : W - 1;
+  const aStride = xMajor ? 1 : W;
+  const bStride = xMajor ? W : 1;
+  const bNext = bmax > 0 ? bStride : 0;
+  const aStart = sgn > 0 ? Math.floor(as) : Math.ceil(as);
+  const mMax = sgn > 0 ? amax - aStart : aStart;
+
+  const n = t1 - t0;
+  const slope = new Float64Array(n);
+  const stepLen = new Float64Array(n);
+  const horizon = new Float64Array(n).fill(-Infinity);
+  const hsCol = new Float64Array(n);
+  const dsCol = new Float64Array(n);
+  // 1: the radial reaches this column and owns its cells here; 0: ended
+  const live = new Uint8Array(n).fill(1);
+  let alive = n;
+  for (let i = 0; i < n; i++) {
+    const s = (t0 + i) / rc;
+    slope[i] = s;
+    stepLen[i] = xMajor ? Math.hypot(EXr, s * NYr) : Math.hypot(s * EXr, NYr);
+  }
+  let sum = 0; // tallied locally, added to the tally in the same order at the end
+  let visible = 0;
+  let cells = 0;
+  let nVisible = 0;
+  let failed = 0;
+
+  for (let m = 1; m <= mMax && alive > 0; m++) {
+    const a = aStart + sgn * m;
+    const da = (a - as) * sgn;
+    // --- the previous column's sample joins each radial's horizon (a nodata sample ends the
+    // radial, after its cell, as in sweepRays); then this column's sample of each radial (as
+    // sweepRays): a radial leaving the grid or the radius ends before its cell here ---
+    for (let i = 0; i < n; i++) {
+      if (live[i] === 0) continue;
+      if (m > 1) {
+        const hp = hsCol[i];
+        if (hp !== hp) {
+          live[i] = 0;
+          alive--;
+          continue;
+        }
+        const dp = dsCol[i];
+        const sp = (hp - dp * dp * k2 - hts) / dp; // as HorizonVisitor.sample
+        if (sp > horizon[i]) horizon[i] = sp;
+      }
+      const b = bs + da * slope[i];
+      if (b < -0.5 || b > bmax + 0.5) {
+        live[i] = 0;
+        alive--;
+        continue;
+      }
+      let bf = Math.floor(b);
+      let fr = b - bf;
+      if (bf < 0 || bf >= bmax) {
+        if (bf < 0) (bf = 0), (fr = 0);
+        else (bf = bmax > 0 ? bmax - 1 : 0), (fr = bmax > 0 ? 1 : 0);
+      }
+      const i0 = a * aStride + bf * bStride;
+      let v0 = dem[i0];
+      let v1 = dem[i0 + bNext];
+      if (v0 === INT16_NODATA) v0 = NaN;
+      if (v1 === INT16_NODATA) v1 = NaN;
+      let hs = v0 + (v1 - v0) * fr;
+      if (hs !== hs) {
+        const nearest = fr < 0.5 ? v0 : v1;
+        hs = nearest !== nearest ? NaN : v0 === v0 ? v0 : v1;
+      }
+      const ds = da * stepLen[i];
+      if (ds - margin > R) {
+        live[i] = 0;
+        alive--;
+        continue;
+      }
+      hsCol[i] = hs;
+      dsCol[i] = ds;
+    }
+    // --- the cells of this column the radials own: k with t − ½ ≤ (k − bs)·rc/da < t + ½ ---
+    let kFrom = Math.floor(bs + ((t0 - 0.5) * da) / rc) - 1;
+    let kTo = Math.ceil(bs + ((t1 - 0.5) * da) / rc) + 1;
+    if (kFrom < 0) kFrom = 0;
+    if (kTo > bmax) kTo = bmax;
+    for (let k = kFrom; k <= kTo; k++) {
+      const db = k - bs;
+      const adb = db < 0 ? -db : db;
+      if (xMajor ? adb > da : adb >= da) continue;
+      const x = db * rc;
+      let t = Math.round(x / da);
+      if (!(x >= (t - 0.5) * da)) t--;
+      else if (!(x < (t + 0.5) * da)) t++;
+      if (t < t0 || t >= t1 || !(x >= (t - 0.5) * da && x < (t + 0.5) * da)) continue;
+      const i = t - t0;
+      if (live[i] === 0) continue;
+      const cc = xMajor ? a : k;
+      const cr = xMajor ? k : a;
+      const ce = (cc - xs) * EXr;
+      const cn = (cr - ys) * NYr;
+      const dc0 = Math.sqrt(ce * ce + cn * cn);
+      if (dc0 > R) continue;
+      const d = dc0 < dMin ? dMin : dc0;
+      const idx = cr * W + cc;
+      const hc = dem[idx];
+      if (hc === INT16_NODATA || hc !== hc) {
+        failed++;
+        continue;
+      }
+      const v = (hc + hr - d * d * k2 - hts) / d > horizon[i] ? 1 : 0; // as HorizonVisitor.cell
+      out[idx] = v;
+      cells++;
+      sum += area[cr];
+      if (v === 1) {
+        visible += area[cr];
+        nVisible++;
+      }
+    }
+  }
+  tally.addSums({ cells, area_m2: sum, at_least_m2: [visible], failed, min: nVisible < cells ? 0 : cells > 0 ? 1 : Infinity, max: nVisible > 0 ? 1 : cells > 0 ? 0 : -Infinity });
+}

@@ -1,0 +1,89 @@
+import { mkdtempSync, rmSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { prepareCoverage } from "../../src/analysis/coverage/compute-coverage.ts";
+import type { CoverageJob } from "../../src/analysis/coverage/coverage-job.ts";
+import { CoverageTally } from "../../src/analysis/coverage/coverage-tally.ts";
+import { horizonSweep, horizonSweepApplies } from "../../src/analysis/coverage/horizon-sweep.ts";
+import { HorizonVisitor } from "../../src/analysis/coverage/level-visitors.ts";
+import { rayCount, sweepRays } from "../../src/analysis/coverage/radial-sweep.ts";
+import { mulberry32 } from "../../src/terrain/mulberry32.ts";
+import { openGeoTiff } from "../../src/terrain/geotiff.ts";
+import type { Terrain } from "../../src/terrain/terrain.ts";
+import { cellLatLon, request, roughTerrain, writeUtmDem } from "./coverage-fixtures.ts";
+
+// The wavefront line-of-sight sweep (horizon-sweep.ts) against the general radial sweep with
+// the line-of-sight visitor (radial-sweep.ts + HorizonVisitor): the project's own invariant —
+// the same value in every cell, the same cells computed and failed, the same areas up to the
+// order of summation — for sites on and off cell centres, near the grid's edge (radials that
+// leave it), over nodata holes, at k = 4/3 and k = ∞, and for any split of the radials into
+// chunks (the worker threads' units of work, which may straddle faces).
+
+const N = 181;
+const CELL = 30;
+const DEM = { x0: 400000, y0: 5010000, cell: CELL };
+let dir: string;
+let terrain: Terrain;
+
+beforeAll(async () => {
+  dir = mkdtempSync(join(tmpdir(), "ridgeline-horizon-sweep-"));
+  const h = roughTerrain(4242);
+  const hole = (c: number, r: number) => (c >= 120 && c < 126 && r >= 30 && r < 34) || (r === 150 && c > 40 && c < 44);
+  writeUtmDem(join(dir, "dem.tif"), N, CELL, (c, r) => (hole(c, r) ? -9999 : h(c / (N - 1), r / (N - 1))), [DEM.x0, DEM.y0]);
+  terrain = await openGeoTiff(join(dir, "dem.tif"), { deferPixels: true });
+});
+
+afterAll(() => rmSync(dir, { recursive: true, force: true }));
+
+function job(col: number, row: number, k: number, radius_m: number): CoverageJob {
+  const [lat, lon] = cellLatLon(DEM, col, row);
+  const prep = prepareCoverage(terrain, request({ site: { lat_deg: lat, lon_deg: lon }, method: "visibility", k, radius_m }));
+  const cells = prep.grid.width * prep.grid.height;
+  return { ...prep.job, out: new SharedArrayBuffer(cells) };
+}
+
+/** Visibility raster and tally of radials split at `cuts` (sorted), by one sweep or the other. */
+function run(j: CoverageJob, which: "general" | "wavefront", cuts: number[]): { raster: Uint8Array; tally: ReturnType<CoverageTally["data"]> } {
+  const raster = new Uint8Array(j.out).fill(255);
+  const dem = j.dem_int16 ? new Int16Array(j.dem) : new Float32Array(j.dem);
+  const total = new CoverageTally(j.thresholds_dbm);
+  const bounds = [0, ...cuts, rayCount(j.rc)];
+  for (let c = 0; c + 1 < bounds.length; c++) {
+    const part = new CoverageTally(j.thresholds_dbm);
+    if (which === "general") sweepRays(j, dem, j.rc, bounds[c], bounds[c + 1], new HorizonVisitor(j, part));
+    else horizonSweep(j, dem, j.rc, bounds[c], bounds[c + 1], { hts_m: j.site_ground_m + j.antenna_m, receiver_m: j.receiver_m, k2: j.ae_m === Infinity ? 0 : 1 / (2 * j.ae_m) }, raster, j.cell_area_m2, part);
+    total.addSums(part.data());
+  }
+  return { raster: raster.slice(), tally: total.data() };
+}
+
+describe("wavefront line-of-sight sweep", () => {
+  const sites: [string, number, number, number][] = [
+    ["centre of the grid", 90, 90, 2400],
+    ["between cell centres", 61.37, 97.81, 2000],
+    ["near the edge (radials leave the grid)", 8, 170, 2600],
+    ["beside a nodata hole", 118, 36, 1500],
+  ];
+  for (const [name, col, row, radius] of sites) {
+    for (const k of [4 / 3, Infinity]) {
+      it(`${name}, k = ${k === Infinity ? "∞" : "4/3"}: the same raster and tally as the general sweep, whatever the chunks`, () => {
+        const j = job(col, row, k, radius);
+        expect(horizonSweepApplies(j)).toBe(true);
+        const n = rayCount(j.rc);
+        const rnd = mulberry32(Math.round(col * 1000 + row));
+        const splits = [[], [Math.floor(n / 4), Math.floor(n / 2)], Array.from(new Set(Array.from({ length: 7 }, () => 1 + Math.floor(rnd() * (n - 1))))).sort((a, b) => a - b)];
+        const ref = run(j, "general", []);
+        expect(ref.tally.cells).toBeGreaterThan(1000);
+        for (const cuts of splits) {
+          const got = run(j, "wavefront", cuts);
+          expect(Buffer.compare(Buffer.from(got.raster), Buffer.from(ref.raster)), `chunks at ${cuts.join(", ")}`).toBe(0);
+          expect([got.tally.cells, got.tally.failed, got.tally.min, got.tally.max]).toEqual([ref.tally.cells, ref.tally.failed, ref.tally.min, ref.tally.max]);
+          expect(Math.abs(got.tally.area_m2 - ref.tally.area_m2)).toBeLessThan(1e-9 * ref.tally.area_m2);
+          expect(Math.abs(got.tally.at_least_m2[0] - ref.tally.at_least_m2[0])).toBeLessThan(1e-9 * ref.tally.area_m2);
+        }
+        if (name.startsWith("beside")) expect(ref.tally.failed).toBeGreaterThan(0);
+      });
+    }
+  }
+});
