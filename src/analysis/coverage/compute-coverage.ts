@@ -68,7 +68,10 @@ export async function runCoverage(prepared: PreparedCoverage, options: Pick<Comp
   const cells = rest.grid.width * rest.grid.height;
   const isLevel = base.method !== "visibility";
   const out = new SharedArrayBuffer(isLevel ? cells * 4 : cells);
-  const values = isLevel ? new Float32Array(out).fill(LEVEL_NODATA) : new Uint8Array(out).fill(VISIBILITY_NODATA);
+  const values = isLevel ? new Float32Array(out) : new Uint8Array(out);
+  const nodata = isLevel ? LEVEL_NODATA : VISIBILITY_NODATA;
+  if (options.pool) await options.pool.fill(values, nodata);
+  else values.fill(nodata);
   const job: CoverageJob = { ...base, out };
   const t1 = performance.now();
   const progress: CoverageProgress = (d, t) => options.onProgress?.("compute", d, t);

@@ -51,6 +51,33 @@ export class CoveragePool {
     for (const w of this.workers) w.postMessage({ type: "decode", src, window, out, ctrl } satisfies ToWorker);
   }
 
+  /**
+   * Fill a shared result raster with `value` (nodata), a share on each thread and one here:
+   * first writes to fresh memory are page faults, which threads take in parallel.
+   */
+  async fill(values: Float32Array | Uint8Array, value: number): Promise<void> {
+    await Promise.all(this.ready);
+    const parts = this.workers.length + 1;
+    const cut = (k: number) => Math.floor((values.length * k) / parts);
+    const acks = this.workers.map(
+      (w, k) =>
+        new Promise<void>((resolve, reject) => {
+          const onMessage = (m: { type: string }) => {
+            if (m.type !== "filled") return;
+            w.off("message", onMessage);
+            w.off("error", reject);
+            resolve();
+          };
+          w.on("message", onMessage);
+          w.on("error", reject);
+          w.postMessage({ type: "fill", values, value, from: cut(k + 1), to: cut(k + 2) } satisfies ToWorker);
+        }),
+    );
+    values.fill(value, 0, cut(1));
+    await Promise.all(acks);
+    if (this.failure) throw this.failure;
+  }
+
   /** Resolves when every thread has loaded its code. */
   async whenReady(): Promise<void> {
     await Promise.all(this.ready);

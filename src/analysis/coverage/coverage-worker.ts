@@ -10,6 +10,7 @@ import { createChunkRunner } from "./coverage-kernel.ts";
 export type ToWorker =
   | { type: "job"; job: CoverageJob }
   | { type: "chunk"; from: number; to: number }
+  | { type: "fill"; values: Float32Array | Uint8Array; value: number; from: number; to: number }
   | { type: "decode"; src: TiffBandSource; window: PixelWindow; out: Float32Array | Int16Array; ctrl: Int32Array };
 
 const port = parentPort!;
@@ -28,6 +29,9 @@ port.on("message", (m: ToWorker) => {
     } finally {
       if (fd !== null) closeSync(fd);
     }
+  } else if (m.type === "fill") {
+    m.values.fill(m.value, m.from, m.to);
+    port.postMessage({ type: "filled" });
   } else if (m.type === "job") {
     runner = createChunkRunner(m.job);
   } else {
