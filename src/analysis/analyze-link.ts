@@ -34,13 +34,16 @@ export function siteGroundM(site: Study["sites"][number], terrain: Terrain): num
 /**
  * Analyse one link: geodesic, profile, clearance at each design k, free-space loss, then the
  * losses, budget and availability. Pure computation on already validated inputs.
+ * @param options.pathOf samples the geodesic (default geodesicPath; a build with a cache
+ *   passes one that remembers paths, memo-geodesic.ts)
  */
-export function analyzeLink(study: Study, link: LinkInput, terrain: Terrain): { result: LinkResult; figure: LinkFigureData } {
+export function analyzeLink(study: Study, link: LinkInput, terrain: Terrain, options: { pathOf?: typeof geodesicPath } = {}): { result: LinkResult; figure: LinkFigureData } {
+  const pathOf = options.pathOf ?? geodesicPath;
   const warnings: string[] = [];
   const radio = study.radios.find((r) => r.id === link.radio)!;
   const siteA = study.sites.find((s) => s.id === link.from.site)!;
   const siteB = study.sites.find((s) => s.id === link.to.site)!;
-  const geo = geodesicPath(siteA.lat_deg, siteA.lon_deg, siteB.lat_deg, siteB.lon_deg, Infinity);
+  const geo = geodesicPath(siteA.lat_deg, siteA.lon_deg, siteB.lat_deg, siteB.lon_deg, Infinity); // the ends only: cheaper than a cache lookup
   let profile: LinkProfile;
   if (link.profile_csv) {
     const csvPath = resolve(study.dir, link.profile_csv);
@@ -60,7 +63,7 @@ export function analyzeLink(study: Study, link: LinkInput, terrain: Terrain): { 
       warnings.push(`The surveyed profile is ${(len / 1000).toFixed(3)} km long but the sites are ${(geo.distance_m / 1000).toFixed(3)} km apart; the profile is used as given.`);
     }
   } else {
-    const sampled = terrainProfile([siteA.lat_deg, siteA.lon_deg], [siteB.lat_deg, siteB.lon_deg], terrain, study.design.profile_step_m);
+    const sampled = terrainProfile([siteA.lat_deg, siteA.lon_deg], [siteB.lat_deg, siteB.lon_deg], terrain, study.design.profile_step_m, pathOf);
     profile = sampled.profile;
     if (profile.outside > 0) {
       const i = profile.terrain_m.findIndex((h) => Number.isNaN(h));

@@ -7,6 +7,7 @@ import { canonicalJson } from "../cache/canonical-json.ts";
 import { decodeEntry } from "../cache/entry-codec.ts";
 import { fileDigest } from "../cache/file-digest.ts";
 import { modulesFingerprint } from "../cache/code-fingerprint.ts";
+import { memoGeodesicPath } from "../cache/memo-geodesic.ts";
 import { MemoTerrain, TerrainQueryMiss } from "../cache/memo-terrain.ts";
 import type { ResultCache } from "../cache/result-cache.ts";
 import { terrainSourceKey } from "../cache/terrain-source-key.ts";
@@ -148,16 +149,17 @@ export async function analyzeStudy(study: Study, options: AnalyzeOptions = {}): 
   // --- Links: from the cache, or computed (through remembered terrain queries when possible) ---
   const keyOf = cache ? linkKeyer(study, terrainKey) : null;
   const identity = facts;
+  const pathOf = cache ? memoGeodesicPath(cache) : undefined;
   const computeLink = async (link: Study["links"][number]) => {
     if (!cache) return analyzeLink(study, link, await open());
     if (!terrain) {
       try {
-        return analyzeLink(study, link, new MemoTerrain(cache, terrainKey, identity, null));
+        return analyzeLink(study, link, new MemoTerrain(cache, terrainKey, identity, null), { pathOf });
       } catch (e) {
         if (!(e instanceof TerrainQueryMiss)) throw e;
       }
     }
-    return analyzeLink(study, link, new MemoTerrain(cache, terrainKey, identity, await open()));
+    return analyzeLink(study, link, new MemoTerrain(cache, terrainKey, identity, await open()), { pathOf });
   };
   const figures = new Map<string, LinkFigureData>();
   const links: LinkResult[] = [];

@@ -27,12 +27,13 @@ export function terrainProfile(
   to: readonly [lat_deg: number, lon_deg: number],
   terrain: Terrain,
   maxStep_m?: number,
+  pathOf: typeof geodesicPath = geodesicPath,
 ): { profile: LinkProfile; geo: GeodesicPath } {
   const [lat1, lon1] = from;
   const [lat2, lon2] = to;
   const native = terrain.resolutionM((lat1 + lat2) / 2);
   const step = Math.min(maxStep_m ?? Infinity, Number.isFinite(native) ? native : CONSTANT_TERRAIN_STEP_M);
-  const geo = geodesicPath(lat1, lon1, lat2, lon2, step);
+  const geo = pathOf(lat1, lon1, lat2, lon2, step);
   const s = terrain.sample(geo.lat_deg, geo.lon_deg);
   return {
     geo,
