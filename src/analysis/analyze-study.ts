@@ -174,7 +174,8 @@ export async function analyzeStudy(study: Study, options: AnalyzeOptions = {}): 
   const packed: [string, Buffer][] = []; // this build's entries, in study order, for the next build's pack
   for (const [i, link] of study.links.entries()) {
     const key = keys[i];
-    const bytes = await lookups[i];
+    const lookup = lookups[i];
+    const bytes = lookup instanceof Promise ? await lookup : lookup; // a pack hit is at hand: no turn of the event loop
     // Typed arrays are read in place (views of the bytes just read), not copied.
     const hit = bytes ? (decodeEntry(bytes, { views: true }) as CachedLink | null) : null;
     if (hit && hit.result?.id === link.id && hit.figure?.profile?.d_m instanceof Float64Array) {

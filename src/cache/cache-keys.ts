@@ -25,14 +25,17 @@ export function toolIdentity(): string {
  * (ends, radio id, polarisation, profile file name, availability override; not its position
  * in the list), its radio, its two sites, and either the terrain's source key (a link sampled
  * from the terrain) or the sha256 of its surveyed profile CSV's bytes (a link with a surveyed
- * profile, which never reads the terrain). The parts shared by every link are hashed once.
+ * profile, which never reads the terrain). The parts shared by every link are hashed once, and
+ * each radio and site once: a link's key hashes their digests, not their text again.
  */
 export function linkKeyer(study: Study, terrainKey: string): (link: Study["links"][number], profileCsvSha256: string | null) => string {
   const shared = canonicalJson(sha256(canonicalJson(["study-part", ...toolPart(), study.design, study.climate])));
-  // The text canonicalJson gives each radio and site, made once rather than once per link;
-  // the key is the sha256 of exactly canonicalJson(["link", shared, input, radio, from, to, ground]).
-  const radios = new Map(study.radios.map((r) => [r.id, canonicalJson(r)]));
-  const sites = new Map(study.sites.map((s) => [s.id, canonicalJson(s)]));
+  // Each radio and site as the sha256 of its canonical JSON, made once rather than once per
+  // link; the key is the sha256 of exactly canonicalJson(["link", shared, input, sha256(radio),
+  // sha256(from), sha256(to), ground]).
+  const digest = (v: unknown) => canonicalJson(sha256(canonicalJson(v)));
+  const radios = new Map(study.radios.map((r) => [r.id, digest(r)]));
+  const sites = new Map(study.sites.map((s) => [s.id, digest(s)]));
   return (link, profileCsvSha256) => {
     const { index: _index, ...input } = link;
     const ground = canonicalJson(link.profile_csv ? ["profile", profileCsvSha256] : ["terrain", terrainKey]);
