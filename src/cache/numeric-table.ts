@@ -34,10 +34,9 @@ export function numericTable(rows: unknown[]): string[] | null {
 
 /**
  * The records of a stored table: row r has key names[c] = columns[c][r], keys in the order
- * given. Each row is a copy of a template record with the values then set: with two or three
- * keys (height-gain curves) that is several times faster than adding keys one by one, also
- * before the code is optimised (a rebuild decodes every cached link once); the objects are
- * the same.
+ * given. Each row is a copy of a template record with the values then set, which is faster
+ * than adding keys one by one (every row then has the template's shape from the start); the
+ * objects are the same.
  */
 export function tableRows(names: string[], columns: ArrayLike<number>[]): Record<string, number>[] {
   const n = columns[0]?.length ?? 0;
@@ -45,31 +44,19 @@ export function tableRows(names: string[], columns: ArrayLike<number>[]): Record
   const template: Record<string, number> = {};
   for (const k of names) setOwn(template, k, 0);
   const keys = Object.keys(template); // property keys, not the strings JSON.parse made
-  if (names.includes("__proto__") || keys.length !== names.length || keys.length < 2 || keys.length > 3) {
+  if (names.includes("__proto__") || keys.length !== names.length) {
     for (let r = 0; r < n; r++) {
       const row: Record<string, number> = {};
       for (let c = 0; c < names.length; c++) setOwn(row, names[c], columns[c][r]);
       rows[r] = row;
     }
-  } else if (keys.length === 2) {
-    const [k0, k1] = keys;
-    const [c0, c1] = columns;
-    for (let r = 0; r < n; r++) {
-      const row = { ...template };
-      row[k0] = c0[r];
-      row[k1] = c1[r];
-      rows[r] = row;
-    }
-  } else {
-    const [k0, k1, k2] = keys;
-    const [c0, c1, c2] = columns;
-    for (let r = 0; r < n; r++) {
-      const row = { ...template };
-      row[k0] = c0[r];
-      row[k1] = c1[r];
-      row[k2] = c2[r];
-      rows[r] = row;
-    }
+    return rows;
+  }
+  const m = keys.length;
+  for (let r = 0; r < n; r++) {
+    const row = { ...template };
+    for (let c = 0; c < m; c++) row[keys[c]] = columns[c][r];
+    rows[r] = row;
   }
   return rows;
 }
