@@ -11,8 +11,9 @@ import { cellLatLon, request, roughTerrain } from "./coverage-fixtures.ts";
 
 // A grid read from an Int16 GeoTIFF keeps its elevations as Int16 (half the memory of
 // Float32; −32768 marks nodata). The project's own invariant: the same whole-metre DEM written
-// as Int16 and as Float32 gives byte-identical coverage rasters and tallies, nodata holes
-// included, in the calling thread and on worker threads.
+// as Int16 (plain and Deflate-compressed, which the pool's threads read together) and as
+// Float32 gives byte-identical coverage rasters and tallies, nodata holes included, in the
+// calling thread and on worker threads.
 
 const N = 241;
 const CELL = 30;
@@ -20,6 +21,7 @@ const X0 = 400000;
 const Y0 = 5010000;
 let dir: string;
 let int16: Terrain;
+let int16Deflate: Terrain;
 let float32: Terrain;
 let pool: CoveragePool;
 
@@ -39,8 +41,10 @@ beforeAll(async () => {
   const common = { width: N, height: N, geoTransform: [X0, CELL, 0, Y0, 0, -CELL] as [number, number, number, number, number, number], epsg: 32632, nodata: -9999 };
   writeGeoTiff(join(dir, "i16.tif"), { ...common, data: i16 });
   writeGeoTiff(join(dir, "f32.tif"), { ...common, data: f32 });
+  writeGeoTiff(join(dir, "i16z.tif"), { ...common, data: i16, compression: "deflate" }); // compressed: read by the pool's threads together
   int16 = await openGeoTiff(join(dir, "i16.tif"), { deferPixels: true });
   float32 = await openGeoTiff(join(dir, "f32.tif"), { deferPixels: true });
+  int16Deflate = await openGeoTiff(join(dir, "i16z.tif"), { deferPixels: true });
   pool = CoveragePool.start(2);
 });
 
@@ -64,10 +68,14 @@ describe("coverage on an Int16 DEM", () => {
       for (const p of [null, pool]) {
         const a = await computeCoverage(int16, req, { pool: p, shareDecode: p ? (...x) => p.shareDecode(...x) : undefined });
         const b = await computeCoverage(float32, req, { pool: p, shareDecode: p ? (...x) => p.shareDecode(...x) : undefined });
+        const z = await computeCoverage(int16Deflate, req, { pool: p, shareDecode: p ? (...x) => p.shareDecode(...x) : undefined });
         expect(a.dem).toBeInstanceOf(Int16Array);
+        expect(z.dem).toBeInstanceOf(Int16Array);
         expect(b.dem).toBeInstanceOf(Float32Array);
         expect(Buffer.compare(bytes(a), bytes(b))).toBe(0);
+        expect(Buffer.compare(bytes(z), bytes(b))).toBe(0);
         expect(a.tally).toEqual(b.tally);
+        expect(z.tally).toEqual(b.tally);
         expect(a.tally.failed).toBeGreaterThan(0); // the holes are inside the radius: nodata reached the sweep
       }
     });
