@@ -91,11 +91,12 @@ function faceWavefront(g: SweepGeometry, dem: Float32Array | Int16Array, rc: num
   const slope = new Float64Array(n);
   const stepLen = new Float64Array(n);
   const horizon = new Float64Array(n).fill(-Infinity);
-  const hsCol = new Float64Array(n);
-  const dsCol = new Float64Array(n);
-  // 1: the radial reaches this column and owns its cells here; 0: ended
+  // 1: the radial has not ended; 0: ended (left the grid or the radius, or met nodata)
   const live = new Uint8Array(n).fill(1);
   let alive = n;
+  // radials below iLo and from iHi on have ended (the outermost end first, as they leave the grid or the radius first)
+  let iLo = 0;
+  let iHi = n;
   for (let i = 0; i < n; i++) {
     const s = (t0 + i) / rc;
     slope[i] = s;
@@ -110,54 +111,9 @@ function faceWavefront(g: SweepGeometry, dem: Float32Array | Int16Array, rc: num
   for (let m = 1; m <= mMax && alive > 0; m++) {
     const a = aStart + sgn * m;
     const da = (a - as) * sgn;
-    // --- the previous column's sample joins each radial's horizon (a nodata sample ends the
-    // radial, after its cell, as in sweepRays); then this column's sample of each radial (as
-    // sweepRays): a radial leaving the grid or the radius ends before its cell here ---
-    for (let i = 0; i < n; i++) {
-      if (live[i] === 0) continue;
-      if (m > 1) {
-        const hp = hsCol[i];
-        if (hp !== hp) {
-          live[i] = 0;
-          alive--;
-          continue;
-        }
-        const dp = dsCol[i];
-        const sp = (hp - dp * dp * k2 - hts) / dp; // as HorizonVisitor.sample
-        if (sp > horizon[i]) horizon[i] = sp;
-      }
-      const b = bs + da * slope[i];
-      if (b < -0.5 || b > bmax + 0.5) {
-        live[i] = 0;
-        alive--;
-        continue;
-      }
-      let bf = Math.floor(b);
-      let fr = b - bf;
-      if (bf < 0 || bf >= bmax) {
-        if (bf < 0) (bf = 0), (fr = 0);
-        else (bf = bmax > 0 ? bmax - 1 : 0), (fr = bmax > 0 ? 1 : 0);
-      }
-      const i0 = a * aStride + bf * bStride;
-      let v0 = dem[i0];
-      let v1 = dem[i0 + bNext];
-      if (v0 === INT16_NODATA) v0 = NaN;
-      if (v1 === INT16_NODATA) v1 = NaN;
-      let hs = v0 + (v1 - v0) * fr;
-      if (hs !== hs) {
-        const nearest = fr < 0.5 ? v0 : v1;
-        hs = nearest !== nearest ? NaN : v0 === v0 ? v0 : v1;
-      }
-      const ds = da * stepLen[i];
-      if (ds - margin > R) {
-        live[i] = 0;
-        alive--;
-        continue;
-      }
-      hsCol[i] = hs;
-      dsCol[i] = ds;
-    }
-    // --- the cells of this column the radials own: k with t − ½ ≤ (k − bs)·rc/da < t + ½ ---
+    // --- the cells of this column the radials own: k with t − ½ ≤ (k − bs)·rc/da < t + ½,
+    // visited when the owning radial reaches this column (as sweepRays: it has not ended
+    // before), against its horizon over the columns before ---
     let kFrom = Math.floor(bs + ((t0 - 0.5) * da) / rc) - 1;
     let kTo = Math.ceil(bs + ((t1 - 0.5) * da) / rc) + 1;
     if (kFrom < 0) kFrom = 0;
@@ -172,6 +128,8 @@ function faceWavefront(g: SweepGeometry, dem: Float32Array | Int16Array, rc: num
       else if (!(x < (t + 0.5) * da)) t++;
       if (t < t0 || t >= t1 || !(x >= (t - 0.5) * da && x < (t + 0.5) * da)) continue;
       const i = t - t0;
+      // (the radial's sample here is inside the grid, as the cell it owns is within half a
+      // cell of it, and inside the radius plus margin when the cell is inside the radius)
       if (live[i] === 0) continue;
       const cc = xMajor ? a : k;
       const cr = xMajor ? k : a;
@@ -195,6 +153,43 @@ function faceWavefront(g: SweepGeometry, dem: Float32Array | Int16Array, rc: num
         nVisible++;
       }
     }
+    // --- each radial's sample in this column (as sweepRays) joins its horizon; leaving the
+    // grid or the radius, or a nodata sample, ends the radial ---
+    for (let i = iLo; i < iHi; i++) {
+      if (live[i] === 0) continue;
+      const b = bs + da * slope[i];
+      const ds = da * stepLen[i];
+      if (b < -0.5 || b > bmax + 0.5 || ds - margin > R) {
+        live[i] = 0;
+        alive--;
+        continue;
+      }
+      let bf = Math.floor(b);
+      let fr = b - bf;
+      if (bf < 0 || bf >= bmax) {
+        if (bf < 0) (bf = 0), (fr = 0);
+        else (bf = bmax > 0 ? bmax - 1 : 0), (fr = bmax > 0 ? 1 : 0);
+      }
+      const i0 = a * aStride + bf * bStride;
+      let v0 = dem[i0];
+      let v1 = dem[i0 + bNext];
+      if (v0 === INT16_NODATA) v0 = NaN;
+      if (v1 === INT16_NODATA) v1 = NaN;
+      let hs = v0 + (v1 - v0) * fr;
+      if (hs !== hs) {
+        const nearest = fr < 0.5 ? v0 : v1;
+        hs = nearest !== nearest ? NaN : v0 === v0 ? v0 : v1;
+        if (hs !== hs) {
+          live[i] = 0;
+          alive--;
+          continue;
+        }
+      }
+      const sp = (hs - ds * ds * k2 - hts) / ds; // as HorizonVisitor.sample
+      if (sp > horizon[i]) horizon[i] = sp;
+    }
+    while (iLo < iHi && live[iLo] === 0) iLo++;
+    while (iHi > iLo && live[iHi - 1] === 0) iHi--;
   }
   tally.addSums({ cells, area_m2: sum, at_least_m2: [visible], failed, min: nVisible < cells ? 0 : cells > 0 ? 1 : Infinity, max: nVisible > 0 ? 1 : cells > 0 ? 0 : -Infinity });
 }
