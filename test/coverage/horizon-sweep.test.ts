@@ -5,7 +5,9 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { prepareCoverage } from "../../src/analysis/coverage/compute-coverage.ts";
 import type { CoverageJob } from "../../src/analysis/coverage/coverage-job.ts";
 import { CoverageTally } from "../../src/analysis/coverage/coverage-tally.ts";
-import { horizonSweep, horizonSweepApplies } from "../../src/analysis/coverage/horizon-sweep.ts";
+import { computeCoverage } from "../../src/analysis/coverage/compute-coverage.ts";
+import { CoveragePool } from "../../src/analysis/coverage/coverage-pool.ts";
+import { horizonSweep, horizonSweepApplies, warmUpHorizonSweep } from "../../src/analysis/coverage/horizon-sweep.ts";
 import { HorizonVisitor } from "../../src/analysis/coverage/level-visitors.ts";
 import { rayCount, sweepRays } from "../../src/analysis/coverage/radial-sweep.ts";
 import { mulberry32 } from "../../src/terrain/mulberry32.ts";
@@ -86,4 +88,20 @@ describe("wavefront line-of-sight sweep", () => {
       });
     }
   }
+
+  it("a pool whose threads warmed up on a made-up grid computes the same raster as this thread", async () => {
+    expect(warmUpHorizonSweep(2)).toBeGreaterThan(0);
+    expect(warmUpHorizonSweep(2)).toBeLessThan(1);
+    const [lat, lon] = cellLatLon(DEM, 70, 64);
+    const req = request({ site: { lat_deg: lat, lon_deg: lon }, method: "visibility", radius_m: 2500 });
+    const pool = CoveragePool.start(2, { warmUp: "line-of-sight" });
+    try {
+      const a = await computeCoverage(terrain, req, { pool: null });
+      const b = await computeCoverage(terrain, req, { pool });
+      expect(Buffer.compare(Buffer.from(a.values.buffer as ArrayBuffer), Buffer.from(b.values.buffer as ArrayBuffer))).toBe(0);
+      expect(b.tally).toEqual(a.tally);
+    } finally {
+      await pool.close();
+    }
+  });
 });

@@ -38,9 +38,15 @@ export class CoveragePool {
     }
   }
 
-  /** Start `count` threads (≥ 1). */
-  static start(count: number): CoveragePool {
-    return new CoveragePool(Math.max(1, Math.floor(count)));
+  /**
+   * Start `count` threads (≥ 1). `warmUp: "line-of-sight"`: each thread first runs the
+   * line-of-sight sweep on a small made-up grid (warmUpHorizonSweep), while this thread reads
+   * the terrain, so the real sweep starts in optimised code.
+   */
+  static start(count: number, options: { warmUp?: "line-of-sight" } = {}): CoveragePool {
+    const pool = new CoveragePool(Math.max(1, Math.floor(count)));
+    if (options.warmUp === "line-of-sight") for (const w of pool.workers) w.postMessage({ type: "warm-up" } satisfies ToWorker);
+    return pool;
   }
 
   /**

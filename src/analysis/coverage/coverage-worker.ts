@@ -5,11 +5,13 @@ import { parentPort } from "node:worker_threads";
 import { decodeBands, type PixelWindow, type TiffBandSource } from "../../terrain/tiff-band-reader.ts";
 import type { CoverageJob } from "./coverage-job.ts";
 import { createChunkRunner } from "./coverage-kernel.ts";
+import { warmUpHorizonSweep } from "./horizon-sweep.ts";
 
 /** Messages from the pool to a worker. */
 export type ToWorker =
   | { type: "job"; job: CoverageJob }
   | { type: "chunk"; from: number; to: number }
+  | { type: "warm-up" }
   | { type: "fill"; values: Float32Array | Uint8Array; value: number; from: number; to: number }
   | { type: "decode"; src: TiffBandSource; window: PixelWindow; out: Float32Array | Int16Array; ctrl: Int32Array };
 
@@ -29,6 +31,8 @@ port.on("message", (m: ToWorker) => {
     } finally {
       if (fd !== null) closeSync(fd);
     }
+  } else if (m.type === "warm-up") {
+    warmUpHorizonSweep();
   } else if (m.type === "fill") {
     m.values.fill(m.value, m.from, m.to);
     port.postMessage({ type: "filled" });

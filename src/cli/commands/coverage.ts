@@ -58,7 +58,8 @@ export async function coverageCommand(argv: string[]): Promise<number> {
   const estimate = ((2 * radius_km * 1000) / resolution_m) ** 2;
   const nThreads = threads ?? (estimate < 2e6 ? 0 : availableParallelism());
   const { CoveragePool } = await import("../../analysis/coverage/coverage-pool.ts");
-  const pool = nThreads > 0 ? CoveragePool.start(nThreads) : null;
+  const lineOfSight = method === "visibility" && !(Number(v("clearance-f1") ?? 0) > 0);
+  const pool = nThreads > 0 ? CoveragePool.start(nThreads, lineOfSight ? { warmUp: "line-of-sight" } : {}) : null;
   if (TIMINGS) void pool?.whenReady().then(() => mark("threads ready"));
   // Heavy modules load only for this command (nothing below may throw before the try that closes the pool, but a failing import).
   const [{ prepareCoverage, runCoverage }, { CoverageError }, { parseTerrainArg, openTerrain }, { TerrainError }, { writeGeoTiff }, { coverageResult }, { crsFromEpsg }] = await Promise.all([
