@@ -1,6 +1,6 @@
 import { INT16_NODATA } from "../../terrain/tiff-band-reader.ts";
 import { CoverageTally } from "./coverage-tally.ts";
-import type { SweepGeometry } from "./radial-sweep.ts";
+import { radialSample, type SweepGeometry } from "./radial-sweep.ts";
 
 /** What the geometric line-of-sight sweep needs beyond the grid. */
 export interface HorizonParams {
@@ -111,6 +111,7 @@ function faceWavefront(g: SweepGeometry, dem: Float32Array | Int16Array, rc: num
   for (let m = 1; m <= mMax && alive > 0; m++) {
     const a = aStart + sgn * m;
     const da = (a - as) * sgn;
+    const aOffset = a * aStride;
     // --- the cells of this column the radials own: k with t − ½ ≤ (k − bs)·rc/da < t + ½,
     // visited when the owning radial reaches this column (as sweepRays: it has not ended
     // before), against its horizon over the columns before ---
@@ -164,26 +165,11 @@ function faceWavefront(g: SweepGeometry, dem: Float32Array | Int16Array, rc: num
         alive--;
         continue;
       }
-      let bf = Math.floor(b);
-      let fr = b - bf;
-      if (bf < 0 || bf >= bmax) {
-        if (bf < 0) (bf = 0), (fr = 0);
-        else (bf = bmax > 0 ? bmax - 1 : 0), (fr = bmax > 0 ? 1 : 0);
-      }
-      const i0 = a * aStride + bf * bStride;
-      let v0 = dem[i0];
-      let v1 = dem[i0 + bNext];
-      if (v0 === INT16_NODATA) v0 = NaN;
-      if (v1 === INT16_NODATA) v1 = NaN;
-      let hs = v0 + (v1 - v0) * fr;
+      const hs = radialSample(dem, aOffset, b, bmax, bStride, bNext);
       if (hs !== hs) {
-        const nearest = fr < 0.5 ? v0 : v1;
-        hs = nearest !== nearest ? NaN : v0 === v0 ? v0 : v1;
-        if (hs !== hs) {
-          live[i] = 0;
-          alive--;
-          continue;
-        }
+        live[i] = 0;
+        alive--;
+        continue;
       }
       const sp = (hs - ds * ds * k2 - hts) / ds; // as HorizonVisitor.sample
       if (sp > horizon[i]) horizon[i] = sp;

@@ -55,6 +55,31 @@ export function maxSamplesPerRay(g: SweepGeometry): number {
 }
 
 /**
+ * The elevation a radial samples at major index offset `aOffset` (a · stride along the major
+ * axis) and minor coordinate b (−0.5 ≤ b ≤ bmax + 0.5): linear between the two cells of that
+ * column it passes between (clamped at the grid's edge), the nearer one where the other is
+ * nodata, NaN where both are — bilinear interpolation on a grid line (as bilinear-grid.ts).
+ * Shared by both sweeps so that they sample alike.
+ */
+export function radialSample(dem: Float32Array | Int16Array, aOffset: number, b: number, bmax: number, bStride: number, bNext: number): number {
+  let bf = Math.floor(b);
+  let fr = b - bf;
+  if (bf < 0 || bf >= bmax) {
+    if (bf < 0) (bf = 0), (fr = 0);
+    else (bf = bmax > 0 ? bmax - 1 : 0), (fr = bmax > 0 ? 1 : 0);
+  }
+  const i0 = aOffset + bf * bStride;
+  let v0 = dem[i0];
+  let v1 = dem[i0 + bNext];
+  if (v0 === INT16_NODATA) v0 = NaN;
+  if (v1 === INT16_NODATA) v1 = NaN;
+  const hs = v0 + (v1 - v0) * fr;
+  if (hs === hs) return hs;
+  const nearest = fr < 0.5 ? v0 : v1;
+  return nearest !== nearest ? NaN : v0 === v0 ? v0 : v1;
+}
+
+/**
  * Walk radials q0…q1−1 of the sweep over `dem` (row-major elevations, NaN or −32768 nodata:
  * see Elevations in elevation-window.ts).
  *
@@ -124,23 +149,7 @@ export function sweepRays(g: SweepGeometry, dem: Float32Array | Int16Array, rc: 
       const da = (a - as) * sgn;
       const b = bs + da * slope;
       if (b < -0.5 || b > bmax + 0.5) break;
-      // --- the sample on the ray at this major coordinate: linear between two cells ---
-      let bf = Math.floor(b);
-      let fr = b - bf;
-      if (bf < 0 || bf >= bmax) {
-        if (bf < 0) (bf = 0), (fr = 0);
-        else (bf = bmax > 0 ? bmax - 1 : 0), (fr = bmax > 0 ? 1 : 0);
-      }
-      const i0 = a * aStride + bf * bStride;
-      let v0 = dem[i0];
-      let v1 = dem[i0 + bNext];
-      if (v0 === INT16_NODATA) v0 = NaN;
-      if (v1 === INT16_NODATA) v1 = NaN;
-      let hs = v0 + (v1 - v0) * fr;
-      if (hs !== hs) {
-        const nearest = fr < 0.5 ? v0 : v1;
-        hs = nearest !== nearest ? NaN : v0 === v0 ? v0 : v1;
-      }
+      const hs = radialSample(dem, a * aStride, b, bmax, bStride, bNext);
       let ds: number;
       if (uniform) {
         ds = da * stepLen;
