@@ -4,6 +4,7 @@ import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { analyzeStudy, type AnalyzedStudy } from "../../src/analysis/analyze-study.ts";
 import fc from "fast-check";
+import { linkKeyer } from "../../src/cache/cache-keys.ts";
 import { canonicalJson } from "../../src/cache/canonical-json.ts";
 import { ResultCache } from "../../src/cache/result-cache.ts";
 import { loadStudy } from "../../src/study/load-study.ts";
@@ -38,6 +39,31 @@ describe("canonical JSON of key parts", () => {
         expect(JSON.parse(canonicalJson(o))).toEqual(JSON.parse(JSON.stringify(o)));
       }),
     );
+  });
+});
+
+describe("link keys", () => {
+  it("do not depend on the order keys are written in study.yaml, and change with a link's antenna height", () => {
+    const base = readFileSync(join(dir, "study.yaml"), "utf8");
+    const m = /\n(\s+)from: \{ ([^}]+) \}\n\s+to: \{ ([^}]+) \}/.exec(base);
+    expect(m, "the small study writes link ends as flow mappings").not.toBeNull();
+    const [whole, indent, from, to] = m!;
+    const reverse = (fields: string) => fields.split(", ").reverse().join(", ");
+    const reordered = base.replace(whole, `\n${indent}to: { ${reverse(to)} }\n${indent}from: { ${reverse(from)} }`);
+    expect(reordered).not.toBe(base);
+    const keysOf = (yaml: string, name: string) => {
+      const d = writeSmallStudy(root, `keys-${name}`);
+      writeFileSync(join(d, "study.yaml"), yaml);
+      const s = loadStudy(join(d, "study.yaml"));
+      const keyOf = linkKeyer(s, "terrain");
+      return s.links.map((l) => keyOf(l, null));
+    };
+    const a = keysOf(base, "a");
+    expect(keysOf(reordered, "b")).toEqual(a);
+    const taller = base.replace(/antenna_m: (\d+)/, (_x, h: string) => `antenna_m: ${Number(h) + 1}`);
+    const c = keysOf(taller, "c");
+    expect(c[0]).not.toBe(a[0]);
+    expect(c.slice(1)).toEqual(a.slice(1));
   });
 });
 
