@@ -56,7 +56,7 @@ try {
   const cases: [string, Terrain, number, number, number, number][] = [
     ["hgt 1″ (one tile)", hgt, 46.01, 7.01, 46.99, 7.99],
     ["synthetic 1″ EPSG:4326 raster", synth, 46.31, 7.11, 46.49, 7.39],
-    ["raster in UTM 32N (proj4 per point)", utm, ulat0, ulon0, ulat1, ulon1],
+    ["raster in UTM 32N (projected per point)", utm, ulat0, ulon0, ulat1, ulon1],
   ];
   const results = [];
   for (const [source, t, s, w, n, e] of cases) {

@@ -29,7 +29,7 @@ export interface IsobandOptions {
  *
  * Large rasters are traced on every s-th cell (s = ceil(max(width, height)/maxSide)), which
  * keeps files small and smooths boundaries at the scale of s cells; `step_cells` in each
- * feature's properties records s. Vertices are converted from the grid's CRS with proj4 and
+ * feature's properties records s. Vertices are converted from the grid's CRS (crsFromEpsg) and
  * rounded to 1e-6° (about 0.1 m).
  * @param geoTransform GDAL-style, pixel-corner origin
  * @param epsg 4326 or a WGS84 UTM zone

@@ -1,4 +1,4 @@
-import proj4 from "proj4";
+import { utmZone } from "../geo/transverse-mercator.ts";
 
 /** A coordinate reference system the terrain readers understand, with its projection. */
 export interface Crs {
@@ -15,9 +15,9 @@ export interface Crs {
 
 /**
  * The CRS for an EPSG code: 4326 (WGS84 geographic, identity with x = lon, y = lat) or a
- * WGS84 UTM zone, 326zz (north) / 327zz (south), zz = 1…60. UTM is projected with proj4
- * from a definition built here (`+proj=utm +zone=zz [+south] +datum=WGS84`), not looked
- * up in an EPSG database. Returns null for any other code.
+ * WGS84 UTM zone, 326zz (north) / 327zz (south), zz = 1…60, projected by our transverse
+ * Mercator (src/geo/transverse-mercator.ts, Krüger's series after Karney 2011) from the
+ * zone's definition, not looked up in an EPSG database. Returns null for any other code.
  */
 export function crsFromEpsg(epsg: number): Crs | null {
   if (epsg === 4326) {
@@ -35,19 +35,12 @@ export function crsFromEpsg(epsg: number): Crs | null {
     return null;
   }
   const south = hemisphere === 327;
-  const def = `+proj=utm +zone=${zone}${south ? " +south" : ""} +datum=WGS84 +units=m +no_defs`;
-  const converter = proj4("+proj=longlat +datum=WGS84 +no_defs", def);
+  const utm = utmZone(zone, south);
   return {
     epsg,
     geographic: false,
     name: `EPSG:${epsg} (WGS84 / UTM zone ${zone}${south ? "S" : "N"})`,
-    toCrs: (lat_deg, lon_deg) => {
-      const p = converter.forward([lon_deg, lat_deg]);
-      return [p[0], p[1]];
-    },
-    fromCrs: (x, y) => {
-      const p = converter.inverse([x, y]);
-      return [p[1], p[0]];
-    },
+    toCrs: (lat_deg, lon_deg) => utm.forward(lat_deg, lon_deg),
+    fromCrs: (x, y) => utm.inverse(x, y),
   };
 }
