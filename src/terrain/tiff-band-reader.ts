@@ -8,6 +8,12 @@ export interface PixelWindow {
   row0: number;
   width: number;
   height: number;
+  /**
+   * Optional: read only columns spans[2r] … spans[2r+1]−1 (window columns) of window row r;
+   * the rest of the row is not written (a zero-filled buffer keeps zeros there). For callers
+   * that need only part of each row, e.g. the disc of a coverage radius in its square.
+   */
+  spans?: Int32Array;
 }
 
 type SampleKind = "u16" | "i16" | "i32" | "f32";
@@ -165,7 +171,16 @@ function decodeWindow(fd: number, layout: BandLayout, win: PixelWindow, copyRow:
       const r1 = Math.min(win.row0 + win.height, by * bh + rowsInBlock, H);
       const c0 = Math.max(win.col0, bx * bw);
       const c1 = Math.min(win.col0 + win.width, bx * bw + bw, W);
-      for (let r = r0; r < r1; r++) copyRow(samples, (r - by * bh) * bw - bx * bw + c0, (r - win.row0) * win.width - win.col0 + c0, c1 - c0);
+      for (let r = r0; r < r1; r++) {
+        let a = c0;
+        let b = c1;
+        if (win.spans) {
+          a = Math.max(a, win.col0 + win.spans[2 * (r - win.row0)]);
+          b = Math.min(b, win.col0 + win.spans[2 * (r - win.row0) + 1]);
+          if (b <= a) continue;
+        }
+        copyRow(samples, (r - by * bh) * bw - bx * bw + a, (r - win.row0) * win.width - win.col0 + a, b - a);
+      }
     }
   }
 }
@@ -267,7 +282,7 @@ export function decodeBands(fd: number, src: TiffBandSource, window: PixelWindow
     const first = Math.floor(window.row0 / bh);
     const r0 = Math.max(window.row0, (first + k) * bh);
     const r1 = Math.min(window.row0 + window.height, (first + k + 1) * bh);
-    const w = { col0: window.col0, row0: r0, width: window.width, height: r1 - r0 };
+    const w = { col0: window.col0, row0: r0, width: window.width, height: r1 - r0, ...(window.spans ? { spans: window.spans.subarray(2 * (r0 - window.row0), 2 * (r1 - window.row0)) } : {}) };
     const at = (r0 - window.row0) * window.width;
     try {
       if (out instanceof Int16Array) readBandInt16(fd, src.layout, src.nodata, w, out.subarray(at, at + w.width * w.height));

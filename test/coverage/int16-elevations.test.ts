@@ -80,4 +80,21 @@ describe("coverage on an Int16 DEM", () => {
       }
     });
   }
+
+  it("reading the elevations only within the radius (the one-off command) changes no cell, for every method", async () => {
+    const [lat2, lon2] = cellLatLon({ x0: X0, y0: Y0, cell: CELL }, 100, 130);
+    for (const k of [...cases, { method: "hata" as const, clearance_f1: 0 }]) {
+      const req = request({ site: { lat_deg: lat2, lon_deg: lon2 }, method: k.method, clearance_f1: k.clearance_f1, radius_m: 2500, thresholds_dbm: [-90, -80] });
+      for (const terrain of [int16, float32, int16Deflate]) {
+        const share = { pool, shareDecode: (...x: Parameters<CoveragePool["shareDecode"]>) => pool.shareDecode(...x) }; // the Deflate file is read by the threads together
+        const all = await computeCoverage(terrain, req, share);
+        const disc = await computeCoverage(terrain, req, { ...share, elevationsInsideRadiusOnly: true });
+        expect(Buffer.compare(bytes(disc), bytes(all)), `${k.method} ${k.clearance_f1}`).toBe(0);
+        expect(disc.tally).toEqual(all.tally);
+        // the corners were not read: zero there, the terrain elsewhere
+        expect(disc.dem[0]).toBe(0);
+        expect(all.dem[0]).not.toBe(0);
+      }
+    }
+  });
 });

@@ -44,6 +44,12 @@ export interface ComputeOptions {
   maxCells?: number;
   /** hands a GeoTIFF window decode to worker threads as well (CoveragePool.shareDecode) */
   shareDecode?: ShareDecode;
+  /**
+   * Read a GeoTIFF's elevations only within the radius (elevationWindow's insideRadiusOnly):
+   * the result's `dem` is then zero in the square's corners. For callers that use only the
+   * coverage raster (the one-off command), not the relief.
+   */
+  elevationsInsideRadiusOnly?: boolean;
 }
 
 /** A coverage laid out and ready to compute: everything but the result buffer. */
@@ -92,7 +98,7 @@ export function prepareCoverage(terrain: Terrain, req: CoverageRequest, options:
   const pattern = validateCoverageRequest(req, options.names, options.patternField);
   const t0 = performance.now();
   const { grid, warnings } = planCoverageGrid(terrain, req.site, req.radius_m, req.resolution_m, { maxCells: options.maxCells });
-  const dem = elevationWindow(terrain, grid, (d, t) => options.onProgress?.("terrain", d, t), options.shareDecode);
+  const dem = elevationWindow(terrain, grid, (d, t) => options.onProgress?.("terrain", d, t), options.shareDecode, { insideRadiusOnly: options.elevationsInsideRadiusOnly });
   const t1 = performance.now();
   const site_ground_m = terrain.elevation(req.site.lat_deg, req.site.lon_deg);
   const f = req.frequency_ghz;

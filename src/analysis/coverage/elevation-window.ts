@@ -41,14 +41,20 @@ export function elevationsFloat32(dem: Elevations): Float32Array {
  *   for L = 500 m at 46°N (test/coverage/coverage-grid.test.ts).
  * @param onRow optional progress callback (rows done, rows)
  * @param share hands a GeoTIFF window decode to worker threads as well (CoveragePool.shareDecode)
+ * @param options.insideRadiusOnly read a GeoTIFF window only within the coverage radius plus
+ *   three cells — all the sweeps and Hata read (samples end 1.5 cells past the radius, and
+ *   interpolate with the next cell) — leaving the corners of the square zero: about a fifth
+ *   less memory written. Not for callers that use the elevations outside the radius (the
+ *   shaded relief of a map).
  */
-export function elevationWindow(terrain: Terrain, grid: CoverageGrid, onRow?: (done: number, total: number) => void, share?: ShareDecode): Elevations {
+export function elevationWindow(terrain: Terrain, grid: CoverageGrid, onRow?: (done: number, total: number) => void, share?: ShareDecode, options: { insideRadiusOnly?: boolean } = {}): Elevations {
   const { width: W, height: H } = grid;
   const src = grid.source;
   // A terrain that reads windows of its raster itself (GeoTIFF) decodes only the grid's pixels, once.
   const readWindow = (terrain as { readWindow?: (w: PixelWindow, share: ShareDecode | undefined, int16: boolean) => Elevations }).readWindow;
   if (src.kind === "raster" && typeof readWindow === "function") {
-    const out = readWindow.call(terrain, { col0: src.col0, row0: src.row0, width: W, height: H }, share, true);
+    const spans = options.insideRadiusOnly ? radiusSpans(grid) : undefined;
+    const out = readWindow.call(terrain, { col0: src.col0, row0: src.row0, width: W, height: H, ...(spans ? { spans } : {}) }, share, true);
     onRow?.(H, H);
     return out;
   }
@@ -77,6 +83,27 @@ export function elevationWindow(terrain: Terrain, grid: CoverageGrid, onRow?: (d
     if ((row & 63) === 63 || row === H - 1) onRow?.(row + 1, H);
   }
   return out;
+}
+
+/**
+ * Per row of the grid, the columns [first, end) within the coverage radius plus three cells of
+ * the site (PixelWindow.spans); null when the grid's rows differ in metric (then every cell).
+ */
+export function radiusSpans(grid: CoverageGrid): Int32Array | undefined {
+  const { width: W, height: H, east_per_col_m: EX, north_per_row_m: NY } = grid;
+  if (EX[0] !== EX[H - 1] || NY[0] !== NY[H - 1]) return undefined;
+  const ex = Math.abs(EX[0]);
+  const ny = Math.abs(NY[0]);
+  const reach = grid.radius_m + 3 * Math.max(ex, ny);
+  const spans = new Int32Array(2 * H);
+  for (let r = 0; r < H; r++) {
+    const dy = (r - grid.site_row) * ny;
+    if (Math.abs(dy) > reach) continue; // [0, 0): nothing in this row
+    const half = Math.sqrt(reach * reach - dy * dy) / ex;
+    spans[2 * r] = Math.max(0, Math.floor(grid.site_col - half));
+    spans[2 * r + 1] = Math.min(W, Math.ceil(grid.site_col + half) + 1);
+  }
+  return spans;
 }
 
 /**

@@ -123,7 +123,8 @@ export async function coverageCommand(argv: string[]): Promise<number> {
       open_s = (performance.now() - tOpen) / 1000;
       mark("terrain opened");
       collectGarbage(); // the reader's file bytes and decoding buffers
-      prepared = prepareCoverage(terrain, request, { names, patternField: "--pattern", shareDecode: pool ? (...a) => pool.shareDecode(...a) : undefined });
+      // only the raster is written: the elevations outside the radius are not needed
+      prepared = prepareCoverage(terrain, request, { names, patternField: "--pattern", shareDecode: pool ? (...a) => pool.shareDecode(...a) : undefined, elevationsInsideRadiusOnly: true });
       mark("grid elevations");
     } catch (e) {
       if (e instanceof TerrainError) throw new UsageError(`--terrain: ${e.message}`);
