@@ -115,6 +115,7 @@ function faceWavefront(g: SweepGeometry, dem: Float32Array | Int16Array, rc: num
     // --- the cells of this column the radials own: k with t − ½ ≤ (k − bs)·rc/da < t + ½,
     // visited when the owning radial reaches this column (as sweepRays: it has not ended
     // before), against its horizon over the columns before ---
+    const invDa = 1 / da;
     let kFrom = Math.floor(bs + ((t0 - 0.5) * da) / rc) - 1;
     let kTo = Math.ceil(bs + ((t1 - 0.5) * da) / rc) + 1;
     if (kFrom < 0) kFrom = 0;
@@ -124,7 +125,7 @@ function faceWavefront(g: SweepGeometry, dem: Float32Array | Int16Array, rc: num
       const adb = db < 0 ? -db : db;
       if (xMajor ? adb > da : adb >= da) continue;
       const x = db * rc;
-      let t = Math.round(x / da);
+      let t = Math.round(x * invDa); // a guess, corrected by the exact test below
       if (!(x >= (t - 0.5) * da)) t--;
       else if (!(x < (t + 0.5) * da)) t++;
       if (t < t0 || t >= t1 || !(x >= (t - 0.5) * da && x < (t + 0.5) * da)) continue;
