@@ -87,7 +87,7 @@ export function elevationWindow(terrain: Terrain, grid: CoverageGrid, onRow?: (d
 
 /**
  * Per row of the grid, the columns [first, end) within the coverage radius plus three cells of
- * the site (PixelWindow.spans); null when the grid's rows differ in metric (then every cell).
+ * the site (PixelWindow.spans); undefined when the grid's rows differ in metric (then every cell).
  */
 export function radiusSpans(grid: CoverageGrid): Int32Array | undefined {
   const { width: W, height: H, east_per_col_m: EX, north_per_row_m: NY } = grid;
