@@ -19,7 +19,6 @@ import { TerrainError } from "../terrain/terrain-error.ts";
 import { ProfileCsvError } from "../terrain/profile-csv-error.ts";
 import { analyzeLink, siteGroundM, type LinkFigureData } from "./analyze-link.ts";
 import { chainResults } from "./chains.ts";
-import { cachedStudyCoverage } from "./coverage/coverage-cache.ts";
 import { gitStateAsync, TOOL_VERSION } from "./provenance.ts";
 import type { LinkResult, StudyResult } from "./results.ts";
 import { sanitizeNumbers } from "./sanitize.ts";
@@ -218,6 +217,9 @@ export async function analyzeStudy(study: Study, options: AnalyzeOptions = {}): 
   let coverageCache = { hits: 0, misses: 0 };
   if (study.coverage?.length) {
     const dir = mkdtempSync(join(tmpdir(), `ridgeline-coverage-${study.id}-`));
+    // loaded only for a study with coverage: it brings the raster encoders (sharp), which the
+    // link analysis, `ridgeline path` and `check` of a links-only study do not need
+    const { cachedStudyCoverage } = await import("./coverage/coverage-cache.ts");
     const cov = await cachedStudyCoverage(study, { outDir: dir, cache, terrainKey, openTerrain: open });
     coverageResults = cov.results; // without compute time: no clock in results
     coverageCache = cov.cache;
