@@ -101,7 +101,7 @@ export function readBandFloat32(fd: number, layout: BandLayout, nodata: number |
   // Nodata in the band's own type: integers only match an integer, Float32 its rounding.
   const nd = nodata === null || Number.isNaN(nodata) ? null : kind === "f32" ? Math.fround(nodata) : Number.isInteger(nodata) ? nodata : null;
   decodeWindow(fd, layout, win, (samples, src, dst, n) => {
-    if (kind === "i32" || !ArrayBuffer.isView(samples)) {
+    if (kind === "i32") {
       // Int32 → Float32 rounds: compare with nodata before converting
       for (let c = 0; c < n; c++) {
         const v = samples[src + c];
@@ -111,7 +111,7 @@ export function readBandFloat32(fd: number, layout: BandLayout, nodata: number |
     }
     // 16-bit integers and Float32 convert exactly: copy the row in one native call (a loop over
     // the sample array, whose type differs by file, runs several times slower), then mark nodata.
-    out.set((samples as Int16Array | Uint16Array | Float32Array).subarray(src, src + n), dst);
+    out.set((samples as Int16Array | Uint16Array | Float32Array).subarray(src, src + n), dst); // view() gives a typed array for every kind
     if (nd !== null) markNodata(out, dst, dst + n, nd);
   });
   return out;

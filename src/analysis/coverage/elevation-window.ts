@@ -2,6 +2,7 @@ import type { ShareDecode } from "../../terrain/geotiff.ts";
 import { INT16_NODATA, type PixelWindow } from "../../terrain/tiff-band-reader.ts";
 import type { Terrain } from "../../terrain/terrain.ts";
 import { cellCentreLatLon, type CoverageGrid } from "./coverage-grid.ts";
+import { uniformMetric } from "./radial-sweep.ts";
 
 /** Spacing (m, about) of the exactly projected nodes between which cell positions are interpolated. */
 const MESH_M = 500;
@@ -91,7 +92,7 @@ export function elevationWindow(terrain: Terrain, grid: CoverageGrid, onRow?: (d
  */
 export function radiusSpans(grid: CoverageGrid): Int32Array | undefined {
   const { width: W, height: H, east_per_col_m: EX, north_per_row_m: NY } = grid;
-  if (EX[0] !== EX[H - 1] || NY[0] !== NY[H - 1]) return undefined;
+  if (!uniformMetric(grid)) return undefined;
   const ex = Math.abs(EX[0]);
   const ny = Math.abs(NY[0]);
   const reach = grid.radius_m + 3 * Math.max(ex, ny);

@@ -1,6 +1,6 @@
 import { INT16_NODATA } from "../../terrain/tiff-band-reader.ts";
 import { CoverageTally } from "./coverage-tally.ts";
-import { radialSample, type SweepGeometry } from "./radial-sweep.ts";
+import { faceAxes, radialSample, uniformMetric, type SweepGeometry } from "./radial-sweep.ts";
 
 /** What the geometric line-of-sight sweep needs beyond the grid. */
 export interface HorizonParams {
@@ -17,7 +17,7 @@ export interface HorizonParams {
  * otherwise sweepRays with a HorizonVisitor does.
  */
 export function horizonSweepApplies(g: SweepGeometry): boolean {
-  return g.east_per_col_m[0] === g.east_per_col_m[g.height - 1] && g.north_per_row_m[0] === g.north_per_row_m[g.height - 1];
+  return uniformMetric(g);
 }
 
 /**
@@ -75,17 +75,7 @@ function faceWavefront(g: SweepGeometry, dem: Float32Array | Int16Array, rc: num
   const NYr = g.north_per_row_m[rs];
   const margin = 1.5 * Math.max(Math.abs(EXr), Math.abs(NYr));
   const { hts_m: hts, receiver_m: hr, k2 } = p;
-  const xMajor = face < 2;
-  const sgn = face === 0 || face === 2 ? 1 : -1;
-  const as = xMajor ? xs : ys;
-  const bs = xMajor ? ys : xs;
-  const amax = xMajor ? W - 1 : H - 1;
-  const bmax = xMajor ? H - 1 : W - 1;
-  const aStride = xMajor ? 1 : W;
-  const bStride = xMajor ? W : 1;
-  const bNext = bmax > 0 ? bStride : 0;
-  const aStart = sgn > 0 ? Math.floor(as) : Math.ceil(as);
-  const mMax = sgn > 0 ? amax - aStart : aStart;
+  const { xMajor, sgn, as, bs, bmax, aStride, bStride, bNext, aStart, mMax } = faceAxes(g, face);
 
   const n = t1 - t0;
   const slope = new Float64Array(n);

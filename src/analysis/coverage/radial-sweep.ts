@@ -54,6 +54,32 @@ export function maxSamplesPerRay(g: SweepGeometry): number {
   return Math.min(Math.max(g.width, g.height) + 2, Math.ceil((1.1 * g.radius_m) / minStep) + 8);
 }
 
+/** Whether every row of the grid has the same metric (a projected grid): distances along a radial are then its column count times one step. */
+export function uniformMetric(g: Pick<SweepGeometry, "height" | "east_per_col_m" | "north_per_row_m">): boolean {
+  return g.east_per_col_m[0] === g.east_per_col_m[g.height - 1] && g.north_per_row_m[0] === g.north_per_row_m[g.height - 1];
+}
+
+/**
+ * How the radials of `face` (0 east, 1 west: x major; 2, 3: y major) run over the grid: the
+ * major axis (a, one sample per column), the minor axis (b), the site on each, the index steps
+ * along each, the first column and the number of columns to the grid's edge. Shared by both
+ * sweeps so they walk the grid alike.
+ */
+export function faceAxes(g: Pick<SweepGeometry, "width" | "height" | "site_col" | "site_row">, face: number) {
+  const W = g.width;
+  const H = g.height;
+  const xMajor = face < 2;
+  const sgn = face === 0 || face === 2 ? 1 : -1;
+  const as = xMajor ? g.site_col : g.site_row; // site along the major axis
+  const bs = xMajor ? g.site_row : g.site_col;
+  const amax = xMajor ? W - 1 : H - 1;
+  const bmax = xMajor ? H - 1 : W - 1;
+  const aStride = xMajor ? 1 : W; // index step along the major axis
+  const bStride = xMajor ? W : 1; // index step along the minor axis
+  const aStart = sgn > 0 ? Math.floor(as) : Math.ceil(as);
+  return { xMajor, sgn, as, bs, bmax, aStride, bStride, bNext: bmax > 0 ? bStride : 0, aStart, mMax: sgn > 0 ? amax - aStart : aStart };
+}
+
 /**
  * The elevation a radial samples at major index offset `aOffset` (a · stride along the major
  * axis) and minor coordinate b (−0.5 ≤ b ≤ bmax + 0.5): linear between the two cells of that
@@ -113,7 +139,7 @@ export function sweepRays(g: SweepGeometry, dem: Float32Array | Int16Array, rc: 
   const rs = Math.min(H - 1, Math.max(0, Math.round(ys)));
   const margin = 1.5 * Math.max(Math.abs(EX[rs]), Math.abs(NY[rs]));
   const perFace = 2 * rc + 1;
-  const uniform = EX[0] === EX[H - 1] && NY[0] === NY[H - 1];
+  const uniform = uniformMetric(g);
   // the site's own cell and its neighbours are taken no closer than half a cell
   const dMin = 0.5 * Math.min(Math.abs(EX[rs]), Math.abs(NY[rs]));
 
@@ -123,26 +149,19 @@ export function sweepRays(g: SweepGeometry, dem: Float32Array | Int16Array, rc: 
     v.cell(idx, ys, dMin, dem[idx] === INT16_NODATA ? NaN : dem[idx], 0, 0);
   }
 
+  let axesFace = -1;
+  let axes = faceAxes(g, 0);
   for (let q = q0; q < q1; q++) {
     const face = (q / perFace) | 0;
     const t = (q % perFace) - rc;
-    const xMajor = face < 2;
-    const sgn = face === 0 || face === 2 ? 1 : -1;
-    const as = xMajor ? xs : ys; // site along the major axis
-    const bs = xMajor ? ys : xs;
-    const amax = xMajor ? W - 1 : H - 1;
-    const bmax = xMajor ? H - 1 : W - 1;
-    const aStride = xMajor ? 1 : W; // index step along the major axis
-    const bStride = xMajor ? W : 1; // index step along the minor axis
-    const bNext = bmax > 0 ? bStride : 0;
+    if (face !== axesFace) (axes = faceAxes(g, face)), (axesFace = face);
+    const { xMajor, sgn, as, bs, bmax, aStride, bStride, bNext, aStart, mMax } = axes;
     const slope = t / rc;
     // ownership of cell k: t − ½ ≤ (k − bs)·rc/da < t + ½, multiplied out by da > 0
     const tLo = t - 0.5;
     const tHi = t + 0.5;
     // on a grid with the same metric in every row a sample's distance is da times the step
     const stepLen = xMajor ? Math.hypot(EX[rs], slope * NY[rs]) : Math.hypot(slope * EX[rs], NY[rs]);
-    const aStart = sgn > 0 ? Math.floor(as) : Math.ceil(as);
-    const mMax = sgn > 0 ? amax - aStart : aStart;
     v.startRay();
     for (let m = 1; m <= mMax; m++) {
       const a = aStart + sgn * m;

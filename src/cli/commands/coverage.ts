@@ -58,7 +58,8 @@ export async function coverageCommand(argv: string[]): Promise<number> {
   const estimate = ((2 * radius_km * 1000) / resolution_m) ** 2;
   const nThreads = threads ?? (estimate < 2e6 ? 0 : availableParallelism());
   const { CoveragePool } = await import("../../analysis/coverage/coverage-pool.ts");
-  const lineOfSight = method === "visibility" && !(Number(v("clearance-f1") ?? 0) > 0);
+  const clearance_f1 = num("clearance-f1", 0, (x) => x >= 0 && x <= 5, "a fraction of the first Fresnel radius from 0 to 5");
+  const lineOfSight = method === "visibility" && !(clearance_f1 > 0);
   const pool = nThreads > 0 ? CoveragePool.start(nThreads, lineOfSight ? { warmUp: "line-of-sight" } : {}) : null;
   if (TIMINGS) void pool?.whenReady().then(() => mark("threads ready"));
   // Heavy modules load only for this command (nothing below may throw before the try that closes the pool, but a failing import).
@@ -88,7 +89,7 @@ export async function coverageCommand(argv: string[]): Promise<number> {
     resolution_m,
     frequency_ghz: num("frequency-ghz", undefined, (x) => x > 0 && x <= 1000, "a frequency in GHz above 0 and up to 1000"),
     k,
-    clearance_f1: num("clearance-f1", 0, (x) => x >= 0 && x <= 5, "a fraction of the first Fresnel radius from 0 to 5"),
+    clearance_f1,
     tx_power_dbm: num("tx-power-dbm", 0, Number.isFinite, "a power in dBm"),
     tx_losses_db: 0,
     gain_dbi: num("gain-dbi", 0, Number.isFinite, "a gain in dBi"),
