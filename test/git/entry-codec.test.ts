@@ -110,4 +110,30 @@ describe("cache entry codec", () => {
     expect(decodeEntry(bytes.subarray(0, 20))).toBeNull();
     expect(decodeEntry(Buffer.from("not a cache entry at all"))).toBeNull();
   });
+
+  it("rejects an entry whose stored array length is damaged (too long, too short, not a count)", () => {
+    const bytes = encodeEntry({ warnings: ["a", "b", "c"], h: Float64Array.of(1, 2), x: 7.25 });
+    // the numbers column holds the two lengths (3 and 2) and 7.25; find the 3 and replace it
+    const three = Buffer.alloc(8);
+    three.writeDoubleLE(3);
+    const at = bytes.indexOf(three);
+    expect(at).toBeGreaterThan(0);
+    for (const bad of [1e12, 2, 4, 2.5, -1, NaN]) {
+      const damaged = Buffer.from(bytes);
+      damaged.writeDoubleLE(bad, at);
+      expect(decodeEntry(damaged), String(bad)).toBeNull();
+    }
+    expect(decodeEntry(Buffer.from(bytes))).toEqual({ warnings: ["a", "b", "c"], h: Float64Array.of(1, 2), x: 7.25 });
+  });
+
+  it("never throws on a damaged byte, whatever the value (property)", () => {
+    fc.assert(
+      fc.property(tree, fc.nat(), fc.integer({ min: 0, max: 255 }), (v, where, byte) => {
+        const bytes = Buffer.from(encodeEntry(v));
+        bytes[where % bytes.length] = byte;
+        expect(() => decodeEntry(bytes)).not.toThrow();
+      }),
+      { numRuns: 300 },
+    );
+  });
 });
