@@ -19,6 +19,7 @@ import { TerrainError } from "../terrain/terrain-error.ts";
 import { ProfileCsvError } from "../terrain/profile-csv-error.ts";
 import { analyzeLink, siteGroundM, type LinkFigureData } from "./analyze-link.ts";
 import { chainResults } from "./chains.ts";
+import { LinkFigureMap } from "./link-figure-map.ts";
 import { gitStateAsync, TOOL_VERSION } from "./provenance.ts";
 import type { LinkResult, StudyResult } from "./results.ts";
 import { sanitizeNumbers } from "./sanitize.ts";
@@ -26,7 +27,8 @@ import { sanitizeNumbers } from "./sanitize.ts";
 export interface AnalyzedStudy {
   study: Study;
   result: StudyResult;
-  figures: Map<string, LinkFigureData>;
+  /** Each link's figure data, by link id in study order; a cached link's is decoded when first read. */
+  figures: LinkFigureMap;
   /** The study's terrain if it was opened; null when every result came from the cache. */
   readonly terrain: Terrain | null;
   /** Open the study's terrain (once) for work beyond the cached results. */
@@ -63,10 +65,12 @@ export interface StudyCoverage {
   maps: { id: string; svg: string }[];
 }
 
-/** A link's cached result and figure data. */
+/**
+ * A link's cache entry ("link"): its result. Its figure data is an entry of its own
+ * ("link-figure", same key), read only when a figure is drawn (LinkFigureMap).
+ */
 interface CachedLink {
   result: LinkResult;
-  figure: LinkFigureData;
 }
 
 /** What a study needs of its terrain beyond the links: cached so a full hit never opens it. */
@@ -160,26 +164,36 @@ export async function analyzeStudy(study: Study, options: AnalyzeOptions = {}): 
     }
     return analyzeLink(study, link, new MemoTerrain(cache, terrainKey, identity, await open()), { pathOf });
   };
-  const figures = new Map<string, LinkFigureData>();
   const links: LinkResult[] = [];
   const problems: InputProblem[] = [];
   let hits = 0;
   const keys = study.links.map((link) => (keyOf ? keyOf(link, csvSha.get(link.id) ?? null) : null));
-  // The study's pack holds the last build's entries in one file, read at once; a link it lacks
-  // is looked up on its own, those reads starting now and proceeding while entries are decoded.
-  const packName = cache ? sha256(`study-pack-v1\0${resolve(study.file)}`) : "";
-  const pack = cache ? cache.readPack(packName) : new Map<string, Buffer>();
+  // The study's two packs hold the last build's entries, results in one file and figure data
+  // in another: the results are read at once (a link the pack lacks is looked up on its own,
+  // those reads starting now and proceeding while entries are decoded), the figure data only
+  // when a figure is drawn — of its pack, only the index is read now, to know what it holds.
+  const packName = (part: string) => (cache ? sha256(`study-pack-v2\0${part}\0${resolve(study.file)}`) : "");
+  const resultsPack = packName("results");
+  const figuresPack = packName("figures");
+  const pack = cache ? cache.readPack(resultsPack) : new Map<string, Buffer>();
+  const figureKeys = cache ? cache.readPackKeys(figuresPack) : new Set<string>();
+  let figurePack: Map<string, Buffer> | null = null;
+  const storedFigure = (key: string): Buffer | undefined => {
+    figurePack ??= cache!.readPack(figuresPack);
+    return figurePack.get(key) ?? cache!.getBytes("link-figure", key);
+  };
+  const figures = new LinkFigureMap(storedFigure);
   const lookups = keys.map((key) => (!key ? undefined : (pack.get(key) ?? cache!.getBytesAsync("link", key))));
-  const packed: [string, Buffer][] = []; // this build's entries, in study order, for the next build's pack
+  const packed: [string, Buffer][] = []; // this build's result entries, in study order, for the next build's pack
+  const computedFigures = new Map<string, Buffer>(); // figure entries stored by this build, by key
   for (const [i, link] of study.links.entries()) {
     const key = keys[i];
     const lookup = lookups[i];
     const bytes = lookup instanceof Promise ? await lookup : lookup; // a pack hit is at hand: no turn of the event loop
-    // Typed arrays are read in place (views of the bytes just read), not copied.
-    const hit = bytes ? (decodeEntry(bytes, { views: true }) as CachedLink | null) : null;
-    if (hit && hit.result?.id === link.id && hit.figure?.profile?.d_m instanceof Float64Array) {
+    const hit = bytes ? (decodeEntry(bytes) as CachedLink | null) : null;
+    if (hit && hit.result?.id === link.id && (figureKeys.has(key!) || cache!.has("link-figure", key!))) {
       links.push(hit.result);
-      figures.set(link.id, hit.figure);
+      figures.setStored(link.id, key!);
       packed.push([key!, bytes!]);
       hits++;
     } else {
@@ -189,8 +203,13 @@ export async function analyzeStudy(study: Study, options: AnalyzeOptions = {}): 
         const clean = { ...sanitizeNumbers(result, warnings, `link ${link.id}`), warnings };
         links.push(clean);
         figures.set(link.id, figure);
-        const stored = key ? cache!.put("link", key, { result: clean, figure }) : null;
-        if (stored) packed.push([key!, stored]);
+        // the figure entry first: a stored result always has its figure data beside it
+        const storedFig = key ? cache!.put("link-figure", key, figure) : null;
+        const stored = storedFig ? cache!.put("link", key!, { result: clean } satisfies CachedLink) : null;
+        if (stored) {
+          packed.push([key!, stored]);
+          computedFigures.set(key!, storedFig!);
+        }
       } catch (e) {
         if (e instanceof ProfileCsvError) {
           problems.push({ file: e.detail.path, line: e.detail.line, col: e.detail.column, field: `${e.detail.field} (profile of link ${link.id})`, received: JSON.stringify(e.detail.value), expected: e.detail.expected });
@@ -201,11 +220,19 @@ export async function analyzeStudy(study: Study, options: AnalyzeOptions = {}): 
     }
     options.onProgress?.(i + 1, study.links.length);
   }
-  // Rewrite the pack (≈ 25 kB a link) when more than one link in 20 was not in it; until then
-  // those few are read on their own. So a one-link change does not rewrite the whole study's
-  // pack, and the pack is rewritten once for every few changed links, as they accumulate.
+  // Rewrite the packs (≈ 3.5 kB and 23 kB a link) when more than one link in 20 was not in
+  // them; until then those few are read on their own. So a one-link change does not rewrite
+  // the whole study's packs, and they are rewritten once for every few changed links, as they
+  // accumulate. The figure pack is written first, from the figure data this build computed
+  // and the old pack's (read whole now, and kept for the figures drawn later).
   const unpacked = packed.filter(([k, b]) => pack.get(k) !== b).length;
-  if (cache && !problems.length && unpacked * 20 > packed.length) cache.writePack(packName, packed);
+  if (cache && !problems.length && unpacked * 20 > packed.length) {
+    const figurePacked = packed.map(([k]) => [k, computedFigures.get(k) ?? storedFigure(k)] as const);
+    if (figurePacked.every(([, b]) => b !== undefined)) {
+      cache.writePack(figuresPack, figurePacked as [string, Buffer][]);
+      cache.writePack(resultsPack, packed);
+    }
+  }
   if (problems.length) throw new InputError(problems);
 
   // --- Coverage maps: from the cache or computed (coverage-cache.ts; the terrain is opened only

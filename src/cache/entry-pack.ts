@@ -53,3 +53,23 @@ export function decodePack(buf: Buffer): Map<string, Buffer> {
   }
   return out;
 }
+
+/**
+ * The keys of a pack from its first bytes — the header and the index, which is all it
+ * needs (the entries may be missing); an empty set for bytes that do not start a pack of
+ * this machine's byte order.
+ */
+export function packKeys(start: Buffer): Set<string> {
+  const keys = new Set<string>();
+  const framed = readFramed(MAGIC, start, "utf8");
+  if (!framed) return keys;
+  let index: unknown;
+  try {
+    index = JSON.parse(framed.json);
+  } catch {
+    return keys;
+  }
+  if (!Array.isArray(index)) return keys;
+  for (const row of index) if (Array.isArray(row) && typeof row[0] === "string") keys.add(row[0]);
+  return keys;
+}

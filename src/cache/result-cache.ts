@@ -1,8 +1,8 @@
-import { mkdirSync, readFileSync, renameSync, rmSync, writeFileSync } from "node:fs";
+import { closeSync, existsSync, mkdirSync, openSync, readFileSync, readSync, renameSync, rmSync, writeFileSync } from "node:fs";
 import { readFile } from "node:fs/promises";
 import { join, resolve } from "node:path";
 import { decodeEntry, encodeEntry } from "./entry-codec.ts";
-import { decodePack, encodePack } from "./entry-pack.ts";
+import { decodePack, encodePack, packKeys } from "./entry-pack.ts";
 
 /** Default cache folder, relative to the project root (the working directory). */
 export const DEFAULT_CACHE_DIR = ".ridgeline-cache";
@@ -98,6 +98,41 @@ export class ResultCache {
     } catch {
       return new Map();
     }
+  }
+
+  /**
+   * The keys the pack `name` holds, read from its index alone (not its entries); empty when
+   * absent or unreadable. To know that an entry is at hand without reading it.
+   */
+  readPackKeys(name: string): Set<string> {
+    let fd: number | null = null;
+    try {
+      fd = openSync(this.file("pack", name), "r");
+      const head = Buffer.alloc(12);
+      if (readSync(fd, head, 0, 12, 0) !== 12) return new Set();
+      const length = head.readUInt32LE(8);
+      const start = Buffer.alloc(12 + length);
+      if (readSync(fd, start, 0, start.length, 0) !== start.length) return new Set();
+      return packKeys(start);
+    } catch {
+      return new Set();
+    } finally {
+      if (fd !== null) closeSync(fd);
+    }
+  }
+
+  /** An entry's bytes, read now; undefined when absent or unreadable. */
+  getBytes(kind: string, key: string): Buffer | undefined {
+    try {
+      return readFileSync(this.file(kind, key));
+    } catch {
+      return undefined;
+    }
+  }
+
+  /** Whether an entry is stored under `key` (not whether it is readable). */
+  has(kind: string, key: string): boolean {
+    return existsSync(this.file(kind, key));
   }
 
   /** Replace the pack `name` with these entries (key and entry bytes), atomically. */

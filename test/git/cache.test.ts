@@ -1,6 +1,7 @@
 import { mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
-import { join } from "node:path";
+import { createHash } from "node:crypto";
+import { join, resolve } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { analyzeStudy, type AnalyzedStudy } from "../../src/analysis/analyze-study.ts";
 import fc from "fast-check";
@@ -149,29 +150,59 @@ describe("content-addressed link cache", () => {
     expect((await analyzeStudy(s, { cache: c })).cache).toMatchObject({ hits: 3, misses: 0 });
   });
 
-  it("reads a rebuild's unchanged links from the study's pack, and the changed one on its own", async () => {
+  it("reads a rebuild's unchanged links from the study's packs, and the changed one on its own", async () => {
     const c = new ResultCache(join(root, "cache3"));
     const load = () => loadStudy(join(dir, "study.yaml"));
     writeFileSync(join(dir, "study.yaml"), smallStudyYaml({ antennaAB: 31 }));
     await analyzeStudy(load(), { cache: c });
     const { readdirSync } = await import("node:fs");
     const entries = (kind: string) => readdirSync(join(c.dir, kind), { recursive: true }).filter((f) => String(f).endsWith(".bin")).map((f) => join(c.dir, kind, String(f)));
-    expect(entries("pack")).toHaveLength(1);
-    // With the single entries gone, every link still comes from the pack.
-    for (const f of entries("link")) rmSync(f);
+    const packBytes = () => Buffer.concat(entries("pack").sort().map((f) => readFileSync(f)));
+    expect(entries("pack")).toHaveLength(2); // results, and figure data
+    // With the single entries gone, every link still comes from the packs.
+    for (const f of [...entries("link"), ...entries("link-figure")]) rmSync(f);
     const packed = await analyzeStudy(load(), { cache: c });
     expect(packed.cache).toMatchObject({ hits: 3, misses: 0 });
-    // One link changed: computed and stored on its own; the pack (1 of 3 links not in it) is rewritten.
+    // One link changed: computed and stored on its own; the packs (1 of 3 links not in them) are rewritten.
     writeFileSync(join(dir, "study.yaml"), smallStudyYaml({ antennaAB: 32 }));
-    const pack = readFileSync(entries("pack")[0]);
+    const before = packBytes();
     const changed = await analyzeStudy(load(), { cache: c });
     expect(changed.cache).toMatchObject({ hits: 2, misses: 1 });
     expect(entries("link")).toHaveLength(1);
-    expect(readFileSync(entries("pack")[0]).equals(pack)).toBe(false);
-    for (const f of entries("link")) rmSync(f);
+    expect(entries("link-figure")).toHaveLength(1);
+    expect(packBytes().equals(before)).toBe(false);
+    for (const f of [...entries("link"), ...entries("link-figure")]) rmSync(f);
     const again = await analyzeStudy(load(), { cache: c });
     expect(again.cache).toMatchObject({ hits: 3, misses: 0 });
     const plain = await analyzeStudy(load(), { cache: null });
+    expect(JSON.stringify(again.result)).toBe(JSON.stringify(plain.result));
+    expect(figures(again)).toEqual(figures(plain));
+  });
+
+  it("reads a cached link's figure data only when a figure is drawn, and computes links again whose figure data is gone", async () => {
+    const c = new ResultCache(join(root, "cache4"));
+    const file = join(dir, "study.yaml");
+    const load = () => loadStudy(file);
+    writeFileSync(file, smallStudyYaml({ antennaAB: 33 }));
+    const plain = await analyzeStudy(load(), { cache: null });
+    await analyzeStudy(load(), { cache: c });
+    const { readdirSync } = await import("node:fs");
+    const singles = () => readdirSync(join(c.dir, "link-figure"), { recursive: true }).filter((f) => String(f).endsWith(".bin")).map((f) => join(c.dir, "link-figure", String(f)));
+    // the study's figure pack, named as analyze-study.ts names it
+    const name = createHash("sha256").update(`study-pack-v2\0figures\0${resolve(file)}`).digest("hex");
+    const figurePack = join(c.dir, "pack", name.slice(0, 2), `${name}.bin`);
+    expect(singles()).toHaveLength(3);
+    expect(readFileSync(figurePack).length).toBeGreaterThan(0);
+    // Damage all stored figure data after the analysis: the analysis did not read it; drawing
+    // does, and says so.
+    const warm = await analyzeStudy(load(), { cache: c });
+    expect(warm.cache).toMatchObject({ hits: 3, misses: 0 });
+    for (const f of [...singles(), figurePack]) writeFileSync(f, "not an entry");
+    expect(() => warm.figures.get("a-b")).toThrow(/figure data of link a-b is gone or cannot be read: build again/);
+    // With the figure data gone from the cache, the links are computed again, with the same results.
+    for (const f of [...singles(), figurePack]) rmSync(f);
+    const again = await analyzeStudy(load(), { cache: c });
+    expect(again.cache).toMatchObject({ hits: 0, misses: 3 });
     expect(JSON.stringify(again.result)).toBe(JSON.stringify(plain.result));
     expect(figures(again)).toEqual(figures(plain));
   });
