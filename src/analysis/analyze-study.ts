@@ -17,7 +17,7 @@ import { openTerrain, type TerrainSpec } from "../terrain/open-terrain.ts";
 import type { Terrain } from "../terrain/terrain.ts";
 import { TerrainError } from "../terrain/terrain-error.ts";
 import { ProfileCsvError } from "../terrain/profile-csv-error.ts";
-import { analyzeLink, siteGroundM, type LinkFigureData } from "./analyze-link.ts";
+import { analyzeLink, siteGroundM } from "./analyze-link.ts";
 import { chainResults } from "./chains.ts";
 import { LinkFigureMap } from "./link-figure-map.ts";
 import { gitStateAsync, TOOL_VERSION } from "./provenance.ts";
