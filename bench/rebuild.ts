@@ -65,7 +65,7 @@ const timed = async (f: () => unknown): Promise<{ wall_s: number; cpu_s: number 
 };
 
 /** Full compute against compute after a one-link change, on the 200-link benchmark study. */
-export async function benchRebuild(links = 200, repeats = 5): Promise<RebuildBench> {
+export async function benchRebuild(links = 200, repeats = 9): Promise<RebuildBench> {
   const dir = mkdtempSync(join(tmpdir(), "ridgeline-bench-rebuild-"));
   try {
     const written = Date.now();
