@@ -33,21 +33,13 @@ export function encodePack(entries: Iterable<readonly [string, Uint8Array]>): Bu
  */
 export function decodePack(buf: Buffer): Map<string, Buffer> {
   const out = new Map<string, Buffer>();
-  const framed = readFramed(MAGIC, buf, "utf8");
-  if (!framed) return out;
-  const { dataStart } = framed;
-  let index: unknown;
-  try {
-    index = JSON.parse(framed.json);
-  } catch {
-    return out;
-  }
-  if (!Array.isArray(index)) return out;
-  for (const row of index) {
+  const read = readIndex(buf);
+  if (!read) return out;
+  for (const row of read.index) {
     if (!Array.isArray(row) || row.length !== 3) return new Map();
     const [key, offset, length] = row as unknown[];
     if (typeof key !== "string" || !Number.isInteger(offset) || !Number.isInteger(length)) return new Map();
-    const start = dataStart + (offset as number);
+    const start = read.dataStart + (offset as number);
     if ((offset as number) < 0 || (length as number) < 0 || start + (length as number) > buf.byteLength) return new Map();
     out.set(key, buf.subarray(start, start + (length as number)));
   }
@@ -61,15 +53,18 @@ export function decodePack(buf: Buffer): Map<string, Buffer> {
  */
 export function packKeys(start: Buffer): Set<string> {
   const keys = new Set<string>();
-  const framed = readFramed(MAGIC, start, "utf8");
-  if (!framed) return keys;
-  let index: unknown;
-  try {
-    index = JSON.parse(framed.json);
-  } catch {
-    return keys;
-  }
-  if (!Array.isArray(index)) return keys;
-  for (const row of index) if (Array.isArray(row) && typeof row[0] === "string") keys.add(row[0]);
+  for (const row of readIndex(start)?.index ?? []) if (Array.isArray(row) && typeof row[0] === "string") keys.add(row[0]);
   return keys;
+}
+
+/** A pack's index (its rows unchecked) and where its entries start; null for bytes that do not start a pack. */
+function readIndex(buf: Buffer): { index: unknown[]; dataStart: number } | null {
+  const framed = readFramed(MAGIC, buf, "utf8");
+  if (!framed) return null;
+  try {
+    const index: unknown = JSON.parse(framed.json);
+    return Array.isArray(index) ? { index, dataStart: framed.dataStart } : null;
+  } catch {
+    return null;
+  }
 }

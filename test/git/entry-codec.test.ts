@@ -1,7 +1,7 @@
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
 import { decodeEntry, encodeEntry } from "../../src/cache/entry-codec.ts";
-import { decodePack, encodePack } from "../../src/cache/entry-pack.ts";
+import { decodePack, encodePack, packKeys } from "../../src/cache/entry-pack.ts";
 
 // The cache's byte format must give back exactly what went in: bit-identical numbers
 // (including −0, NaN and ±∞), typed arrays of the same type, and objects with the same key
@@ -102,6 +102,11 @@ describe("cache entry codec", () => {
     });
     expect(decodePack(pack.subarray(0, pack.length - 8)).size).toBe(0);
     expect(decodePack(Buffer.from("not a pack")).size).toBe(0);
+    // the keys come from the header and index alone (what ResultCache.readPackKeys reads)
+    const indexEnd = 12 + pack.readUInt32LE(8);
+    expect([...packKeys(pack.subarray(0, indexEnd))]).toEqual(["k0", "k1", "k2"]);
+    expect(packKeys(pack.subarray(0, indexEnd - 1)).size).toBe(0);
+    expect(packKeys(Buffer.from("not a pack")).size).toBe(0);
   });
 
   it("rejects truncated or foreign bytes instead of returning a wrong value", () => {
