@@ -1,17 +1,36 @@
 // `npm run bench`: runs every benchmark and prints one JSON document (date, Node, CPU and
-// the figures). The README's performance table is filled from this output.
+// the figures). The README's performance table is filled from this output. Each benchmark
+// runs in a node process of its own (this file with --part NAME), so that none starts with
+// the heap, compiled code or caches another one left behind.
+import { spawnSync } from "node:child_process";
 import { cpus, totalmem } from "node:os";
+import { fileURLToPath } from "node:url";
 import { benchCoverage } from "./coverage.ts";
 import { benchLinks } from "./links.ts";
 import { benchRebuild } from "./rebuild.ts";
 
-const report: Record<string, unknown> = {
-  date: new Date().toISOString(),
-  node: process.version,
-  cpu: `${cpus()[0]?.model ?? "unknown"} × ${cpus().length}`,
-  memory_gib: Math.round((totalmem() / 2 ** 30) * 10) / 10,
+const parts: Record<string, () => Promise<unknown>> = {
+  links_200: benchLinks,
+  rebuild_one_link: () => benchRebuild(),
+  coverage: () => benchCoverage(),
 };
-report.links_200 = await benchLinks();
-report.rebuild_one_link = await benchRebuild();
-report.coverage = await benchCoverage();
-process.stdout.write(`${JSON.stringify(report, null, 2)}\n`);
+
+const at = process.argv.indexOf("--part");
+if (at >= 0) {
+  const name = process.argv[at + 1];
+  if (!name || !Object.hasOwn(parts, name)) throw new Error(`bench/run.ts --part: one of ${Object.keys(parts).join(", ")}`);
+  process.stdout.write(`${JSON.stringify(await parts[name]())}\n`);
+} else {
+  const report: Record<string, unknown> = {
+    date: new Date().toISOString(),
+    node: process.version,
+    cpu: `${cpus()[0]?.model ?? "unknown"} × ${cpus().length}`,
+    memory_gib: Math.round((totalmem() / 2 ** 30) * 10) / 10,
+  };
+  for (const name of Object.keys(parts)) {
+    const r = spawnSync(process.execPath, ["--import", "tsx", fileURLToPath(import.meta.url), "--part", name], { encoding: "utf8", stdio: ["ignore", "pipe", "inherit"], maxBuffer: 1 << 26 });
+    if (r.status !== 0) throw new Error(`bench/run.ts: the ${name} benchmark failed (exit ${r.status ?? r.signal})`);
+    report[name] = JSON.parse(r.stdout);
+  }
+  process.stdout.write(`${JSON.stringify(report, null, 2)}\n`);
+}
