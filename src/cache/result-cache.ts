@@ -1,4 +1,4 @@
-import { closeSync, existsSync, mkdirSync, openSync, readFileSync, readSync, renameSync, rmSync, writeFileSync } from "node:fs";
+import { closeSync, existsSync, fstatSync, mkdirSync, openSync, readFileSync, readSync, renameSync, rmSync, writeFileSync } from "node:fs";
 import { readFile } from "node:fs/promises";
 import { join, resolve } from "node:path";
 import { decodeEntry, encodeEntry } from "./entry-codec.ts";
@@ -111,6 +111,7 @@ export class ResultCache {
       const head = Buffer.alloc(12);
       if (readSync(fd, head, 0, 12, 0) !== 12) return new Set();
       const length = head.readUInt32LE(8);
+      if (12 + length > fstatSync(fd).size) return new Set(); // a damaged length: not a pack
       const start = Buffer.alloc(12 + length);
       if (readSync(fd, start, 0, start.length, 0) !== start.length) return new Set();
       return packKeys(start);

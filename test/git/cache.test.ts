@@ -7,6 +7,7 @@ import { analyzeStudy, type AnalyzedStudy } from "../../src/analysis/analyze-stu
 import fc from "fast-check";
 import { linkKeyer } from "../../src/cache/cache-keys.ts";
 import { canonicalJson } from "../../src/cache/canonical-json.ts";
+import { encodeEntry } from "../../src/cache/entry-codec.ts";
 import { ResultCache } from "../../src/cache/result-cache.ts";
 import { loadStudy } from "../../src/study/load-study.ts";
 import { bcProfileCsv, smallStudyYaml, writeSmallStudy, writeSmallTile } from "./small-study.ts";
@@ -177,6 +178,19 @@ describe("content-addressed link cache", () => {
     const plain = await analyzeStudy(load(), { cache: null });
     expect(JSON.stringify(again.result)).toBe(JSON.stringify(plain.result));
     expect(figures(again)).toEqual(figures(plain));
+  });
+
+  it("reads a pack's keys from its index alone, and none from a pack whose index length is damaged", () => {
+    const c = new ResultCache(join(root, "cache5"));
+    const name = "ab".repeat(32);
+    c.writePack(name, [["k1", encodeEntry({ a: 1 })], ["k2", encodeEntry({ b: 2 })]]);
+    expect([...c.readPackKeys(name)]).toEqual(["k1", "k2"]);
+    expect(c.readPackKeys("cd".repeat(32)).size).toBe(0); // no such pack
+    const file = join(c.dir, "pack", "ab", `${name}.bin`);
+    const bytes = readFileSync(file);
+    bytes.writeUInt32LE(0xfffffff0, 8); // an index "4 GB long"
+    writeFileSync(file, bytes);
+    expect(c.readPackKeys(name).size).toBe(0);
   });
 
   it("reads a cached link's figure data only when a figure is drawn, and computes links again whose figure data is gone", async () => {
