@@ -165,8 +165,12 @@ const SHAPE_NODE_LIMIT = 100_000;
 
 /** What a builder's code calls. */
 const helpers = {
-  /** `m` elements made by `f`, in order. */
-  list(m: number, f: () => unknown): unknown[] {
+  /**
+   * `m` elements made by `f`, in order. An element reads at least one number or scalar unless
+   * it is an empty object, so `m` beyond what the entry holds (plus room for those) is damage.
+   */
+  list(m: number, f: () => unknown, n: Float64Array, s: unknown[]): unknown[] {
+    if (m > n.length + s.length + 65_536) throw BAD;
     const a = new Array(m);
     for (let q = 0; q < m; q++) a[q] = f();
     return a;
@@ -240,7 +244,7 @@ function compile(shape: unknown): Build | null {
     }
     if (tag === "r") {
       const x = v.length === 2 ? expr(v[1]) : null;
-      return x === null ? null : `H.list(H.length(n[i++]), () => (${x}))`;
+      return x === null ? null : `H.list(H.length(n[i++]), () => (${x}), n, s)`;
     }
     if (tag === "b") {
       const Ctor = v.length === 2 && typeof v[1] === "string" && Object.hasOwn(CTORS, v[1]) ? CTORS[v[1]] : undefined;
@@ -302,7 +306,9 @@ function planFor(buf: Buffer, from: number, to: number, h: number): Plan | null 
 /** Whether `b` starts like an entry of this machine's byte order and is long enough for its shape, scalars and numbers. */
 function headerFits(b: Buffer): boolean {
   if (b.byteLength < HEADER || b.toString("latin1", 0, 5) !== MAGIC + ORDER) return false;
-  return pad8(HEADER + b.readUInt32LE(8) + b.readUInt32LE(12)) + 8 * b.readUInt32LE(16) <= b.byteLength;
+  const texts = HEADER + b.readUInt32LE(8) + b.readUInt32LE(12);
+  // compared before pad8, whose bit operations hold only 31 bits
+  return texts <= b.byteLength && pad8(texts) + 8 * b.readUInt32LE(16) <= b.byteLength;
 }
 
 const end = new Float64Array(3);

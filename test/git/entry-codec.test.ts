@@ -114,6 +114,12 @@ describe("cache entry codec", () => {
     expect(decodeEntry(bytes.subarray(0, bytes.length - 8))).toBeNull();
     expect(decodeEntry(bytes.subarray(0, 20))).toBeNull();
     expect(decodeEntry(Buffer.from("not a cache entry at all"))).toBeNull();
+    // a length field of 2^31 or more (found by the damaged-byte property below, on this entry)
+    for (const at of [11, 15, 19]) {
+      const huge = Buffer.from(encodeEntry(false));
+      huge[at] = 0x80;
+      expect(decodeEntry(huge), `byte ${at}`).toBeNull();
+    }
   });
 
   it("rejects an entry whose stored array length is damaged (too long, too short, not a count)", () => {
@@ -138,7 +144,7 @@ describe("cache entry codec", () => {
         bytes[where % bytes.length] = byte;
         expect(() => decodeEntry(bytes)).not.toThrow();
       }),
-      { numRuns: 300 },
+      { numRuns: 1000 },
     );
   });
 });
