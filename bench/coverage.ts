@@ -1,6 +1,7 @@
 // Benchmark: coverage over a 100 km radius at 30 m (≈ 44 M cells) on a generated 1″-class DEM.
-// - visibility: whole process `bin/ridgeline.js coverage …`, run as the installed command is (its
-//   first line sets the glibc tunable that asks for huge pages: bin/ridgeline.js), beside
+// - visibility: whole process `bin/ridgeline.js coverage …`, run as the installed command is (for
+//   a grid this large it runs itself again with the glibc tunable that asks for huge pages:
+//   bin/ridgeline.js; both nodes are in the time), beside
 //   `gdal_viewshed` on the same DEM, same observer, heights and k, timed alternately in the
 //   same run (median of runs); for comparison, gdal_viewshed is also timed with the same
 //   tunable set (not part of the target, which is gdal_viewshed as installed);
