@@ -183,7 +183,11 @@ export async function analyzeStudy(study: Study, options: AnalyzeOptions = {}): 
     return figurePack.get(key) ?? cache!.getBytes("link-figure", key);
   };
   const figures = new LinkFigureMap(storedFigure);
-  const lookups = keys.map((key) => (!key ? undefined : (pack.get(key) ?? cache!.getBytesAsync("link", key))));
+  // The few links a pack lacks after small edits are read at once (a turn of the event loop
+  // for an async read costs more than the read); many (a cold or much-changed study) in the
+  // background while the others are decoded.
+  const outside = keys.filter((key) => key && !pack.has(key)).length;
+  const lookups = keys.map((key) => (!key ? undefined : (pack.get(key) ?? (outside <= 8 ? cache!.getBytes("link", key) : cache!.getBytesAsync("link", key)))));
   const packed: [string, Buffer][] = []; // this build's result entries, in study order, for the next build's pack
   const computedFigures = new Map<string, Buffer>(); // figure entries stored by this build, by key
   for (const [i, link] of study.links.entries()) {
