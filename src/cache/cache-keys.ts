@@ -5,7 +5,7 @@ import { canonicalJson } from "./canonical-json.ts";
 import { codeFingerprint } from "./code-fingerprint.ts";
 
 /** Bump when the cache entry layout or what a key covers changes. */
-export const CACHE_FORMAT = 4;
+export const CACHE_FORMAT = 5;
 
 const sha256 = (text: string): string => createHash("sha256").update(text).digest("hex");
 

@@ -1,6 +1,5 @@
 import { endianness } from "node:os";
 import { pad8 } from "./framed-buffer.ts";
-import { numericTable, tableRows } from "./numeric-table.ts";
 
 /**
  * The bytes of one cache entry: any plain JSON-like value, split into its shape (keys and
@@ -26,9 +25,8 @@ import { numericTable, tableRows } from "./numeric-table.ts";
  * 1 a scalar (the next of the list) · ["o", key, shape, key, shape, …] an object, keys in
  * order · ["a", shape, …] an array of these elements · ["r", shape] an array whose elements
  * all have that shape: its length (the next number), then the elements · ["b", type] a typed
- * array: its length (the next number), its bytes (the next binary part) · ["t", [key, …]] an
- * array of at least 8 records with these keys and only finite numbers: its length n (the
- * next number), then n numbers per key, key after key.
+ * array: its length (the next number), its bytes (the next binary part). An array of records
+ * of one shape (reflection points, say) is therefore one "r" node, whatever its length.
  */
 
 const MAGIC = "RLC3";
@@ -86,12 +84,6 @@ export function encodeEntry(value: unknown): Buffer {
       return ["b", type];
     }
     if (Array.isArray(v)) {
-      const keys = numericTable(v);
-      if (keys) {
-        numbers.push(v.length);
-        for (const k of keys) for (const row of v) numbers.push((row as Record<string, number>)[k]);
-        return ["t", keys];
-      }
       // the length goes first; it is taken out again if the elements differ in shape
       const lengthAt = numbers.push(v.length) - 1;
       const shapes = v.map(shapeOf);
@@ -184,14 +176,6 @@ const helpers = {
     new Uint8Array(ab).set(b.subarray(at, at + bytes));
     return new Ctor(ab);
   },
-  /** The records of a table of `m` rows whose columns start at n[i]. */
-  table(names: string[], n: Float64Array, i: number, m: number): Record<string, number>[] {
-    if (i + names.length * m > n.length) throw BAD;
-    return tableRows(
-      names,
-      names.map((_, c) => n.subarray(i + c * m, i + (c + 1) * m)),
-    );
-  },
   /** A length read from the numbers: a whole number from 0 to MAX_LENGTH. */
   length(m: number): number {
     if (!(Number.isInteger(m) && m >= 0 && m <= MAX_LENGTH)) throw BAD;
@@ -211,7 +195,6 @@ const helpers = {
 function compile(shape: unknown): Build | null {
   let nodes = 0;
   const ctors: ArrayCtor[] = [];
-  const tables: string[][] = [];
   const expr = (v: unknown): string | null => {
     if (++nodes > SHAPE_NODE_LIMIT) return null;
     if (v === 0) return "n[i++]";
@@ -253,13 +236,6 @@ function compile(shape: unknown): Build | null {
       const c = ctors.length - 1;
       return `(m = H.length(n[i++]), x = H.typed(C[${c}], b, p, m, views), p += (m * ${Ctor.BYTES_PER_ELEMENT} + 7) & ~7, x)`;
     }
-    if (tag === "t") {
-      const names = v[1];
-      if (v.length !== 2 || !Array.isArray(names) || names.length === 0 || names.some((k) => typeof k !== "string")) return null;
-      tables.push(names as string[]);
-      const c = tables.length - 1;
-      return `(m = H.length(n[i++]), x = H.table(K[${c}], n, i, m), i += ${names.length} * m, x)`;
-    }
     return null;
   };
   const body = expr(shape);
@@ -267,11 +243,10 @@ function compile(shape: unknown): Build | null {
   try {
     const make = new Function(
       "C",
-      "K",
       "H",
       `"use strict"; return (n, s, b, at, views, end) => { let i = 0, j = 0, p = at, m = 0, x = null; const v = ${body}; end[0] = i; end[1] = j; end[2] = p; return v; };`,
-    ) as (C: ArrayCtor[], K: string[][], H: typeof helpers) => Build;
-    return make(ctors, tables, helpers);
+    ) as (C: ArrayCtor[], H: typeof helpers) => Build;
+    return make(ctors, helpers);
   } catch {
     return null;
   }

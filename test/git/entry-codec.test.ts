@@ -37,7 +37,7 @@ describe("cache entry codec", () => {
     );
   });
 
-  it("stores arrays of same-shaped number records as columns and gives back the same records (property)", () => {
+  it("gives back arrays of same-shaped number records as the same records (property)", () => {
     fc.assert(
       fc.property(table, (rows) => {
         const back = decodeEntry(encodeEntry({ height_gain: rows })) as { height_gain: typeof rows };
