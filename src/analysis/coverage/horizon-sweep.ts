@@ -1,6 +1,6 @@
 import { INT16_NODATA } from "../../terrain/tiff-band-reader.ts";
 import { CoverageTally } from "./coverage-tally.ts";
-import { faceAxes, radialSample, uniformMetric, type SweepGeometry } from "./radial-sweep.ts";
+import { faceAxes, radialSample, siteMetric, uniformMetric, type SweepGeometry } from "./radial-sweep.ts";
 
 /** What the geometric line-of-sight sweep needs beyond the grid. */
 export interface HorizonParams {
@@ -44,8 +44,7 @@ export function horizonSweep(g: SweepGeometry, dem: Float32Array | Int16Array, r
   const W = g.width;
   const H = g.height;
   const perFace = 2 * rc + 1;
-  const rs = Math.min(H - 1, Math.max(0, Math.round(ys)));
-  const dMin = 0.5 * Math.min(Math.abs(g.east_per_col_m[rs]), Math.abs(g.north_per_row_m[rs]));
+  const { dMin } = siteMetric(g);
   if (q0 === 0 && Number.isInteger(xs) && Number.isInteger(ys) && xs >= 0 && xs < W && ys >= 0 && ys < H) {
     // the cell holding the site, with no samples before it (as sweepRays)
     const hc = dem[ys * W + xs];
@@ -59,21 +58,17 @@ export function horizonSweep(g: SweepGeometry, dem: Float32Array | Int16Array, r
   for (let face = Math.floor(q0 / perFace); face * perFace < q1; face++) {
     const from = Math.max(q0, face * perFace) - face * perFace - rc;
     const to = Math.min(q1, (face + 1) * perFace) - face * perFace - rc;
-    if (to > from) faceWavefront(g, dem, rc, face, from, to, p, out, area, tally, dMin);
+    if (to > from) faceWavefront(g, dem, rc, face, from, to, p, out, area, tally);
   }
 }
 
 /** The radials t = t0…t1−1 of one face (0 east, 1 west, 2 south, 3 north in grid terms), as one wavefront. */
-function faceWavefront(g: SweepGeometry, dem: Float32Array | Int16Array, rc: number, face: number, t0: number, t1: number, p: HorizonParams, out: Uint8Array, area: Float64Array, tally: CoverageTally, dMin: number): void {
+function faceWavefront(g: SweepGeometry, dem: Float32Array | Int16Array, rc: number, face: number, t0: number, t1: number, p: HorizonParams, out: Uint8Array, area: Float64Array, tally: CoverageTally): void {
   const W = g.width;
-  const H = g.height;
   const xs = g.site_col;
   const ys = g.site_row;
   const R = g.radius_m;
-  const rs = Math.min(H - 1, Math.max(0, Math.round(ys)));
-  const EXr = g.east_per_col_m[rs];
-  const NYr = g.north_per_row_m[rs];
-  const margin = 1.5 * Math.max(Math.abs(EXr), Math.abs(NYr));
+  const { ex: EXr, ny: NYr, margin, dMin } = siteMetric(g);
   const { hts_m: hts, receiver_m: hr, k2 } = p;
   const { xMajor, sgn, as, bs, bmax, aStride, bStride, bNext, aStart, mMax } = faceAxes(g, face);
 

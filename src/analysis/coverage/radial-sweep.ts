@@ -81,6 +81,19 @@ export function faceAxes(g: Pick<SweepGeometry, "width" | "height" | "site_col" 
 }
 
 /**
+ * The grid's metric in the site's row, as both sweeps use it: metres per column and per row
+ * (signed, as the grid gives them), how far past the radius a radial still samples (1.5 cells)
+ * and the least distance a cell is taken at (half a cell: the site's own cell and its
+ * neighbours). One function, so that the two sweeps cannot drift apart.
+ */
+export function siteMetric(g: Pick<SweepGeometry, "height" | "site_row" | "east_per_col_m" | "north_per_row_m">): { ex: number; ny: number; margin: number; dMin: number } {
+  const rs = Math.min(g.height - 1, Math.max(0, Math.round(g.site_row)));
+  const ex = g.east_per_col_m[rs];
+  const ny = g.north_per_row_m[rs];
+  return { ex, ny, margin: 1.5 * Math.max(Math.abs(ex), Math.abs(ny)), dMin: 0.5 * Math.min(Math.abs(ex), Math.abs(ny)) };
+}
+
+/**
  * The elevation a radial samples at major index offset `aOffset` (a · stride along the major
  * axis) and minor coordinate b (−0.5 ≤ b ≤ bmax + 0.5): linear between the two cells of that
  * column it passes between (clamped at the grid's edge), the nearer one where the other is
@@ -136,12 +149,9 @@ export function sweepRays(g: SweepGeometry, dem: Float32Array | Int16Array, rc: 
   const R = g.radius_m;
   const EX = g.east_per_col_m;
   const NY = g.north_per_row_m;
-  const rs = Math.min(H - 1, Math.max(0, Math.round(ys)));
-  const margin = 1.5 * Math.max(Math.abs(EX[rs]), Math.abs(NY[rs]));
+  const { ex: EXr, ny: NYr, margin, dMin } = siteMetric(g);
   const perFace = 2 * rc + 1;
   const uniform = uniformMetric(g);
-  // the site's own cell and its neighbours are taken no closer than half a cell
-  const dMin = 0.5 * Math.min(Math.abs(EX[rs]), Math.abs(NY[rs]));
 
   if (q0 === 0 && Number.isInteger(xs) && Number.isInteger(ys) && xs >= 0 && xs < W && ys >= 0 && ys < H) {
     const idx = ys * W + xs;
@@ -161,7 +171,7 @@ export function sweepRays(g: SweepGeometry, dem: Float32Array | Int16Array, rc: 
     const tLo = t - 0.5;
     const tHi = t + 0.5;
     // on a grid with the same metric in every row a sample's distance is da times the step
-    const stepLen = xMajor ? Math.hypot(EX[rs], slope * NY[rs]) : Math.hypot(slope * EX[rs], NY[rs]);
+    const stepLen = xMajor ? Math.hypot(EXr, slope * NYr) : Math.hypot(slope * EXr, NYr);
     v.startRay();
     for (let m = 1; m <= mMax; m++) {
       const a = aStart + sgn * m;
