@@ -1,5 +1,4 @@
 import { endianness } from "node:os";
-import { pad8 } from "./framed-buffer.ts";
 
 /**
  * The bytes of one cache entry: any plain JSON-like value, split into its shape (keys and
@@ -30,7 +29,11 @@ import { pad8 } from "./framed-buffer.ts";
  */
 
 const MAGIC = "RLC3";
-const ORDER = endianness() === "LE" ? "L" : "B";
+/** This machine's byte order as entries and packs record it ("L" or "B"). */
+export const ORDER = endianness() === "LE" ? "L" : "B";
+
+/** Round up to a multiple of 8 (for n below 2³¹). */
+export const pad8 = (n: number): number => (n + 7) & ~7;
 const HEADER = 24;
 /** Longest array or typed array an entry may declare (a damaged length then reads as a miss, not as a huge allocation). */
 const MAX_LENGTH = 1 << 28;

@@ -1,4 +1,4 @@
-import { pad8, readFramed, writeFramed } from "./framed-buffer.ts";
+import { ORDER, pad8 } from "./entry-codec.ts";
 
 /**
  * Many cache entries (encodeEntry's bytes) in one file, with an index by key, so that a
@@ -11,6 +11,7 @@ import { pad8, readFramed, writeFramed } from "./framed-buffer.ts";
  */
 
 const MAGIC = "RLP1";
+const HEADER = 12;
 
 /** The bytes of a pack holding `entries` (key and encoded entry), in the order given. */
 export function encodePack(entries: Iterable<readonly [string, Uint8Array]>): Buffer {
@@ -23,7 +24,17 @@ export function encodePack(entries: Iterable<readonly [string, Uint8Array]>): Bu
     offset += pad8(bytes.byteLength);
   }
   const json = Buffer.from(JSON.stringify(index), "utf8");
-  return writeFramed(MAGIC, json, parts);
+  const dataStart = pad8(HEADER + json.byteLength);
+  const out = Buffer.alloc(dataStart + offset);
+  out.write(MAGIC + ORDER, 0, "latin1");
+  out.writeUInt32LE(json.byteLength, 8);
+  json.copy(out, HEADER);
+  let at = dataStart;
+  for (const p of parts) {
+    out.set(p, at);
+    at += pad8(p.byteLength);
+  }
+  return out;
 }
 
 /**
@@ -59,11 +70,12 @@ export function packKeys(start: Buffer): Set<string> {
 
 /** A pack's index (its rows unchecked) and where its entries start; null for bytes that do not start a pack. */
 function readIndex(buf: Buffer): { index: unknown[]; dataStart: number } | null {
-  const framed = readFramed(MAGIC, buf, "utf8");
-  if (!framed) return null;
+  if (buf.byteLength < HEADER || buf.toString("latin1", 0, 5) !== MAGIC + ORDER) return null;
+  const length = buf.readUInt32LE(8);
+  if (HEADER + length > buf.byteLength) return null;
   try {
-    const index: unknown = JSON.parse(framed.json);
-    return Array.isArray(index) ? { index, dataStart: framed.dataStart } : null;
+    const index: unknown = JSON.parse(buf.toString("utf8", HEADER, HEADER + length));
+    return Array.isArray(index) ? { index, dataStart: pad8(HEADER + length) } : null;
   } catch {
     return null;
   }

@@ -47,21 +47,6 @@ export class ResultCache {
     return v === null ? undefined : (v as T);
   }
 
-  /**
-   * The stored value, read without blocking: start many reads at once (they proceed on the
-   * I/O threads) and decode each as it is awaited.
-   */
-  async getAsync<T>(kind: string, key: string): Promise<T | undefined> {
-    let buf: Buffer;
-    try {
-      buf = await readFile(this.file(kind, key));
-    } catch {
-      return undefined;
-    }
-    const v = decodeEntry(buf);
-    return v === null ? undefined : (v as T);
-  }
-
   /** An entry's bytes (for decodeEntry, or to pack), read without blocking; undefined when absent. */
   async getBytesAsync(kind: string, key: string): Promise<Buffer | undefined> {
     try {
