@@ -11,6 +11,7 @@ import { horizonSweep, horizonSweepApplies, warmUpHorizonSweep } from "../../src
 import { HorizonVisitor } from "../../src/analysis/coverage/level-visitors.ts";
 import { rayCount, sweepRays } from "../../src/analysis/coverage/radial-sweep.ts";
 import { mulberry32 } from "../../src/terrain/mulberry32.ts";
+import { INT16_NODATA } from "../../src/terrain/tiff-band-reader.ts";
 import { openGeoTiff } from "../../src/terrain/geotiff.ts";
 import type { Terrain } from "../../src/terrain/terrain.ts";
 import { cellLatLon, request, roughTerrain, writeUtmDem } from "./coverage-fixtures.ts";
@@ -38,11 +39,18 @@ beforeAll(async () => {
 
 afterAll(() => rmSync(dir, { recursive: true, force: true }));
 
-function job(col: number, row: number, k: number, radius_m: number): CoverageJob {
+function job(col: number, row: number, k: number, radius_m: number, int16 = false): CoverageJob {
   const [lat, lon] = cellLatLon(DEM, col, row);
   const prep = prepareCoverage(terrain, request({ site: { lat_deg: lat, lon_deg: lon }, method: "visibility", k, radius_m }));
   const cells = prep.grid.width * prep.grid.height;
-  return { ...prep.job, out: new SharedArrayBuffer(cells) };
+  const j = { ...prep.job, out: new SharedArrayBuffer(cells) };
+  if (!int16 || j.dem_int16) return j;
+  // the same terrain as whole metres in Int16, nodata −32768: the elevations an Int16 GeoTIFF gives
+  const f = new Float32Array(j.dem);
+  const dem = new SharedArrayBuffer(f.length * 2);
+  const h = new Int16Array(dem);
+  for (let i = 0; i < f.length; i++) h[i] = f[i] === f[i] ? Math.round(f[i]) : INT16_NODATA;
+  return { ...j, dem, dem_int16: true };
 }
 
 /** Visibility raster and tally of radials split at `cuts` (sorted), by one sweep or the other. */
@@ -68,9 +76,10 @@ describe("wavefront line-of-sight sweep", () => {
     ["beside a nodata hole", 118, 36, 1500],
   ];
   for (const [name, col, row, radius] of sites) {
-    for (const k of [4 / 3, Infinity]) {
-      it(`${name}, k = ${k === Infinity ? "∞" : "4/3"}: the same raster and tally as the general sweep, whatever the chunks`, () => {
-        const j = job(col, row, k, radius);
+    for (const [k, int16] of [[4 / 3, false], [Infinity, false], [4 / 3, true]] as const) {
+      it(`${name}, k = ${k === Infinity ? "∞" : "4/3"}, ${int16 ? "Int16" : "Float32"} elevations: the same raster and tally as the general sweep, whatever the chunks`, () => {
+        const j = job(col, row, k, radius, int16);
+        expect(j.dem_int16).toBe(int16);
         expect(horizonSweepApplies(j)).toBe(true);
         const n = rayCount(j.rc);
         const rnd = mulberry32(Math.round(col * 1000 + row));

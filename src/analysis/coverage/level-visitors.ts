@@ -33,15 +33,16 @@ export class HorizonVisitor implements RayVisitor {
     this.maxSlope = -Infinity;
   }
 
+  // Slopes are compared multiplied out (z > slope·d rather than z/d > slope, d > 0), which
+  // divides only when the horizon rises; horizon-sweep.ts compares alike, to the bit.
   sample(d_m: number, h_m: number): void {
-    const s = (h_m - d_m * d_m * this.k2 - this.hts) / d_m;
-    if (s > this.maxSlope) this.maxSlope = s;
+    const z = h_m - d_m * d_m * this.k2 - this.hts;
+    if (z > this.maxSlope * d_m) this.maxSlope = z / d_m;
   }
 
   cell(index: number, row: number, d_m: number, h_m: number): void {
     if (h_m !== h_m) return this.tally.fail();
-    const s = (h_m + this.hr - d_m * d_m * this.k2 - this.hts) / d_m;
-    const v = s > this.maxSlope ? 1 : 0;
+    const v = h_m + this.hr - d_m * d_m * this.k2 - this.hts > this.maxSlope * d_m ? 1 : 0;
     this.out[index] = v;
     this.tally.add(v, this.area[row]);
   }
