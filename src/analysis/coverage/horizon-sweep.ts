@@ -58,38 +58,54 @@ export function horizonSweep(g: SweepGeometry, dem: Float32Array | Int16Array, r
   for (let face = Math.floor(q0 / perFace); face * perFace < q1; face++) {
     const from = Math.max(q0, face * perFace) - face * perFace - rc;
     const to = Math.min(q1, (face + 1) * perFace) - face * perFace - rc;
-    if (to > from) faceWavefront(g, dem, rc, face, from, to, p, out, area, tally);
+    if (to <= from) continue;
+    // Every number the loops use goes in through typed arrays: the optimising compiler then
+    // holds them as raw doubles and integers, instead of checking a boxed number at each use,
+    // and the loops never read an object whose shape could differ from the warm-up's (a job
+    // from another thread, say), which would send them back to the interpreter.
+    const metric = siteMetric(g);
+    const axes = faceAxes(g, face);
+    const xMajor = axes.xMajor;
+    const fv = Float64Array.of(g.radius_m, metric.margin, metric.dMin, p.hts_m, p.receiver_m, p.k2, axes.as, axes.bs, xMajor ? metric.ex : metric.ny, xMajor ? metric.ny : metric.ex, rc);
+    const iv = Int32Array.of(xMajor ? 1 : 0, axes.sgn, axes.bmax, axes.aStride, axes.bStride, axes.bNext, axes.aStart, axes.mMax, from, to);
+    // per radial i (ray from + i), three numbers: its slope (minor per major step), its ground
+    // length per column (m) and its horizon — the steepest (z − hts)/d of its samples so far,
+    // z = h − d²·k2 — or NaN once it has ended (left the grid or the radius, or met nodata)
+    const st = new Float64Array(3 * (to - from));
+    for (let i = 0; i < to - from; i++) {
+      const s = (from + i) / rc;
+      st[3 * i] = s;
+      st[3 * i + 1] = xMajor ? Math.hypot(metric.ex, s * metric.ny) : Math.hypot(s * metric.ex, metric.ny);
+      st[3 * i + 2] = -Infinity;
+    }
+    const sums = new Float64Array(5);
+    faceWavefront(fv, iv, st, dem, out, area, sums);
+    const [cells, area_m2, visible, nVisible, failed] = sums;
+    const some = cells > 0; // (each comparison below is made on every call, the warm-up's too)
+    tally.addSums({ cells, area_m2, at_least_m2: [visible], failed, min: some ? (nVisible < cells ? 0 : 1) : Infinity, max: some ? (nVisible > 0 ? 1 : 0) : -Infinity });
   }
 }
 
-/** The radials t = t0…t1−1 of one face (0 east, 1 west, 2 south, 3 north in grid terms), as one wavefront. */
-function faceWavefront(g: SweepGeometry, dem: Float32Array | Int16Array, rc: number, face: number, t0: number, t1: number, p: HorizonParams, out: Uint8Array, area: Float64Array, tally: CoverageTally): void {
-  const metric = siteMetric(g);
-  const axes = faceAxes(g, face);
-  const xMajor = axes.xMajor;
-  // Every number the loops use is read back from a typed array: the optimising compiler then
-  // holds it as a raw double or integer, instead of checking a boxed number at each use
-  // (measured: a few per cent of the sweep's time).
-  const fv = Float64Array.of(g.radius_m, metric.margin, metric.dMin, p.hts_m, p.receiver_m, p.k2, axes.as, axes.bs, xMajor ? metric.ex : metric.ny, xMajor ? metric.ny : metric.ex, rc);
+/**
+ * The radials of one face (0 east, 1 west, 2 south, 3 north in grid terms) from horizonSweep,
+ * as one wavefront.
+ * @param fv radius, sampling margin, least distance (m), antenna height (m amsl), receiver
+ *   height (m), 1/(2·ae) (1/m), site on the major and minor axes (cells), metres per major and
+ *   per minor step, rc
+ * @param iv 1 when x is the major axis, direction along it (±1), last minor index, index steps
+ *   along the major and minor axes, step to the next cell across, first column, columns to the
+ *   grid's edge, first ray t0, ray past the last t1
+ * @param st per radial: slope, step length, horizon (updated)
+ * @param sums receives cells, their area, the visible area, visible cells, failed cells
+ */
+function faceWavefront(fv: Float64Array, iv: Int32Array, st: Float64Array, dem: Float32Array | Int16Array, out: Uint8Array, area: Float64Array, sums: Float64Array): void {
   const R = fv[0], margin = fv[1], dMin = fv[2], hts = fv[3], hr = fv[4], k2 = fv[5], as = fv[6], bs = fv[7], eMajor = fv[8], eMinor = fv[9], rcf = fv[10];
-  const iv = Int32Array.of(axes.sgn, axes.bmax, axes.aStride, axes.bStride, axes.bNext, axes.aStart, axes.mMax, t0, t1);
-  const sgn = iv[0], bmax = iv[1], aStride = iv[2], bStride = iv[3], bNext = iv[4], aStart = iv[5], mMax = iv[6], T0 = iv[7], T1 = iv[8];
-
-  const n = t1 - t0;
-  // per radial i (ray t0 + i), three numbers: its slope (minor per major step), its ground
-  // length per column (m) and its horizon — the steepest (z − hts)/d of its samples so far,
-  // z = h − d²·k2 — or NaN once it has ended (left the grid or the radius, or met nodata)
-  const st = new Float64Array(3 * n);
+  const xMajor = iv[0] === 1, sgn = iv[1], bmax = iv[2], aStride = iv[3], bStride = iv[4], bNext = iv[5], aStart = iv[6], mMax = iv[7], T0 = iv[8], T1 = iv[9];
+  const n = T1 - T0;
   let alive = n;
   // radials below iLo and from iHi on have ended (the outermost end first, as they leave the grid or the radius first)
   let iLo = 0;
   let iHi = n;
-  for (let i = 0; i < n; i++) {
-    const s = (t0 + i) / rc;
-    st[3 * i] = s;
-    st[3 * i + 1] = xMajor ? Math.hypot(metric.ex, s * metric.ny) : Math.hypot(s * metric.ex, metric.ny);
-    st[3 * i + 2] = -Infinity;
-  }
   let sum = 0; // tallied locally, added to the tally in the same order at the end
   let visible = 0;
   let cells = 0;
@@ -115,9 +131,10 @@ function faceWavefront(g: SweepGeometry, dem: Float32Array | Int16Array, rc: num
       const adb = db < 0 ? -db : db;
       if (xMajor ? adb > da : adb >= da) continue;
       const x = db * rcf;
-      let t = Math.round(x * invDa); // a guess, corrected by the exact test below
-      if (!(x >= (t - 0.5) * da)) t--;
-      else if (!(x < (t + 0.5) * da)) t++;
+      // a guess, moved by one when the exact test says so (written without a branch that the
+      // warm-up might never take: its first use would send the loop back to the interpreter)
+      let t = Math.round(x * invDa);
+      t += (x >= (t + 0.5) * da ? 1 : 0) - (x < (t - 0.5) * da ? 1 : 0);
       if (t < T0 || t >= T1 || !(x >= (t - 0.5) * da && x < (t + 0.5) * da)) continue;
       // (the radial's sample here is inside the grid, as the cell it owns is within half a
       // cell of it, and inside the radius plus margin when the cell is inside the radius)
@@ -179,7 +196,11 @@ function faceWavefront(g: SweepGeometry, dem: Float32Array | Int16Array, rc: num
     while (iLo < iHi && st[3 * iLo + 2] !== st[3 * iLo + 2]) iLo++;
     while (iHi > iLo && st[3 * iHi - 1] !== st[3 * iHi - 1]) iHi--;
   }
-  tally.addSums({ cells, area_m2: sum, at_least_m2: [visible], failed, min: nVisible < cells ? 0 : cells > 0 ? 1 : Infinity, max: nVisible > 0 ? 1 : cells > 0 ? 0 : -Infinity });
+  sums[0] = cells;
+  sums[1] = sum;
+  sums[2] = visible;
+  sums[3] = nVisible;
+  sums[4] = failed;
 }
 
 /**
@@ -194,7 +215,9 @@ export function warmUpHorizonSweep(passes = 10): number {
   const c = (n - 1) / 2;
   const dem = new Int16Array(n * n);
   for (let i = 0; i < dem.length; i++) dem[i] = 100 + ((i * 7919) % 61); // rough made-up relief
-  dem[5 * n + 7] = INT16_NODATA; // and one hole, so that branch is known too
+  // and a hole inside the radius, so that the nodata branches (a cell that fails, a sample
+  // that ends its radial) are known too
+  for (const [c0, r0] of [[52, 47], [30, 25]]) for (let r = r0; r < r0 + 2; r++) for (let c = c0; c < c0 + 3; c++) dem[r * n + c] = INT16_NODATA;
   const cell = 30;
   const g: SweepGeometry = { width: n, height: n, site_col: c, site_row: c, radius_m: c * cell, east_per_col_m: new Float64Array(n).fill(cell), north_per_row_m: new Float64Array(n).fill(-cell) };
   const rc = c + 1;
