@@ -68,14 +68,26 @@ export function packKeys(start: Buffer): Set<string> {
   return keys;
 }
 
+/** Bytes of a pack's header, which says how long its index is (packIndexEnd). */
+export const PACK_HEADER_BYTES = HEADER;
+
+/**
+ * From a pack's first PACK_HEADER_BYTES bytes: how many bytes from the start hold its header
+ * and index (what packKeys needs); −1 for bytes that do not start a pack of this machine's
+ * byte order.
+ */
+export function packIndexEnd(head: Buffer): number {
+  if (head.byteLength < HEADER || head.toString("latin1", 0, 5) !== MAGIC + ORDER) return -1;
+  return HEADER + head.readUInt32LE(8);
+}
+
 /** A pack's index (its rows unchecked) and where its entries start; null for bytes that do not start a pack. */
 function readIndex(buf: Buffer): { index: unknown[]; dataStart: number } | null {
-  if (buf.byteLength < HEADER || buf.toString("latin1", 0, 5) !== MAGIC + ORDER) return null;
-  const length = buf.readUInt32LE(8);
-  if (HEADER + length > buf.byteLength) return null;
+  const indexEnd = packIndexEnd(buf);
+  if (indexEnd < 0 || indexEnd > buf.byteLength) return null;
   try {
-    const index: unknown = JSON.parse(buf.toString("utf8", HEADER, HEADER + length));
-    return Array.isArray(index) ? { index, dataStart: pad8(HEADER + length) } : null;
+    const index: unknown = JSON.parse(buf.toString("utf8", HEADER, indexEnd));
+    return Array.isArray(index) ? { index, dataStart: pad8(indexEnd) } : null;
   } catch {
     return null;
   }

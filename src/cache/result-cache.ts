@@ -2,7 +2,7 @@ import { closeSync, existsSync, fstatSync, mkdirSync, openSync, readFileSync, re
 import { readFile } from "node:fs/promises";
 import { join, resolve } from "node:path";
 import { decodeEntry, encodeEntry } from "./entry-codec.ts";
-import { decodePack, encodePack, packKeys } from "./entry-pack.ts";
+import { decodePack, encodePack, PACK_HEADER_BYTES, packIndexEnd, packKeys } from "./entry-pack.ts";
 
 /** Default cache folder, relative to the project root (the working directory). */
 export const DEFAULT_CACHE_DIR = ".ridgeline-cache";
@@ -37,12 +37,8 @@ export class ResultCache {
 
   /** The stored value, or undefined when absent or unreadable. */
   get<T>(kind: string, key: string): T | undefined {
-    let buf: Buffer;
-    try {
-      buf = readFileSync(this.file(kind, key));
-    } catch {
-      return undefined;
-    }
+    const buf = this.getBytes(kind, key);
+    if (buf === undefined) return undefined;
     const v = decodeEntry(buf);
     return v === null ? undefined : (v as T);
   }
@@ -93,11 +89,11 @@ export class ResultCache {
     let fd: number | null = null;
     try {
       fd = openSync(this.file("pack", name), "r");
-      const head = Buffer.alloc(12);
-      if (readSync(fd, head, 0, 12, 0) !== 12) return new Set();
-      const length = head.readUInt32LE(8);
-      if (12 + length > fstatSync(fd).size) return new Set(); // a damaged length: not a pack
-      const start = Buffer.alloc(12 + length);
+      const head = Buffer.alloc(PACK_HEADER_BYTES);
+      if (readSync(fd, head, 0, head.length, 0) !== head.length) return new Set();
+      const indexEnd = packIndexEnd(head);
+      if (indexEnd < 0 || indexEnd > fstatSync(fd).size) return new Set(); // not a pack, or a damaged length
+      const start = Buffer.alloc(indexEnd);
       if (readSync(fd, start, 0, start.length, 0) !== start.length) return new Set();
       return packKeys(start);
     } catch {

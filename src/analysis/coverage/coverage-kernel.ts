@@ -1,6 +1,6 @@
 import type { CoverageJob } from "./coverage-job.ts";
 import { elevationAt, type Elevations } from "./elevation-window.ts";
-import { horizonSweep, horizonSweepApplies } from "./horizon-sweep.ts";
+import { horizonSweep, horizonSweepApplies, lineOfSightOnly } from "./horizon-sweep.ts";
 import { CoverageTally, type TallyData } from "./coverage-tally.ts";
 import { ClearanceVisitor, DeltaBullingtonVisitor, HorizonVisitor, patternLoss } from "./level-visitors.ts";
 import { maxSamplesPerRay, rayCount, sweepRays, type RayVisitor } from "./radial-sweep.ts";
@@ -27,7 +27,7 @@ export function createChunkRunner(job: CoverageJob): { run(from: number, to: num
     };
   }
   const tally = new CoverageTally(job.thresholds_dbm);
-  if (job.method === "visibility" && !(job.clearance_f1 > 0) && horizonSweepApplies(job)) {
+  if (lineOfSightOnly(job.method, job.clearance_f1) && horizonSweepApplies(job)) {
     // geometric line of sight on a projected grid: the same sweep in one loop (horizon-sweep.ts)
     const params = { hts_m: job.site_ground_m + job.antenna_m, receiver_m: job.receiver_m, k2: job.ae_m === Infinity ? 0 : 1 / (2 * job.ae_m) };
     const out = new Uint8Array(job.out);

@@ -13,6 +13,14 @@ export interface HorizonParams {
 }
 
 /**
+ * Whether a coverage is pure geometric line of sight (visibility with no Fresnel clearance
+ * asked for): what horizonSweep computes, on grids where horizonSweepApplies.
+ */
+export function lineOfSightOnly(method: string, clearance_f1: number): boolean {
+  return method === "visibility" && !(clearance_f1 > 0);
+}
+
+/**
  * Whether horizonSweep computes this grid (every row with the same metric: projected grids);
  * otherwise sweepRays with a HorizonVisitor does.
  */
@@ -44,7 +52,8 @@ export function horizonSweep(g: SweepGeometry, dem: Float32Array | Int16Array, r
   const W = g.width;
   const H = g.height;
   const perFace = 2 * rc + 1;
-  const { dMin } = siteMetric(g);
+  const metric = siteMetric(g);
+  const dMin = metric.dMin;
   if (q0 === 0 && Number.isInteger(xs) && Number.isInteger(ys) && xs >= 0 && xs < W && ys >= 0 && ys < H) {
     // the cell holding the site, with no samples before it (as sweepRays)
     const hc = dem[ys * W + xs];
@@ -63,7 +72,6 @@ export function horizonSweep(g: SweepGeometry, dem: Float32Array | Int16Array, r
     // holds them as raw doubles and integers, instead of checking a boxed number at each use,
     // and the loops never read an object whose shape could differ from the warm-up's (a job
     // from another thread, say), which would send them back to the interpreter.
-    const metric = siteMetric(g);
     const axes = faceAxes(g, face);
     const xMajor = axes.xMajor;
     const fv = Float64Array.of(g.radius_m, metric.margin, metric.dMin, p.hts_m, p.receiver_m, p.k2, axes.as, axes.bs, xMajor ? metric.ex : metric.ny, xMajor ? metric.ny : metric.ex, rc);

@@ -57,10 +57,9 @@ export async function coverageCommand(argv: string[]): Promise<number> {
   // requests stay in this thread.
   const estimate = ((2 * radius_km * 1000) / resolution_m) ** 2;
   const nThreads = threads ?? (estimate < 2e6 ? 0 : availableParallelism());
-  const { CoveragePool } = await import("../../analysis/coverage/coverage-pool.ts");
+  const [{ CoveragePool }, { lineOfSightOnly }] = await Promise.all([import("../../analysis/coverage/coverage-pool.ts"), import("../../analysis/coverage/horizon-sweep.ts")]);
   const clearance_f1 = num("clearance-f1", 0, (x) => x >= 0 && x <= 5, "a fraction of the first Fresnel radius from 0 to 5");
-  const lineOfSight = method === "visibility" && !(clearance_f1 > 0);
-  const pool = nThreads > 0 ? CoveragePool.start(nThreads, lineOfSight ? { warmUp: "line-of-sight" } : {}) : null;
+  const pool = nThreads > 0 ? CoveragePool.start(nThreads, lineOfSightOnly(method, clearance_f1) ? { warmUp: "line-of-sight" } : {}) : null;
   if (TIMINGS) void pool?.whenReady().then(() => mark("threads ready"));
   // Heavy modules load only for this command (nothing below may throw before the try that closes the pool, but a failing import).
   const [{ prepareCoverage, runCoverage }, { CoverageError }, { parseTerrainArg, openTerrain }, { TerrainError }, { writeGeoTiff }, { coverageResult }, { crsFromEpsg }] = await Promise.all([
