@@ -135,6 +135,11 @@ describe("study coverage", () => {
       expect(comp.area_km2).toBeGreaterThanOrEqual(item.tally.area_m2 / 1e6 - 1e-9);
       expect(comp.best_server![i].area_km2).toBeGreaterThan(0);
     }
+    // each cell takes the stronger level (of the float32 rasters): the composite's highest is
+    // the higher of the two highest, its lowest no lower than the lower of the two lowest
+    expect(comp.level_max_dbm).toBe(Math.fround(Math.max(a.tally.max, b.tally.max)));
+    expect(comp.level_min_dbm).toBeGreaterThanOrEqual(Math.fround(Math.min(a.tally.min, b.tally.min)));
+    expect(comp.level_min_dbm).toBeLessThan(comp.level_max_dbm!);
   });
 });
 

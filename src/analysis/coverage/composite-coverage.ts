@@ -113,21 +113,33 @@ export function compositeCoverage(inputs: readonly CompositeInput[]): Composite 
 
 /**
  * Area (m²) at or above each threshold of a composite, and the area each input serves as best
- * server with a level at or above `serveFrom` (dBm).
+ * server with a level at or above `serveFrom` (dBm); with the cells that have a level and the
+ * lowest and highest of those levels (dBm; null when there are none, as for one coverage), in the same pass.
  */
-export function compositeAreas(c: Composite, thresholds: number[], n: number, serveFrom: number): { at_least_m2: number[]; area_m2: number; served_m2: number[] } {
+export function compositeAreas(
+  c: Composite,
+  thresholds: number[],
+  n: number,
+  serveFrom: number,
+): { at_least_m2: number[]; area_m2: number; served_m2: number[]; cells: number; level_min_dbm: number | null; level_max_dbm: number | null } {
   const at = new Array<number>(thresholds.length).fill(0);
   const served = new Array<number>(n).fill(0);
   let total = 0;
+  let cells = 0;
+  let min = Infinity;
+  let max = -Infinity;
   for (let r = 0; r < c.height; r++) {
     const a = c.cell_area_m2[r];
     for (let i = r * c.width, e = i + c.width; i < e; i++) {
       const v = c.level[i];
       if (v === LEVEL_NODATA) continue;
       total += a;
+      cells++;
+      if (v < min) min = v;
+      if (v > max) max = v;
       for (let j = 0; j < thresholds.length && v >= thresholds[j]; j++) at[j] += a;
       if (v >= serveFrom) served[c.best[i] - 1] += a;
     }
   }
-  return { at_least_m2: at, area_m2: total, served_m2: served };
+  return { at_least_m2: at, area_m2: total, served_m2: served, cells, level_min_dbm: cells > 0 ? min : null, level_max_dbm: cells > 0 ? max : null };
 }

@@ -77,10 +77,10 @@ export async function studyComposite(study: Study, levels: CompositeMember[], ou
     eirp_dbm: null,
     grid: { epsg: comp.epsg, crs: levels[0].result.grid.crs, width: comp.width, height: comp.height, geotransform: [...comp.geoTransform], cell_m: comp.cell_m },
     area_km2: a.area_m2 / 1e6,
-    cells: comp.level.reduce((n, v) => (v === -9999 ? n : n + 1), 0),
+    cells: a.cells,
     thresholds: areas,
-    level_min_dbm: null,
-    level_max_dbm: null,
+    level_min_dbm: a.level_min_dbm,
+    level_max_dbm: a.level_max_dbm,
     files: out.files,
     best_server: levels.map((it, k) => ({ index: k + 1, coverage: it.result.id, site: it.result.sites[0], area_km2: a.served_m2[k] / 1e6, pct: pct(a.served_m2[k]) })),
     assumptions: [
