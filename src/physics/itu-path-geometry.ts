@@ -343,7 +343,11 @@ export function pathGeometry(
   out.hte_m = htg_m + h_m[0] - hst; // P.1812-6 eq. (92a)
   out.hre_m = hrg_m + h_m[n - 1] - hsr; // P.1812-6 eq. (92b)
   let hm = -Infinity;
-  for (let i = lt; i <= lr; i++) {
+  // lt ≤ lr on every real path; the span is taken in order so that a profile where the two
+  // horizon points cross still gives a roughness
+  const i0 = lt < lr ? lt : lr;
+  const i1 = lt < lr ? lr : lt;
+  for (let i = i0; i <= i1; i++) {
     const r = h_m[i] - (hst + m * d_km[i]); // P.1812-6 eq. (93)
     if (r > hm) hm = r;
   }
