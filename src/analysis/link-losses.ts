@@ -84,7 +84,7 @@ export function linkLosses(study: Study, link: LinkInput, radio: RadioInput, bas
   // Budget.
   const eirp_dbm = radio.tx_power_dbm - from.feeder_loss_db + from.gain_dbi;
   const received_dbm = eirp_dbm - base.losses_db.free_space - diffraction - gases + to.gain_dbi - to.feeder_loss_db;
-  const fade_margin_db = received_dbm - radio.rx_threshold_dbm - study.design.field_margin_db;
+  const fade_margin_db = received_dbm - radio.rx_threshold_dbm - study.design.design_allowance_db;
 
   // Rain.
   const R = study.climate.rain_rate_mm_h;
@@ -114,7 +114,7 @@ export function linkLosses(study: Study, link: LinkInput, radio: RadioInput, bas
 
   const availability_pct = Math.max(0, Math.min(100, linkAvailabilityPct({ multipath_outage_pct, rain_outage_pct })));
   const target = link.availability_pct ?? study.design.availability_pct;
-  if (fade_margin_db <= 0) warnings.push(`The median received level is ${(-fade_margin_db).toFixed(1)} dB short of the threshold plus field margin: the link does not close.`);
+  if (fade_margin_db <= 0) warnings.push(`The median received level is ${(-fade_margin_db).toFixed(1)} dB short of the threshold plus the design allowance: the link does not close.`);
   const target_met = base.clearance_met && fade_margin_db > 0 && availability_pct >= target;
   const { reflection, height_gain } = linkReflection(study, profile, base.ends, f, link.polarization);
   const result: LinkResult = {
@@ -134,7 +134,7 @@ export function linkLosses(study: Study, link: LinkInput, radio: RadioInput, bas
       rx_feeder_loss_db: to.feeder_loss_db,
       received_dbm,
       rx_threshold_dbm: radio.rx_threshold_dbm,
-      field_margin_db: study.design.field_margin_db,
+      design_allowance_db: study.design.design_allowance_db,
       fade_margin_db,
     },
     availability: {

@@ -73,8 +73,8 @@ export function linkReport(l: LinkResult, radioName: string | undefined, diffrac
     { label: "Receive feeder and branching loss", value: num(b.rx_feeder_loss_db), unit: "dB", sign: "−" },
     { label: "Median received level", value: num(b.received_dbm), unit: "dBm", total: true, sign: "" },
     { label: "Receiver threshold", value: num(b.rx_threshold_dbm), unit: "dBm", sign: "" },
-    { label: "Field margin", value: num(b.field_margin_db), unit: "dB", sign: "−" },
-    { label: "Flat fade margin", value: num(b.fade_margin_db), unit: "dB", total: true, sign: "", note: "received level − threshold − field margin" },
+    { label: "Design allowance", value: num(b.design_allowance_db), unit: "dB", sign: "−" },
+    { label: "Flat fade margin", value: num(b.fade_margin_db), unit: "dB", total: true, sign: "", note: "received level − threshold − design allowance" },
   ];
   const losses: Row[] = [
     { label: "Free space", value: num(l.losses_db.free_space), unit: "dB", note: "ITU-R P.525-4, 20·log10(4πd/λ)" },

@@ -81,7 +81,7 @@ export function studyReport(s: AnalyzedStudy): StudyReport {
       basis: overrides.length ? `Overridden for ${overrides.map((l) => `${l.id} (${l.availability_pct} %)`).join(", ")}.` : "Applies to every link.",
     },
     { topic: "Diffraction method used in the budget", value: DIFFRACTION_LABELS[d.diffraction_method]?.name ?? d.diffraction_method, basis: "Other methods are shown on each link page for comparison." },
-    { topic: "Field margin", value: `${d.field_margin_db} dB`, basis: "Allowance for ageing, misalignment and the like, subtracted from the fade margin." },
+    { topic: "Design allowance", value: `${d.design_allowance_db} dB`, basis: "Allowance for ageing, misalignment and the like, subtracted from the fade margin." },
     {
       topic: "Rain rate R0.01",
       value: c.rain_rate_mm_h === undefined ? "not given" : `${c.rain_rate_mm_h} mm/h`,

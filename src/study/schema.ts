@@ -127,7 +127,7 @@ export const studySchema = z
         availability_pct: z.number().gt(0).lt(100).default(99.99).describe("required annual availability (%)"),
         diffraction_method: z.enum(["knife_edge", "deygout", "epstein_peterson", "bullington", "delta_bullington"]).default("delta_bullington"),
         profile_step_m: z.number().positive().optional().describe("profile sample spacing (m); default and upper bound: the terrain's own spacing"),
-        field_margin_db: z.number().min(0).max(30).default(0).describe("allowance for ageing, misalignment and the like (dB)"),
+        design_allowance_db: z.number().min(0).max(30).default(0).describe("design allowance: margin set aside for ageing, misalignment and the like, taken off the fade margin (dB)"),
         antenna_search: z
           .object({
             step_m: z.number().positive().max(50).default(1).describe("candidate step for the minimum-antenna-height search (m)"),

@@ -61,7 +61,7 @@ export async function pathCommand(argv: string[]): Promise<number> {
       ],
       availability_pct: num("availability-pct", DEFAULTS.availability_pct, (x) => x > 0 && x < 100, "a percentage between 0 and 100"),
       diffraction_method: "delta_bullington",
-      field_margin_db: 0,
+      design_allowance_db: 0,
       antenna_search: { step_m: 1, max_m: 100 },
       structure_notice_height_m: 45,
     },
