@@ -12,6 +12,7 @@ import type { Study } from "../study/study.ts";
 import { endLosses } from "./end-losses.ts";
 import type { LinkProfile } from "./link-profile.ts";
 import { linkPerformance } from "./link-performance.ts";
+import { linkRemedies } from "./remedies.ts";
 import { linkReflection, type HeightGainCurve } from "./link-reflection.ts";
 import { rangeWarning } from "./range-warning.ts";
 import type { LinkResult } from "./results.ts";
@@ -132,6 +133,9 @@ export function linkLosses(study: Study, link: LinkInput, radio: RadioInput, bas
     diversity: perf.diversity,
     xpd: perf.xpd,
     adaptive_modulation: perf.adaptive_modulation,
+    remedies: target_met
+      ? []
+      : linkRemedies({ clearance_met: base.clearance_met, minimum_heights: base.minimum_heights, antenna_m: { from: from.antenna_m, to: to.antenna_m }, search_max_m: study.design.antenna_search.max_m, fade_margin_db, rain_margin_db, frequency_ghz: f, perf }),
     reflection,
     received_dbm,
     fade_margin_db,

@@ -2,6 +2,7 @@ import type { ChainResult } from "./chains.ts";
 import type { CoverageResult } from "./coverage/coverage-result.ts";
 import type { LinkPerformance } from "./link-performance.ts";
 import type { ReflectionResult } from "./link-reflection.ts";
+import type { Remedy } from "./remedies.ts";
 
 /** Plain-JSON results of a study (no NaN: the boundary turns NaN into errors or null with a warning). */
 
@@ -73,6 +74,8 @@ export interface LinkResult {
   xpd?: LinkPerformance["xpd"];
   /** Time in each adaptive-modulation mode, null without modes. */
   adaptive_modulation?: LinkPerformance["adaptive_modulation"];
+  /** What would bring the link to its targets (empty when it meets them). */
+  remedies?: Remedy[];
   reflection?: ReflectionResult;
   received_dbm?: number;
   fade_margin_db?: number;

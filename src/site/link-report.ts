@@ -1,4 +1,5 @@
 import type { LinkResult } from "../analysis/results.ts";
+import { linkPerformanceReport, type LinkPerformanceReport } from "./link-performance-report.ts";
 
 /** Names and references of the diffraction methods, in report order. */
 export const DIFFRACTION_LABELS: Record<string, { name: string; reference: string }> = {
@@ -50,6 +51,8 @@ export interface LinkReport {
   reflections: NonNullable<LinkResult["reflection"]>["per_k"][number]["points"];
   /** Height step of the height-gain curve (m), or null without one. */
   height_gain_step_m: number | null;
+  /** The two objectives' tables and the minimum antenna heights. */
+  performance: LinkPerformanceReport;
 }
 
 const SECONDS_PER_YEAR = 365.25 * 86_400;
@@ -61,20 +64,33 @@ export function linkReport(l: LinkResult, radioName: string | undefined, diffrac
   const av = l.availability ?? {};
   const method = l.diffraction_method ?? diffractionMethod;
   const methodName = DIFFRACTION_LABELS[method]?.name ?? method;
+  const opt = (label: string, v: unknown, sign: Row["sign"], note?: string): Row[] => (typeof v === "number" && v !== 0 ? [{ label, value: num(v), unit: "dB", sign, ...(note ? { note } : {}) }] : []);
   const budget: Row[] = [
-    { label: `Transmitter power (${l.ends.from.name})`, value: num(b.tx_power_dbm), unit: "dBm", sign: "" },
+    { label: `Transmitter power (${l.ends.from.name})`, value: num(b.tx_power_dbm), unit: "dBm", sign: "", ...(num(b.atpc_range_db) !== null ? { note: `ATPC range ${num(b.atpc_range_db)} dB (informational: the budget is at full power)` } : {}) },
     { label: "Transmit feeder and branching loss", value: num(b.tx_feeder_loss_db), unit: "dB", sign: "−" },
+    ...opt("Transmit connectors", b.tx_connector_loss_db, "−"),
+    ...opt("Transmit waveguide run", b.tx_waveguide_loss_db, "−", "length × attenuation per 100 m"),
+    ...opt("Transmit radome (dry)", b.tx_radome_loss_db, "−"),
     { label: "Transmit antenna gain", value: num(b.tx_gain_dbi), unit: "dBi", sign: "+" },
     { label: "EIRP", value: num(b.eirp_dbm), unit: "dBm", total: true, sign: "" },
     { label: "Free-space loss", value: num(b.free_space_db), unit: "dB", sign: "−", note: "ITU-R P.525-4" },
     { label: "Diffraction loss", value: num(b.diffraction_db), unit: "dB", sign: "−", note: methodName },
     { label: "Gaseous absorption", value: num(b.gases_db), unit: "dB", sign: "−", note: "ITU-R P.676-12 Annex 1" },
     { label: `Receive antenna gain (${l.ends.to.name})`, value: num(b.rx_gain_dbi), unit: "dBi", sign: "+" },
+    ...opt("Receive radome (dry)", b.rx_radome_loss_db, "−"),
+    ...opt("Receive waveguide run", b.rx_waveguide_loss_db, "−", "length × attenuation per 100 m"),
+    ...opt("Receive connectors", b.rx_connector_loss_db, "−"),
     { label: "Receive feeder and branching loss", value: num(b.rx_feeder_loss_db), unit: "dB", sign: "−" },
     { label: "Median received level", value: num(b.received_dbm), unit: "dBm", total: true, sign: "" },
-    { label: "Receiver threshold", value: num(b.rx_threshold_dbm), unit: "dBm", sign: "" },
+    { label: "Receiver threshold", value: num(b.rx_threshold_dbm), unit: "dBm", sign: "", note: `at BER ${l.threshold_ber}` },
     { label: "Design allowance", value: num(b.design_allowance_db), unit: "dB", sign: "−" },
     { label: "Flat fade margin", value: num(b.fade_margin_db), unit: "dB", total: true, sign: "", note: "received level − threshold − design allowance" },
+    ...(typeof b.wet_radome_loss_db === "number" && b.wet_radome_loss_db > 0
+      ? [
+          { label: "Wet radomes, both ends", value: num(b.wet_radome_loss_db), unit: "dB", sign: "−" as const, note: "in rain only" },
+          { label: "Fade margin against rain", value: num(b.rain_fade_margin_db), unit: "dB", total: true, sign: "" as const },
+        ]
+      : []),
   ];
   const losses: Row[] = [
     { label: "Free space", value: num(l.losses_db.free_space), unit: "dB", note: "ITU-R P.525-4, 20·log10(4πd/λ)" },
@@ -101,5 +117,5 @@ export function linkReport(l: LinkResult, radioName: string | undefined, diffrac
   }));
   const first = l.reflection?.per_k[0];
   const height_gain_step_m = l.reflection ? num(l.reflection.height_gain_step_m) : null;
-  return { radio_name: radioName ?? l.radio, budget, losses, availability, diffraction, reflection_k: first?.k_label ?? null, reflections: first?.points ?? [], height_gain_step_m };
+  return { radio_name: radioName ?? l.radio, budget, losses, availability, diffraction, reflection_k: first?.k_label ?? null, reflections: first?.points ?? [], height_gain_step_m, performance: linkPerformanceReport(l) };
 }
