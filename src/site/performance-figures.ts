@@ -37,15 +37,16 @@ export function capacityCurveSvg(s: AnalyzedStudy, linkId: string): string {
   const l = linkOf(s, linkId);
   const am = l.adaptive_modulation;
   if (!am || am.modes.length === 0) return "";
-  // From the top mode down: capacity c_i holds for all but (100 − available_i) % of the year.
-  const pts = [...am.modes].reverse().map((m) => ({ x: Math.max(100 - m.available_pct, 1e-7), y: m.capacity_mbps }));
-  pts.push({ x: 100, y: 0 });
+  // Capacity available for all but x % of the year: the best mode whose time below threshold
+  // is at most x, a step rising with x (modes in rising order: x rises with them).
+  const steps = am.modes.map((m) => ({ x: Math.max(100 - m.available_pct, 1e-7), y: m.capacity_mbps }));
+  const pts = [{ x: steps[0].x / 10, y: 0 }, ...steps, { x: 100, y: steps[steps.length - 1].y }];
   return seriesChartSvg({
     id: `capacity-${linkId}`,
     title: `Capacity against time, ${l.ends.from.name} – ${l.ends.to.name}`,
     desc: am.modes.map((m) => `${m.name} (${m.capacity_mbps} Mbit/s) or better for ${m.available_pct.toFixed(5)} % of the year.`).join(" "),
-    xLabel: "Percentage of the year with less capacity (%)",
-    yLabel: "Capacity (Mbit/s)",
+    xLabel: "Percentage of the year allowed below this capacity (%)",
+    yLabel: "Capacity available (Mbit/s)",
     points: pts,
     logX: true,
     steps: true,
