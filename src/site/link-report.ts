@@ -30,21 +30,11 @@ export interface DiffractionRow {
   used: boolean;
 }
 
-export interface AvailabilityRow {
-  mechanism: string;
-  reference: string;
-  worst_month_pct: number | null;
-  annual_pct: number | null;
-  seconds_per_year: number | null;
-  total?: boolean;
-}
-
 /** What a link page shows besides the raw result. */
 export interface LinkReport {
   radio_name: string;
   budget: Row[];
   losses: Row[];
-  availability: AvailabilityRow[];
   diffraction: DiffractionRow[];
   /** Reflection points at the first k. */
   reflection_k: string | null;
@@ -55,13 +45,11 @@ export interface LinkReport {
   performance: LinkPerformanceReport;
 }
 
-const SECONDS_PER_YEAR = 365.25 * 86_400;
 const num = (v: unknown): number | null => (typeof v === "number" && Number.isFinite(v) ? v : null);
 
 /** Tables of one link, from its result (values are never recomputed here, only arranged). */
 export function linkReport(l: LinkResult, radioName: string | undefined, diffractionMethod: string): LinkReport {
   const b = l.budget ?? {};
-  const av = l.availability ?? {};
   const method = l.diffraction_method ?? diffractionMethod;
   const methodName = DIFFRACTION_LABELS[method]?.name ?? method;
   const opt = (label: string, v: unknown, sign: Row["sign"], note?: string): Row[] => (typeof v === "number" && v !== 0 ? [{ label, value: num(v), unit: "dB", sign, ...(note ? { note } : {}) }] : []);
@@ -98,16 +86,6 @@ export function linkReport(l: LinkResult, radioName: string | undefined, diffrac
     { label: "Gaseous absorption", value: num(l.losses_db.gases), unit: "dB", note: "ITU-R P.676-12 Annex 1 (oxygen and water vapour)" },
     { label: "Rain, exceeded 0.01 % of the year", value: num(l.losses_db.rain_0_01pct), unit: "dB", note: "ITU-R P.838-3 and P.530-16 §2.4.1 — for availability, not in the median budget" },
   ];
-  const mpWm = num(av.multipath_worst_month_pct);
-  const mpYr = num(av.multipath_annual_pct);
-  const rain = num(av.rain_annual_pct);
-  const tot = num(av.unavailability_pct);
-  const secs = (p: number | null) => (p === null ? null : (p / 100) * SECONDS_PER_YEAR);
-  const availability: AvailabilityRow[] = [
-    { mechanism: "Multipath fading", reference: "ITU-R P.530-16 §2.3", worst_month_pct: mpWm, annual_pct: mpYr, seconds_per_year: secs(mpYr) },
-    { mechanism: "Rain", reference: "ITU-R P.530-16 §2.4.1", worst_month_pct: null, annual_pct: rain, seconds_per_year: secs(rain) },
-    { mechanism: "Total unavailability", reference: "sum of the above (common practice)", worst_month_pct: null, annual_pct: tot, seconds_per_year: secs(tot), total: true },
-  ];
   const diffraction: DiffractionRow[] = Object.keys(DIFFRACTION_LABELS).map((m) => ({
     method: m,
     name: DIFFRACTION_LABELS[m].name,
@@ -117,5 +95,5 @@ export function linkReport(l: LinkResult, radioName: string | undefined, diffrac
   }));
   const first = l.reflection?.per_k[0];
   const height_gain_step_m = l.reflection ? num(l.reflection.height_gain_step_m) : null;
-  return { radio_name: radioName ?? l.radio, budget, losses, availability, diffraction, reflection_k: first?.k_label ?? null, reflections: first?.points ?? [], height_gain_step_m, performance: linkPerformanceReport(l) };
+  return { radio_name: radioName ?? l.radio, budget, losses, diffraction, reflection_k: first?.k_label ?? null, reflections: first?.points ?? [], height_gain_step_m, performance: linkPerformanceReport(l) };
 }
