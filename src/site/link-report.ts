@@ -1,4 +1,5 @@
 import type { LinkResult } from "../analysis/results.ts";
+import { formatSmall } from "./format.ts";
 import { linkPerformanceReport, type LinkPerformanceReport } from "./link-performance-report.ts";
 
 /** Names and references of the diffraction methods, in report order. */
@@ -45,6 +46,11 @@ export interface LinkReport {
   performance: LinkPerformanceReport;
 }
 
+/** A bit-error ratio as the trade writes it (1 × 10⁻⁶ rather than 0.000001); text that is not a number is left as given. */
+const berText = (ber: string): string => {
+  const x = Number(ber);
+  return Number.isFinite(x) && x > 0 && x < 0.01 ? formatSmall(x, String(ber).replace(/^0\.0*|e.*$|\./g, "").length || 1) : ber;
+};
 const num = (v: unknown): number | null => (typeof v === "number" && Number.isFinite(v) ? v : null);
 
 /** Tables of one link, from its result (values are never recomputed here, only arranged). */
@@ -70,7 +76,7 @@ export function linkReport(l: LinkResult, radioName: string | undefined, diffrac
     ...opt("Receive connectors", b.rx_connector_loss_db, "−"),
     { label: "Receive feeder and branching loss", value: num(b.rx_feeder_loss_db), unit: "dB", sign: "−" },
     { label: "Median received level", value: num(b.received_dbm), unit: "dBm", total: true, sign: "" },
-    { label: "Receiver threshold", value: num(b.rx_threshold_dbm), unit: "dBm", sign: "", note: `at BER ${l.threshold_ber}` },
+    { label: "Receiver threshold", value: num(b.rx_threshold_dbm), unit: "dBm", sign: "", note: `at BER ${berText(l.threshold_ber)}` },
     { label: "Design allowance", value: num(b.design_allowance_db), unit: "dB", sign: "−" },
     { label: "Flat fade margin", value: num(b.fade_margin_db), unit: "dB", total: true, sign: "", note: "received level − threshold − design allowance" },
     ...(typeof b.wet_radome_loss_db === "number" && b.wet_radome_loss_db > 0
