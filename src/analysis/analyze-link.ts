@@ -103,7 +103,6 @@ export function analyzeLink(study: Study, link: LinkInput, terrain: Terrain, opt
   const ke = wm.enabled ? effectiveK999(D / 1000) : NaN;
   const auto = Number.isFinite(ke) ? { k: ke, label: `${ke.toFixed(2)} (k_e 99.9 % worst month)`, min_f1: wm.min_f1 } : null;
   if (auto) {
-    required.set(auto.k, auto.min_f1);
     warnings.push(...[rangeWarning(KE_999_VALIDITY.method, "path length", D / 1000, KE_999_VALIDITY.distance_km, "km")].filter((w): w is string => w !== null));
   }
   const kCases = [...study.design.k_factors.map((kf) => ({ ...kf, automatic: undefined as string | undefined })), ...(auto ? [{ k: auto.k, label: auto.label, automatic: `${KE_999_VALIDITY.method}: k_e exceeded for 99.9 % of the worst month on a ${(D / 1000).toFixed(1)} km path, with ${auto.min_f1} F1 required (design.worst_month_k)` }] : [])];
@@ -111,7 +110,7 @@ export function analyzeLink(study: Study, link: LinkInput, terrain: Terrain, opt
     const ae_m = kf.k * EARTH_RADIUS_M;
     const c = pathClearance({ d_m: profile.d_m, terrain_m: profile.terrain_m, obstruction_m: profile.obstruction_m, hts_m: from.antenna_amsl_m, hrs_m: to.antenna_amsl_m, lambda_m, ae_m });
     ks.push({ label: kf.label, ae_m, worst: { at_distance_m: c.at_distance_m, clearance_f1: c.min_clearance_f1 } });
-    const req = required.get(kf.k);
+    const req = kf.automatic && auto ? auto.min_f1 : required.get(kf.k);
     return {
       k: Number.isFinite(kf.k) ? kf.k : "inf",
       k_label: kf.label,
