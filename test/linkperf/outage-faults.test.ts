@@ -77,3 +77,23 @@ describe("outage faults found in the demo", () => {
     expect(w).toMatch(/P\.530-16 §2\.4\.1 .*frequency 0\.459 GHz is outside the method's range 1–100 GHz/);
   });
 });
+
+describe("adaptive modulation through the link analysis (property)", () => {
+  it("time shares and the outage sum to 100 %, and raising the thresholds lowers the time at or above every mode", async () => {
+    const fc = (await import("fast-check")).default;
+    const { s, link, radio } = studyAt("modes-prop", 18);
+    fc.assert(
+      fc.property(fc.array(fc.double({ min: 0.5, max: 12, noNaN: true }), { minLength: 1, maxLength: 6 }), fc.double({ min: 0.1, max: 8, noNaN: true }), (steps, raise) => {
+        let t = -90;
+        const modes = steps.map((st, i) => ({ name: `m${i}`, capacity_mbps: 50 * (i + 1), rx_threshold_dbm: (t += st) }));
+        const run = (shift: number) =>
+          linkPerformance(s, link, { ...radio, modes: modes.map((m) => ({ ...m, rx_threshold_dbm: m.rx_threshold_dbm + shift })) }, { ...path, fade_margin_db: 30, rain_margin_db: 30 }).adaptive_modulation!;
+        const a = run(0);
+        const b = run(raise);
+        expect(a.modes.reduce((x, m) => x + m.time_share_pct, 0) + a.outage_pct).toBeCloseTo(100, 9);
+        a.modes.forEach((m, i) => expect(b.modes[i].available_pct).toBeLessThanOrEqual(m.available_pct + 1e-12));
+      }),
+      { numRuns: 40 },
+    );
+  });
+});
