@@ -7,7 +7,10 @@ import { InputError } from "../study/input-error.ts";
 import type { Study } from "../study/study.ts";
 import type { Terrain } from "../terrain/terrain.ts";
 import { parseProfileCsv } from "../terrain/profile-csv.ts";
+import { effectiveK999, KE_999_CLEARANCE_F1, KE_999_VALIDITY } from "../physics/effective-k-worst-month.ts";
 import { pathClearance } from "./clearance.ts";
+import { endLosses } from "./end-losses.ts";
+import { rangeWarning } from "./range-warning.ts";
 import { minimumAntennaHeights } from "./minimum-heights.ts";
 import { obstructedHeights } from "./link-losses.ts";
 import { terrainProfile, type LinkProfile } from "./link-profile.ts";
@@ -87,7 +90,7 @@ export function analyzeLink(study: Study, link: LinkInput, terrain: Terrain, opt
     if (site.ground_m !== undefined && Number.isFinite(h) && Math.abs(site.ground_m - h) > 10) {
       warnings.push(`Site ${site.id}: surveyed ground ${site.ground_m} m differs from the profile's ${h.toFixed(1)} m by more than 10 m.`);
     }
-    const eirp_dbm = radio.tx_power_dbm - e.feeder_loss_db + e.gain_dbi;
+    const eirp_dbm = radio.tx_power_dbm - endLosses(e).total_db + e.gain_dbi;
     return { site: site.id, name: site.name, ground_m, antenna_m: e.antenna_m, antenna_amsl_m: ground_m + e.antenna_m, gain_dbi: e.gain_dbi, feeder_loss_db: e.feeder_loss_db, eirp_dbm };
   };
   const from = end(link.from, siteA, profile.terrain_m[0]);
@@ -95,11 +98,19 @@ export function analyzeLink(study: Study, link: LinkInput, terrain: Terrain, opt
   const lambda_m = wavelengthM(radio.frequency_ghz);
   const required = new Map(study.design.clearance_criteria.map((c) => [c.k.k, c.min_f1]));
   const ks: LinkFigureData["ks"] = [];
-  const clearance: ClearanceRow[] = study.design.k_factors.map((kf) => {
+  // The automatic case: k_e exceeded 99.9 % of the worst month for this path length (P.530-16 §2.2.2).
+  const wm = study.design.worst_month_k ?? { enabled: true, min_f1: KE_999_CLEARANCE_F1.extended };
+  const ke = wm.enabled ? effectiveK999(D / 1000) : NaN;
+  const auto = Number.isFinite(ke) ? { k: ke, label: `${ke.toFixed(2)} (k_e 99.9 % worst month)`, min_f1: wm.min_f1 } : null;
+  if (auto) {
+    warnings.push(...[rangeWarning(KE_999_VALIDITY.method, "path length", D / 1000, KE_999_VALIDITY.distance_km, "km")].filter((w): w is string => w !== null));
+  }
+  const kCases = [...study.design.k_factors.map((kf) => ({ ...kf, automatic: undefined as string | undefined })), ...(auto ? [{ k: auto.k, label: auto.label, automatic: `${KE_999_VALIDITY.method}: k_e exceeded for 99.9 % of the worst month on a ${(D / 1000).toFixed(1)} km path, with ${auto.min_f1} F1 required (design.worst_month_k)` }] : [])];
+  const clearance: ClearanceRow[] = kCases.map((kf) => {
     const ae_m = kf.k * EARTH_RADIUS_M;
     const c = pathClearance({ d_m: profile.d_m, terrain_m: profile.terrain_m, obstruction_m: profile.obstruction_m, hts_m: from.antenna_amsl_m, hrs_m: to.antenna_amsl_m, lambda_m, ae_m });
     ks.push({ label: kf.label, ae_m, worst: { at_distance_m: c.at_distance_m, clearance_f1: c.min_clearance_f1 } });
-    const req = required.get(kf.k);
+    const req = kf.automatic && auto ? auto.min_f1 : required.get(kf.k);
     return {
       k: Number.isFinite(kf.k) ? kf.k : "inf",
       k_label: kf.label,
@@ -109,6 +120,7 @@ export function analyzeLink(study: Study, link: LinkInput, terrain: Terrain, opt
       f1_m: c.f1_m,
       required_f1: req ?? null,
       met: req === undefined ? null : c.min_clearance_f1 >= req,
+      ...(kf.automatic ? { automatic: kf.automatic } : {}),
     };
   });
   for (const c of study.design.clearance_criteria) {
@@ -122,7 +134,7 @@ export function analyzeLink(study: Study, link: LinkInput, terrain: Terrain, opt
     from_ground_m: from.ground_m,
     to_ground_m: to.ground_m,
     lambda_m,
-    criteria: study.design.clearance_criteria.map((c) => ({ ae_m: c.k.k * EARTH_RADIUS_M, min_f1: c.min_f1 })),
+    criteria: [...study.design.clearance_criteria.map((c) => ({ ae_m: c.k.k * EARTH_RADIUS_M, min_f1: c.min_f1 })), ...(auto ? [{ ae_m: auto.k * EARTH_RADIUS_M, min_f1: auto.min_f1 }] : [])],
     step_m: search.step_m,
     max_m: search.max_m,
   });

@@ -277,7 +277,7 @@ export async function analyzeStudy(study: Study, options: AnalyzeOptions = {}): 
       clearance_criteria: study.design.clearance_criteria.map((c) => ({ k: c.k.label, min_f1: c.min_f1 })),
       availability_pct: study.design.availability_pct,
       diffraction_method: study.design.diffraction_method,
-      field_margin_db: study.design.field_margin_db,
+      design_allowance_db: study.design.design_allowance_db,
       structure_notice_height_m: study.design.structure_notice_height_m,
       climate: study.climate,
     },

@@ -1,5 +1,3 @@
-import { annualPercentFromWorstMonth, worstMonthToAnnualDeltaGDb } from "../physics/worst-month-to-annual.ts";
-import { linkAvailabilityPct } from "../physics/availability.ts";
 import { bullingtonLoss } from "../physics/bullington.ts";
 import { EARTH_RADIUS_M } from "../physics/constants.ts";
 import { deltaBullingtonLoss } from "../physics/delta-bullington.ts";
@@ -9,12 +7,12 @@ import { epsteinPetersonLoss } from "../physics/epstein-peterson.ts";
 import { dryPressureFromTotalHpa, gasPathAttenuation, gasSpecificAttenuation, GAS_P676_VALIDITY } from "../physics/gas-attenuation.ts";
 import { groundConstants, type GroundClass } from "../physics/ground-constants.ts";
 import { singleKnifeEdgeLoss } from "../physics/knife-edge-path.ts";
-import { multipathOutagePercent, MULTIPATH_P530_VALIDITY } from "../physics/multipath-fading.ts";
 import type { DiffractionPath } from "../physics/profile.ts";
-import { rainAttenuation001, rainOutagePercent, RAIN_P530_VALIDITY } from "../physics/rain-path-attenuation.ts";
-import { POLARISATION_TILT_DEG } from "../physics/rain-specific-attenuation.ts";
 import type { Study } from "../study/study.ts";
+import { endLosses } from "./end-losses.ts";
 import type { LinkProfile } from "./link-profile.ts";
+import { linkPerformance } from "./link-performance.ts";
+import { linkRemedies } from "./remedies.ts";
 import { linkReflection, type HeightGainCurve } from "./link-reflection.ts";
 import { rangeWarning } from "./range-warning.ts";
 import type { LinkResult } from "./results.ts";
@@ -47,8 +45,8 @@ export function diffractionByMethod(path: DiffractionPath, options: { polarizati
 /**
  * Add losses, the link budget and availability to a link's geometry result.
  * Diffraction at the first k of the design set (the median k); gases by P.676 over the path
- * length; rain by P.838-3 and P.530-16 §2.4.1; multipath by P.530-16 §2.3 converted from the
- * worst month to the average year (§2.3.4); unavailability = multipath + rain (common practice).
+ * length; the outage against the performance and availability objectives by
+ * link-performance.ts (P.530-16 §2.3, §2.4.1, §4, §6.2).
  */
 export function linkLosses(study: Study, link: LinkInput, radio: RadioInput, base: LinkResult, profile: LinkProfile): { result: LinkResult; height_gain: HeightGainCurve } {
   const warnings = [...base.warnings];
@@ -81,41 +79,24 @@ export function linkLosses(study: Study, link: LinkInput, radio: RadioInput, bas
   const gases = gasPathAttenuation(gas.gamma_db_km, D);
   warn(rangeWarning(GAS_P676_VALIDITY.method, "frequency", f, GAS_P676_VALIDITY.frequency_ghz, "GHz"));
 
-  // Budget.
-  const eirp_dbm = radio.tx_power_dbm - from.feeder_loss_db + from.gain_dbi;
-  const received_dbm = eirp_dbm - base.losses_db.free_space - diffraction - gases + to.gain_dbi - to.feeder_loss_db;
-  const fade_margin_db = received_dbm - radio.rx_threshold_dbm - study.design.field_margin_db;
+  // Budget: fixed losses itemised per end (feeder, connectors, waveguide run, dry radome).
+  const tx = endLosses(link.from);
+  const rx = endLosses(link.to);
+  const eirp_dbm = radio.tx_power_dbm - tx.total_db + from.gain_dbi;
+  const received_dbm = eirp_dbm - base.losses_db.free_space - diffraction - gases + to.gain_dbi - rx.total_db;
+  const fade_margin_db = received_dbm - radio.rx_threshold_dbm - study.design.design_allowance_db;
+  const rain_margin_db = fade_margin_db - tx.wet_radome_db - rx.wet_radome_db;
 
-  // Rain.
-  const R = study.climate.rain_rate_mm_h;
-  let rain001: number | null = null;
-  let rain_outage_pct = 0;
-  if (R === undefined) {
-    warnings.push("No rain rate R0.01 in the study (climate.rain_rate_mm_h): the budget has no rain term.");
-  } else {
-    const r = rainAttenuation001({ distance_m: D, frequency_ghz: f, rain_rate_001_mm_h: R, elevation_deg: 0, tilt_deg: link.polarization === "h" ? POLARISATION_TILT_DEG.horizontal : POLARISATION_TILT_DEG.vertical });
-    rain001 = r.A001_db;
-    const outage = rainOutagePercent(fade_margin_db, r.A001_db, f);
-    rain_outage_pct = fade_margin_db <= 0 ? 100 : outage.outage_pct;
-    warn(rangeWarning(RAIN_P530_VALIDITY.method, "frequency", f, RAIN_P530_VALIDITY.frequency_ghz, "GHz"));
-    warn(rangeWarning(RAIN_P530_VALIDITY.method, "path length", d_km, RAIN_P530_VALIDITY.distance_km, "km"));
-    if (outage.flag !== "within_range" && fade_margin_db > 0) warn(`${RAIN_P530_VALIDITY.method}: the rain outage (${outage.outage_pct.toExponential(2)} %) lies outside the 0.001–1 % the method covers (${outage.flag.replace(/_/g, " ")}).`);
-  }
-
-  // Multipath, worst month → average year.
-  const mp = multipathOutagePercent({ distance_m: D, frequency_ghz: f, he_m: from.antenna_amsl_m, hr_m: to.antenna_amsl_m, dN1: study.climate.dn1, sa_m: study.climate.sa_m, fade_margin_db: Math.max(fade_margin_db, 0) });
+  // Outage against the two objectives (performance per worst month, availability per year).
   const midLat = (study.sites.find((s) => s.id === base.from)!.lat_deg + study.sites.find((s) => s.id === base.to)!.lat_deg) / 2;
-  const dG = worstMonthToAnnualDeltaGDb(midLat, d_km, mp.epsilon_p_mrad);
-  const multipath_outage_pct = fade_margin_db <= 0 ? 100 : annualPercentFromWorstMonth(mp.pw_pct, dG);
-  const V = MULTIPATH_P530_VALIDITY;
-  warn(rangeWarning(V.method, "frequency", f, [Math.max(V.frequency_ghz[0], V.frequency_min_ghz_km / d_km), V.frequency_ghz[1]], "GHz"));
-  warn(rangeWarning(V.method, "path length", d_km, V.distance_km, "km"));
-  if (study.climate.sa_m === undefined) warnings.push("No terrain roughness sa (climate.sa_m): multipath uses the quick-planning geoclimatic factor of P.530-16 §2.3.1.");
-
-  const availability_pct = Math.max(0, Math.min(100, linkAvailabilityPct({ multipath_outage_pct, rain_outage_pct })));
-  const target = link.availability_pct ?? study.design.availability_pct;
-  if (fade_margin_db <= 0) warnings.push(`The median received level is ${(-fade_margin_db).toFixed(1)} dB short of the threshold plus field margin: the link does not close.`);
-  const target_met = base.clearance_met && fade_margin_db > 0 && availability_pct >= target;
+  const perf = linkPerformance(study, link, radio, { distance_m: D, he_m: from.antenna_amsl_m, hr_m: to.antenna_amsl_m, mid_lat_deg: midLat, fade_margin_db, rain_margin_db, received_dbm, rx_gain_dbi: to.gain_dbi });
+  for (const w of perf.warnings) warn(w);
+  const rain001 = perf.rain_0_01pct_db;
+  const availability_pct = perf.objectives.availability.achieved_pct;
+  const target = perf.objectives.availability.target_pct;
+  if (fade_margin_db <= 0) warnings.push(`The median received level is ${(-fade_margin_db).toFixed(1)} dB short of the threshold plus the design allowance: the link does not close.`);
+  const capacityMet = perf.adaptive_modulation?.target?.met ?? true;
+  const target_met = base.clearance_met && fade_margin_db > 0 && perf.objectives.performance.met && perf.objectives.availability.met && capacityMet;
   const { reflection, height_gain } = linkReflection(study, profile, base.ends, f, link.polarization);
   const result: LinkResult = {
     ...base,
@@ -124,32 +105,44 @@ export function linkLosses(study: Study, link: LinkInput, radio: RadioInput, bas
     diffraction_db_by_method: byMethod,
     budget: {
       tx_power_dbm: radio.tx_power_dbm,
-      tx_feeder_loss_db: from.feeder_loss_db,
+      tx_feeder_loss_db: tx.feeder_db,
+      tx_connector_loss_db: tx.connector_db,
+      tx_waveguide_loss_db: tx.waveguide_db,
+      tx_radome_loss_db: tx.radome_db,
       tx_gain_dbi: from.gain_dbi,
       eirp_dbm,
       free_space_db: base.losses_db.free_space,
       diffraction_db: diffraction,
       gases_db: gases,
       rx_gain_dbi: to.gain_dbi,
-      rx_feeder_loss_db: to.feeder_loss_db,
+      rx_radome_loss_db: rx.radome_db,
+      rx_waveguide_loss_db: rx.waveguide_db,
+      rx_connector_loss_db: rx.connector_db,
+      rx_feeder_loss_db: rx.feeder_db,
       received_dbm,
       rx_threshold_dbm: radio.rx_threshold_dbm,
-      field_margin_db: study.design.field_margin_db,
+      design_allowance_db: study.design.design_allowance_db,
       fade_margin_db,
+      wet_radome_loss_db: tx.wet_radome_db + rx.wet_radome_db,
+      rain_fade_margin_db: rain_margin_db,
+      atpc_range_db: radio.atpc_range_db ?? null,
     },
-    availability: {
-      multipath_worst_month_pct: mp.pw_pct,
-      multipath_annual_pct: multipath_outage_pct,
-      rain_annual_pct: rain_outage_pct,
-      unavailability_pct: 100 - availability_pct,
-      geoclimatic_k: mp.K,
-      path_inclination_mrad: mp.epsilon_p_mrad,
-    },
+    availability: perf.availability,
+    objectives: perf.objectives,
+    dispersive: perf.dispersive,
+    diversity: perf.diversity,
+    xpd: perf.xpd,
+    adaptive_modulation: perf.adaptive_modulation,
+    remedies: target_met
+      ? []
+      : linkRemedies({ clearance_met: base.clearance_met, minimum_heights: base.minimum_heights, antenna_m: { from: from.antenna_m, to: to.antenna_m }, search_max_m: study.design.antenna_search.max_m, fade_margin_db, rain_margin_db, frequency_ghz: f, perf }),
     reflection,
     received_dbm,
     fade_margin_db,
     availability_pct,
     target_availability_pct: target,
+    performance_pct: perf.objectives.performance.achieved_pct,
+    target_performance_pct: perf.objectives.performance.target_pct,
     target_met,
     warnings,
   };

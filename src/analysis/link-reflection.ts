@@ -32,8 +32,12 @@ export interface ReflectionResult {
   per_k: { k_label: string; points: ReflectionPointResult[] }[];
   /** Height step of the height-gain curve (m). */
   height_gain_step_m: number;
-  /** Vertical spacing for space diversity at the first k, from the dominant point (m); null without one. */
-  space_diversity_spacing_m: number | null;
+  /**
+   * Half the period of the height-gain lobes at the receiving end (m), from the dominant point
+   * at the first k; null without one. A property of one reflection, not a diversity design:
+   * the diversity improvement (ITU-R P.530-16 §6.2) is in LinkResult.diversity.
+   */
+  height_gain_half_period_m: number | null;
 }
 
 /**
@@ -90,8 +94,8 @@ interface Ray {
  * roughness around the point (Ament factor); the height-gain curve at the receiving end from
  * the dominant reflection (the largest effective coefficient — common practice: one
  * reflected ray off the plane tangent at that point, not a coherent sum of every specular point
- * of a rugged profile) sampled finely enough to resolve the interference lobes; and a
- * suggested space-diversity spacing.
+ * of a rugged profile) sampled finely enough to resolve the interference lobes, and half the
+ * lobe period.
  */
 export function linkReflection(study: Study, profile: LinkProfile, ends: { from: LinkEndResult; to: LinkEndResult }, frequency_ghz: number, polarization: "h" | "v"): { reflection: ReflectionResult; height_gain: HeightGainCurve } {
   const cls = study.climate.ground.replace(/_/g, "-") as GroundClass;
@@ -143,17 +147,17 @@ export function linkReflection(study: Study, profile: LinkProfile, ends: { from:
     const xp = main.point.distance_m;
     plane = { xp, zp: main.point.height_m + earthBulgeM(xp, D - xp, ae0), c: Math.cos(beta), s: Math.sin(beta) };
   }
-  // Space diversity (common practice): half the interference period at the receiver, so one
-  // antenna sits on a peak when the other is in a null. On the tangent plane the phase kΔ
+  // Half the interference period at the receiver (one antenna this far from another sits in
+  // the opposite phase of this one reflection). On the tangent plane the phase kΔ
   // advances by 2π when h2' grows by λL/(2h1'); a vertical step dh raises h2' by dh·cos β.
-  let space_diversity_spacing_m: number | null = null;
+  let height_gain_half_period_m: number | null = null;
   let period_m = Infinity;
   if (main && plane && strength(main) >= 0.1) {
     const h1p = -(0 - plane.xp) * plane.s + (ends.from.antenna_amsl_m - plane.zp) * plane.c;
     const L = (D - plane.xp) * plane.c + (ends.to.antenna_amsl_m - plane.zp) * plane.s - ((0 - plane.xp) * plane.c + (ends.from.antenna_amsl_m - plane.zp) * plane.s);
     const spacing = (lambda_m * L) / (4 * h1p * plane.c);
     period_m = 2 * spacing;
-    space_diversity_spacing_m = spacing > 0 && Number.isFinite(spacing) ? spacing : null;
+    height_gain_half_period_m = spacing > 0 && Number.isFinite(spacing) ? spacing : null;
   }
   // About three lobes either side of the design height (at least 2 m, at most 15 m) and at
   // least ten points per lobe, steps between 2 cm and 10 cm.
@@ -188,5 +192,5 @@ export function linkReflection(study: Study, profile: LinkProfile, ends: { from:
     height_gain.relative_db[step] = Math.round(level * 1000) / 1000;
   }
 
-  return { reflection: { ground: study.climate.ground, epsilon_r: g.epsilon_r, sigma_s_m: g.sigma_s_m, per_k, height_gain_step_m: hgStep, space_diversity_spacing_m }, height_gain };
+  return { reflection: { ground: study.climate.ground, epsilon_r: g.epsilon_r, sigma_s_m: g.sigma_s_m, per_k, height_gain_step_m: hgStep, height_gain_half_period_m }, height_gain };
 }

@@ -1,6 +1,8 @@
 import type { ChainResult } from "./chains.ts";
 import type { CoverageResult } from "./coverage/coverage-result.ts";
+import type { LinkPerformance } from "./link-performance.ts";
 import type { ReflectionResult } from "./link-reflection.ts";
+import type { Remedy } from "./remedies.ts";
 
 /** Plain-JSON results of a study (no NaN: the boundary turns NaN into errors or null with a warning). */
 
@@ -34,6 +36,8 @@ export interface ClearanceRow {
   f1_m: number;
   required_f1: number | null;
   met: boolean | null;
+  /** Set for a case Ridgeline adds itself (k_e exceeded 99.9 % of the worst month, ITU-R P.530-16 §2.2.2). */
+  automatic?: string;
 }
 
 export interface LinkResult {
@@ -59,12 +63,27 @@ export interface LinkResult {
   diffraction_method?: string;
   diffraction_db_by_method?: Record<string, number>;
   budget?: Record<string, number | null>;
-  availability?: Record<string, number | null>;
+  availability?: Record<string, number | string | null>;
+  /** Performance (short fades, worst month) and availability (long outages, year) with verdicts; the combined figure for comparison. */
+  objectives?: LinkPerformance["objectives"];
+  /** Dispersive-fading outage (ITU-R P.530-16 §2.3.6), null without a radio signature. */
+  dispersive?: LinkPerformance["dispersive"];
+  /** Diversity improvement (§6.2), null without diversity. */
+  diversity?: LinkPerformance["diversity"];
+  /** XPD outage (§4), null unless the link is co-channel dual-polarised. */
+  xpd?: LinkPerformance["xpd"];
+  /** Time in each adaptive-modulation mode, null without modes. */
+  adaptive_modulation?: LinkPerformance["adaptive_modulation"];
+  /** What would bring the link to its targets (empty when it meets them). */
+  remedies?: Remedy[];
   reflection?: ReflectionResult;
   received_dbm?: number;
   fade_margin_db?: number;
   availability_pct?: number;
   target_availability_pct?: number;
+  /** Percentage of the worst month free of short-fade outage, and its target. */
+  performance_pct?: number;
+  target_performance_pct?: number;
   target_met: boolean;
   warnings: string[];
 }

@@ -1,3 +1,5 @@
+import { fadeDepthExceedancePercent } from "./multipath-fading.ts";
+
 /**
  * Logarithmic conversion factor ΔG (dB) from average-worst-month to average-year
  * percentages of time for clear-air fading:
@@ -27,4 +29,33 @@ export function worstMonthToAnnualDeltaGDb(latitude_deg: number, distance_km: nu
  */
 export function annualPercentFromWorstMonth(pw_pct: number, deltaG_db: number): number {
   return 10 ** (-deltaG_db / 10) * pw_pct; // P.530-16 eq. (21)
+}
+
+/**
+ * Percentage of the average year that a fade depth A (dB) is exceeded, for any A ≥ 0.
+ *
+ * Method: for A ≥ At (deep fades) p = 10^(−ΔG/10)·pw; for A < At the shallow-fade
+ * interpolation of §2.3.2 is redone from the annual pt = 10^(−ΔG/10)·p0·10^(−At/10)
+ * (qa', qt, qa, p by eqs. (15)–(18) with that pt). At A = 0 both give 63.2 %, like the worst
+ * month. A year cannot have more fading than its worst month, so the result is bounded by pw
+ * (ΔG ≥ 0 on the method's paths makes the bound inactive there).
+ * Reference: ITU-R P.530-16 §2.3.4 Steps 1–4.
+ * @param p0_pct multipath occurrence factor p0 (%), worst month
+ * @param A_db fade depth (dB)
+ * @param deltaG_db conversion factor ΔG (dB), {@link worstMonthToAnnualDeltaGDb}
+ */
+export function annualFadeExceedancePercent(p0_pct: number, A_db: number, deltaG_db: number): { p_pct: number; pw_pct: number } {
+  const { pw_pct, At_db } = fadeDepthExceedancePercent(p0_pct, A_db);
+  if (!Number.isFinite(pw_pct) || !Number.isFinite(deltaG_db)) return { p_pct: NaN, pw_pct };
+  let p: number;
+  if (A_db >= At_db) {
+    p = annualPercentFromWorstMonth(pw_pct, deltaG_db); // P.530-16 §2.3.4 Step 3
+  } else {
+    const pt = annualPercentFromWorstMonth(p0_pct * 10 ** (-At_db / 10), deltaG_db); // P.530-16 §2.3.4 Step 4, eq. (14) converted
+    const qaPrime = (-20 * Math.log10(-Math.log((100 - pt) / 100))) / At_db; // P.530-16 eq. (15)
+    const qt = (qaPrime - 2) / ((1 + 0.3 * 10 ** (-At_db / 20)) * 10 ** (-0.016 * At_db)) - 4.3 * (10 ** (-At_db / 20) + At_db / 800); // P.530-16 eq. (16)
+    const qa = 2 + (1 + 0.3 * 10 ** (-A_db / 20)) * 10 ** (-0.016 * A_db) * (qt + 4.3 * (10 ** (-A_db / 20) + A_db / 800)); // P.530-16 eq. (17)
+    p = 100 * (1 - Math.exp(-(10 ** ((-qa * A_db) / 20)))); // P.530-16 eq. (18)
+  }
+  return { p_pct: Math.min(p, pw_pct), pw_pct };
 }

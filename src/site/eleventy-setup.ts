@@ -1,3 +1,4 @@
+import { capacityCurveSvg, diversityCurveSvg } from "./performance-figures.ts";
 import { loadAllStudies } from "../cli/load-all.ts";
 import { cssString } from "./css-string.ts";
 import { formatDuration, formatNumber, formatSmall } from "./format.ts";
@@ -47,6 +48,8 @@ export default function ridgelineSite(eleventyConfig: EleventyConfig): void {
   eleventyConfig.addShortcode("profilePlot", (studyId: string, linkId: string) => linkProfileSvg(analyzedStudy(studyId), linkId));
   eleventyConfig.addShortcode("fresnelSection", (studyId: string, linkId: string) => linkFresnelSvg(analyzedStudy(studyId), linkId));
   eleventyConfig.addShortcode("heightGain", (studyId: string, linkId: string) => linkHeightGainSvg(analyzedStudy(studyId), linkId));
+  eleventyConfig.addShortcode("diversityCurve", (studyId: string, linkId: string) => diversityCurveSvg(analyzedStudy(studyId), linkId));
+  eleventyConfig.addShortcode("capacityCurve", (studyId: string, linkId: string) => capacityCurveSvg(analyzedStudy(studyId), linkId));
   eleventyConfig.addShortcode("overviewMap", (studyId: string) => {
     const svg = maps.get(studyId);
     if (svg === undefined) throw new Error(`No overview map was drawn for study ${studyId}.`);

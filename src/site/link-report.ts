@@ -1,4 +1,6 @@
 import type { LinkResult } from "../analysis/results.ts";
+import { formatSmall } from "./format.ts";
+import { linkPerformanceReport, type LinkPerformanceReport } from "./link-performance-report.ts";
 
 /** Names and references of the diffraction methods, in report order. */
 export const DIFFRACTION_LABELS: Record<string, { name: string; reference: string }> = {
@@ -29,68 +31,66 @@ export interface DiffractionRow {
   used: boolean;
 }
 
-export interface AvailabilityRow {
-  mechanism: string;
-  reference: string;
-  worst_month_pct: number | null;
-  annual_pct: number | null;
-  seconds_per_year: number | null;
-  total?: boolean;
-}
-
 /** What a link page shows besides the raw result. */
 export interface LinkReport {
   radio_name: string;
   budget: Row[];
   losses: Row[];
-  availability: AvailabilityRow[];
   diffraction: DiffractionRow[];
   /** Reflection points at the first k. */
   reflection_k: string | null;
   reflections: NonNullable<LinkResult["reflection"]>["per_k"][number]["points"];
   /** Height step of the height-gain curve (m), or null without one. */
   height_gain_step_m: number | null;
+  /** The two objectives' tables and the minimum antenna heights. */
+  performance: LinkPerformanceReport;
 }
 
-const SECONDS_PER_YEAR = 365.25 * 86_400;
+/** A bit-error ratio as the trade writes it (1 × 10⁻⁶ rather than 0.000001); text that is not a number is left as given. */
+const berText = (ber: string): string => {
+  const x = Number(ber);
+  return Number.isFinite(x) && x > 0 && x < 0.01 ? formatSmall(x, String(ber).replace(/^0\.0*|e.*$|\./g, "").length || 1) : ber;
+};
 const num = (v: unknown): number | null => (typeof v === "number" && Number.isFinite(v) ? v : null);
 
 /** Tables of one link, from its result (values are never recomputed here, only arranged). */
 export function linkReport(l: LinkResult, radioName: string | undefined, diffractionMethod: string): LinkReport {
   const b = l.budget ?? {};
-  const av = l.availability ?? {};
   const method = l.diffraction_method ?? diffractionMethod;
   const methodName = DIFFRACTION_LABELS[method]?.name ?? method;
+  const opt = (label: string, v: unknown, sign: Row["sign"], note?: string): Row[] => (typeof v === "number" && v !== 0 ? [{ label, value: num(v), unit: "dB", sign, ...(note ? { note } : {}) }] : []);
   const budget: Row[] = [
-    { label: `Transmitter power (${l.ends.from.name})`, value: num(b.tx_power_dbm), unit: "dBm", sign: "" },
+    { label: `Transmitter power (${l.ends.from.name})`, value: num(b.tx_power_dbm), unit: "dBm", sign: "", ...(num(b.atpc_range_db) !== null ? { note: `ATPC range ${num(b.atpc_range_db)} dB (informational: the budget is at full power)` } : {}) },
     { label: "Transmit feeder and branching loss", value: num(b.tx_feeder_loss_db), unit: "dB", sign: "−" },
+    ...opt("Transmit connectors", b.tx_connector_loss_db, "−"),
+    ...opt("Transmit waveguide run", b.tx_waveguide_loss_db, "−", "length × attenuation per 100 m"),
+    ...opt("Transmit radome (dry)", b.tx_radome_loss_db, "−"),
     { label: "Transmit antenna gain", value: num(b.tx_gain_dbi), unit: "dBi", sign: "+" },
     { label: "EIRP", value: num(b.eirp_dbm), unit: "dBm", total: true, sign: "" },
     { label: "Free-space loss", value: num(b.free_space_db), unit: "dB", sign: "−", note: "ITU-R P.525-4" },
     { label: "Diffraction loss", value: num(b.diffraction_db), unit: "dB", sign: "−", note: methodName },
     { label: "Gaseous absorption", value: num(b.gases_db), unit: "dB", sign: "−", note: "ITU-R P.676-12 Annex 1" },
     { label: `Receive antenna gain (${l.ends.to.name})`, value: num(b.rx_gain_dbi), unit: "dBi", sign: "+" },
+    ...opt("Receive radome (dry)", b.rx_radome_loss_db, "−"),
+    ...opt("Receive waveguide run", b.rx_waveguide_loss_db, "−", "length × attenuation per 100 m"),
+    ...opt("Receive connectors", b.rx_connector_loss_db, "−"),
     { label: "Receive feeder and branching loss", value: num(b.rx_feeder_loss_db), unit: "dB", sign: "−" },
     { label: "Median received level", value: num(b.received_dbm), unit: "dBm", total: true, sign: "" },
-    { label: "Receiver threshold", value: num(b.rx_threshold_dbm), unit: "dBm", sign: "" },
-    { label: "Field margin", value: num(b.field_margin_db), unit: "dB", sign: "−" },
-    { label: "Flat fade margin", value: num(b.fade_margin_db), unit: "dB", total: true, sign: "", note: "received level − threshold − field margin" },
+    { label: "Receiver threshold", value: num(b.rx_threshold_dbm), unit: "dBm", sign: "", note: `at BER ${berText(l.threshold_ber)}` },
+    { label: "Design allowance", value: num(b.design_allowance_db), unit: "dB", sign: "−" },
+    { label: "Flat fade margin", value: num(b.fade_margin_db), unit: "dB", total: true, sign: "", note: "received level − threshold − design allowance" },
+    ...(typeof b.wet_radome_loss_db === "number" && b.wet_radome_loss_db > 0
+      ? [
+          { label: "Wet radomes, both ends", value: num(b.wet_radome_loss_db), unit: "dB", sign: "−" as const, note: "in rain only" },
+          { label: "Fade margin against rain", value: num(b.rain_fade_margin_db), unit: "dB", total: true, sign: "" as const },
+        ]
+      : []),
   ];
   const losses: Row[] = [
     { label: "Free space", value: num(l.losses_db.free_space), unit: "dB", note: "ITU-R P.525-4, 20·log10(4πd/λ)" },
     { label: "Diffraction", value: num(l.losses_db.diffraction), unit: "dB", note: `${methodName}, ${DIFFRACTION_LABELS[method]?.reference ?? ""}, at the first k` },
     { label: "Gaseous absorption", value: num(l.losses_db.gases), unit: "dB", note: "ITU-R P.676-12 Annex 1 (oxygen and water vapour)" },
     { label: "Rain, exceeded 0.01 % of the year", value: num(l.losses_db.rain_0_01pct), unit: "dB", note: "ITU-R P.838-3 and P.530-16 §2.4.1 — for availability, not in the median budget" },
-  ];
-  const mpWm = num(av.multipath_worst_month_pct);
-  const mpYr = num(av.multipath_annual_pct);
-  const rain = num(av.rain_annual_pct);
-  const tot = num(av.unavailability_pct);
-  const secs = (p: number | null) => (p === null ? null : (p / 100) * SECONDS_PER_YEAR);
-  const availability: AvailabilityRow[] = [
-    { mechanism: "Multipath fading", reference: "ITU-R P.530-16 §2.3", worst_month_pct: mpWm, annual_pct: mpYr, seconds_per_year: secs(mpYr) },
-    { mechanism: "Rain", reference: "ITU-R P.530-16 §2.4.1", worst_month_pct: null, annual_pct: rain, seconds_per_year: secs(rain) },
-    { mechanism: "Total unavailability", reference: "sum of the above (common practice)", worst_month_pct: null, annual_pct: tot, seconds_per_year: secs(tot), total: true },
   ];
   const diffraction: DiffractionRow[] = Object.keys(DIFFRACTION_LABELS).map((m) => ({
     method: m,
@@ -101,5 +101,5 @@ export function linkReport(l: LinkResult, radioName: string | undefined, diffrac
   }));
   const first = l.reflection?.per_k[0];
   const height_gain_step_m = l.reflection ? num(l.reflection.height_gain_step_m) : null;
-  return { radio_name: radioName ?? l.radio, budget, losses, availability, diffraction, reflection_k: first?.k_label ?? null, reflections: first?.points ?? [], height_gain_step_m };
+  return { radio_name: radioName ?? l.radio, budget, losses, diffraction, reflection_k: first?.k_label ?? null, reflections: first?.points ?? [], height_gain_step_m, performance: linkPerformanceReport(l) };
 }

@@ -22,6 +22,18 @@ export interface ChainRow {
   availability_pct: number | null;
   target_pct: number;
   met: boolean;
+  performance_pct: number | null;
+  target_performance_pct: number;
+  performance_met: boolean;
+  availability_met: boolean;
+  combined_availability_pct: number | null;
+}
+
+/** A failing link and what would fix it. */
+export interface RemedyRow {
+  link: string;
+  name: string;
+  remedies: { issue: string; fix: string }[];
 }
 
 /** What the study page shows besides the raw results. */
@@ -31,6 +43,8 @@ export interface StudyReport {
   assumptions: AssumptionRow[];
   methods: MethodRow[];
   chains: ChainRow[];
+  /** The failing links and what would bring each to its targets. */
+  remedies: RemedyRow[];
   cautions: StudyCautions;
 }
 
@@ -54,9 +68,14 @@ export const METHODS: MethodRow[] = [
   { quantity: "Diffraction", method: "ITU-R P.526-15 §4.5 (Bullington, delta-Bullington); §4.1 single knife edge; Deygout and Epstein–Peterson constructions for comparison" },
   { quantity: "Gaseous absorption", method: "ITU-R P.676-12 Annex 1 (line-by-line), specific attenuation times path length" },
   { quantity: "Rain", method: "ITU-R P.838-3 specific attenuation; ITU-R P.530-16 §2.4.1 path attenuation and outage" },
-  { quantity: "Multipath fading", method: "ITU-R P.530-16 §2.3 (§2.3.1, §2.3.2 worst month; converted to the average year)" },
+  { quantity: "Multipath fading", method: "ITU-R P.530-16 §2.3 (§2.3.1, §2.3.2 worst month; §2.3.4 to the average year for the combined figure)" },
+  { quantity: "Dispersive fading", method: "ITU-R P.530-16 §2.3.6, signature method (radios with a signature)" },
+  { quantity: "Diversity", method: "ITU-R P.530-16 §6.2.1 space and frequency diversity improvement, §6.2.2 with dispersive fading" },
+  { quantity: "Cross-polar discrimination", method: "ITU-R P.530-16 §4.1 clear air, §4.2 precipitation (co-channel dual-polarised links)" },
+  { quantity: "Clearance at k_e (99.9 % worst month)", method: "ITU-R P.530-16 §2.2.2, Fig. 3 (read from memory, about ±0.05 in k_e): an automatic case beside the study's k values" },
+  { quantity: "Adaptive modulation", method: "Time below each mode's threshold per year from the fade statistics above; a mode is in use between its threshold and the next (common practice)" },
   { quantity: "Reflection", method: "Specular points by geometrical optics over the profile; ground constants of ITU-R P.527 classes" },
-  { quantity: "Availability", method: "Unavailability of multipath and rain added per link, and per hop in a chain (common practice)" },
+  { quantity: "Objectives", method: "Performance: short-fade outage (multipath flat + dispersive + clear-air XPD) per average worst month; availability: rain and rain XPD per average year (ITU-R P.530-16 §7); hops in a chain added (common practice). The combined figure adds everything per year, for comparison" },
 ];
 
 /** Build the study page's statements, summaries and cautions from an analysed study. */
@@ -80,8 +99,9 @@ export function studyReport(s: AnalyzedStudy): StudyReport {
       value: `${d.availability_pct} % of an average year per link`,
       basis: overrides.length ? `Overridden for ${overrides.map((l) => `${l.id} (${l.availability_pct} %)`).join(", ")}.` : "Applies to every link.",
     },
+    { topic: "Performance target", value: `${d.performance_pct ?? 99.995} % of the average worst month per link`, basis: d.performance_pct === undefined ? "Default: a common-practice choice; set the operator's own objective (design.performance_pct)." : "Set for this study." },
     { topic: "Diffraction method used in the budget", value: DIFFRACTION_LABELS[d.diffraction_method]?.name ?? d.diffraction_method, basis: "Other methods are shown on each link page for comparison." },
-    { topic: "Field margin", value: `${d.field_margin_db} dB`, basis: "Allowance for ageing, misalignment and the like, subtracted from the fade margin." },
+    { topic: "Design allowance", value: `${d.design_allowance_db} dB`, basis: "Allowance for ageing, misalignment and the like, subtracted from the fade margin." },
     {
       topic: "Rain rate R0.01",
       value: c.rain_rate_mm_h === undefined ? "not given" : `${c.rain_rate_mm_h} mm/h`,
@@ -99,20 +119,27 @@ export function studyReport(s: AnalyzedStudy): StudyReport {
     { topic: "Structure notice height", value: `${d.structure_notice_height_m} m above ground`, basis: "Antennas above it are listed under Cautions." },
   ];
   const byId = new Map(r.links.map((l) => [l.id, l]));
-  const chains: ChainRow[] = (r.chains as { id: string; name: string; links: string[]; availability_pct: number | null; target_availability_pct: number; target_met: boolean }[]).map((ch) => ({
+  const chains: ChainRow[] = r.chains.map((ch) => ({
     id: ch.id,
     name: ch.name,
     links: ch.links.map((id) => ({ id, availability_pct: byId.get(id)?.availability_pct ?? null })),
     availability_pct: ch.availability_pct,
     target_pct: ch.target_availability_pct,
     met: ch.target_met,
+    performance_pct: ch.performance_pct ?? null,
+    target_performance_pct: ch.target_performance_pct,
+    performance_met: ch.performance_met,
+    availability_met: ch.availability_met,
+    combined_availability_pct: ch.combined_availability_pct ?? null,
   }));
+  const remedies: RemedyRow[] = r.links.filter((l) => !l.target_met).map((l) => ({ link: l.id, name: `${l.ends.from.name} → ${l.ends.to.name}`, remedies: l.remedies ?? [] }));
   return {
     links_total: r.links.length,
     links_met: r.links.filter((l) => l.target_met).length,
     assumptions,
     methods: METHODS,
     chains,
+    remedies,
     cautions: studyCautions(s),
   };
 }

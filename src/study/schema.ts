@@ -41,12 +41,44 @@ const terrain = z
   ])
   .describe("where ground heights come from");
 
+/** Budget details practitioners itemise at each end (ITU-R F.1101 style listing; common practice). */
+const linkEndDetails = {
+  radome_loss_db: z.number().min(0).max(10).optional().describe("loss of the antenna's radome, dry (dB); default 0"),
+  wet_radome_loss_db: z.number().min(0).max(20).optional().describe("extra radome loss when wet, taken off the margin against rain only (dB); default 0"),
+  connector_loss_db: z.number().min(0).max(10).optional().describe("connector and adaptor losses at this end (dB); default 0"),
+  waveguide_m: z.number().min(0).max(1000).optional().describe("length of the waveguide or cable run at this end (m); default 0"),
+  waveguide_loss_db_per_100m: z.number().min(0).max(200).optional().describe("attenuation of that run per 100 m (dB/100 m); default 0"),
+};
+
+/** A radio's signature for the dispersive-fading outage (ITU-R P.530-16 §2.3.6). */
+const signature = z
+  .object({
+    width_mhz: z.number().positive().max(1000).describe("signature width W (MHz)"),
+    depth_minimum_phase_db: z.number().min(0).max(80).describe("signature depth B_M for minimum-phase fades (dB)"),
+    depth_non_minimum_phase_db: z.number().min(0).max(80).describe("signature depth B_NM for non-minimum-phase fades (dB)"),
+    reference_delay_ns: z.number().positive().max(100).default(6.3).describe("echo delay τ_r at which the signature was measured (ns)"),
+  })
+  .strict()
+  .describe("radio signature: width and depths of the notch a two-ray echo must make to cause errors at the threshold bit-error ratio");
+
+const modulationMode = z
+  .object({
+    name: z.string().min(1).describe("mode name, e.g. 1024-QAM"),
+    capacity_mbps: z.number().positive().max(100_000).describe("payload capacity in this mode (Mbit/s)"),
+    rx_threshold_dbm: z.number().min(-150).max(0).describe("receiver threshold of this mode at the radio's threshold bit-error ratio (dBm)"),
+    signature: signature.optional(),
+  })
+  .strict();
+
+const modesInOrder = (modes: { capacity_mbps: number; rx_threshold_dbm: number }[]) => modes.every((m, i) => i === 0 || (m.rx_threshold_dbm > modes[i - 1].rx_threshold_dbm && m.capacity_mbps > modes[i - 1].capacity_mbps));
+
 const linkEnd = z
   .object({
     site: id.describe("id of a site in `sites`"),
     antenna_m: z.number().min(0).max(1000).describe("antenna centre height above ground (m)"),
     gain_dbi: z.number().min(-10).max(70).describe("antenna gain (dBi)"),
     feeder_loss_db: z.number().min(0).max(50).default(0).describe("feeder and branching loss at this end (dB)"),
+    ...linkEndDetails,
   })
   .strict();
 
@@ -124,10 +156,19 @@ export const studySchema = z
             { k: "4/3", min_f1: 1.0 },
             { k: "2/3", min_f1: 0.6 },
           ]),
-        availability_pct: z.number().gt(0).lt(100).default(99.99).describe("required annual availability (%)"),
+        availability_pct: z.number().gt(0).lt(100).default(99.99).describe("required annual availability against long outages (rain, rain depolarisation) (%)"),
         diffraction_method: z.enum(["knife_edge", "deygout", "epstein_peterson", "bullington", "delta_bullington"]).default("delta_bullington"),
         profile_step_m: z.number().positive().optional().describe("profile sample spacing (m); default and upper bound: the terrain's own spacing"),
-        field_margin_db: z.number().min(0).max(30).default(0).describe("allowance for ageing, misalignment and the like (dB)"),
+        performance_pct: z.number().gt(0).lt(100).optional().describe("required percentage of the average worst month free of short-fade outage (multipath flat, dispersive, clear-air XPD): the error-performance objective (%); default 99.995"),
+        worst_month_k: z
+          .object({
+            enabled: z.boolean().default(true).describe("add the clearance case at k_e exceeded 99.9 % of the worst month (ITU-R P.530-16 §2.2.2, Fig. 3) for the path's length"),
+            min_f1: z.number().min(-1).max(1).default(0.3).describe("clearance required at that k (F1): 0 for a single isolated obstruction, 0.3 where it extends along the path (P.530-16 §2.2.2)"),
+          })
+          .strict()
+          .optional()
+          .describe("the automatic clearance case at k_e exceeded 99.9 % of the worst month; default enabled, 0.3 F1"),
+        design_allowance_db: z.number().min(0).max(30).default(0).describe("design allowance: margin set aside for ageing, misalignment and the like, taken off the fade margin (dB)"),
         antenna_search: z
           .object({
             step_m: z.number().positive().max(50).default(1).describe("candidate step for the minimum-antenna-height search (m)"),
@@ -161,6 +202,17 @@ export const studySchema = z
             tx_power_dbm: z.number().min(-30).max(70),
             rx_threshold_dbm: z.number().min(-150).max(0).describe("receiver threshold at the stated bit-error ratio (dBm)"),
             threshold_ber: z.union([z.number(), z.string()]).transform(String).default("1e-6"),
+            signature: signature.optional(),
+            modes: z
+              .array(modulationMode)
+              .min(1)
+              .refine(modesInOrder, "modes listed in order of rising threshold and rising capacity (the lowest, most robust mode first)")
+              .optional()
+              .describe("adaptive modulation: the radio's modes, most robust first; rx_threshold_dbm above is then the lowest mode's"),
+            xpd_db: z.number().min(0).max(60).optional().describe("antennas' guaranteed minimum cross-polar discrimination XPD_g at boresight (dB), for co-channel dual-polarised links"),
+            xpif_db: z.number().min(0).max(40).optional().describe("cross-polar improvement factor of the canceller (XPIC); default 0, without one (dB)"),
+            co_channel_ci_db: z.number().min(0).max(60).optional().describe("carrier-to-interference ratio C0/I at the threshold bit-error ratio (dB)"),
+            atpc_range_db: z.number().min(0).max(60).optional().describe("automatic transmit power control range (dB); informational"),
           })
           .strict(),
       )
@@ -190,6 +242,24 @@ export const studySchema = z
             polarization: z.enum(["h", "v"]).default("v"),
             profile_csv: z.string().optional().describe("surveyed profile CSV (distance_m,elevation_m[,obstruction_m]) used instead of the terrain"),
             availability_pct: z.number().gt(0).lt(100).optional().describe("overrides design.availability_pct for this link"),
+            performance_pct: z.number().gt(0).lt(100).optional().describe("overrides design.performance_pct for this link"),
+            diversity: z
+              .union([
+                z.object({ space: z.object({ spacing_m: z.number().positive().max(100).describe("vertical spacing of the two receive antennas, centre to centre (m)"), gain_dbi: z.number().min(-10).max(70).optional().describe("the second antenna's gain (dBi); default the main antenna's") }).strict() }).strict(),
+                z.object({ frequency: z.object({ spacing_mhz: z.number().positive().max(5000).describe("separation of the two channels (MHz)") }).strict() }).strict(),
+              ])
+              .optional()
+              .describe("diversity reception at the link's receiving end: {space: {spacing_m, gain_dbi}} or {frequency: {spacing_mhz}}"),
+            co_channel_dual_polarised: z.boolean().optional().describe("true when the link carries two co-channel signals on orthogonal polarisations (XPD outage applies); default false"),
+            capacity_target: z
+              .object({
+                capacity_mbps: z.number().positive().optional().describe("capacity that must be available"),
+                mode: z.string().optional().describe("or a mode of the radio that must be available"),
+                availability_pct: z.number().gt(0).lt(100).describe("for this percentage of the year (%)"),
+              })
+              .strict()
+              .optional()
+              .describe("adaptive modulation target, e.g. ≥ 200 Mbit/s for 99.99 % of the year"),
           })
           .strict(),
       )

@@ -1,5 +1,6 @@
 import type { z } from "zod";
 import { fieldPath, showValue, type InputProblem } from "./input-error.ts";
+import { renamedKey } from "./renamed-keys.ts";
 import { valueAt, type YamlSource } from "./yaml-source.ts";
 
 /** Turn zod issues into input problems that name line, column, field, value and fix. */
@@ -9,12 +10,15 @@ export function zodProblems(src: YamlSource, issues: z.core.$ZodIssue[]): InputP
     const path = issue.path as PropertyKey[];
     if (issue.code === "unrecognized_keys") {
       for (const key of issue.keys) {
+        const renamed = renamedKey(path, key);
         out.push({
           file: src.file,
           ...src.locateKey(path, key),
           field: fieldPath([...path, key]),
           received: `an unknown field "${key}"`,
-          expected: "no such field here: check its spelling against schema/study.schema.json, or remove it",
+          expected: renamed
+            ? `"${renamed.key}" instead (${renamed.why}): rename the key, keeping its value`
+            : "no such field here: check its spelling against schema/study.schema.json, or remove it",
         });
       }
       continue;

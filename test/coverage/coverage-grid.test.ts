@@ -186,7 +186,7 @@ function pathStudy(from: [number, number], to: [number, number]) {
     file: "(test)",
     meta: { title: "t", client: "-", prepared_by: "-", revision: "-", date: "1970-01-01" },
     terrain: { constant_m: 0 },
-    design: { k_factors: [{ k: 4 / 3, label: "4/3" }], clearance_criteria: [], availability_pct: 99.99, diffraction_method: "delta_bullington" as const, field_margin_db: 0, structure_notice_height_m: 45, antenna_search: { step_m: 1, max_m: 100 } },
+    design: { k_factors: [{ k: 4 / 3, label: "4/3" }], clearance_criteria: [], availability_pct: 99.99, diffraction_method: "delta_bullington" as const, design_allowance_db: 0, structure_notice_height_m: 45, antenna_search: { step_m: 1, max_m: 100 } },
     climate: { pressure_hpa: 1013.25, temperature_c: 15, water_vapour_g_m3: 7.5, dn1: -400, ground: "medium_dry_ground" as const },
     radios: [{ id: "r", frequency_ghz: 0.9, tx_power_dbm: 40, rx_threshold_dbm: -90, threshold_ber: "1e-6" }],
     sites: [

@@ -4,24 +4,8 @@ import {
   chainAvailabilityPct,
   chainAvailabilityProductPct,
   chainAvailabilitySumPct,
-  linkAvailabilityPct,
-  linkUnavailabilityPct,
 } from "../../src/physics/availability.ts";
 import { expectClose } from "../helpers/expect-close.ts";
-
-describe("link availability (common practice: multipath + rain outage)", () => {
-  it("adds the two outages", () => {
-    expectClose(linkUnavailabilityPct({ multipath_outage_pct: 0.003, rain_outage_pct: 0.007 }), 0.01, { abs: 1e-15 }, "U");
-    expectClose(linkAvailabilityPct({ multipath_outage_pct: 0.003, rain_outage_pct: 0.007 }), 99.99, { abs: 1e-12 }, "A");
-  });
-
-  it("is bounded to 0–100 % and gives NaN for negative or NaN outages", () => {
-    expect(linkAvailabilityPct({ multipath_outage_pct: 63, rain_outage_pct: 60 })).toBe(0);
-    expect(linkAvailabilityPct({ multipath_outage_pct: 0, rain_outage_pct: 0 })).toBe(100);
-    expect(linkAvailabilityPct({ multipath_outage_pct: -1, rain_outage_pct: 0 })).toBeNaN();
-    expect(linkAvailabilityPct({ multipath_outage_pct: NaN, rain_outage_pct: 0 })).toBeNaN();
-  });
-});
 
 describe("chain availability", () => {
   it("two hops of 99.99 %: sum 99.98 %, product 99.980001 %", () => {

@@ -43,6 +43,6 @@ describe("height-gain curve over a smooth flat sea", () => {
     }
     expect(Math.max(...hg.map((p) => p.relative_db))).toBeGreaterThan(5); // near +6 dB peaks
     expect(Math.min(...hg.map((p) => p.relative_db))).toBeLessThan(-10); // deep nulls
-    expect(l.reflection!.space_diversity_spacing_m).toBeGreaterThan(0);
+    expect(l.reflection!.height_gain_half_period_m).toBeGreaterThan(0);
   });
 });

@@ -12,6 +12,9 @@ export interface CheckRow {
   fade_margin_db: number | null;
   availability_pct: number | null;
   target_availability_pct: number | null;
+  /** Both objectives, each with its outage, target and verdict (absent for a link that was not analysed that far). */
+  objectives: { performance: { achieved_pct: number; target_pct: number; met: boolean; counted: string }; availability: { achieved_pct: number; target_pct: number; met: boolean; counted: string }; combined_availability_pct: number } | null;
+  capacity_target_met: boolean | null;
   target_met: boolean;
 }
 
@@ -25,6 +28,14 @@ export function checkRows(studies: AnalyzedStudy[]): CheckRow[] {
       fade_margin_db: l.fade_margin_db ?? null,
       availability_pct: l.availability_pct ?? null,
       target_availability_pct: l.target_availability_pct ?? null,
+      objectives: l.objectives
+        ? {
+            performance: { achieved_pct: l.objectives.performance.achieved_pct, target_pct: l.objectives.performance.target_pct, met: l.objectives.performance.met, counted: "short fades (multipath flat + dispersive + clear-air XPD), average worst month" },
+            availability: { achieved_pct: l.objectives.availability.achieved_pct, target_pct: l.objectives.availability.target_pct, met: l.objectives.availability.met, counted: "long outages (rain + rain XPD), average year" },
+            combined_availability_pct: l.objectives.combined.availability_pct,
+          }
+        : null,
+      capacity_target_met: l.adaptive_modulation?.target?.met ?? null,
       target_met: l.target_met,
     })),
   );
@@ -42,20 +53,23 @@ export async function checkCommand(argv: string[]): Promise<number> {
   const rows = checkRows(studies);
   const missed = rows.filter((r) => !r.target_met).length;
   if (args.flags.has("json")) {
-    process.stdout.write(`${JSON.stringify({ links: rows, missed, total: rows.length }, null, 2)}\n`);
+    const chains = studies.flatMap((s) => s.result.chains.map((c) => ({ study: s.result.id, ...c })));
+    process.stdout.write(`${JSON.stringify({ links: rows, chains, missed, total: rows.length }, null, 2)}\n`);
   } else {
-    const header = ["study", "link", "clearance", "fade margin dB", "availability %", "target %", "result"];
+    const header = ["study", "link", "clearance", "fade margin dB", "performance % (worst month)", "target %", "availability % (year)", "target %", "result"];
     const table = rows.map((r) => [
       r.study,
       r.link,
       r.clearance_met ? "meets" : "SHORT",
       formatNumber(r.fade_margin_db, 1),
-      formatNumber(r.availability_pct, 5),
+      `${formatNumber(r.objectives?.performance.achieved_pct ?? null, 5)}${r.objectives && !r.objectives.performance.met ? " ✗" : ""}`,
+      formatNumber(r.objectives?.performance.target_pct ?? null, 3),
+      `${formatNumber(r.availability_pct, 5)}${r.objectives && !r.objectives.availability.met ? " ✗" : ""}`,
       formatNumber(r.target_availability_pct, 3),
       r.target_met ? "met" : "MISSED",
     ]);
     const widths = header.map((h, i) => Math.max(h.length, ...table.map((row) => row[i].length)));
-    const line = (cells: string[]) => cells.map((c, i) => (i >= 3 && i <= 5 ? c.padStart(widths[i]) : c.padEnd(widths[i]))).join("  ");
+    const line = (cells: string[]) => cells.map((c, i) => (i >= 3 && i <= 7 ? c.padStart(widths[i]) : c.padEnd(widths[i]))).join("  ");
     process.stdout.write(`${line(header)}\n${widths.map((w) => "-".repeat(w)).join("  ")}\n${table.map(line).join("\n")}\n`);
     process.stdout.write(missed ? `\n${missed} of ${rows.length} links miss a target.\n` : `\nAll ${rows.length} links meet their targets.\n`);
   }

@@ -64,7 +64,8 @@ export async function pathCommand(argv: string[]): Promise<number> {
       ],
       availability_pct: num("availability-pct", DEFAULTS.availability_pct, (x) => x > 0 && x < 100, "a percentage between 0 and 100"),
       diffraction_method: "delta_bullington",
-      field_margin_db: 0,
+      design_allowance_db: 0,
+      worst_month_k: { enabled: false, min_f1: 0.3 }, // the one-off path checks the k values given on the command line only
       antenna_search: { step_m: 1, max_m: 100 },
       structure_notice_height_m: 45,
     },

@@ -1,0 +1,222 @@
+import fc from "fast-check";
+import { describe, expect, it } from "vitest";
+import { modeAtAvailability, modeTimeShares } from "../../src/physics/adaptive-modulation.ts";
+import { meanTimeDelayNs, multipathActivityFactor, selectiveOutageProbability, type RadioSignature } from "../../src/physics/dispersive-fading.ts";
+import { diversityOutageProbability, frequencyDiversityImprovement, spaceDiversityImprovement } from "../../src/physics/diversity.ts";
+import { effectiveK999, KE_999_FIGURE_POINTS } from "../../src/physics/effective-k-worst-month.ts";
+import { fadeDepthExceedancePercent } from "../../src/physics/multipath-fading.ts";
+import { rainAttenuationAtPercent } from "../../src/physics/rain-path-attenuation.ts";
+import { annualFadeExceedancePercent, worstMonthToAnnualDeltaGDb } from "../../src/physics/worst-month-to-annual.ts";
+import { xpdOutageClearAir, xpdOutagePrecipitation } from "../../src/physics/xpd-outage.ts";
+import { expectClose } from "../helpers/expect-close.ts";
+
+// Sources. No copy of ITU-R P.530-16 was at hand while this was written: the formulas of
+// §2.3.6 (dispersive fading), §4 (XPD outage) and §6.2 (diversity) in src/physics were
+// transcribed from memory of the text, and the "second transcription" in each test below is
+// written again, independently, in another arrangement (logs, natural exponentials), also from
+// memory — it guards against slips in the code, not against a misremembered constant. Where a
+// stronger check exists it is used: the XPD rain outage is checked against the rain scaling law
+// it inverts (P.530-16 §2.4.1 eq. (34)); the clear-air XPD outage against the published MATLAB
+// implementation of P.530-18 by I. Stevanovic (OFCOM), github.com/eeveetza/p530, matlab/P530.m,
+// XPD_outage_clear_air (read, re-expressed here); the piecewise diversity correlations against
+// their own continuity at the breakpoints, which the published constants are chosen to give.
+
+const sig: RadioSignature = { width_ghz: 0.024, depth_minimum_phase_db: 22, depth_non_minimum_phase_db: 20, reference_delay_ns: 6.3 };
+
+describe("dispersive (selective) fading, P.530-16 §2.3.6", () => {
+  it.each([
+    { d: 50, tau: 0.7 },
+    { d: 25, tau: 0.7 * Math.exp(1.3 * Math.log(0.5)) },
+    { d: 100, tau: 0.7 * Math.exp(1.3 * Math.log(2)) },
+  ])("mean time delay τm = 0.7·(d/50)^1.3 ns at d = $d km (second transcription)", ({ d, tau }) => {
+    expectClose(meanTimeDelayNs(d), tau, { rel: 1e-12 }, { d });
+  });
+
+  it.each([0.01, 1, 10, 100])("multipath activity η = 1 − e^(−0.2·P0^0.75), P0 = p0/100, at p0 = %s % (second transcription)", (p0) => {
+    expectClose(multipathActivityFactor(p0), -Math.expm1(-0.2 * Math.exp(0.75 * Math.log(p0 / 100))), { rel: 1e-12 }, { p0 });
+  });
+
+  it.each([
+    { d: 40, p0: 5 },
+    { d: 15, p0: 0.05 },
+    { d: 70, p0: 40 },
+  ])("Ps at d = $d km, p0 = $p0 % agrees with a second transcription", ({ d, p0 }) => {
+    const eta = 1 - Math.exp(-0.2 * (p0 / 100) ** 0.75);
+    const tm = 0.7 * (d / 50) ** 1.3;
+    const term = (B: number) => (sig.width_ghz * Math.pow(10, -B / 20) * tm * tm) / sig.reference_delay_ns;
+    const expected = 2.15 * eta * (term(22) + term(20));
+    expectClose(selectiveOutageProbability(sig, d, p0).Ps, expected, { rel: 1e-12 }, { d, p0 });
+  });
+
+  it("outage falls as the signature narrows or deepens (property)", () => {
+    fc.assert(
+      fc.property(fc.double({ min: 0.001, max: 0.1, noNaN: true }), fc.double({ min: 0.1, max: 0.99, noNaN: true }), fc.double({ min: 5, max: 150, noNaN: true }), fc.double({ min: 0.001, max: 100, noNaN: true }), (W, shrink, d, p0) => {
+        const wide = selectiveOutageProbability({ ...sig, width_ghz: W }, d, p0).Ps;
+        const narrow = selectiveOutageProbability({ ...sig, width_ghz: W * shrink }, d, p0).Ps;
+        const deeper = selectiveOutageProbability({ ...sig, width_ghz: W, depth_minimum_phase_db: 30 }, d, p0).Ps;
+        expect(narrow).toBeLessThan(wide);
+        expect(deeper).toBeLessThan(wide);
+      }),
+    );
+  });
+
+  it("a negative width or a zero reference delay gives NaN, never a number", () => {
+    expect(selectiveOutageProbability({ ...sig, width_ghz: -0.01 }, 40, 5).Ps).toBeNaN();
+    expect(selectiveOutageProbability({ ...sig, reference_delay_ns: 0 }, 40, 5).Ps).toBeNaN();
+  });
+});
+
+describe("diversity improvement, P.530-16 §6.2", () => {
+  it.each([
+    { S: 10, f: 6, d: 50, p0: 10, A: 35, V: 0 },
+    { S: 5, f: 8, d: 45, p0: 3, A: 30, V: 3 },
+    { S: 20, f: 4, d: 120, p0: 100, A: 40, V: 1 },
+  ])("space: I_ns at S = $S m, f = $f GHz, d = $d km agrees with a second transcription", ({ S, f, d, p0, A, V }) => {
+    const x = 0.04 * Math.exp(0.87 * Math.log(S) - 0.12 * Math.log(f) + 0.48 * Math.log(d) - 1.04 * Math.log(p0));
+    const expected = -Math.expm1(-x) * Math.exp(((A - V) / 10) * Math.LN10);
+    expectClose(spaceDiversityImprovement(S, f, d, p0, A, V), Math.max(1, expected), { rel: 1e-12 }, { S, f, d, p0, A, V });
+  });
+
+  it("frequency: I = (80/(f·d))·(Δf/f)·10^(F/10): 6 GHz, 2 % spacing, 50 km, 35 dB (second transcription)", () => {
+    expectClose(frequencyDiversityImprovement(6, 0.12, 50, 35), (80 / 300) * 0.02 * 10 ** 3.5, { rel: 1e-12 });
+  });
+
+  it("improvement is at least 1 and rises with spacing (property)", () => {
+    fc.assert(
+      fc.property(fc.double({ min: 1, max: 30, noNaN: true }), fc.double({ min: 0.1, max: 10, noNaN: true }), fc.double({ min: 2, max: 11, noNaN: true }), fc.double({ min: 10, max: 240, noNaN: true }), fc.double({ min: 0.01, max: 1000, noNaN: true }), fc.double({ min: 0, max: 50, noNaN: true }), (S, dS, f, d, p0, A) => {
+        const I1 = spaceDiversityImprovement(S, f, d, p0, A, 0);
+        const I2 = spaceDiversityImprovement(S + dS, f, d, p0, A, 0);
+        expect(I1).toBeGreaterThanOrEqual(1);
+        expect(I2).toBeGreaterThanOrEqual(I1);
+        const F1 = frequencyDiversityImprovement(f, 0.01 * f, d, A);
+        const F2 = frequencyDiversityImprovement(f, 0.01 * f + 0.001 * dS, d, A);
+        expect(F1).toBeGreaterThanOrEqual(1);
+        expect(F2).toBeGreaterThanOrEqual(F1);
+      }),
+    );
+  });
+
+  it("the correlation pieces join at their breakpoints (k_ns² = 0.26, r_w = 0.5, r_w = 0.9628): the published constants are chosen so", () => {
+    const rw = (k2: number, low: boolean) => (low ? 1 - 0.9746 * (1 - k2) ** 2.17 : 1 - 0.6921 * (1 - k2) ** 1.034);
+    expectClose(rw(0.26, true), rw(0.26, false), { abs: 2e-4 }, "r_w at k_ns² = 0.26");
+    const ks = (r: number) => 1 - 0.195 * (1 - r) ** (0.109 - 0.13 * Math.log10(1 - r));
+    expectClose(ks(0.5), 0.8238, { abs: 1e-3 }, "k_s at r_w = 0.5");
+    expectClose(ks(0.9628), 1 - 0.3957 * (1 - 0.9628) ** 0.5136, { abs: 2e-3 }, "k_s at r_w = 0.9628");
+  });
+
+  it("combined flat + dispersive outage with diversity: hand evaluation of Steps 1–8 (second transcription)", () => {
+    const p0 = 20, Pns = 1e-4, Ps = 2e-5, Ins = 50;
+    const eta = 1 - Math.exp(-0.2 * 0.2 ** 0.75);
+    const kns2 = 1 - (Ins * Pns) / eta;
+    const r = kns2 <= 0.26 ? 1 - 0.9746 * (1 - kns2) ** 2.17 : 1 - 0.6921 * (1 - kns2) ** 1.034;
+    const ks = r <= 0.5 ? 0.8238 : r <= 0.9628 ? 1 - 0.195 * (1 - r) ** (0.109 - 0.13 * Math.log10(1 - r)) : 1 - 0.3957 * (1 - r) ** 0.5136;
+    const Pd = ((Ps * Ps) / (eta * (1 - ks * ks))) ** 0.75 + (Pns / Ins) ** 0.75;
+    const out = diversityOutageProbability(Pns, Ps, p0, Ins);
+    expectClose(out.Pd, Pd ** (4 / 3), { rel: 1e-12 }, { p0, Pns, Ps, Ins });
+    expect(out.Pd).toBeLessThan(Pns + Ps);
+  });
+});
+
+describe("cross-polar discrimination outage, P.530-16 §4", () => {
+  const eq = { xpd_g_db: 30, c0_i_db: 15, xpif_db: 0 };
+  it.each([
+    { p0: 5, xpd: 30, xpif: 0 },
+    { p0: 0.5, xpd: 38, xpif: 20 },
+  ])("clear air at p0 = $p0 %, XPD_g = $xpd dB, XPIF = $xpif dB agrees with the P.530-18 MATLAB implementation's steps (one transmit antenna)", ({ p0, xpd, xpif }) => {
+    const P0 = p0 / 100;
+    const xpd0 = xpd <= 35 ? xpd + 5 : 40;
+    const eta = 1 - Math.exp(-0.2 * P0 ** 0.75);
+    const Q = -10 * Math.log10((0.7 * eta) / P0);
+    const M = xpd0 + Q - 15 + xpif;
+    expectClose(xpdOutageClearAir({ xpd_g_db: xpd, c0_i_db: 15, xpif_db: xpif }, p0).Pxp, P0 * 10 ** (-M / 10), { rel: 1e-12 }, { p0, xpd, xpif });
+  });
+
+  it("two transmit antennas: the outage scales with k_XP = 1 − 0.3·exp(−4·10⁻⁶·(s_t/λ)²) against 0.7 for one", () => {
+    const one = xpdOutageClearAir(eq, 5).Pxp;
+    for (const st of [2, 10, 50]) {
+      const two = xpdOutageClearAir(eq, 5, { st_m: st, lambda_m: 0.05 }).Pxp;
+      expectClose(two / one, (1 - 0.3 * Math.exp(-4e-6 * (st / 0.05) ** 2)) / 0.7, { rel: 1e-9 }, { st });
+    }
+  });
+
+  it.each([
+    { f: 11, A001: 20, ci: 15, xpif: 0 },
+    { f: 18, A001: 35, ci: 20, xpif: 10 },
+    { f: 23, A001: 45, ci: 18, xpif: 0 },
+  ])("rain at $f GHz, A0.01 = $A001 dB: the percentage found makes the rain scaling law (C0 = 0 end) give A_p", ({ f, A001, ci, xpif }) => {
+    const { Pxpr, Ap_db } = xpdOutagePrecipitation({ xpd_g_db: 30, c0_i_db: ci, xpif_db: xpif }, A001, f);
+    const p = Pxpr * 100;
+    // P.530-16 §2.4.1 eq. (34) at C0 = 0: A_p = A0.01·0.12·p^−(0.546 + 0.043·log10 p)
+    const law = A001 * 0.12 * p ** -(0.546 + 0.043 * Math.log10(p));
+    if (p > 1e-3 && p < 1) expectClose(law, Ap_db, { rel: 2e-3 }, { f, A001, ci, xpif, p });
+    else expect(p).toBeGreaterThan(0);
+    // the independent V(f) and U of Step 2
+    const V = f <= 20 ? 12.8 * f ** 0.19 : 22.6;
+    expectClose(Ap_db, 10 ** ((15 + 30 * Math.log10(f) - ci + xpif) / V), { rel: 1e-12 }, "A_p");
+  });
+
+  it("rain depolarisation outage is monotone: more rain fade, more outage; a canceller reduces it", () => {
+    fc.assert(
+      fc.property(fc.double({ min: 8, max: 35, noNaN: true }), fc.double({ min: 1, max: 80, noNaN: true }), (f, A) => {
+        const a = xpdOutagePrecipitation(eq, A, f).Pxpr;
+        expect(xpdOutagePrecipitation(eq, A * 1.5, f).Pxpr).toBeGreaterThanOrEqual(a);
+        expect(xpdOutagePrecipitation({ ...eq, xpif_db: 15 }, A, f).Pxpr).toBeLessThanOrEqual(a);
+      }),
+    );
+  });
+});
+
+describe("worst month and average year, P.530-16 §2.3.4", () => {
+  it("regression: the annual multipath outage never exceeds the worst month (a blocked link read 63.2 % worst month but 100 % year)", () => {
+    fc.assert(
+      fc.property(fc.double({ min: 1e-3, max: 1000, noNaN: true }), fc.double({ min: 0, max: 60, noNaN: true }), fc.double({ min: -60, max: 60, noNaN: true }), fc.double({ min: 7.5, max: 185, noNaN: true }), fc.double({ min: 0, max: 37, noNaN: true }), (p0, A, lat, d, eps) => {
+        const dG = worstMonthToAnnualDeltaGDb(lat, d, eps);
+        const { p_pct, pw_pct } = annualFadeExceedancePercent(p0, A, dG);
+        expect(p_pct).toBeLessThanOrEqual(pw_pct);
+        expect(p_pct).toBeGreaterThanOrEqual(0);
+      }),
+    );
+    // at A = 0 both are 100·(1 − 1/e)
+    expectClose(annualFadeExceedancePercent(3, 0, 5).p_pct, 100 * (1 - Math.exp(-1)), { rel: 1e-12 });
+  });
+
+  it("deep fades convert by 10^(−ΔG/10) exactly (eq. (21))", () => {
+    const p0 = 2, A = 40, dG = 6;
+    expectClose(annualFadeExceedancePercent(p0, A, dG).p_pct, fadeDepthExceedancePercent(p0, A).pw_pct * 10 ** -0.6, { rel: 1e-12 });
+  });
+});
+
+describe("adaptive modulation time shares (common practice)", () => {
+  it("shares and outage sum to 100 % and the time at or above a mode falls as thresholds rise (property)", () => {
+    fc.assert(
+      fc.property(fc.array(fc.double({ min: 0, max: 100, noNaN: true }), { minLength: 1, maxLength: 8 }), (qs) => {
+        const sorted = [...qs].sort((a, b) => a - b);
+        const { share_pct, outage_pct, at_least_pct } = modeTimeShares(sorted);
+        expectClose(share_pct.reduce((a, b) => a + b, 0) + outage_pct, 100, { abs: 1e-9 }, { sorted });
+        for (const s of share_pct) expect(s).toBeGreaterThanOrEqual(0);
+        for (let i = 1; i < at_least_pct.length; i++) expect(at_least_pct[i]).toBeLessThanOrEqual(at_least_pct[i - 1]);
+        // raising every threshold raises every q_i: the time at or above each mode falls
+        const raised = modeTimeShares(sorted.map((q) => Math.min(100, q * 1.5 + 0.1)));
+        raised.at_least_pct.forEach((a, i) => expect(a).toBeLessThanOrEqual(at_least_pct[i]));
+      }),
+    );
+  });
+
+  it("the mode at an availability is the highest one available that long", () => {
+    expect(modeAtAvailability([99.999, 99.995, 99.9], 99.99)).toBe(1);
+    expect(modeAtAvailability([99.9], 99.99)).toBe(-1);
+  });
+});
+
+describe("k_e exceeded 99.9 % of the worst month, P.530-16 §2.2.2 Fig. 3 (read from memory)", () => {
+  it("passes through the tabulated points and rises with path length", () => {
+    for (const [d, k] of KE_999_FIGURE_POINTS) expectClose(effectiveK999(d), k, { abs: 1e-12 }, { d });
+    fc.assert(fc.property(fc.double({ min: 1, max: 300, noNaN: true }), fc.double({ min: 0, max: 50, noNaN: true }), (d, dd) => {
+      expect(effectiveK999(d + dd)).toBeGreaterThanOrEqual(effectiveK999(d));
+    }));
+  });
+});
+
+it("rain scaling helper used above is the project's own eq. (34) (sanity: A at 0.01 % ≈ A0.01)", () => {
+  expectClose(rainAttenuationAtPercent(10, 0.01, 5), 10, { rel: 5e-3 });
+});
