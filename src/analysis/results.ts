@@ -1,5 +1,6 @@
 import type { ChainResult } from "./chains.ts";
 import type { CoverageResult } from "./coverage/coverage-result.ts";
+import type { InterferenceResult } from "./interference-result.ts";
 import type { ReflectionResult } from "./link-reflection.ts";
 
 /** Plain-JSON results of a study (no NaN: the boundary turns NaN into errors or null with a warning). */
@@ -90,6 +91,8 @@ export interface StudyResult {
   links: LinkResult[];
   chains: ChainResult[];
   coverage: CoverageResult[];
+  /** Interference between the links (present when the study asks for it). */
+  interference?: InterferenceResult;
   warnings: string[];
   provenance: Provenance;
 }

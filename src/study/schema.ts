@@ -1,5 +1,6 @@
 import { z } from "zod";
 import { patternTableProblem } from "./pattern-table.ts";
+import { antennaPattern, frequencyPlan, interferenceSection, receiverProtection } from "./interference-schema.ts";
 
 /**
  * The study file format (`content/studies/<id>/study.yaml`), defined once: the loader
@@ -47,6 +48,8 @@ const linkEnd = z
     antenna_m: z.number().min(0).max(1000).describe("antenna centre height above ground (m)"),
     gain_dbi: z.number().min(-10).max(70).describe("antenna gain (dBi)"),
     feeder_loss_db: z.number().min(0).max(50).default(0).describe("feeder and branching loss at this end (dB)"),
+    pattern: antennaPattern.optional().describe("radiation pattern envelope for interference: f699 (default), f1245 or {envelope_csv}"),
+    xpd_db: z.number().min(0).max(60).optional().describe("cross-polar discrimination on the boresight (dB), used with the f699 and f1245 patterns; default 30"),
   })
   .strict();
 
@@ -161,6 +164,7 @@ export const studySchema = z
             tx_power_dbm: z.number().min(-30).max(70),
             rx_threshold_dbm: z.number().min(-150).max(0).describe("receiver threshold at the stated bit-error ratio (dBm)"),
             threshold_ber: z.union([z.number(), z.string()]).transform(String).default("1e-6"),
+            interference: receiverProtection.optional(),
           })
           .strict(),
       )
@@ -190,6 +194,7 @@ export const studySchema = z
             polarization: z.enum(["h", "v"]).default("v"),
             profile_csv: z.string().optional().describe("surveyed profile CSV (distance_m,elevation_m[,obstruction_m]) used instead of the terrain"),
             availability_pct: z.number().gt(0).lt(100).optional().describe("overrides design.availability_pct for this link"),
+            frequency_plan: frequencyPlan.optional(),
           })
           .strict(),
       )
@@ -198,6 +203,7 @@ export const studySchema = z
       .array(z.object({ id, name: z.string().optional(), links: z.array(id).min(1) }).strict())
       .default([]),
     coverage: z.array(coverageEntry).default([]).describe("coverage maps around base sites"),
+    interference: interferenceSection.optional(),
   })
   .strict();
 
