@@ -400,7 +400,7 @@ export async function analyzeInterference(study: Study, links: LinkResult[], opt
     const ciMissed = missed.filter((x) => !x.same_site);
     if (ciMissed.length) {
       const worst = ciMissed.reduce((a, b) => ((b.ci_margin_db ?? Infinity) < (a.ci_margin_db ?? Infinity) ? b : a));
-      reasons.push(`C/I at the threshold below the requirement from ${ciMissed.length} interferer${ciMissed.length > 1 ? "s" : ""} (worst: ${worst.transmitter}, ${worst.ci_margin_db!.toFixed(1)} dB short).`);
+      reasons.push(`C/I at the threshold below the requirement from ${ciMissed.length} interferer${ciMissed.length > 1 ? "s" : ""} (worst: ${worst.transmitter}, ${Math.abs(worst.ci_margin_db!).toFixed(1)} dB short).`);
     }
     if (tdLt > allowed) reasons.push(`Long-term threshold degradation ${tdLt.toFixed(2)} dB exceeds the ${allowed} dB allowed.`);
     // a link that does not close without interference fails on its own (its link verdict)
