@@ -1,6 +1,7 @@
 import type { AnalyzedStudy } from "../analysis/analyze-study.ts";
 import { studyCautions, type StudyCautions } from "./cautions.ts";
 import { formatNumber } from "./format.ts";
+import { interferenceReport, type InterferenceReport } from "./interference-report.ts";
 import { DIFFRACTION_LABELS } from "./link-report.ts";
 
 /** A statement of the study's basis: what, the value, and where it comes from. */
@@ -32,6 +33,8 @@ export interface StudyReport {
   methods: MethodRow[];
   chains: ChainRow[];
   cautions: StudyCautions;
+  /** Frequency plan and interference tables; null when the study has no frequency plan. */
+  interference: InterferenceReport | null;
 }
 
 const COMMON_CRITERIA = [
@@ -114,5 +117,6 @@ export function studyReport(s: AnalyzedStudy): StudyReport {
     methods: METHODS,
     chains,
     cautions: studyCautions(s),
+    interference: interferenceReport(s),
   };
 }
