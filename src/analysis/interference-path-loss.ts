@@ -1,25 +1,22 @@
-import { EARTH_RADIUS_M } from "../physics/constants.ts";
-import { deltaBullingtonLoss } from "../physics/delta-bullington.ts";
-import { freeSpaceLossDb } from "../physics/free-space-loss.ts";
-import { dryPressureFromTotalHpa, gasPathAttenuation, gasSpecificAttenuation } from "../physics/gas-attenuation.ts";
-import { groundConstants, type GroundClass } from "../physics/ground-constants.ts";
+import { dryPressureFromTotalHpa } from "../physics/gas-attenuation.ts";
+import { P452_DEFAULTS, P452_VALIDITY, p452Loss } from "../physics/p452.ts";
 import type { Study } from "../study/study.ts";
 
 /** An interference path: a profile from the interfering transmitter to the victim receiver. */
 export interface InterferencePath {
   /** distance from the transmitter of each sample (m), first 0 */
   d_m: Float64Array;
-  /** terrain (and obstruction) height amsl of each sample (m) */
+  /** terrain height amsl of each sample (m); the ends are the sites' ground */
   h_m: Float64Array;
   /** transmitter and receiver antenna centre heights amsl (m) */
   hts_m: number;
   hrs_m: number;
   frequency_ghz: number;
   polarization: "h" | "v";
-  /** antenna gains toward each other (dBi), for methods with a troposcatter term */
+  /** antenna gains toward each other (dBi), for the troposcatter aperture coupling */
   gt_dbi: number;
   gr_dbi: number;
-  /** ends (deg), for methods that read the radio climate */
+  /** ends (deg), for the path-centre latitude of the radio climate */
   tx_lat_deg: number;
   tx_lon_deg: number;
   rx_lat_deg: number;
@@ -35,37 +32,45 @@ export interface InterferencePathLossModel {
   loss(path: InterferencePath, p_pct: number): number;
 }
 
+/** Time percentages the interference analysis accepts: the range of ITU-R P.452-18. */
+export const INTERFERENCE_TIME_PCT = P452_VALIDITY.time_pct;
+
 /**
- * The interference path loss of a study: for now free space (P.525-4) + delta-Bullington
- * diffraction (P.526-15 §4.5) at k = 4/3 for the long term and at k = 3 for percentages
- * below 1 % (a stand-in for enhanced propagation), + gases (P.676-12 over the path length).
- * This is the interim model until ITU-R P.452-18 is available in src/physics: it has no
- * ducting or troposcatter and so underestimates short-term interference on long paths.
+ * The interference path loss of a study: ITU-R P.452-18 clear-air basic transmission loss
+ * (src/physics/p452.ts: line of sight with focusing and multipath, delta-Bullington
+ * diffraction with the time interpolation, troposcatter, ducting/layer reflection, the
+ * blend) over the path's terrain profile, all points of the inland zone, ΔN and N0 at the
+ * Recommendation's defaults (45 N-units/km, 325 N-units: the study holds no radio-climate
+ * maps), dry-air pressure and temperature from the study's climate. The antenna gains for
+ * the troposcatter term are those toward the other station.
  */
 export function interferencePathLossModel(study: Study): InterferencePathLossModel {
   const c = study.climate;
-  const T_k = c.temperature_c + 273.15;
-  const pDry = dryPressureFromTotalHpa(c.pressure_hpa, T_k, c.water_vapour_g_m3);
-  const gammaCache = new Map<number, number>();
-  const gamma = (f: number) => {
-    let g = gammaCache.get(f);
-    if (g === undefined) {
-      g = gasSpecificAttenuation({ frequency_ghz: f, pressure_dry_hpa: pDry, temperature_k: T_k, water_vapour_density_g_m3: c.water_vapour_g_m3 }).gamma_db_km;
-      gammaCache.set(f, g);
-    }
-    return g;
-  };
-  const omega = c.ground === "sea_water" || c.ground === "fresh_water" ? 1 : 0;
+  const pressure_hpa = dryPressureFromTotalHpa(c.pressure_hpa, c.temperature_c + 273.15, c.water_vapour_g_m3);
   return {
-    method: "Interim: free space (ITU-R P.525-4) + delta-Bullington diffraction (ITU-R P.526-15 §4.5; k = 4/3, k = 3 below 1 % of time) + gases (ITU-R P.676-12)",
+    method: `ITU-R P.452-18 clear-air basic transmission loss (ΔN = ${P452_DEFAULTS.dn} N-units/km, N0 = ${P452_DEFAULTS.n0} N-units, every profile point inland, no clutter)`,
     time_dependent: true,
     loss(path, p_pct) {
-      const D = path.d_m[path.d_m.length - 1];
-      const f = path.frequency_ghz;
-      const k = p_pct < 1 ? 3 : 4 / 3;
-      const ground = groundConstants(c.ground.replace(/_/g, "-") as GroundClass, f);
-      const Ld = deltaBullingtonLoss({ d_m: path.d_m, h_m: path.h_m, hts_m: path.hts_m, hrs_m: path.hrs_m, frequency_ghz: f, ae_m: k * EARTH_RADIUS_M }, { polarization: path.polarization, epsilon_r: ground.epsilon_r, sigma_s_m: ground.sigma_s_m, omega }).Ld;
-      return freeSpaceLossDb(Math.hypot(D, path.hts_m - path.hrs_m), f) + Ld + gasPathAttenuation(gamma(f), D);
+      const n = path.d_m.length;
+      const d_km = new Float64Array(n);
+      for (let i = 0; i < n; i++) d_km[i] = path.d_m[i] / 1000;
+      return p452Loss({
+        frequency_ghz: path.frequency_ghz,
+        time_pct: p_pct,
+        d_km,
+        h_m: path.h_m,
+        htg_m: path.hts_m - path.h_m[0],
+        hrg_m: path.hrs_m - path.h_m[n - 1],
+        polarization: path.polarization,
+        tx_gain_dbi: path.gt_dbi,
+        rx_gain_dbi: path.gr_dbi,
+        tx_lat_deg: path.tx_lat_deg,
+        tx_lon_deg: path.tx_lon_deg,
+        rx_lat_deg: path.rx_lat_deg,
+        rx_lon_deg: path.rx_lon_deg,
+        pressure_hpa,
+        temperature_c: c.temperature_c,
+      }).Lb;
     },
   };
 }

@@ -69,8 +69,8 @@ const externalTransmitter = z
 /** The study-level interference section: asking for the analysis and its time percentages. */
 export const interferenceSection = z
   .object({
-    long_term_pct: z.number().gt(0).lt(100).default(20).describe("time percentage of the long-term interference level (%); 20 % is common practice"),
-    short_term_pct: z.number().gt(0).lt(100).optional().describe("time percentage of the short-term level (%); default: each receiving link's outage budget, 100 − its availability target"),
+    long_term_pct: z.number().min(0.001).max(50).default(20).describe("time percentage of the long-term interference level (%), within ITU-R P.452-18's 0.001–50 %; 20 % is common practice"),
+    short_term_pct: z.number().min(0.001).max(50).optional().describe("time percentage of the short-term level (%), 0.001–50; default: each receiving link's outage budget, 100 − its availability target (at least 0.001 %)"),
     external: z.array(externalTransmitter).default([]).describe("transmitters outside the study's links"),
   })
   .strict()
