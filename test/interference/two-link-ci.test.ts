@@ -7,6 +7,7 @@ import { analyzeStudy } from "../../src/analysis/analyze-study.ts";
 import { loadStudy } from "../../src/study/load-study.ts";
 import { expectClose } from "../helpers/expect-close.ts";
 import { writeStudy } from "../helpers/tiny-study.ts";
+import { F_GHZ, G, LF, P, SITES, twoLinkYaml } from "./two-link-study.ts";
 
 // A hand-built two-link geometry on flat ground (constant terrain, 100 m masts: every path
 // clears the Earth by far, no diffraction), co-channel and co-polar at 6 GHz. The C/I at the
@@ -17,53 +18,6 @@ import { writeStudy } from "../helpers/tiny-study.ts";
 // which this independent free-space calculation leaves out on purpose.
 
 const { Geodesic } = geographiclib as unknown as typeof import("geographiclib-geodesic");
-
-const SITES = {
-  A1: [-33.4, -70.7],
-  A2: [-33.4, -70.59],
-  B1: [-33.43, -70.82],
-  B2: [-33.37, -70.52],
-} as const;
-const G = 38; // dBi, every antenna
-const P = 25; // dBm
-const LF = 0.5; // dB feeder
-const H = 100; // m above ground, ground 0 m
-const F_GHZ = 2.2;
-
-const yaml = `title: Two-link interference geometry
-client: Test
-prepared_by: Test
-revision: A
-date: 2026-01-15
-terrain:
-  constant_m: 0
-climate:
-  pressure_hpa: 300
-  water_vapour_g_m3: 0
-radios:
-  - id: r1
-    frequency_ghz: ${F_GHZ}
-    tx_power_dbm: ${P}
-    rx_threshold_dbm: -75
-    interference: { co_channel_ci_db: 30, noise_figure_db: 5 }
-sites:
-${Object.entries(SITES)
-  .map(([id, [lat, lon]]) => `  - { id: ${id}, name: Site ${id}, lat_deg: ${lat}, lon_deg: ${lon} }`)
-  .join("\n")}
-links:
-  - id: a
-    from: { site: A1, antenna_m: ${H}, gain_dbi: ${G}, feeder_loss_db: ${LF}, pattern: f699 }
-    to: { site: A2, antenna_m: ${H}, gain_dbi: ${G}, feeder_loss_db: ${LF} }
-    radio: r1
-    frequency_plan: { go_mhz: 2200, return_mhz: 2300, bandwidth_mhz: 28 }
-  - id: b
-    from: { site: B1, antenna_m: ${H}, gain_dbi: ${G}, feeder_loss_db: ${LF} }
-    to: { site: B2, antenna_m: ${H}, gain_dbi: ${G}, feeder_loss_db: ${LF} }
-    radio: r1
-    frequency_plan: { go_mhz: 2200, return_mhz: 2300, bandwidth_mhz: 28 }
-interference:
-  long_term_pct: 50
-`;
 
 /** F.699-8 recommends 2.2 (D/λ ≤ 100: 38 dBi is D/λ = 32.7 at any frequency), written out again for this test. */
 function f699(phi: number): number {
@@ -92,7 +46,7 @@ afterAll(() => rmSync(root, { recursive: true, force: true }));
 
 describe("C/I of a hand-built two-link geometry against an independent free-space + F.699-8 calculation", () => {
   it("agrees within 0.1 dB at receiver a go (A2), with b go (B1) as the interferer", async () => {
-    const study = loadStudy(writeStudy(root, "two-link", yaml));
+    const study = loadStudy(writeStudy(root, "two-link", twoLinkYaml()));
     const { result } = await analyzeStudy(study);
     const entry = result.interference!.entries.find((e) => e.receiver === "a go" && e.transmitter === "b go")!;
     expect(entry).toBeDefined();
