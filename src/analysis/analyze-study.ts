@@ -270,6 +270,7 @@ export async function analyzeStudy(study: Study, options: AnalyzeOptions = {}): 
     const { analyzeInterference, interferenceInputFiles } = await import("./interference.ts");
     for (const f of interferenceInputFiles(study)) inputs.update(fileDigest(f, cache));
     interference = await analyzeInterference(study, links, { sites: siteResults, openTerrain: open, cache, terrainKey });
+    warnings.push(...interference.warnings);
   }
   const result: StudyResult = {
     id: study.id,

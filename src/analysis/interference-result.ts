@@ -91,4 +91,6 @@ export interface InterferenceResult {
   receivers_total: number;
   receivers_met: number;
   met: boolean;
+  /** methods' ranges exceeded and the like (also among the study's warnings) */
+  warnings: string[];
 }

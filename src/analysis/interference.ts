@@ -15,6 +15,8 @@ import type { Study } from "../study/study.ts";
 import type { Terrain } from "../terrain/terrain.ts";
 import { antennaEnvelope, couplingGainDb, type AntennaEnvelope } from "./interference-antenna.ts";
 import { interferencePathLossModel, type InterferencePath, type InterferencePathLossModel } from "./interference-path-loss.ts";
+import { F1245_VALIDITY, F699_VALIDITY } from "../physics/fixed-antenna-patterns.ts";
+import { P452_VALIDITY } from "../physics/p452.ts";
 import type { InterferenceEntry, InterferenceReceiver, InterferenceResult } from "./interference-result.ts";
 import type { LinkResult, SiteResult } from "./results.ts";
 
@@ -206,6 +208,31 @@ export async function analyzeInterference(study: Study, links: LinkResult[], opt
       polarization: x.polarization,
       power_dbm: x.tx_power_dbm,
     });
+  }
+
+  // --- Ranges of the methods: said once per frequency, never silent ---
+  const warnings: string[] = [];
+  const warn = (w: string) => {
+    if (!warnings.includes(w)) warnings.push(w);
+  };
+  for (const t of transmitters) {
+    const f = t.frequency_mhz / 1000;
+    if (f < P452_VALIDITY.frequency_ghz[0] || f > P452_VALIDITY.frequency_ghz[1]) warn(`Interference from ${t.id} at ${t.frequency_mhz} MHz: outside ITU-R P.452-18's ${P452_VALIDITY.frequency_ghz[0]}–${P452_VALIDITY.frequency_ghz[1]} GHz, its path losses cannot be computed; the receivers it reaches are shown as not meeting their limits.`);
+  }
+  for (const link of study.links) {
+    const fp = link.frequency_plan;
+    if (!fp) continue;
+    for (const end of ["from", "to"] as const) {
+      const pat = link[end].pattern ?? "f699";
+      if (typeof pat !== "string") continue;
+      const v = pat === "f699" ? F699_VALIDITY : F1245_VALIDITY;
+      for (const f of [fp.go_mhz / 1000, fp.return_mhz / 1000]) {
+        if (f < v.frequency_ghz[0] || f > v.frequency_ghz[1]) warn(`Link ${link.id}, ${end} antenna: ${v.method} covers ${v.frequency_ghz[0]}–${v.frequency_ghz[1]} GHz, not ${f} GHz; its discrimination cannot be computed. Give a tabulated envelope (envelope_csv).`);
+      }
+    }
+  }
+  if (section.short_term_pct === undefined && receivers.some((r) => r.short_term_pct === 1e-3)) {
+    warn("A receiving link's outage budget is below 0.001 % of time, the least ITU-R P.452-18 covers: its short-term interference is taken at 0.001 %.");
   }
 
   // --- Geometry between sites, once per pair ---
@@ -448,5 +475,6 @@ export async function analyzeInterference(study: Study, links: LinkResult[], opt
     receivers_total: receiverResults.length,
     receivers_met,
     met: receivers_met === receiverResults.length,
+    warnings,
   };
 }

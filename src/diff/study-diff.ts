@@ -2,7 +2,7 @@
 import type { InterferenceChange } from "./compare-interference.ts";
 
 /** Kinds of input change, by the part of the study they touch. */
-export type InputChangeKind = "study" | "meta" | "terrain" | "design" | "target" | "climate" | "radio" | "site" | "site-moved" | "link" | "antenna" | "profile" | "chain" | "coverage";
+export type InputChangeKind = "study" | "meta" | "terrain" | "design" | "target" | "climate" | "radio" | "site" | "site-moved" | "link" | "antenna" | "profile" | "chain" | "coverage" | "interference";
 
 export type DiffValue = string | number | boolean | null;
 

@@ -1,5 +1,5 @@
 import { execFileSync } from "node:child_process";
-import { mkdirSync, mkdtempSync, rmSync, writeFileSync } from "node:fs";
+import { mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
@@ -65,5 +65,6 @@ describe("check and diff with interference", () => {
     expect(ch).toMatchObject({ status: "changed", met_before: false, met_after: true, threshold_degradation_after_db: 0 });
     expect(d.studies[0].inputs.some((i) => i.subject === "link b" && i.field === "frequency_plan")).toBe(true);
     expect(diffText.stdout).toMatch(/interference\n\s+a go\s+interference MISSED → met/);
+    expect(readFileSync(join(tmp, "site", "changes", "index.html"), "utf8")).toMatch(/<h3>Interference<\/h3>[\s\S]*<strong>a go<\/strong>: interference MISSED → met/);
   });
 });
