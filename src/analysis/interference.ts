@@ -192,12 +192,13 @@ export async function analyzeInterference(study: Study, links: LinkResult[], opt
     const site = siteById.get(x.site)!;
     const amsl = site.ground_m + x.antenna_m;
     let az = x.azimuth_deg ?? 0;
-    let el = x.elevation_deg;
+    let el = x.elevation_deg ?? 0;
     if (x.toward_site) {
+      // toward the other site at the same height above its ground, unless told otherwise
       const t = siteById.get(x.toward_site)!;
       const g = geodesicPath(site.lat_deg, site.lon_deg, t.lat_deg, t.lon_deg, Infinity);
-      az = g.azimuth_from_deg;
-      if (x.azimuth_deg === undefined) el = elevationDeg(amsl, t.ground_m, g.distance_m, AE_POINTING_M);
+      if (x.azimuth_deg === undefined) az = g.azimuth_from_deg;
+      if (x.elevation_deg === undefined) el = elevationDeg(amsl, t.ground_m + x.antenna_m, g.distance_m, AE_POINTING_M);
     }
     transmitters.push({
       id: `external ${x.id}`,

@@ -57,7 +57,7 @@ const externalTransmitter = z
     xpd_db: z.number().min(0).max(60).default(30).describe("cross-polar discrimination on the boresight (dB), for reference patterns"),
     toward_site: z.string().optional().describe("id of the site the antenna points at"),
     azimuth_deg: z.number().min(0).lt(360).optional().describe("boresight azimuth (deg), when it points at no site"),
-    elevation_deg: z.number().min(-90).max(90).default(0).describe("boresight elevation (deg), when it points at no site"),
+    elevation_deg: z.number().min(-90).max(90).optional().describe("boresight elevation (deg); default: toward toward_site at the same height above its ground, else 0 (level)"),
     frequency_mhz: z.number().positive().max(1e6),
     bandwidth_mhz: z.number().positive().max(10_000),
     polarization,

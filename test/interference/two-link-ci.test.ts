@@ -7,7 +7,7 @@ import { analyzeStudy } from "../../src/analysis/analyze-study.ts";
 import { loadStudy } from "../../src/study/load-study.ts";
 import { expectClose } from "../helpers/expect-close.ts";
 import { writeStudy } from "../helpers/tiny-study.ts";
-import { F_GHZ, G, LF, P, SITES, twoLinkYaml } from "./two-link-study.ts";
+import { F_GHZ, G, H, LF, P, SITES, twoLinkYaml } from "./two-link-study.ts";
 
 // A hand-built two-link geometry on flat ground (constant terrain, 100 m masts: every path
 // clears the Earth by far, no diffraction), co-channel and co-polar at 6 GHz. The C/I at the
@@ -66,5 +66,20 @@ describe("C/I of a hand-built two-link geometry against an independent free-spac
     const I = P - LF + f699(thetaTx) - fsl(toInterferer.d) + f699(thetaRx) - LF;
     expectClose(entry.ci_median_db!, C - I, { abs: 0.1 }, { C, I, thetaTx, thetaRx });
     expectClose(entry.ci_at_threshold_db!, -75 - I, { abs: 0.1 }, "C/I with the carrier at the threshold");
+  });
+});
+
+describe("an external transmitter", () => {
+  it("enters as an interferer; pointed at the victim it couples through its main beam (same path as link b's, less its discrimination)", async () => {
+    const yaml = twoLinkYaml().replace(
+      "interference:\n  long_term_pct: 50\n",
+      `interference:\n  long_term_pct: 50\n  external:\n    - { id: x1, site: B1, antenna_m: ${H}, gain_dbi: ${G}, toward_site: A2, frequency_mhz: 2200, bandwidth_mhz: 28, polarization: v, tx_power_dbm: ${P}, feeder_loss_db: ${LF} }\n`,
+    );
+    const { result } = await analyzeStudy(loadStudy(writeStudy(root, "external", yaml)));
+    const ext = result.interference!.entries.find((e) => e.receiver === "a go" && e.transmitter === "external x1")!;
+    const b = result.interference!.entries.find((e) => e.receiver === "a go" && e.transmitter === "b go")!;
+    expect(ext.transmitter_link).toBeNull();
+    expect(ext.tx_off_axis_deg!).toBeLessThan(1e-6); // pointed at A2 at its own height above ground: A2's mast is 100 m too
+    expectClose(ext.interference_long_term_dbm! - b.interference_long_term_dbm!, b.tx_discrimination_db! - ext.tx_discrimination_db!, { abs: 0.01 }, "same path, same receiver: only the transmit discrimination differs");
   });
 });
