@@ -62,6 +62,13 @@ export const METHODS: MethodRow[] = [
   { quantity: "Availability", method: "Unavailability of multipath and rain added per link, and per hop in a chain (common practice)" },
 ];
 
+/** Methods of the interference analysis, listed when the study asks for it. */
+export const INTERFERENCE_METHODS: MethodRow[] = [
+  { quantity: "Interference paths", method: "ITU-R P.452-18 clear-air basic transmission loss at the long-term and short-term time percentages" },
+  { quantity: "Antenna discrimination", method: "ITU-R F.699-8 reference envelope or ITU-R F.1245-3 average pattern from gain and frequency, or a tabulated envelope; off-axis angles from WGS84 geodesics and k = 4/3 elevations" },
+  { quantity: "Threshold degradation", method: "10·log10(1 + I/N), noise kT0·B·NF, interference summed in power after the receiver's net filter discrimination (common practice)" },
+];
+
 /** Build the study page's statements, summaries and cautions from an analysed study. */
 export function studyReport(s: AnalyzedStudy): StudyReport {
   const r = s.result;
@@ -114,7 +121,7 @@ export function studyReport(s: AnalyzedStudy): StudyReport {
     links_total: r.links.length,
     links_met: r.links.filter((l) => l.target_met).length,
     assumptions,
-    methods: METHODS,
+    methods: s.result.interference ? [...METHODS, ...INTERFERENCE_METHODS] : METHODS,
     chains,
     cautions: studyCautions(s),
     interference: interferenceReport(s),
