@@ -61,7 +61,9 @@ export const P1812_DEFAULTS = { dn: 45, n0: 325, dct_km: 500, dcr_km: 500, locat
 /**
  * Clutter categories of P.1812-6 Table 2 with their default representative clutter heights
  * (m) — water/sea 0, open/rural 0, suburban 10, urban/trees/forest 15, dense urban 20.
- * Codes 1–5 as in the Recommendation's validation profiles.
+ * Codes 1–5 as in the Recommendation's validation profiles. The heights are Table 2's as
+ * remembered (not re-read for this edition); the published validation profiles use 10 m and
+ * 15 m for suburban and urban points, consistent with them.
  */
 export const P1812_CLUTTER = {
   water: { code: 1, height_m: 0 },

@@ -20,6 +20,8 @@
  *     `diffractionLossForTime`), ducting (`ductingLayerReflectionLoss`) and blend
  *     (`clearAirBlend`) are the ones P.1812-6 uses (src/physics/p1812.ts); only the line of
  *     sight with gaseous absorption, the troposcatter with aperture coupling and Fj differ.
+ * Equation numbers: those of P.452-18 Annex 1 as ITU-R WP 3M's reference implementation
+ * labels them (the -17 numbering for the unchanged steps); not re-read against the -18 text.
  * Clutter in this edition: representative clutter heights along the profile are added to the
  * terrain for the diffraction calculation at every point but the terminals (the distributed
  * clutter model of -18, which replaced the terminal clutter-loss model of -17).

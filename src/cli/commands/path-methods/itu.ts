@@ -1,5 +1,6 @@
 import { readFileSync } from "node:fs";
 import type { LinkProfile } from "../../../analysis/link-profile.ts";
+import { rangeWarning } from "../../../analysis/range-warning.ts";
 import { ZONE_COASTAL, ZONE_INLAND, ZONE_SEA } from "../../../physics/itu-path-geometry.ts";
 import { P1812_CLUTTER, P1812_DEFAULTS, P1812_VALIDITY, p1812LocationSigmaDb, p1812Loss } from "../../../physics/p1812.ts";
 import { P452_DEFAULTS, P452_VALIDITY, p452Loss } from "../../../physics/p452.ts";
@@ -136,7 +137,7 @@ function runP1812(ctx: PathMethodContext, f: number, p: number, pL: number | und
     htg_m: ctx.from_antenna_m, hrg_m: ctx.to_antenna_m, polarization: ctx.polarization,
     tx_lat_deg: ctx.from[0], tx_lon_deg: ctx.from[1], rx_lat_deg: ctx.to[0], rx_lon_deg: ctx.to[1], dn, n0,
   });
-  const warnings = validityWarnings("p1812", f, r.geometry.d_km, ctx, r.phi_path_deg);
+  const warnings = validityWarnings("p1812", r.geometry.d_km, ctx, r.phi_path_deg);
   const g = r.geometry;
   return {
     fields: {
@@ -189,7 +190,7 @@ function runP452(ctx: PathMethodContext, f: number, p: number, dn: number | unde
     tx_lat_deg: ctx.from[0], tx_lon_deg: ctx.from[1], rx_lat_deg: ctx.to[0], rx_lon_deg: ctx.to[1],
     dn, n0, dct_km: coast?.[0], dcr_km: coast?.[1], pressure_hpa: pressure, temperature_c: temperature,
   });
-  const warnings = validityWarnings("p452", f, r.geometry.d_km, ctx, r.phi_path_deg);
+  const warnings = validityWarnings("p452", r.geometry.d_km, ctx, r.phi_path_deg);
   const g = r.geometry;
   return {
     fields: {
@@ -223,17 +224,16 @@ function runP452(ctx: PathMethodContext, f: number, p: number, dn: number | unde
   };
 }
 
-function validityWarnings(method: ItuPathMethod, _f: number, d_km: number, ctx: PathMethodContext, phi: number): string[] {
-  const out: string[] = [];
+function validityWarnings(method: ItuPathMethod, d_km: number, ctx: PathMethodContext, phi: number): string[] {
+  const out: (string | null)[] = [];
   if (method === "p1812") {
     const V = P1812_VALIDITY;
-    if (d_km < V.path_length_km[0] || d_km > V.path_length_km[1]) out.push(`${V.recommendation}: path length ${d_km.toFixed(3)} km is outside ${V.path_length_km[0]}–${V.path_length_km[1]} km, where the method is specified.`);
-    for (const [end, h] of [["from", ctx.from_antenna_m], ["to", ctx.to_antenna_m]] as const) {
-      if (h < V.antenna_height_m[0] || h > V.antenna_height_m[1]) out.push(`${V.recommendation}: the ${end} antenna height ${h} m is outside ${V.antenna_height_m[0]}–${V.antenna_height_m[1]} m above ground.`);
-    }
-    if (Math.abs(phi) > V.latitude_deg[1]) out.push(`${V.recommendation}: the path centre at ${phi.toFixed(2)}° is beyond ±80° latitude.`);
-  } else if (d_km > P452_VALIDITY.path_length_km[1]) {
-    out.push(`${P452_VALIDITY.recommendation}: path length ${d_km.toFixed(1)} km is beyond ${P452_VALIDITY.path_length_km[1]} km.`);
+    out.push(rangeWarning(V.recommendation, "path length", d_km, V.path_length_km, "km"));
+    out.push(rangeWarning(V.recommendation, "from antenna height", ctx.from_antenna_m, V.antenna_height_m, "m"));
+    out.push(rangeWarning(V.recommendation, "to antenna height", ctx.to_antenna_m, V.antenna_height_m, "m"));
+    out.push(rangeWarning(V.recommendation, "path-centre latitude", phi, V.latitude_deg, "°"));
+  } else {
+    out.push(rangeWarning(P452_VALIDITY.recommendation, "path length", d_km, P452_VALIDITY.path_length_km, "km"));
   }
-  return out;
+  return out.filter((w): w is string => w !== null);
 }
