@@ -278,7 +278,8 @@ export async function analyzeInterference(study: Study, links: LinkResult[], opt
       const nfd = filterDiscriminationDb(rx.protection, tx.frequency_mhz - rx.frequency_mhz, tx.bandwidth_mhz, rx.bandwidth_mhz);
       if (nfd === null) continue;
       inRange++;
-      const sameSite = tx.station.site === rx.station.site;
+      // one site, or two sites at one place (a path of under 1 m has no far-field loss)
+      const sameSite = tx.station.site === rx.station.site || geometry(tx.station, rx.station).d < 1;
       if (sameSite) {
         pending.push({ rx, tx, nfd, sameSite, d: 0, offTx: null, offRx: null, txAtt: null, rxAtt: null, coupling: NaN, key: "", path: null });
         continue;
