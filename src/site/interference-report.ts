@@ -24,6 +24,8 @@ export interface InterferenceReport {
   more: number;
   /** Antenna patterns used, for the basis of the study. */
   patterns: string[];
+  /** Interference paths drawn on the overview map. */
+  map_paths: number;
 }
 
 /** A link's part of the interference result: its two receivers and the entries into each. */
@@ -31,10 +33,21 @@ export interface LinkInterference {
   receivers: (InterferenceReceiver & { entries_list: InterferenceEntry[] })[];
 }
 
-/** Interferers shown on the overview map and in the short list: failing, or within 10 dB of the noise floor. */
-export function significantEntries(r: InterferenceResult): InterferenceEntry[] {
+/** How many of the strongest computed interference paths the overview map draws (besides every failing one). */
+export const MAP_STRONGEST_PATHS = 40;
+
+/**
+ * Interferers drawn on the overview map: every one over its receiver's limit, and the
+ * strongest others by interference-to-noise ratio after the receiver's filter (up to
+ * MAP_STRONGEST_PATHS). Same-site entries have no path and are left out.
+ */
+export function mapEntries(r: InterferenceResult): InterferenceEntry[] {
   const noise = new Map(r.receivers.map((x) => [x.id, x.noise_dbm]));
-  return r.entries.filter((e) => !e.met || (e.interference_long_term_dbm !== null && e.interference_long_term_dbm - e.filter_discrimination_db > (noise.get(e.receiver) ?? Infinity) - 10));
+  const withPath = r.entries.filter((e) => !e.same_site && e.interference_long_term_dbm !== null);
+  const iOverN = (e: InterferenceEntry) => e.interference_long_term_dbm! - e.filter_discrimination_db - (noise.get(e.receiver) ?? 0);
+  const failing = withPath.filter((e) => !e.met);
+  const strongest = withPath.filter((e) => e.met).sort((a, b) => iOverN(b) - iOverN(a)).slice(0, MAP_STRONGEST_PATHS);
+  return [...failing, ...strongest];
 }
 
 /** The frequency plan and interference tables of a study (null when it has no frequency plan). */
@@ -55,7 +68,7 @@ export function interferenceReport(s: AnalyzedStudy): InterferenceReport | null 
   const rest = result ? result.entries.filter((e) => e.met).slice(0, 20) : [];
   const labelOf = (p: unknown) => (p === undefined || p === "f699" ? "ITU-R F.699-8 reference envelope" : p === "f1245" ? "ITU-R F.1245-3 average pattern" : `tabulated envelope ${(p as { envelope_csv: string }).envelope_csv}`);
   const patterns = [...new Set(s.study.links.flatMap((l) => [labelOf(l.from.pattern), labelOf(l.to.pattern)]))].sort();
-  return { plan, result, worst: [...failing, ...rest], more: result ? result.entries.length - failing.length - rest.length : 0, patterns };
+  return { plan, result, worst: [...failing, ...rest], more: result ? result.entries.length - failing.length - rest.length : 0, patterns, map_paths: result ? mapEntries(result).length : 0 };
 }
 
 /** The receivers of one link with the entries into each (worst first), or null without interference results. */

@@ -81,7 +81,24 @@ export function overviewMapSvg(p: OverviewMapInput): string {
   const legendRows = legendEntries(p);
   const legendW = Math.max(...legendRows.map((r) => textWidthPx(r[1], 11))) + 44;
   const legendH = legendRows.length * 17 + 12;
-  const legendBox: Box = { x: W - legendW - 12, y: H - legendH - 12, w: legendW, h: legendH };
+  // Bottom right, unless a site marker or its label would lie under it: then the first other
+  // free place (top left, above the scale bar, middle left, middle right, below the north
+  // arrow), else the place covering the fewest sites.
+  const sitesUnder = (b: Box) =>
+    p.sites.filter((site) => {
+      const [x, y] = proj(site);
+      return x > b.x - 24 && x < b.x + b.w + 24 && y > b.y - 24 && y < b.y + b.h + 24;
+    }).length;
+  const places: Box[] = [
+    { x: W - legendW - 12, y: H - legendH - 12, w: legendW, h: legendH },
+    { x: 12, y: 12, w: legendW, h: legendH },
+    { x: 12, y: H - legendH - 56, w: legendW, h: legendH },
+    { x: 12, y: (H - legendH) / 2, w: legendW, h: legendH },
+    { x: W - legendW - 12, y: (H - legendH) / 2, w: legendW, h: legendH },
+    { x: W - legendW - 12, y: 80, w: legendW, h: legendH },
+  ];
+  const counts = places.map(sitesUnder);
+  const legendBox: Box = places[counts.indexOf(Math.min(...counts))];
   const scaleBox: Box = { x: 8, y: H - 48, w: 200, h: 40 };
   out.push(`<g clip-path="url(#${p.id}-clip)">`, graticule(projection, W, H, [legendBox, scaleBox]), "</g>");
 
