@@ -14,7 +14,7 @@ export function benchTerrainM(lat: number, lon: number): number {
  * Write `<dir>/study.yaml` with `links` links (5–35 km, 6–23 GHz) between 60 sites, and the
  * DEM tiles N46E007.hgt and N46E008.hgt in `<dir>/dem/`.
  */
-export function makeBenchStudy(dir: string, links = 200): string {
+export function makeBenchStudy(dir: string, links = 200, options: { interference?: boolean } = {}): string {
   mkdirSync(join(dir, "dem"), { recursive: true });
   writeHgtTile(join(dir, "dem", "N46E007.hgt"), 46, 7, 1, benchTerrainM);
   writeHgtTile(join(dir, "dem", "N46E008.hgt"), 46, 8, 1, benchTerrainM);
@@ -34,7 +34,7 @@ export function makeBenchStudy(dir: string, links = 200): string {
     out.push(`  - id: l${String(out.length).padStart(3, "0")}
     from: { site: ${a.id}, antenna_m: ${20 + Math.floor(rnd() * 30)}, gain_dbi: 38, feeder_loss_db: 0.5 }
     to: { site: ${b.id}, antenna_m: ${20 + Math.floor(rnd() * 30)}, gain_dbi: 38, feeder_loss_db: 0.5 }
-    radio: r${freqs.indexOf(f)}`);
+    radio: r${freqs.indexOf(f)}${options.interference ? `\n    polarization: ${rnd() < 0.5 ? "h" : "v"}\n    frequency_plan: ${benchChannel(f, out.length, sites.indexOf(a) < sites.indexOf(b))}` : ""}`);
   }
   const yaml = `title: Benchmark study (${links} links, generated)
 client: Benchmark
@@ -47,12 +47,23 @@ climate:
   rain_rate_mm_h: 42
   sa_m: 60
 radios:
-${freqs.map((f, i) => `  - { id: r${i}, frequency_ghz: ${f}, tx_power_dbm: 20, rx_threshold_dbm: -72 }`).join("\n")}
+${freqs.map((f, i) => `  - { id: r${i}, frequency_ghz: ${f}, tx_power_dbm: 20, rx_threshold_dbm: -72${options.interference ? ", interference: { co_channel_ci_db: 30, adjacent_ci_db: [{ offset_mhz: 28, ci_db: -3 }, { offset_mhz: 56, ci_db: -30 }], noise_figure_db: 6 }" : ""} }`).join("\n")}
 sites:
 ${sites.map((s) => `  - { id: ${s.id}, name: Site ${s.id}, lat_deg: ${s.lat.toFixed(5)}, lon_deg: ${s.lon.toFixed(5)} }`).join("\n")}
 links:
 ${out.join("\n")}
-`;
+${options.interference ? "interference:\n  long_term_pct: 20\n" : ""}`;
   writeFileSync(join(dir, "study.yaml"), yaml);
   return join(dir, "study.yaml");
+}
+
+/**
+ * A link's channel for the interference benchmark: one of 8 channel pairs of 28 MHz in the
+ * link's band (pairs 28 MHz apart, go and return 300 MHz apart), the lower half sent from the
+ * end with the lower site index.
+ */
+function benchChannel(f_ghz: number, index: number, lowFirst: boolean): string {
+  const lo = f_ghz * 1000 + 28 * ((index * 5) % 8);
+  const hi = lo + 300;
+  return `{ go_mhz: ${lowFirst ? lo : hi}, return_mhz: ${lowFirst ? hi : lo}, bandwidth_mhz: 28 }`;
 }

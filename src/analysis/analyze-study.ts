@@ -263,6 +263,15 @@ export async function analyzeStudy(study: Study, options: AnalyzeOptions = {}): 
   for (const l of study.links) if (csvSha.has(l.id)) inputs.update(csvSha.get(l.id) ?? "unreadable");
   if (facts.synthetic) warnings.unshift(`Terrain is synthetic (${facts.description}): figures show invented ground, not a real place.`);
   const ground_m = facts.ground_m;
+  const siteResults = study.sites.map((s, i) => ({ id: s.id, name: s.name, lat_deg: s.lat_deg, lon_deg: s.lon_deg, ground_m: ground_m[i], ...(s.notes ? { notes: s.notes } : {}) }));
+  // --- Interference between the links, when the study asks for it (interference.ts) ---
+  let interference: StudyResult["interference"];
+  if (study.interference) {
+    const { analyzeInterference, interferenceInputFiles } = await import("./interference.ts");
+    for (const f of interferenceInputFiles(study)) inputs.update(fileDigest(f, cache));
+    interference = await analyzeInterference(study, links, { sites: siteResults, openTerrain: open, cache, terrainKey });
+    warnings.push(...interference.warnings);
+  }
   const result: StudyResult = {
     id: study.id,
     title: study.meta.title,
@@ -281,10 +290,11 @@ export async function analyzeStudy(study: Study, options: AnalyzeOptions = {}): 
       structure_notice_height_m: study.design.structure_notice_height_m,
       climate: study.climate,
     },
-    sites: study.sites.map((s, i) => ({ id: s.id, name: s.name, lat_deg: s.lat_deg, lon_deg: s.lon_deg, ground_m: ground_m[i], ...(s.notes ? { notes: s.notes } : {}) })),
+    sites: siteResults,
     links,
     chains: chainResults(study, links),
     coverage: coverageResults,
+    ...(interference ? { interference } : {}),
     warnings,
     provenance: { tool_version: TOOL_VERSION, inputs_sha256: inputs.digest("hex"), ...(await git) },
   };

@@ -1,6 +1,7 @@
 import type { ChainResult } from "./chains.ts";
 import type { CoverageResult } from "./coverage/coverage-result.ts";
 import type { LinkPerformance } from "./link-performance.ts";
+import type { InterferenceResult } from "./interference-result.ts";
 import type { ReflectionResult } from "./link-reflection.ts";
 import type { Remedy } from "./remedies.ts";
 
@@ -109,6 +110,8 @@ export interface StudyResult {
   links: LinkResult[];
   chains: ChainResult[];
   coverage: CoverageResult[];
+  /** Interference between the links (present when the study asks for it). */
+  interference?: InterferenceResult;
   warnings: string[];
   provenance: Provenance;
 }

@@ -92,6 +92,10 @@ export function compareStudyInputs(before: Study | null, after: Study | null): I
   const designKind = (f: string): InputChangeKind => (f === "availability_pct" || f === "clearance_criteria" ? "target" : "design");
   fields(designKind, "design", design(before.design), design(after.design), allLinks);
   fields("climate", "climate", before.climate, after.climate, allLinks);
+  // The interference section (percentages, external transmitters), as written.
+  if (canonicalJson(before.interference ?? null) !== canonicalJson(after.interference ?? null)) {
+    fields("interference", "interference", before.interference ?? {}, after.interference ?? {}, allLinks);
+  }
 
   // Radios, sites, links, chains.
   byId("radio", before.radios, after.radios, () => "radio", (r) => linksWhere((l) => l.radio === r));

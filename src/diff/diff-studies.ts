@@ -1,5 +1,6 @@
 import type { AnalyzedStudy } from "../analysis/analyze-study.ts";
 import { compareStudyInputs } from "./compare-inputs.ts";
+import { compareInterference } from "./compare-interference.ts";
 import { compareStudyResults } from "./compare-results.ts";
 import type { DiffThresholds, StudyDiff } from "./study-diff.ts";
 
@@ -13,7 +14,8 @@ export function diffStudies(before: AnalyzedStudy[], after: AnalyzedStudy[], thr
     const a = am.get(id) ?? null;
     const inputs = compareStudyInputs(b?.study ?? null, a?.study ?? null);
     const results = compareStudyResults(b?.result ?? null, a?.result ?? null, thresholds);
-    const status = !b ? "added" : !a ? "removed" : inputs.length || results.length ? "changed" : "unchanged";
-    return { id, status, inputs, results };
+    const interference = compareInterference(b?.result ?? null, a?.result ?? null);
+    const status = !b ? "added" : !a ? "removed" : inputs.length || results.length || interference.length ? "changed" : "unchanged";
+    return { id, status, inputs, results, interference };
   });
 }

@@ -34,6 +34,11 @@ export function diffText(d: StudiesDiff): string {
     } else if (s.inputs.length) {
       lines.push("  results: no link moved beyond the thresholds");
     }
+    if (s.interference?.length) {
+      lines.push("  interference");
+      const w = Math.max(...s.interference.map((r) => r.receiver.length));
+      for (const r of s.interference) lines.push(`    ${r.receiver.padEnd(w)}${r.status === "changed" ? "" : ` (${r.status})`}  ${r.text}`);
+    }
   }
   const unchanged = d.studies.length - changed.length;
   if (unchanged) lines.push("", `${plural(unchanged, "study", "studies")} unchanged.`);

@@ -43,7 +43,7 @@ export async function materializeRevision(loc: StudiesLocation, commit: string, 
   return { studiesDir, notes };
 }
 
-/** The terrain file and profile CSVs a study.yaml names (empty when it cannot be parsed: loading reports that). */
+/** The terrain file, profile CSVs and antenna envelope CSVs a study.yaml names (empty when it cannot be parsed: loading reports that). */
 function namedFiles(yamlFile: string): string[] {
   let doc: unknown;
   try {
@@ -56,6 +56,19 @@ function namedFiles(yamlFile: string): string[] {
   const out: string[] = [];
   if (typeof d.terrain?.file === "string") out.push(d.terrain.file);
   if (Array.isArray(d.links)) for (const l of d.links) if (l && typeof l.profile_csv === "string") out.push(l.profile_csv);
+  // antenna envelope CSVs of link ends and external transmitters
+  const envelope = (x: unknown) => {
+    const p = (x as { pattern?: { envelope_csv?: unknown } } | null)?.pattern;
+    if (p && typeof p === "object" && typeof p.envelope_csv === "string") out.push(p.envelope_csv);
+  };
+  if (Array.isArray(d.links)) {
+    for (const l of d.links as ({ from?: unknown; to?: unknown } | null)[]) {
+      envelope(l?.from);
+      envelope(l?.to);
+    }
+  }
+  const ext = (doc as { interference?: { external?: unknown } }).interference?.external;
+  if (Array.isArray(ext)) ext.forEach(envelope);
   return [...new Set(out)];
 }
 

@@ -1,7 +1,8 @@
 /** What changed between two revisions of the studies: inputs and results per link. */
+import type { InterferenceChange } from "./compare-interference.ts";
 
 /** Kinds of input change, by the part of the study they touch. */
-export type InputChangeKind = "study" | "meta" | "terrain" | "design" | "target" | "climate" | "radio" | "site" | "site-moved" | "link" | "antenna" | "profile" | "chain" | "coverage";
+export type InputChangeKind = "study" | "meta" | "terrain" | "design" | "target" | "climate" | "radio" | "site" | "site-moved" | "link" | "antenna" | "profile" | "chain" | "coverage" | "interference";
 
 export type DiffValue = string | number | boolean | null;
 
@@ -54,6 +55,8 @@ export interface StudyDiff {
   status: "added" | "removed" | "changed" | "unchanged";
   inputs: InputChange[];
   results: LinkResultDiff[];
+  /** Receivers whose interference verdict or figures moved (compare-interference.ts). */
+  interference: InterferenceChange[];
 }
 
 /** Result changes smaller than these (absolute) are not reported. */

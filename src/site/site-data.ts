@@ -1,10 +1,11 @@
 import type { AnalyzedStudy } from "../analysis/analyze-study.ts";
 import type { LinkResult, StudyResult } from "../analysis/results.ts";
+import { linkInterference, type LinkInterference } from "./interference-report.ts";
 import { linkReport, type LinkReport } from "./link-report.ts";
 import { studyReport, type StudyReport } from "./study-report.ts";
 
 /** One link as the templates see it: its result, its study's identity and its report tables. */
-export type SiteLink = LinkResult & { study_id: string; study_title: string; revision: string; provenance: StudyResult["provenance"]; report: LinkReport };
+export type SiteLink = LinkResult & { study_id: string; study_title: string; revision: string; provenance: StudyResult["provenance"]; report: LinkReport; interference: LinkInterference | null };
 
 /** What the templates see as the global `ridgeline`. */
 export interface SiteData {
@@ -55,6 +56,7 @@ export function siteData(studies: AnalyzedStudy[]): SiteData {
         revision: s.result.revision,
         provenance: s.result.provenance,
         report: linkReport(l, s.study.radios.find((r) => r.id === l.radio)?.name, s.study.design.diffraction_method),
+        interference: linkInterference(s.result, l.id),
       })),
     ),
     reports: Object.fromEntries(studies.map((s) => [s.result.id, studyReport(s)])),

@@ -5,6 +5,7 @@ import { projectedElevationGrid } from "../render/raster/projected-grid.ts";
 import { rgbaPngDataUri } from "../render/raster/rgba-png.ts";
 import { fitMapProjection, mapHeightFor } from "../render/svg/map-projection.ts";
 import { overviewMapSvg, type MapBackdrop, type MapSite } from "../render/svg/overview-map.ts";
+import { mapEntries } from "./interference-report.ts";
 
 const MAP_W = 880;
 /** Map pixels per hillshade cell: the image is drawn at 1.5× its cell size, smooth and small. */
@@ -65,5 +66,13 @@ async function drawMap(s: AnalyzedStudy): Promise<string> {
     width: MAP_W,
     height: MAP_H,
     backdrop,
+    interference: s.result.interference
+      ? mapEntries(s.result.interference).map((e) => ({
+          from: byId.get(e.transmitter_site)!,
+          to: byId.get(e.receiver_site)!,
+          failing: !e.met,
+          label: `${e.transmitter} into ${e.receiver}: ${e.met ? "within the limits" : "over the limit"}`,
+        }))
+      : undefined,
   });
 }

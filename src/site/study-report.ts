@@ -1,6 +1,7 @@
 import type { AnalyzedStudy } from "../analysis/analyze-study.ts";
 import { studyCautions, type StudyCautions } from "./cautions.ts";
 import { formatNumber } from "./format.ts";
+import { interferenceReport, type InterferenceReport } from "./interference-report.ts";
 import { DIFFRACTION_LABELS } from "./link-report.ts";
 
 /** A statement of the study's basis: what, the value, and where it comes from. */
@@ -46,6 +47,8 @@ export interface StudyReport {
   /** The failing links and what would bring each to its targets. */
   remedies: RemedyRow[];
   cautions: StudyCautions;
+  /** Frequency plan and interference tables; null when the study has no frequency plan. */
+  interference: InterferenceReport | null;
 }
 
 const COMMON_CRITERIA = [
@@ -76,6 +79,13 @@ export const METHODS: MethodRow[] = [
   { quantity: "Adaptive modulation", method: "Time below each mode's threshold per year from the fade statistics above; a mode is in use between its threshold and the next (common practice)" },
   { quantity: "Reflection", method: "Specular points by geometrical optics over the profile; ground constants of ITU-R P.527 classes" },
   { quantity: "Objectives", method: "Performance: short-fade outage (multipath flat + dispersive + clear-air XPD) per average worst month; availability: rain and rain XPD per average year (ITU-R P.530-16 §7); hops in a chain added (common practice). The combined figure adds everything per year, for comparison" },
+];
+
+/** Methods of the interference analysis, listed when the study asks for it. */
+export const INTERFERENCE_METHODS: MethodRow[] = [
+  { quantity: "Interference paths", method: "ITU-R P.452-18 clear-air basic transmission loss at the long-term and short-term time percentages" },
+  { quantity: "Antenna discrimination", method: "ITU-R F.699-8 reference envelope or ITU-R F.1245-3 average pattern from gain and frequency, or a tabulated envelope; off-axis angles from WGS84 geodesics and k = 4/3 elevations" },
+  { quantity: "Threshold degradation", method: "10·log10(1 + I/N), noise kT0·B·NF, interference summed in power after the receiver's net filter discrimination (common practice)" },
 ];
 
 /** Build the study page's statements, summaries and cautions from an analysed study. */
@@ -137,9 +147,10 @@ export function studyReport(s: AnalyzedStudy): StudyReport {
     links_total: r.links.length,
     links_met: r.links.filter((l) => l.target_met).length,
     assumptions,
-    methods: METHODS,
+    methods: s.result.interference ? [...METHODS, ...INTERFERENCE_METHODS] : METHODS,
     chains,
     remedies,
     cautions: studyCautions(s),
+    interference: interferenceReport(s),
   };
 }

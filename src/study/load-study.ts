@@ -6,6 +6,7 @@ import { studySchema, type KValueInput, type StudyInput } from "./schema.ts";
 import type { KFactor, Study } from "./study.ts";
 import { parseYamlSource, type YamlSource } from "./yaml-source.ts";
 import { zodProblems } from "./zod-problems.ts";
+import { interferenceProblems } from "./interference-checks.ts";
 import { kFactorFromGradient } from "../physics/k-factor.ts";
 
 /**
@@ -56,6 +57,7 @@ export function loadStudy(file: string): Study {
     links: input.links.map((l, index) => ({ ...l, index })),
     chains: input.chains,
     coverage: input.coverage,
+    ...(input.interference ? { interference: input.interference } : {}),
     locate: src.locate,
     file_sha256: createHash("sha256").update(bytes).digest("hex"),
   };
@@ -118,6 +120,7 @@ function crossCheck(src: YamlSource, s: StudyInput, dir: string): InputProblem[]
     if (!(t.north_deg > t.south_deg)) add(["terrain", "synthetic", "north_deg"], t.north_deg, `a latitude north of south_deg (${t.south_deg})`);
     if (!(t.east_deg > t.west_deg)) add(["terrain", "synthetic", "east_deg"], t.east_deg, `a longitude east of west_deg (${t.west_deg})`);
   }
+  problems.push(...interferenceProblems(src, s, dir));
   return problems;
 }
 

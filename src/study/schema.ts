@@ -1,5 +1,6 @@
 import { z } from "zod";
 import { patternTableProblem } from "./pattern-table.ts";
+import { antennaPattern, frequencyPlan, interferenceSection, receiverProtection } from "./interference-schema.ts";
 
 /**
  * The study file format (`content/studies/<id>/study.yaml`), defined once: the loader
@@ -79,6 +80,8 @@ const linkEnd = z
     gain_dbi: z.number().min(-10).max(70).describe("antenna gain (dBi)"),
     feeder_loss_db: z.number().min(0).max(50).default(0).describe("feeder and branching loss at this end (dB)"),
     ...linkEndDetails,
+    pattern: antennaPattern.optional().describe("radiation pattern envelope for interference: f699 (default), f1245 or {envelope_csv}"),
+    xpd_db: z.number().min(0).max(60).optional().describe("cross-polar discrimination on the boresight (dB), used with the f699 and f1245 patterns; default 30"),
   })
   .strict();
 
@@ -213,6 +216,7 @@ export const studySchema = z
             xpif_db: z.number().min(0).max(40).optional().describe("cross-polar improvement factor of the canceller (XPIC); default 0, without one (dB)"),
             co_channel_ci_db: z.number().min(0).max(60).optional().describe("carrier-to-interference ratio C0/I at the threshold bit-error ratio (dB)"),
             atpc_range_db: z.number().min(0).max(60).optional().describe("automatic transmit power control range (dB); informational"),
+            interference: receiverProtection.optional(),
           })
           .strict(),
       )
@@ -260,6 +264,7 @@ export const studySchema = z
               .strict()
               .optional()
               .describe("adaptive modulation target, e.g. ≥ 200 Mbit/s for 99.99 % of the year"),
+            frequency_plan: frequencyPlan.optional(),
           })
           .strict(),
       )
@@ -268,6 +273,7 @@ export const studySchema = z
       .array(z.object({ id, name: z.string().optional(), links: z.array(id).min(1) }).strict())
       .default([]),
     coverage: z.array(coverageEntry).default([]).describe("coverage maps around base sites"),
+    interference: interferenceSection.optional(),
   })
   .strict();
 

@@ -32,6 +32,8 @@ export interface Study {
   sites: SiteInput[];
   links: (LinkInput & { index: number })[];
   chains: StudyInput["chains"];
+  /** Interference analysis asked for (absent: none). */
+  interference?: StudyInput["interference"];
   /** Coverage maps (optional until every loader fills it). */
   coverage?: CoverageInput[];
   /** Where a field path sits in study.yaml (for errors found after loading). */

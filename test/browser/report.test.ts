@@ -302,7 +302,7 @@ describe("report site in Chromium", () => {
     expect(starts.every((i) => i > 0), `link sections at pages ${starts.join(", ")}`).toBe(true);
     expect(new Set(starts).size).toBe(demoLinks.length);
     for (let i = 1; i < pages; i++) {
-      expect(text[i], `page ${i + 1}`).toContain("Kestrel Vale telemetry and backhaul network · rev. B");
+      expect(text[i], `page ${i + 1}`).toContain("Kestrel Vale telemetry and backhaul network · rev. C");
       expect(text[i], `page ${i + 1}`).toContain(`Page ${i + 1} of ${pages}`);
     }
     expect(text.join("")).toContain("does not replace licensed frequency coordination");

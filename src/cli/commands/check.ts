@@ -41,9 +41,51 @@ export function checkRows(studies: AnalyzedStudy[]): CheckRow[] {
   );
 }
 
+/** One receiver of the interference analysis in the check. */
+export interface InterferenceCheckRow {
+  study: string;
+  receiver: string;
+  link: string;
+  threshold_degradation_long_term_db: number;
+  allowed_degradation_db: number;
+  worst_ci_margin_db: number | null;
+  fade_margin_left_db: number | null;
+  met: boolean;
+  reasons: string[];
+}
+
+/** Rows for every receiver of the studies that ask for interference, worst first. */
+export function interferenceCheckRows(studies: AnalyzedStudy[]): InterferenceCheckRow[] {
+  return studies.flatMap((s) =>
+    (s.result.interference?.receivers ?? []).map((r) => ({
+      study: s.result.id,
+      receiver: r.id,
+      link: r.link,
+      threshold_degradation_long_term_db: r.threshold_degradation_long_term_db,
+      allowed_degradation_db: r.allowed_degradation_db,
+      worst_ci_margin_db: r.worst_ci_margin_db,
+      fade_margin_left_db: r.fade_margin_left_db,
+      met: r.met,
+      reasons: r.reasons,
+    })),
+  );
+}
+
+/** The terminal table of the interference rows. */
+function interferenceTable(rows: InterferenceCheckRow[]): string {
+  const header = ["study", "receiver", "degradation dB", "allowed dB", "worst C/I margin dB", "fade margin left dB", "result"];
+  const table = rows.map((r) => [r.study, r.receiver, formatNumber(r.threshold_degradation_long_term_db, 2), formatNumber(r.allowed_degradation_db, 1), formatNumber(r.worst_ci_margin_db, 1), formatNumber(r.fade_margin_left_db, 1), r.met ? "met" : "MISSED"]);
+  const widths = header.map((h, i) => Math.max(h.length, ...table.map((row) => row[i].length)));
+  const line = (cells: string[]) => cells.map((c, i) => (i >= 2 && i <= 5 ? c.padStart(widths[i]) : c.padEnd(widths[i]))).join("  ");
+  const reasons = rows.filter((r) => !r.met).flatMap((r) => r.reasons.map((x) => `  ${r.study} ${r.receiver}: ${x}`));
+  return `\nInterference (long-term threshold degradation; C/I with the carrier at the threshold)\n${line(header)}\n${widths.map((w) => "-".repeat(w)).join("  ")}\n${table.map(line).join("\n")}\n${reasons.length ? `${reasons.join("\n")}\n` : ""}`;
+}
+
 /**
  * `ridgeline check [study-id…] [--json]`: compute without rendering and compare every link
- * with its targets. Exit 0 when all are met, 1 when any is missed, 2 on bad input.
+ * with its targets, and every receiver with its interference limits (C/I and threshold
+ * degradation) when the study asks for interference. Exit 0 when all are met, 1 when any is
+ * missed, 2 on bad input.
  */
 export async function checkCommand(argv: string[]): Promise<number> {
   const args = parseArgs(argv, { values: ["studies-dir"], flags: ["json"] });
@@ -52,9 +94,12 @@ export async function checkCommand(argv: string[]): Promise<number> {
   progress.stop();
   const rows = checkRows(studies);
   const missed = rows.filter((r) => !r.target_met).length;
+  const ifx = interferenceCheckRows(studies);
+  const ifxMissed = ifx.filter((r) => !r.met).length;
   if (args.flags.has("json")) {
     const chains = studies.flatMap((s) => s.result.chains.map((c) => ({ study: s.result.id, ...c })));
-    process.stdout.write(`${JSON.stringify({ links: rows, chains, missed, total: rows.length }, null, 2)}\n`);
+    const interference = ifx.length ? { interference: { receivers: ifx, missed: ifxMissed, total: ifx.length } } : {};
+    process.stdout.write(`${JSON.stringify({ links: rows, chains, missed, total: rows.length, ...interference }, null, 2)}\n`);
   } else {
     const header = ["study", "link", "clearance", "fade margin dB", "performance % (worst month)", "target %", "availability % (year)", "target %", "result"];
     const table = rows.map((r) => [
@@ -72,6 +117,10 @@ export async function checkCommand(argv: string[]): Promise<number> {
     const line = (cells: string[]) => cells.map((c, i) => (i >= 3 && i <= 7 ? c.padStart(widths[i]) : c.padEnd(widths[i]))).join("  ");
     process.stdout.write(`${line(header)}\n${widths.map((w) => "-".repeat(w)).join("  ")}\n${table.map(line).join("\n")}\n`);
     process.stdout.write(missed ? `\n${missed} of ${rows.length} links miss a target.\n` : `\nAll ${rows.length} links meet their targets.\n`);
+    if (ifx.length) {
+      process.stdout.write(interferenceTable(ifx));
+      process.stdout.write(ifxMissed ? `${ifxMissed} of ${ifx.length} receivers miss their interference limits.\n` : `All ${ifx.length} receivers meet their interference limits.\n`);
+    }
   }
-  return missed ? 1 : 0;
+  return missed || ifxMissed ? 1 : 0;
 }

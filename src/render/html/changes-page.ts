@@ -27,6 +27,7 @@ const KIND_NAMES: Record<InputChange["kind"], string> = {
   profile: "Profile",
   chain: "Chain",
   coverage: "Coverage",
+  interference: "Interference",
 };
 
 const cell = (v: unknown): string => (v === null || v === undefined ? "—" : typeof v === "number" ? showNumber(v) : String(v));
@@ -90,7 +91,10 @@ export function changesPageHtml(d: StudiesDiff, options: ChangesPageOptions): st
     const linkHref = (id: string) => (s.status === "removed" ? null : `${root}studies/${encodeURIComponent(s.id)}/links/${encodeURIComponent(id)}/index.html`);
     const heading = s.status === "removed" ? esc(s.id) : `<a href="${esc(`${root}studies/${encodeURIComponent(s.id)}/index.html`)}">${esc(s.id)}</a>`;
     if (s.status === "unchanged") return `<h2>${heading}</h2>\n<p>Unchanged: no input changes and no result beyond the thresholds.</p>`;
-    return `<h2>${heading} <small>(${esc(s.status)})</small></h2>\n<h3>Inputs</h3>\n${inputsTable(s, linkHref)}\n<h3>Results</h3>\n${resultsTable(s, linkHref)}`;
+    const ifx = s.interference?.length
+      ? `\n<h3>Interference</h3>\n<ul class="changes-interference">${s.interference.map((c) => `<li><strong>${esc(c.receiver)}</strong>${c.status === "changed" ? "" : ` (${esc(c.status)})`}: ${esc(c.text)}</li>`).join("")}</ul>`
+      : "";
+    return `<h2>${heading} <small>(${esc(s.status)})</small></h2>\n<h3>Inputs</h3>\n${inputsTable(s, linkHref)}\n<h3>Results</h3>\n${resultsTable(s, linkHref)}${ifx}`;
   });
   const commit = (c: string | null) => (c ? `<code>${esc(c.slice(0, 12))}</code>` : "uncommitted files");
   return `<!doctype html>

@@ -26,6 +26,16 @@ export interface MapBackdrop {
   ramp?: string[];
 }
 
+/** An interference path: from an interfering transmitter's site to a victim receiver's site. */
+export interface MapInterferencePath {
+  from: MapSite;
+  to: MapSite;
+  /** The receiver misses its C/I or degradation limit because of this path. */
+  failing: boolean;
+  /** Tooltip text. */
+  label: string;
+}
+
 export interface OverviewMapInput {
   /** Used for element ids; unique on the page. */
   id: string;
@@ -36,6 +46,8 @@ export interface OverviewMapInput {
   width: number;
   height: number;
   backdrop?: MapBackdrop;
+  /** Interference paths to draw (thin dotted lines, arrow at the victim), if any. */
+  interference?: MapInterferencePath[];
 }
 
 const LABEL_PX = 11.5;
@@ -69,7 +81,24 @@ export function overviewMapSvg(p: OverviewMapInput): string {
   const legendRows = legendEntries(p);
   const legendW = Math.max(...legendRows.map((r) => textWidthPx(r[1], 11))) + 44;
   const legendH = legendRows.length * 17 + 12;
-  const legendBox: Box = { x: W - legendW - 12, y: H - legendH - 12, w: legendW, h: legendH };
+  // Bottom right, unless a site marker or its label would lie under it: then the first other
+  // free place (top left, above the scale bar, middle left, middle right, below the north
+  // arrow), else the place covering the fewest sites.
+  const sitesUnder = (b: Box) =>
+    p.sites.filter((site) => {
+      const [x, y] = proj(site);
+      return x > b.x - 24 && x < b.x + b.w + 24 && y > b.y - 24 && y < b.y + b.h + 24;
+    }).length;
+  const places: Box[] = [
+    { x: W - legendW - 12, y: H - legendH - 12, w: legendW, h: legendH },
+    { x: 12, y: 12, w: legendW, h: legendH },
+    { x: 12, y: H - legendH - 56, w: legendW, h: legendH },
+    { x: 12, y: (H - legendH) / 2, w: legendW, h: legendH },
+    { x: W - legendW - 12, y: (H - legendH) / 2, w: legendW, h: legendH },
+    { x: W - legendW - 12, y: 80, w: legendW, h: legendH },
+  ];
+  const counts = places.map(sitesUnder);
+  const legendBox: Box = places[counts.indexOf(Math.min(...counts))];
   const scaleBox: Box = { x: 8, y: H - 48, w: 200, h: 40 };
   out.push(`<g clip-path="url(#${p.id}-clip)">`, graticule(projection, W, H, [legendBox, scaleBox]), "</g>");
 
@@ -80,6 +109,7 @@ export function overviewMapSvg(p: OverviewMapInput): string {
     out.push(`<path class="map-link-casing" d="${d}" /><path class="map-link ${l.met ? "met" : "missed"}" d="${d}"><title>${escapeXml(`${l.id}: ${l.met ? "meets its targets" : "misses a target"}`)}</title></path>`);
   }
   out.push("</g>");
+  if (p.interference?.length) out.push(interferencePaths(p.interference, proj, p.id));
 
   // Reserved areas: scale bar (bottom left), north arrow (top right), legend (bottom right).
   const taken: Box[] = [legendBox, scaleBox, { x: W - 62, y: 8, w: 54, h: 64 }];
@@ -157,8 +187,38 @@ function legendEntries(p: OverviewMapInput): [string, string][] {
     ["met", "Link meets every target (✓)"],
     ["missed", "Link misses a target (✗, dashed)"],
   ];
+  if (p.interference?.length) {
+    rows.push([p.interference.some((x) => x.failing) ? "interference failing" : "interference", "Interference into a receiver (→; heavy: over its limit)"]);
+  }
   if (p.backdrop) rows.push(["shade", p.backdrop.label]);
   return rows;
+}
+
+/**
+ * Interference paths as thin dotted lines from the interferer's site to the victim's, with an
+ * arrowhead short of the victim's marker; a path over the receiver's limit is drawn heavier
+ * (never by colour alone). Paths between the same two sites are drawn once (the worst).
+ */
+function interferencePaths(paths: MapInterferencePath[], proj: (s: MapSite) => [number, number], id: string): string {
+  const byPair = new Map<string, MapInterferencePath>();
+  for (const x of paths) {
+    const k = `${x.from.id}>${x.to.id}`;
+    const had = byPair.get(k);
+    if (!had || (x.failing && !had.failing)) byPair.set(k, x);
+  }
+  const out = [`<defs><marker id="${id}-arrow" viewBox="0 0 8 8" refX="7" refY="4" markerWidth="7" markerHeight="7" orient="auto-start-reverse"><path class="map-interference-head" d="M0,0L8,4L0,8z" /></marker></defs>`, `<g class="map-interference">`];
+  for (const x of byPair.values()) {
+    const a = proj(x.from);
+    const b = proj(x.to);
+    const len = Math.hypot(b[0] - a[0], b[1] - a[1]);
+    if (!(len > 20)) continue;
+    const t = (len - 10) / len; // stop short of the victim's marker
+    const ex = a[0] + (b[0] - a[0]) * t;
+    const ey = a[1] + (b[1] - a[1]) * t;
+    out.push(`<path class="map-interference-path${x.failing ? " failing" : ""}" d="M${px(a[0])},${px(a[1])}L${px(ex)},${px(ey)}" marker-end="url(#${id}-arrow)"><title>${escapeXml(x.label)}</title></path>`);
+  }
+  out.push("</g>");
+  return out.join("");
 }
 
 function legend(rows: [string, string][], b: Box, id: string, ramp?: string[]): string {
@@ -171,6 +231,7 @@ function legend(rows: [string, string][], b: Box, id: string, ramp?: string[]): 
     const y = 14 + i * 17;
     if (kind === "site") out.push(`<path class="map-site" d="M17,${y - 6}l6,10.5h-12z" />`);
     else if (kind === "shade") out.push(`<rect class="map-legend-shade" x="6" y="${y - 6}" width="24" height="11"${ramp?.length ? ` style="fill: url(#${id}-ramp)"` : ""} />`);
+    else if (kind.startsWith("interference")) out.push(`<line class="map-interference-path${kind.includes("failing") ? " failing" : ""}" x1="6" x2="30" y1="${y}" y2="${y}" />`);
     else out.push(`<line class="map-link ${kind}" x1="6" x2="30" y1="${y}" y2="${y}" />`);
     out.push(`<text x="36" y="${y}" dy="0.35em">${escapeXml(text)}</text>`);
   });
