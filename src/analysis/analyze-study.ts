@@ -1,7 +1,5 @@
 import { createHash } from "node:crypto";
-import { mkdtempSync } from "node:fs";
-import { tmpdir } from "node:os";
-import { join, resolve } from "node:path";
+import { resolve } from "node:path";
 import { linkKeyer, terrainFactsKey, toolIdentity } from "../cache/cache-keys.ts";
 import { canonicalJson } from "../cache/canonical-json.ts";
 import { decodeEntry } from "../cache/entry-codec.ts";
@@ -23,6 +21,7 @@ import { LinkFigureMap } from "./link-figure-map.ts";
 import { gitStateAsync, TOOL_VERSION } from "./provenance.ts";
 import type { LinkResult, StudyResult } from "./results.ts";
 import { sanitizeNumbers } from "./sanitize.ts";
+import { makeTempDir, removeTempDir } from "../temp-dirs.ts";
 
 export interface AnalyzedStudy {
   study: Study;
@@ -247,11 +246,18 @@ export async function analyzeStudy(study: Study, options: AnalyzeOptions = {}): 
   let coverageResults: StudyResult["coverage"] = [];
   let coverageCache = { hits: 0, misses: 0 };
   if (study.coverage?.length) {
-    const dir = mkdtempSync(join(tmpdir(), `ridgeline-coverage-${study.id}-`));
+    // removed when the process ends at the latest (temp-dirs.ts); at once when the maps fail
+    const dir = makeTempDir(`ridgeline-coverage-${study.id}-`);
     // loaded only for a study with coverage: it brings the raster encoders (sharp), which the
     // link analysis, `ridgeline path` and `check` of a links-only study do not need
     const { cachedStudyCoverage } = await import("./coverage/coverage-cache.ts");
-    const cov = await cachedStudyCoverage(study, { outDir: dir, cache, terrainKey, openTerrain: open });
+    let cov: Awaited<ReturnType<typeof cachedStudyCoverage>>;
+    try {
+      cov = await cachedStudyCoverage(study, { outDir: dir, cache, terrainKey, openTerrain: open });
+    } catch (e) {
+      removeTempDir(dir);
+      throw e;
+    }
     coverageResults = cov.results; // without compute time: no clock in results
     coverageCache = cov.cache;
     warnings.push(...cov.warnings);

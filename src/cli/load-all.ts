@@ -1,4 +1,4 @@
-import { existsSync, readdirSync } from "node:fs";
+import { existsSync, lstatSync, readdirSync } from "node:fs";
 import { join, resolve } from "node:path";
 import { analyzeStudies, type AnalyzedStudy } from "../analysis/analyze-study.ts";
 import { DEFAULT_CACHE_DIR, ResultCache } from "../cache/result-cache.ts";
@@ -11,7 +11,7 @@ export function findStudies(root: string, ids?: string[]): string[] {
   const abs = resolve(root);
   const all = existsSync(abs)
     ? readdirSync(abs, { withFileTypes: true })
-        .filter((d) => d.isDirectory() && existsSync(join(abs, d.name, "study.yaml")))
+        .filter((d) => d.isDirectory() && present(join(abs, d.name, "study.yaml")))
         .map((d) => d.name)
         .sort()
     : [];
@@ -23,6 +23,16 @@ export function findStudies(root: string, ids?: string[]): string[] {
     return ids.map((id) => join(abs, id, "study.yaml"));
   }
   return all.map((id) => join(abs, id, "study.yaml"));
+}
+
+/** Whether something named `p` is there, a dangling symbolic link included (loading it says what is wrong). */
+function present(p: string): boolean {
+  try {
+    lstatSync(p);
+    return true;
+  } catch {
+    return false;
+  }
 }
 
 /** Load every study, reporting the problems of all of them together. */
