@@ -13,6 +13,10 @@ import { obstructedHeights } from "./link-losses.ts";
 import { MAX_PROFILE_SAMPLES, profileStepM, terrainProfile, type LinkProfile } from "./link-profile.ts";
 import { minimumLinkLengthM } from "../study/load-study.ts";
 
+/** Ground heights accepted from a terrain (m amsl): the Dead Sea shore to above Everest, as for ground_m. */
+export const GROUND_MIN_M = -500;
+export const GROUND_MAX_M = 9000;
+
 /** A terrain coarser than this fraction of the path (spacing > path / N) makes the clearance verdict unreliable. */
 export const COARSE_TERRAIN_FRACTION = 10;
 import type { ClearanceRow, LinkEndResult, LinkResult } from "./results.ts";
@@ -111,6 +115,18 @@ export function analyzeLink(study: Study, link: LinkInput, terrain: Terrain, opt
           field: `links[${link.index}] (${link.id})`,
           received: `a path that leaves the terrain ${(profile.d_m[i] / 1000).toFixed(2)} km from ${siteA.id}`,
           expected: `a path covered by the terrain: ${why}`,
+        },
+      ]);
+    }
+    const bad = profile.terrain_m.findIndex((h) => !(h >= GROUND_MIN_M && h <= GROUND_MAX_M));
+    if (bad >= 0) {
+      throw new InputError([
+        {
+          file: study.file,
+          ...study.locate(["terrain"]),
+          field: `terrain (link ${link.id})`,
+          received: `a ground height of ${profile.terrain_m[bad]} m ${(profile.d_m[bad] / 1000).toFixed(2)} km from ${siteA.id}`,
+          expected: `terrain heights from ${GROUND_MIN_M} to ${GROUND_MAX_M} m: the DEM holds values that are not heights (declare its nodata value, e.g. gdal_translate -a_nodata)`,
         },
       ]);
     }
