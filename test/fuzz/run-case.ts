@@ -23,7 +23,7 @@ export interface CaseResult {
   detail: string;
 }
 
-const cut = (s: string) => s.split("\n").slice(0, 3).join(" | ").slice(0, 300);
+const cut = (s: string) => s.split("\n").slice(0, 3).join(" | ").slice(0, 1000);
 
 /** Run the study `id` under `studiesDir`; with `outDir`, build the site there too. */
 export async function runCase(studiesDir: string, id: string, outDir: string | null): Promise<CaseResult> {
