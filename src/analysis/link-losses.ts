@@ -106,7 +106,12 @@ export function linkLosses(study: Study, link: LinkInput, radio: RadioInput, bas
   const mp = multipathOutagePercent({ distance_m: D, frequency_ghz: f, he_m: from.antenna_amsl_m, hr_m: to.antenna_amsl_m, dN1: study.climate.dn1, sa_m: study.climate.sa_m, fade_margin_db: Math.max(fade_margin_db, 0) });
   const midLat = (study.sites.find((s) => s.id === base.from)!.lat_deg + study.sites.find((s) => s.id === base.to)!.lat_deg) / 2;
   const dG = worstMonthToAnnualDeltaGDb(midLat, d_km, mp.epsilon_p_mrad);
-  const multipath_outage_pct = fade_margin_db <= 0 ? 100 : annualPercentFromWorstMonth(mp.pw_pct, dG);
+  // A multipath occurrence factor so large that P.530's interpolation (eq. 15) has no value
+  // means fades beyond any margin nearly all the worst month: taken as 100 %, with a warning.
+  const saturated = Number.isNaN(mp.pw_pct) && mp.p0_pct > 0;
+  if (saturated) warnings.push(`${MULTIPATH_P530_VALIDITY.method}: the multipath occurrence factor p0 = ${mp.p0_pct.toExponential(2)} % is beyond the method's interpolation; the worst-month multipath outage is taken as 100 %.`);
+  const pw_pct = saturated ? 100 : mp.pw_pct;
+  const multipath_outage_pct = fade_margin_db <= 0 ? 100 : annualPercentFromWorstMonth(pw_pct, dG);
   const V = MULTIPATH_P530_VALIDITY;
   warn(rangeWarning(V.method, "frequency", f, [Math.max(V.frequency_ghz[0], V.frequency_min_ghz_km / d_km), V.frequency_ghz[1]], "GHz"));
   warn(rangeWarning(V.method, "path length", d_km, V.distance_km, "km"));
@@ -138,7 +143,7 @@ export function linkLosses(study: Study, link: LinkInput, radio: RadioInput, bas
       fade_margin_db,
     },
     availability: {
-      multipath_worst_month_pct: mp.pw_pct,
+      multipath_worst_month_pct: pw_pct,
       multipath_annual_pct: multipath_outage_pct,
       rain_annual_pct: rain_outage_pct,
       unavailability_pct: 100 - availability_pct,

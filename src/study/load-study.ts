@@ -145,6 +145,8 @@ function crossCheck(src: YamlSource, s: StudyInput, dir: string): InputProblem[]
       const least = minimumLinkLengthM(radio.frequency_ghz);
       if (!(d >= least)) {
         add(["links", i, "to", "site"], l.to.site, `sites at least ${least.toPrecision(3)} m apart (ten wavelengths and 1 m): ${a.id} and ${b.id} are ${d.toPrecision(3)} m apart, too close for far-field link formulas`);
+      } else if (d > MAX_LINK_LENGTH_M) {
+        add(["links", i, "to", "site"], l.to.site, `sites at most ${MAX_LINK_LENGTH_M / 1000} km apart: ${a.id} and ${b.id} are ${(d / 1000).toFixed(0)} km apart, beyond the radio horizon of any two masts up to 1000 m (about 260 km at k = 4/3), where the link methods do not apply`);
       }
     }
   });
@@ -172,6 +174,9 @@ function crossCheck(src: YamlSource, s: StudyInput, dir: string): InputProblem[]
   }
   return problems;
 }
+
+/** Longest link accepted (m): beyond the radio horizon of two 1000 m masts (≈ 2·√(2·kR·h) ≈ 261 km at k = 4/3). */
+export const MAX_LINK_LENGTH_M = 300_000;
 
 /**
  * Shortest link accepted (m): ten wavelengths and at least 1 m. Closer than a few wavelengths

@@ -122,10 +122,26 @@ describe("silent nonsense becomes an error or a warning", () => {
     ["two sites at one point (zero-length link; pages showed y=\"NaN\")", sub("lat_deg: -33.5000", "lat_deg: -33.4500").replace("lon_deg: -70.6000", "lon_deg: -70.6600"), /are 0\.00 m apart/],
     ["lon 180 against −180 at one latitude (zero-length link)", sub("lon_deg: -70.6600", "lon_deg: 180").replace("lon_deg: -70.6000", "lon_deg: -180").replace("lat_deg: -33.5000", "lat_deg: -33.4500"), /are 0\.00 m apart/],
     ["both sites at a pole (zero-length link; 'range Infinity–45 GHz')", sub("lat_deg: -33.4500", "lat_deg: 90").replace("lat_deg: -33.5000", "lat_deg: 90"), /are 0\.00 m apart/],
+    ["sites 3250 km apart (multipath outage was NaN, shown as not available)", sub("lat_deg: -33.5000", "lat_deg: 0.0000"), /at most 300 km apart/],
     ["the date 2026-13-45", sub("date: 2026-01-15", "date: 2026-13-45"), /date[\s\S]*a calendar date that exists/],
     ["the date 0000-00-00", sub("date: 2026-01-15", "date: 0000-00-00"), /date[\s\S]*a calendar date that exists/],
   ] as [string, string, RegExp, Record<string, string>?][])("%s", async (_name, yaml, message, files) => {
     expectClean(await run(yaml, (d) => Object.entries(files ?? {}).forEach(([f, t]) => writeFileSync(join(d, f), t))), message);
+  });
+
+  it("a 227 km path at 80 GHz with 1 m masts: multipath outage 100 % with a warning (was NaN, availability not available)", async () => {
+    const yaml = sub("lat_deg: -33.5000", "lat_deg: -35.5000").replace("frequency_ghz: 6", "frequency_ghz: 80").replace(/antenna_m: 30/g, "antenna_m: 1") + "climate:\n  dn1: -860\n";
+    const studies = join(root, "mp");
+    mkdirSync(join(studies, "mp"), { recursive: true });
+    writeFileSync(join(studies, "mp", "study.yaml"), yaml);
+    const { analyzeStudies } = await import("../../src/analysis/analyze-study.ts");
+    const { loadStudies, findStudies } = await import("../../src/cli/load-all.ts");
+    const [s] = await analyzeStudies(loadStudies(findStudies(studies, ["mp"])), { cache: null });
+    const l = s.result.links[0];
+    expect(l.availability?.multipath_worst_month_pct).toBe(100);
+    expect(l.availability_pct).toBe(0);
+    expect(l.warnings.join(" ")).toMatch(/beyond the method's interpolation/);
+    expect((await runCase(studies, "mp", null)).outcome).toBe("success");
   });
 
   it("random bytes in an HGT tile (heights of ±30 km were accepted)", async () => {
