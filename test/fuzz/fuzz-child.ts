@@ -16,9 +16,9 @@ interface Job {
 
 process.on("message", async (job: Job) => {
   const c = fuzzCase(job.seed, job.index, job.buildEvery);
-  const dir = caseRoot(job.root, job.index);
   let result: CaseResult & { unwritable?: boolean };
   try {
+    const dir = caseRoot(job.root, job.index);
     c.write(dir);
     result = await runCase(dir, c.id, c.build ? join(dir, "..", "_site") : null);
   } catch (e) {

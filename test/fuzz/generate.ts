@@ -369,8 +369,12 @@ export function fuzzCase(seed: number, index: number, buildEvery = 100): FuzzCas
   const mutations: string[] = [];
   for (let i = 0; i < n; i++) {
     const name = pick(r, MUTATION_NAMES);
-    mutations.push(name);
-    MUTATIONS[name](draft, r);
+    try {
+      MUTATIONS[name](draft, r);
+      mutations.push(name);
+    } catch {
+      mutations.push(`${name} (not applicable)`); // e.g. geometry after sites were removed
+    }
   }
   const build = buildEvery > 0 && index % buildEvery === buildEvery - 1;
   return {
