@@ -1,4 +1,4 @@
-import { lstatSync, readdirSync, readlinkSync, realpathSync, statSync, type Stats } from "node:fs";
+import { closeSync, lstatSync, openSync, readdirSync, readlinkSync, readSync, realpathSync, statSync, type Stats } from "node:fs";
 import { delimiter, isAbsolute, join, relative, resolve, sep } from "node:path";
 
 /**
@@ -132,7 +132,26 @@ export function terrainFileProblem(path: string, label: string): { received: str
   }
   if (label.toLowerCase().endsWith(".hgt")) return hgt(path, label, st);
   if (st.size > GEOTIFF_MAX_BYTES) return { received: `${label} (${st.size} bytes)`, expected: `a GeoTIFF of at most ${GEOTIFF_MAX_BYTES} bytes (cut it to the study area, e.g. gdal_translate -projwin)` };
+  if (/\.tiff?$/i.test(label) && !isTiff(path)) return { received: `${label}, which does not start as a TIFF file does`, expected: "a GeoTIFF (export the DEM with gdal_translate -of GTiff)" };
   return null;
+}
+
+/** Whether a file starts with a TIFF or BigTIFF header: "II" or "MM", then 42 or 43 in that byte order (TIFF 6.0 §2). */
+function isTiff(path: string): boolean {
+  const b = Buffer.alloc(4);
+  let fd: number | null = null;
+  try {
+    fd = openSync(path, "r");
+    if (readSync(fd, b, 0, 4, 0) < 4) return false;
+  } catch {
+    return false;
+  } finally {
+    if (fd !== null) closeSync(fd);
+  }
+  const le = b[0] === 0x49 && b[1] === 0x49;
+  const be = b[0] === 0x4d && b[1] === 0x4d;
+  const magic = le ? b.readUInt16LE(2) : be ? b.readUInt16BE(2) : 0;
+  return magic === 42 || magic === 43;
 }
 
 /** The path of `p` relative to `dir` when inside it, for messages. */
