@@ -1,4 +1,4 @@
-import { existsSync, lstatSync, readdirSync } from "node:fs";
+import { existsSync, lstatSync, readdirSync, statSync } from "node:fs";
 import { join, resolve } from "node:path";
 import { analyzeStudies, type AnalyzedStudy } from "../analysis/analyze-study.ts";
 import { DEFAULT_CACHE_DIR, ResultCache } from "../cache/result-cache.ts";
@@ -9,6 +9,9 @@ import type { Study } from "../study/study.ts";
 /** Study folders under `root` (those holding a study.yaml), sorted by id; optionally only `ids`. */
 export function findStudies(root: string, ids?: string[]): string[] {
   const abs = resolve(root);
+  if (existsSync(abs) && !statSync(abs).isDirectory()) {
+    throw new InputError([{ file: abs, field: "", received: "a file, not a folder", expected: "the folder holding one sub-folder per study (--studies-dir)" }]);
+  }
   const all = existsSync(abs)
     ? readdirSync(abs, { withFileTypes: true })
         .filter((d) => d.isDirectory() && present(join(abs, d.name, "study.yaml")))

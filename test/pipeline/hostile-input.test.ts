@@ -218,6 +218,11 @@ describe("messages", () => {
     expect(r.detail).not.toMatch(/one of the studies/);
   });
 
+  it("--studies-dir naming a file is bad input (was ENOTDIR, an internal error)", async () => {
+    const { findStudies } = await import("../../src/cli/load-all.ts");
+    expect(() => findStudies("/etc/passwd")).toThrow(/received a file, not a folder/);
+  });
+
   it("an internal error is one line naming the study", () => {
     const line = internalErrorLine("check", new InternalError("kestrel-vale", new TypeError("x is undefined\n    at f (a.ts:1:2)")));
     expect(line).toBe("ridgeline check: internal error in study kestrel-vale: TypeError: x is undefined — a bug; please report it with the study (RIDGELINE_DEBUG=1 prints the stack trace)");
