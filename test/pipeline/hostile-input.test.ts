@@ -1,5 +1,5 @@
 import { execFileSync, spawn } from "node:child_process";
-import { mkdirSync, mkdtempSync, readdirSync, rmSync, symlinkSync, writeFileSync } from "node:fs";
+import { mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, symlinkSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
@@ -165,8 +165,12 @@ describe("silent nonsense becomes an error or a warning", () => {
     expect(link.warnings.join(" ")).toMatch(/Clearance verdict unreliable: the terrain's spacing \(\d+ m\) is coarser than a 10th of the path/);
     expect(JSON.stringify(s.result)).not.toMatch(/Infinity|NaN/);
     expect(link.profile.samples).toBeGreaterThanOrEqual(17);
-    expect((await runCase(studies, "coarse", null)).outcome).toBe("success");
-  });
+    const out = join(root, "coarse-site");
+    expect((await runCase(studies, "coarse", out)).outcome).toBe("success");
+    const page = readFileSync(join(out, "studies", "coarse", "links", "a-b", "index.html"), "utf8");
+    expect(page).toMatch(/short of criteria — unreliable: terrain too coarse for this path|meets criteria — unreliable: terrain too coarse for this path/);
+    expect(page).not.toMatch(/Infinity|NaN/);
+  }, 60_000);
 });
 
 describe("security", () => {
