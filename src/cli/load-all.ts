@@ -38,13 +38,16 @@ function present(p: string): boolean {
   }
 }
 
-/** Load every study, reporting the problems of all of them together. */
-export function loadStudies(files: string[]): Study[] {
+/**
+ * Load every study, reporting the problems of all of them together.
+ * @param options.roots folders besides each study's own that its files may lie in (load-study.ts)
+ */
+export function loadStudies(files: string[], options: { roots?: string[] } = {}): Study[] {
   const problems: InputProblem[] = [];
   const studies: Study[] = [];
   for (const f of files) {
     try {
-      studies.push(loadStudy(f));
+      studies.push(loadStudy(f, options));
     } catch (e) {
       if (e instanceof InputError) problems.push(...e.problems);
       else throw e;

@@ -15,8 +15,11 @@ import { kFactorFromGradient } from "../physics/k-factor.ts";
  * Read and validate `<dir>/study.yaml`. Every problem in the file is reported at once as an
  * InputError naming file:line:col, field, value received and what is expected.
  * @param file path of a study.yaml (the study id is its folder's name)
+ * @param options.roots folders besides the study's own (and RIDGELINE_TERRAIN_ROOT) that the
+ *   files it names may lie in, also through symbolic links: `ridgeline diff` passes the
+ *   repository, whose working-tree copies it links into a materialised revision
  */
-export function loadStudy(file: string): Study {
+export function loadStudy(file: string, options: { roots?: string[] } = {}): Study {
   const abs = resolve(file);
   const fail = (received: string, expected: string): never => {
     throw new InputError([{ file: abs, field: "", received, expected }]);
@@ -61,7 +64,7 @@ export function loadStudy(file: string): Study {
   if (!parsed.success) throw new InputError(zodProblems(src, parsed.error.issues));
   const input = parsed.data;
   const dir = dirname(abs);
-  const problems = crossCheck(src, input, dir);
+  const problems = crossCheck(src, input, dir, options.roots ?? []);
   const kOf = (v: KValueInput, path: PropertyKey[]): KFactor => {
     const k = parseK(v);
     if (!(k > 0)) problems.push({ file: abs, ...src.locate(path), field: fieldPath(path), received: showValue(v), expected: "a positive k such as 4/3, 0.67 or inf" });
@@ -104,7 +107,7 @@ function kLabel(v: KValueInput): string {
 }
 
 /** References between sections, duplicate ids and files the study names. */
-function crossCheck(src: YamlSource, s: StudyInput, dir: string): InputProblem[] {
+function crossCheck(src: YamlSource, s: StudyInput, dir: string, roots: string[]): InputProblem[] {
   const problems: InputProblem[] = [];
   const add = (path: PropertyKey[], received: unknown, expected: string) =>
     problems.push({ file: src.file, ...src.locate(path), field: fieldPath(path), received: showValue(received), expected });
@@ -134,7 +137,7 @@ function crossCheck(src: YamlSource, s: StudyInput, dir: string): InputProblem[]
     if (l.from.site === l.to.site && sites.has(l.from.site)) add(["links", i, "to", "site"], l.to.site, "a site other than the link's from-site");
     if (!radios.has(l.radio)) add(["links", i, "radio"], l.radio, `the id of a radio in radios (${[...radios.keys()].join(", ")})`);
       if (l.profile_csv !== undefined) {
-      const problem = inputPathProblem(dir, l.profile_csv, { want: "file", maxBytes: PROFILE_CSV_MAX_BYTES, what: "a surveyed profile CSV file" });
+      const problem = inputPathProblem(dir, l.profile_csv, { want: "file", maxBytes: PROFILE_CSV_MAX_BYTES, roots, what: "a surveyed profile CSV file" });
       if (problem) problems.push({ file: src.file, ...src.locate(["links", i, "profile_csv"]), field: fieldPath(["links", i, "profile_csv"]), received: problem.received, expected: problem.expected });
     }
     const a = s.sites.find((x) => x.id === l.from.site);
@@ -156,7 +159,7 @@ function crossCheck(src: YamlSource, s: StudyInput, dir: string): InputProblem[]
     }),
   );
   if ("file" in s.terrain) {
-    const problem = inputPathProblem(dir, s.terrain.file, { want: "file-or-folder", maxBytes: Infinity, roots: terrainRoots(), what: "a terrain file or folder" });
+    const problem = inputPathProblem(dir, s.terrain.file, { want: "file-or-folder", maxBytes: Infinity, roots: [...terrainRoots(), ...roots], what: "a terrain file or folder" });
     const type = problem ?? terrainFileProblem(resolve(dir, s.terrain.file), s.terrain.file);
     if (type) problems.push({ file: src.file, ...src.locate(["terrain", "file"]), field: "terrain.file", received: type.received, expected: type.expected });
   }
