@@ -8,3 +8,17 @@ export class RidgelineError extends Error {
     this.name = new.target.name;
   }
 }
+
+/**
+ * An unexpected failure (a bug, not bad input) while working on one study: carries the study
+ * id so the one-line report can name it. Deliberately not a RidgelineError: the CLI exits 70.
+ */
+export class InternalError extends Error {
+  constructor(
+    readonly studyId: string,
+    cause: unknown,
+  ) {
+    super(cause instanceof Error ? `${cause.name}: ${cause.message}` : String(cause), { cause });
+    this.name = "InternalError";
+  }
+}

@@ -13,7 +13,15 @@ import { endLosses } from "./end-losses.ts";
 import { rangeWarning } from "./range-warning.ts";
 import { minimumAntennaHeights } from "./minimum-heights.ts";
 import { obstructedHeights } from "./link-losses.ts";
-import { terrainProfile, type LinkProfile } from "./link-profile.ts";
+import { MAX_PROFILE_SAMPLES, profileStepM, terrainProfile, type LinkProfile } from "./link-profile.ts";
+import { minimumLinkLengthM } from "../study/load-study.ts";
+
+/** Ground heights accepted from a terrain (m amsl): the Dead Sea shore to above Everest, as for ground_m. */
+export const GROUND_MIN_M = -500;
+export const GROUND_MAX_M = 9000;
+
+/** A terrain coarser than this fraction of the path (spacing > path / N) makes the clearance verdict unreliable. */
+export const COARSE_TERRAIN_FRACTION = 10;
 import type { ClearanceRow, LinkEndResult, LinkResult } from "./results.ts";
 import { linkLosses } from "./link-losses.ts";
 import type { HeightGainCurve } from "./link-reflection.ts";
@@ -43,6 +51,7 @@ export function siteGroundM(site: Study["sites"][number], terrain: Terrain): num
 export function analyzeLink(study: Study, link: LinkInput, terrain: Terrain, options: { pathOf?: typeof geodesicPath } = {}): { result: LinkResult; figure: LinkFigureData } {
   const pathOf = options.pathOf ?? geodesicPath;
   const warnings: string[] = [];
+  let clearance_reliable = true;
   const radio = study.radios.find((r) => r.id === link.radio)!;
   const siteA = study.sites.find((s) => s.id === link.from.site)!;
   const siteB = study.sites.find((s) => s.id === link.to.site)!;
@@ -65,7 +74,38 @@ export function analyzeLink(study: Study, link: LinkInput, terrain: Terrain, opt
     if (Math.abs(len - geo.distance_m) > Math.max(50, 0.01 * geo.distance_m)) {
       warnings.push(`The surveyed profile is ${(len / 1000).toFixed(3)} km long but the sites are ${(geo.distance_m / 1000).toFixed(3)} km apart; the profile is used as given.`);
     }
+    if (!(len >= minimumLinkLengthM(radio.frequency_ghz))) {
+      throw new InputError([
+        {
+          file: study.file,
+          ...study.locate(["links", link.index, "profile_csv"]),
+          field: `links[${link.index}].profile_csv (${link.id})`,
+          received: `a surveyed profile ${len} m long`,
+          expected: `a profile at least ${minimumLinkLengthM(radio.frequency_ghz).toPrecision(3)} m long (ten wavelengths and 1 m), as long as the path`,
+        },
+      ]);
+    }
   } else {
+    const native_m = terrain.resolutionM((siteA.lat_deg + siteB.lat_deg) / 2);
+    const step_m = profileStepM(geo.distance_m, native_m, study.design.profile_step_m);
+    if (!(geo.distance_m / step_m <= MAX_PROFILE_SAMPLES)) {
+      const given = study.design.profile_step_m !== undefined;
+      throw new InputError([
+        {
+          file: study.file,
+          ...study.locate(given ? ["design", "profile_step_m"] : ["links", link.index]),
+          field: given ? `design.profile_step_m (link ${link.id})` : `links[${link.index}] (${link.id})`,
+          received: `a profile of ${Math.ceil(geo.distance_m / step_m)} samples (${(geo.distance_m / 1000).toFixed(3)} km at ${step_m} m)`,
+          expected: `at most ${MAX_PROFILE_SAMPLES} samples: a profile_step_m of at least ${(geo.distance_m / MAX_PROFILE_SAMPLES).toPrecision(3)} m for this path`,
+        },
+      ]);
+    }
+    if (Number.isFinite(native_m) && native_m > geo.distance_m / COARSE_TERRAIN_FRACTION) {
+      warnings.push(
+        `Clearance verdict unreliable: the terrain's spacing (${native_m.toFixed(0)} m) is coarser than a ${COARSE_TERRAIN_FRACTION}th of the path (${geo.distance_m.toFixed(0)} m), so the profile holds fewer than ${COARSE_TERRAIN_FRACTION} independent ground heights and obstacles between them are not seen; use finer terrain or a surveyed profile.`,
+      );
+      clearance_reliable = false;
+    }
     const sampled = terrainProfile([siteA.lat_deg, siteA.lon_deg], [siteB.lat_deg, siteB.lon_deg], terrain, study.design.profile_step_m, pathOf);
     profile = sampled.profile;
     if (profile.outside > 0) {
@@ -78,6 +118,18 @@ export function analyzeLink(study: Study, link: LinkInput, terrain: Terrain, opt
           field: `links[${link.index}] (${link.id})`,
           received: `a path that leaves the terrain ${(profile.d_m[i] / 1000).toFixed(2)} km from ${siteA.id}`,
           expected: `a path covered by the terrain: ${why}`,
+        },
+      ]);
+    }
+    const bad = profile.terrain_m.findIndex((h) => !(h >= GROUND_MIN_M && h <= GROUND_MAX_M));
+    if (bad >= 0) {
+      throw new InputError([
+        {
+          file: study.file,
+          ...study.locate(["terrain"]),
+          field: `terrain (link ${link.id})`,
+          received: `a ground height of ${profile.terrain_m[bad]} m ${(profile.d_m[bad] / 1000).toFixed(2)} km from ${siteA.id}`,
+          expected: `terrain heights from ${GROUND_MIN_M} to ${GROUND_MAX_M} m: the DEM holds values that are not heights (declare its nodata value, e.g. gdal_translate -a_nodata)`,
         },
       ]);
     }
@@ -95,6 +147,20 @@ export function analyzeLink(study: Study, link: LinkInput, terrain: Terrain, opt
   };
   const from = end(link.from, siteA, profile.terrain_m[0]);
   const to = end(link.to, siteB, profile.terrain_m[n - 1]);
+  for (const [e, site, h, which] of [[from, siteA, profile.terrain_m[0], "from"], [to, siteB, profile.terrain_m[n - 1], "to"]] as const) {
+    if (e.antenna_amsl_m < h) {
+      const i = study.sites.indexOf(site);
+      throw new InputError([
+        {
+          file: study.file,
+          ...study.locate(["sites", i, "ground_m"]),
+          field: `sites[${i}].ground_m (${site.id}, link ${link.id} ${which} end)`,
+          received: `${site.ground_m} m, which puts the antenna at ${e.antenna_amsl_m.toFixed(1)} m amsl, below the profile's ground of ${h.toFixed(1)} m there`,
+          expected: "a surveyed ground height that agrees with the terrain or profile at the site, or no ground_m (the terrain's height is used)",
+        },
+      ]);
+    }
+  }
   const lambda_m = wavelengthM(radio.frequency_ghz);
   const required = new Map(study.design.clearance_criteria.map((c) => [c.k.k, c.min_f1]));
   const ks: LinkFigureData["ks"] = [];
@@ -158,6 +224,7 @@ export function analyzeLink(study: Study, link: LinkInput, terrain: Terrain, opt
     minimum_heights: minimum ? { ...minimum, step_m: search.step_m } : null,
     losses_db: { free_space: freeSpaceLossDb(D, radio.frequency_ghz) },
     target_met: clearance_met,
+    ...(clearance_reliable ? {} : { clearance_reliable }),
     warnings,
   };
   const { result, height_gain } = linkLosses(study, link, radio, base, profile);

@@ -1,7 +1,5 @@
 import { createHash } from "node:crypto";
-import { mkdtempSync } from "node:fs";
-import { tmpdir } from "node:os";
-import { join, resolve } from "node:path";
+import { resolve } from "node:path";
 import { linkKeyer, terrainFactsKey, toolIdentity } from "../cache/cache-keys.ts";
 import { canonicalJson } from "../cache/canonical-json.ts";
 import { decodeEntry } from "../cache/entry-codec.ts";
@@ -11,18 +9,21 @@ import { memoGeodesicPath } from "../cache/memo-geodesic.ts";
 import { MemoTerrain, TerrainQueryMiss } from "../cache/memo-terrain.ts";
 import type { ResultCache } from "../cache/result-cache.ts";
 import { terrainSourceKey } from "../cache/terrain-source-key.ts";
+import { InternalError, RidgelineError } from "../errors.ts";
 import { InputError, type InputProblem } from "../study/input-error.ts";
 import type { Study } from "../study/study.ts";
 import { openTerrain, type TerrainSpec } from "../terrain/open-terrain.ts";
 import type { Terrain } from "../terrain/terrain.ts";
 import { TerrainError } from "../terrain/terrain-error.ts";
 import { ProfileCsvError } from "../terrain/profile-csv-error.ts";
-import { analyzeLink, siteGroundM } from "./analyze-link.ts";
+import { analyzeLink, GROUND_MAX_M, GROUND_MIN_M, siteGroundM } from "./analyze-link.ts";
+import { shownPath } from "../study/input-file.ts";
 import { chainResults } from "./chains.ts";
 import { LinkFigureMap } from "./link-figure-map.ts";
 import { gitStateAsync, TOOL_VERSION } from "./provenance.ts";
 import type { LinkResult, StudyResult } from "./results.ts";
 import { sanitizeNumbers } from "./sanitize.ts";
+import { makeTempDir, removeTempDir } from "../temp-dirs.ts";
 
 export interface AnalyzedStudy {
   study: Study;
@@ -96,10 +97,16 @@ export async function openStudyTerrain(study: Study): Promise<Terrain> {
     return await openTerrain(terrainSpecOf(study), study.dir);
   } catch (e) {
     if (e instanceof TerrainError) {
-      throw new InputError([{ file: study.file, ...study.locate(["terrain"]), field: "terrain", received: e.detail.path ?? "the terrain named here", expected: `${e.message}${e.detail.hint ? ` ${e.detail.hint}` : ""}` }], { cause: e });
+      throw new InputError([{ file: study.file, ...study.locate(["terrain"]), field: "terrain", received: e.detail.path ? shownPath(study.dir, e.detail.path) : "the terrain named here", expected: terrainFix(e) }], { cause: e });
     }
     throw e;
   }
+}
+
+/** A terrain failure as "expected …" text: its message, and its hint unless the message already says it. */
+function terrainFix(e: TerrainError): string {
+  const hint = e.detail.hint;
+  return hint && !e.message.toLowerCase().includes(hint.toLowerCase()) ? `${e.message}; ${hint}` : e.message;
 }
 
 /** Check that every site lies on the terrain; every site outside is one problem. */
@@ -146,6 +153,11 @@ export async function analyzeStudy(study: Study, options: AnalyzeOptions = {}): 
     const t = await open();
     checkSitesOnTerrain(study, t);
     facts = { kind: t.kind, description: t.description, synthetic: t.synthetic, ground_m: study.sites.map((s) => siteGroundM(s, t)) };
+    const wrong = facts.ground_m.findIndex((h) => !Number.isNaN(h) && !(h >= GROUND_MIN_M && h <= GROUND_MAX_M));
+    if (wrong >= 0) {
+      const s = study.sites[wrong];
+      throw new InputError([{ file: study.file, ...study.locate(["terrain"]), field: `terrain (under site ${s.id})`, received: `a ground height of ${facts.ground_m[wrong]} m`, expected: `terrain heights from ${GROUND_MIN_M} to ${GROUND_MAX_M} m: the DEM holds values that are not heights (declare its nodata value)` }]);
+    }
     if (factsKey) cache!.put("terrain-facts", factsKey, facts);
   }
 
@@ -215,7 +227,9 @@ export async function analyzeStudy(study: Study, options: AnalyzeOptions = {}): 
           computedFigures.set(key!, storedFig!);
         }
       } catch (e) {
-        if (e instanceof ProfileCsvError) {
+        if (e instanceof TerrainError) {
+          problems.push({ file: study.file, ...study.locate(["terrain"]), field: `terrain (link ${link.id})`, received: e.detail.path ? shownPath(study.dir, e.detail.path) : "the terrain named here", expected: terrainFix(e) });
+        } else if (e instanceof ProfileCsvError) {
           problems.push({ file: e.detail.path, line: e.detail.line, col: e.detail.column, field: `${e.detail.field} (profile of link ${link.id})`, received: JSON.stringify(e.detail.value), expected: e.detail.expected });
         } else if (e instanceof InputError) {
           problems.push(...e.problems); // every link's problem is reported together
@@ -247,11 +261,18 @@ export async function analyzeStudy(study: Study, options: AnalyzeOptions = {}): 
   let coverageResults: StudyResult["coverage"] = [];
   let coverageCache = { hits: 0, misses: 0 };
   if (study.coverage?.length) {
-    const dir = mkdtempSync(join(tmpdir(), `ridgeline-coverage-${study.id}-`));
+    // removed when the process ends at the latest (temp-dirs.ts); at once when the maps fail
+    const dir = makeTempDir(`ridgeline-coverage-${study.id}-`);
     // loaded only for a study with coverage: it brings the raster encoders (sharp), which the
     // link analysis, `ridgeline path` and `check` of a links-only study do not need
     const { cachedStudyCoverage } = await import("./coverage/coverage-cache.ts");
-    const cov = await cachedStudyCoverage(study, { outDir: dir, cache, terrainKey, openTerrain: open });
+    let cov: Awaited<ReturnType<typeof cachedStudyCoverage>>;
+    try {
+      cov = await cachedStudyCoverage(study, { outDir: dir, cache, terrainKey, openTerrain: open });
+    } catch (e) {
+      removeTempDir(dir);
+      throw e;
+    }
     coverageResults = cov.results; // without compute time: no clock in results
     coverageCache = cov.cache;
     warnings.push(...cov.warnings);
@@ -337,7 +358,8 @@ export async function analyzeStudies(
       out.push(await analyzeStudy(s, { cache: options.cache, onProgress: (d, t) => options.onProgress?.(s.id, d, t) }));
     } catch (e) {
       if (e instanceof InputError) problems.push(...e.problems);
-      else throw e;
+      else if (e instanceof RidgelineError || e instanceof InternalError) throw e;
+      else throw new InternalError(s.id, e);
     }
   }
   if (problems.length) throw new InputError(problems);

@@ -117,7 +117,12 @@ export function linkPerformance(
   // --- Multipath, worst month, and its conversion to the year (§2.3.4, any depth) ---
   const occ = multipathOccurrenceFactor({ distance_m: p.distance_m, frequency_ghz: f, he_m: p.he_m, hr_m: p.hr_m, dN1: study.climate.dn1, sa_m: study.climate.sa_m });
   const A = Math.max(p.fade_margin_db, 0);
-  const pw = fadeDepthExceedancePercent(occ.p0_pct, A);
+  // A multipath occurrence factor so large that P.530's interpolation (eq. 15) has no value
+  // means fades beyond any margin nearly all the worst month: taken as 100 %, with a warning.
+  const pwRaw = fadeDepthExceedancePercent(occ.p0_pct, A);
+  const saturated = Number.isNaN(pwRaw.pw_pct) && occ.p0_pct > 0;
+  if (saturated) warn(`${MULTIPATH_P530_VALIDITY.method}: the multipath occurrence factor p0 = ${occ.p0_pct.toExponential(2)} % is beyond the method's interpolation; the worst-month multipath outage is taken as 100 %.`);
+  const pw = saturated ? { ...pwRaw, pw_pct: 100 } : pwRaw;
   const dG = worstMonthToAnnualDeltaGDb(p.mid_lat_deg, d_km, occ.epsilon_p_mrad);
   const flatYear = annualFadeExceedancePercent(occ.p0_pct, A, dG).p_pct;
   const toYear = (worstMonthPct: number) => Math.min(worstMonthPct, annualPercentFromWorstMonth(worstMonthPct, Math.max(0, dG)));

@@ -1,4 +1,4 @@
-import { geodesicPath, type GeodesicPath } from "../geo/geodesic-path.ts";
+import { geodesicDistanceM, geodesicPath, type GeodesicPath } from "../geo/geodesic-path.ts";
 import type { Terrain } from "../terrain/terrain.ts";
 
 /** A path profile ready for geometry and loss calculations. */
@@ -18,9 +18,23 @@ export interface LinkProfile {
 /** Default spacing (m) on terrain with no native spacing (constant height). */
 export const CONSTANT_TERRAIN_STEP_M = 50;
 
+/** Fewest intervals a terrain profile has, however coarse the terrain: a path is never two points. */
+export const MIN_PROFILE_INTERVALS = 16;
+/** Most samples a terrain profile may have (a design.profile_step_m finer than path/this is refused). */
+export const MAX_PROFILE_SAMPLES = 100_000;
+
+/**
+ * The spacing (m) a terrain profile of a path `distance_m` long is sampled at: the smaller of
+ * `maxStep_m` (if given), the DEM spacing at mid-path latitude (50 m on constant terrain) and
+ * a sixteenth of the path.
+ */
+export function profileStepM(distance_m: number, native_m: number, maxStep_m?: number): number {
+  return Math.min(maxStep_m ?? Infinity, Number.isFinite(native_m) ? native_m : CONSTANT_TERRAIN_STEP_M, distance_m / MIN_PROFILE_INTERVALS);
+}
+
 /**
  * Sample the terrain along a geodesic no coarser than the terrain's own spacing: the step is
- * the smaller of `maxStep_m` (if given) and the DEM spacing at mid-path latitude.
+ * profileStepM of the path, the DEM spacing at mid-path latitude and `maxStep_m` (if given).
  */
 export function terrainProfile(
   from: readonly [lat_deg: number, lon_deg: number],
@@ -32,7 +46,7 @@ export function terrainProfile(
   const [lat1, lon1] = from;
   const [lat2, lon2] = to;
   const native = terrain.resolutionM((lat1 + lat2) / 2);
-  const step = Math.min(maxStep_m ?? Infinity, Number.isFinite(native) ? native : CONSTANT_TERRAIN_STEP_M);
+  const step = profileStepM(geodesicDistanceM(lat1, lon1, lat2, lon2), native, maxStep_m);
   const geo = pathOf(lat1, lon1, lat2, lon2, step);
   const s = terrain.sample(geo.lat_deg, geo.lon_deg);
   return {

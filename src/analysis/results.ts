@@ -58,6 +58,8 @@ export interface LinkResult {
   profile: { source: string; samples: number; step_m: number };
   clearance: ClearanceRow[];
   clearance_met: boolean;
+  /** false when the terrain is too coarse for the path to judge clearance (a warning says why); absent when reliable. */
+  clearance_reliable?: false;
   /** Lowest antenna heights above ground meeting the clearance criteria, on the search step; null if none. */
   minimum_heights: { from_antenna_m: number; to_antenna_m: number; step_m: number } | null;
   losses_db: { free_space: number; diffraction?: number; gases?: number; rain_0_01pct?: number | null };

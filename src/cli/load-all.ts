@@ -1,4 +1,4 @@
-import { existsSync, readdirSync } from "node:fs";
+import { existsSync, lstatSync, readdirSync, statSync } from "node:fs";
 import { join, resolve } from "node:path";
 import { analyzeStudies, type AnalyzedStudy } from "../analysis/analyze-study.ts";
 import { DEFAULT_CACHE_DIR, ResultCache } from "../cache/result-cache.ts";
@@ -9,9 +9,12 @@ import type { Study } from "../study/study.ts";
 /** Study folders under `root` (those holding a study.yaml), sorted by id; optionally only `ids`. */
 export function findStudies(root: string, ids?: string[]): string[] {
   const abs = resolve(root);
+  if (existsSync(abs) && !statSync(abs).isDirectory()) {
+    throw new InputError([{ file: abs, field: "", received: "a file, not a folder", expected: "the folder holding one sub-folder per study (--studies-dir)" }]);
+  }
   const all = existsSync(abs)
     ? readdirSync(abs, { withFileTypes: true })
-        .filter((d) => d.isDirectory() && existsSync(join(abs, d.name, "study.yaml")))
+        .filter((d) => d.isDirectory() && present(join(abs, d.name, "study.yaml")))
         .map((d) => d.name)
         .sort()
     : [];
@@ -25,13 +28,26 @@ export function findStudies(root: string, ids?: string[]): string[] {
   return all.map((id) => join(abs, id, "study.yaml"));
 }
 
-/** Load every study, reporting the problems of all of them together. */
-export function loadStudies(files: string[]): Study[] {
+/** Whether something named `p` is there, a dangling symbolic link included (loading it says what is wrong). */
+function present(p: string): boolean {
+  try {
+    lstatSync(p);
+    return true;
+  } catch {
+    return false;
+  }
+}
+
+/**
+ * Load every study, reporting the problems of all of them together.
+ * @param options.roots folders besides each study's own that its files may lie in (load-study.ts)
+ */
+export function loadStudies(files: string[], options: { roots?: string[] } = {}): Study[] {
   const problems: InputProblem[] = [];
   const studies: Study[] = [];
   for (const f of files) {
     try {
-      studies.push(loadStudy(f));
+      studies.push(loadStudy(f, options));
     } catch (e) {
       if (e instanceof InputError) problems.push(...e.problems);
       else throw e;

@@ -1,4 +1,4 @@
-import { RidgelineError } from "../errors.ts";
+import { InternalError, RidgelineError } from "../errors.ts";
 import { InputError } from "../study/input-error.ts";
 import { UsageError } from "./args.ts";
 
@@ -49,7 +49,18 @@ export async function main(argv: string[]): Promise<number> {
       process.stderr.write(`ridgeline ${name}: ${e.message}\n`);
       return 2;
     }
-    process.stderr.write(`ridgeline ${name}: internal error — please report it with the input that caused it.\n${(e as Error)?.stack ?? String(e)}\n`);
+    process.stderr.write(`${internalErrorLine(name, e)}\n`);
+    if (process.env.RIDGELINE_DEBUG) process.stderr.write(`${(e as Error)?.stack ?? String(e)}\n`);
     return 70;
   }
+}
+
+/**
+ * The one line printed for an unexpected failure (exit 70): the command, the study when known,
+ * the error's own first line, and how to report it. RIDGELINE_DEBUG=1 adds the stack trace.
+ */
+export function internalErrorLine(command: string, e: unknown): string {
+  const study = e instanceof InternalError ? ` in study ${e.studyId}` : "";
+  const what = e instanceof Error ? `${e instanceof InternalError ? "" : `${e.name}: `}${e.message}` : String(e);
+  return `ridgeline ${command}: internal error${study}: ${what.split("\n")[0].slice(0, 300)} — a bug; please report it with the study (RIDGELINE_DEBUG=1 prints the stack trace)`;
 }

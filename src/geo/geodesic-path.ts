@@ -27,6 +27,11 @@ export function normalizeAzimuthDeg(azi: number): number {
   return a < 0 ? a + 360 : a === 360 ? 0 : a;
 }
 
+/** Length (m) of the WGS84 geodesic between two points (GeographicLib inverse problem, Karney 2013). */
+export function geodesicDistanceM(lat1_deg: number, lon1_deg: number, lat2_deg: number, lon2_deg: number): number {
+  return Geodesic.WGS84.Inverse(lat1_deg, lon1_deg, lat2_deg, lon2_deg, Geodesic.DISTANCE).s12 ?? NaN;
+}
+
 /**
  * The WGS84 geodesic from (lat1, lon1) to (lat2, lon2), sampled at equal steps no longer
  * than `maxStep_m`. Method: GeographicLib's inverse problem and geodesic line (Karney 2013,

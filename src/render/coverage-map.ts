@@ -53,7 +53,7 @@ export function coverageMapSvg(d: CoverageMapData): string {
 <title id="${id}-t">${escapeXml(d.title)}</title>
 <desc id="${id}-d">${escapeXml(desc)}</desc>
 <rect width="${W}" height="${H}" fill="#f4f4f2"/>
-<image x="0" y="0" width="${W}" height="${H}" href="${d.image_href}" xlink:href="${d.image_href}" preserveAspectRatio="none"/>
+<image x="0" y="0" width="${W}" height="${H}" href="${escapeXml(d.image_href)}" xlink:href="${escapeXml(d.image_href)}" preserveAspectRatio="none"/>
 ${sites}
 <g class="legend"><rect x="${PAD}" y="${px(ly)}" width="${px(legendW)}" height="${px(legendH)}" fill="#fff" fill-opacity="0.88" stroke="#999"/>${legend}</g>
 <g class="scale"><rect x="${px(sx - 6)}" y="${px(sy - 16)}" width="${px(sb.length_px + 12)}" height="28" fill="#fff" fill-opacity="0.85"/><path d="M${px(sx)},${px(sy)}h${px(sb.length_px)}M${px(sx)},${px(sy - 4)}v8M${px(sx + sb.length_px)},${px(sy - 4)}v8" stroke="#111" stroke-width="2" fill="none"/><text x="${px(sx + sb.length_px / 2)}" y="${px(sy - 6)}" text-anchor="middle">${escapeXml(sb.label)}</text></g>

@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { ID_MAX_LENGTH, ID_PATTERN, ID_RULE, idProblem, textProblem } from "./name-rules.ts";
 import { patternTableProblem } from "./pattern-table.ts";
 import { antennaPattern, frequencyPlan, interferenceSection, receiverProtection } from "./interference-schema.ts";
 
@@ -10,30 +11,58 @@ import { antennaPattern, frequencyPlan, interferenceSection, receiverProtection 
 
 const kValue = z
   .union([
-    z.number().positive(),
-    z.string().regex(/^(inf|\d+(\.\d+)?\/\d+(\.\d+)?)$/, "a fraction such as 4/3, or inf"),
-    z.object({ gradient_n_km: z.number().gt(-157).describe("refractivity gradient dN/dh in the lowest km (N-units/km); k by ITU-R P.453") }).strict(),
+    z.number().min(0.1).max(100),
+    z.string().max(40).regex(/^(inf|\d+(\.\d+)?\/\d+(\.\d+)?)$/, "a fraction such as 4/3, or inf"),
+    z.object({ gradient_n_km: z.number().min(-150).max(1000).describe("refractivity gradient dN/dh in the lowest km (N-units/km); k by ITU-R P.453") }).strict(),
   ])
   .describe("effective Earth-radius factor: a positive number, a fraction like 4/3, inf, or {gradient_n_km}");
 
 const latitude = z.number().min(-90).max(90).describe("WGS84 latitude (decimal degrees, north positive)");
 const longitude = z.number().min(-180).max(180).describe("WGS84 longitude (decimal degrees, east positive)");
-const id = z.string().regex(/^[A-Za-z0-9][A-Za-z0-9_.-]*$/, "letters, digits, '-', '_' or '.'");
+const id = z
+  .string()
+  .max(ID_MAX_LENGTH, ID_RULE)
+  .regex(ID_PATTERN, ID_RULE)
+  .refine((s) => idProblem(s) === null, ID_RULE);
+
+/** Free text shown in pages: one line (titles, names) or several (summary, notes); see name-rules.ts. */
+const text = (multiline = false) =>
+  z.string().superRefine((s, ctx) => {
+    const problem = textProblem(s, multiline);
+    if (problem) ctx.addIssue({ code: "custom", message: problem });
+  });
+const oneLine = () => text().pipe(z.string().min(1));
+
+/** A calendar date YYYY-MM-DD that exists (no month 13, no 30 February), years 1900–2999. */
+const calendarDate = z
+  .string()
+  .regex(/^\d{4}-\d{2}-\d{2}$/, "a date as YYYY-MM-DD")
+  .refine((s) => {
+    const [y, m, d] = s.split("-").map(Number);
+    const t = new Date(Date.UTC(y, m - 1, d));
+    return y >= 1900 && y <= 2999 && t.getUTCFullYear() === y && t.getUTCMonth() === m - 1 && t.getUTCDate() === d;
+  }, "a calendar date that exists, as YYYY-MM-DD, between 1900 and 2999");
+
+/** Ground and sea heights the Earth holds (m amsl): the Dead Sea shore to above Everest. */
+const groundHeight = () => z.number().min(-500).max(9000);
+
+/** Carrier frequencies the link and coverage methods accept (GHz): VHF to the P.676 limit. */
+const frequencyGhz = () => z.number().min(0.03).max(1000);
 
 const terrain = z
   .union([
-    z.object({ file: z.string().min(1).describe("a .hgt tile, a folder of .hgt tiles, or a GeoTIFF, relative to the study folder") }).strict(),
-    z.object({ constant_m: z.number().describe("smooth Earth at this height above mean sea level (sea paths)") }).strict(),
+    z.object({ file: z.string().min(1).max(1024).describe("a .hgt tile, a folder of .hgt tiles, or a GeoTIFF, relative to the study folder") }).strict(),
+    z.object({ constant_m: groundHeight().describe("smooth Earth at this height above mean sea level (sea paths)") }).strict(),
     z
       .object({
         synthetic: z
           .object({
-            seed: z.number().int(),
+            seed: z.number().int().min(-2147483648).max(4294967295),
             south_deg: latitude,
             west_deg: longitude,
             north_deg: latitude,
             east_deg: longitude,
-            spacing_arcsec: z.number().positive().optional(),
+            spacing_arcsec: z.number().min(0.1).max(3600).optional(),
           })
           .strict()
           .describe("seeded synthetic terrain for demonstrations — not real ground"),
@@ -87,7 +116,8 @@ const linkEnd = z
 
 const patternTable = (lo: number, hi: number, what: string) =>
   z
-    .array(z.tuple([z.number(), z.number()]))
+    .array(z.tuple([z.number(), z.number().max(100)]))
+    .max(3601)
     .superRefine((rows, ctx) => {
       const problem = patternTableProblem(rows, lo, hi);
       if (problem) ctx.addIssue({ code: "custom", message: problem });
@@ -101,7 +131,7 @@ const coverageEntry = z
     id,
     site: id.describe("id of a site in `sites`: the transmitter"),
     method: z.enum(["visibility", "delta-bullington", "hata"]).default("delta-bullington").describe("visibility (radio line of sight), delta-bullington (free space + ITU-R P.526-15 §4.5) or hata (Okumura–Hata / COST-231)"),
-    frequency_ghz: z.number().positive().max(1000).describe("carrier frequency (GHz)"),
+    frequency_ghz: frequencyGhz().describe("carrier frequency (GHz); hata: at most 3 GHz"),
     antenna_m: z.number().min(0).max(1000).describe("antenna centre height above ground (m)"),
     gain_dbi: z.number().min(-10).max(40).default(0).describe("antenna gain toward the boresight (dBi)"),
     pattern: z
@@ -120,8 +150,8 @@ const coverageEntry = z
     receiver_gain_dbi: z.number().min(-20).max(40).default(0).describe("receiver antenna gain (dBi)"),
     receiver_losses_db: z.number().min(0).max(50).default(0).describe("receiver feeder and body losses (dB)"),
     radius_km: z.number().gt(0).max(500).describe("radius of the coverage around the site (km)"),
-    resolution_m: z.number().positive().default(30).describe("cell size (m); a single-raster terrain uses its own grid"),
-    thresholds: z.array(z.number()).default([]).refine(ascending, "levels in strictly ascending order, e.g. [-100, -90, -80]").describe("levels whose covered area is reported and contoured"),
+    resolution_m: z.number().min(0.1).max(10000).default(30).describe("cell size (m); a single-raster terrain uses its own grid"),
+    thresholds: z.array(z.number().min(-300).max(300)).max(32).default([]).refine(ascending, "levels in strictly ascending order, e.g. [-100, -90, -80]").describe("levels whose covered area is reported and contoured"),
     threshold_unit: z.enum(["dBm", "dBuV/m"]).default("dBm").describe("unit of the thresholds: received level (dBm) or field strength (dBµV/m)"),
     k: kValue.default("4/3"),
     clearance_f1: z.number().min(0).max(5).default(0).describe("visibility: required clearance as a fraction of the first Fresnel radius (0: geometric line of sight)"),
@@ -135,33 +165,32 @@ const coverageEntry = z
       .prefault({})
       .describe("hata: area type and city size"),
   })
-  .strict();
+  .strict()
+  .refine((c) => c.method !== "hata" || c.frequency_ghz <= 3, { message: "a frequency of at most 3 GHz for the hata method (Okumura–Hata and COST-231 stop at 2 GHz)", path: ["frequency_ghz"] });
 
 export const studySchema = z
   .object({
-    $schema: z.string().optional(),
-    title: z.string().min(1),
-    client: z.string().min(1),
-    prepared_by: z.string().min(1),
-    revision: z.union([z.string(), z.number()]).transform(String),
-    date: z
-      .string()
-      .regex(/^\d{4}-\d{2}-\d{2}$/, "a date as YYYY-MM-DD")
-      .describe("issue date of this revision (YYYY-MM-DD)"),
-    summary: z.string().optional(),
+    $schema: z.string().max(1024).optional(),
+    title: oneLine(),
+    client: oneLine(),
+    prepared_by: oneLine(),
+    revision: z.union([oneLine(), z.number().min(0).max(1e9)]).transform(String),
+    date: calendarDate.describe("issue date of this revision (YYYY-MM-DD)"),
+    summary: text(true).optional(),
     terrain,
     design: z
       .object({
-        k_factors: z.array(kValue).min(1).default(["4/3", "2/3"]),
+        k_factors: z.array(kValue).min(1).max(8).default(["4/3", "2/3"]),
         clearance_criteria: z
           .array(z.object({ k: kValue, min_f1: z.number().min(-5).max(5).describe("required clearance as a fraction of the first Fresnel radius") }).strict())
+          .max(8)
           .default([
             { k: "4/3", min_f1: 1.0 },
             { k: "2/3", min_f1: 0.6 },
           ]),
         availability_pct: z.number().gt(0).lt(100).default(99.99).describe("required annual availability against long outages (rain, rain depolarisation) (%)"),
         diffraction_method: z.enum(["knife_edge", "deygout", "epstein_peterson", "bullington", "delta_bullington"]).default("delta_bullington"),
-        profile_step_m: z.number().positive().optional().describe("profile sample spacing (m); default and upper bound: the terrain's own spacing"),
+        profile_step_m: z.number().min(0.1).max(10000).optional().describe("profile sample spacing (m); default and upper bound: the terrain's own spacing"),
         performance_pct: z.number().gt(0).lt(100).optional().describe("required percentage of the average worst month free of short-fade outage (multipath flat, dispersive, clear-air XPD): the error-performance objective (%); default 99.995"),
         worst_month_k: z
           .object({
@@ -174,12 +203,13 @@ export const studySchema = z
         design_allowance_db: z.number().min(0).max(30).default(0).describe("design allowance: margin set aside for ageing, misalignment and the like, taken off the fade margin (dB)"),
         antenna_search: z
           .object({
-            step_m: z.number().positive().max(50).default(1).describe("candidate step for the minimum-antenna-height search (m)"),
+            step_m: z.number().min(0.1).max(50).default(1).describe("candidate step for the minimum-antenna-height search (m)"),
             max_m: z.number().positive().max(1000).default(100).describe("tallest antenna height the search considers (m)"),
           })
           .strict()
+          .refine((a) => a.max_m / a.step_m <= 2000, { message: "at most 2000 candidate heights: max_m / step_m ≤ 2000 (e.g. step_m: 0.5 up to 1000 m)", path: ["step_m"] })
           .prefault({}),
-        structure_notice_height_m: z.number().positive().default(45).describe("antennas higher than this above ground get a structure/aviation notice"),
+        structure_notice_height_m: z.number().positive().max(1000).default(45).describe("antennas higher than this above ground get a structure/aviation notice"),
       })
       .strict()
       .prefault({}),
@@ -200,11 +230,11 @@ export const studySchema = z
         z
           .object({
             id,
-            name: z.string().optional(),
-            frequency_ghz: z.number().positive().max(1000).describe("carrier frequency (GHz)"),
+            name: oneLine().optional(),
+            frequency_ghz: frequencyGhz().describe("carrier frequency (GHz)"),
             tx_power_dbm: z.number().min(-30).max(70),
             rx_threshold_dbm: z.number().min(-150).max(0).describe("receiver threshold at the stated bit-error ratio (dBm)"),
-            threshold_ber: z.union([z.number(), z.string()]).transform(String).default("1e-6"),
+            threshold_ber: z.union([z.number().gt(0).lt(1), z.string().max(20).regex(/^[0-9.eE+-]+$/, "a bit-error ratio such as 1e-6")]).transform(String).default("1e-6"),
             signature: signature.optional(),
             modes: z
               .array(modulationMode)
@@ -220,21 +250,23 @@ export const studySchema = z
           })
           .strict(),
       )
-      .min(1),
+      .min(1)
+      .max(1000),
     sites: z
       .array(
         z
           .object({
             id,
-            name: z.string().min(1),
+            name: oneLine(),
             lat_deg: latitude,
             lon_deg: longitude,
-            ground_m: z.number().min(-500).max(9000).optional().describe("surveyed ground elevation (m amsl); default: from the terrain"),
-            notes: z.string().optional(),
+            ground_m: groundHeight().optional().describe("surveyed ground elevation (m amsl); default: from the terrain"),
+            notes: text(true).optional(),
           })
           .strict(),
       )
-      .min(1),
+      .min(1)
+      .max(10000),
     links: z
       .array(
         z
@@ -244,7 +276,7 @@ export const studySchema = z
             to: linkEnd,
             radio: id.describe("id of a radio in `radios`"),
             polarization: z.enum(["h", "v"]).default("v"),
-            profile_csv: z.string().optional().describe("surveyed profile CSV (distance_m,elevation_m[,obstruction_m]) used instead of the terrain"),
+            profile_csv: z.string().min(1).max(1024).optional().describe("surveyed profile CSV (distance_m,elevation_m[,obstruction_m]) used instead of the terrain"),
             availability_pct: z.number().gt(0).lt(100).optional().describe("overrides design.availability_pct for this link"),
             performance_pct: z.number().gt(0).lt(100).optional().describe("overrides design.performance_pct for this link"),
             diversity: z
@@ -268,11 +300,13 @@ export const studySchema = z
           })
           .strict(),
       )
+      .max(10000)
       .default([]),
     chains: z
-      .array(z.object({ id, name: z.string().optional(), links: z.array(id).min(1) }).strict())
+      .array(z.object({ id, name: oneLine().optional(), links: z.array(id).min(1).max(1000) }).strict())
+      .max(1000)
       .default([]),
-    coverage: z.array(coverageEntry).default([]).describe("coverage maps around base sites"),
+    coverage: z.array(coverageEntry).max(64).default([]).describe("coverage maps around base sites"),
     interference: interferenceSection.optional(),
   })
   .strict();

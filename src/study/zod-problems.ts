@@ -46,6 +46,7 @@ function expectedText(issue: z.core.$ZodIssue, received: unknown): string {
       return `a number ${issue.inclusive ? "≥" : ">"} ${issue.minimum}`;
     case "too_big":
       if (issue.origin === "array") return `at most ${issue.maximum} entries`;
+      if (issue.origin === "string") return issue.message.startsWith("Too big") ? `a text of at most ${issue.maximum} characters` : issue.message;
       return `a number ${issue.inclusive ? "≤" : "<"} ${issue.maximum}`;
     case "invalid_value":
       return `one of ${issue.values.map((v) => JSON.stringify(v)).join(", ")}`;

@@ -1,7 +1,7 @@
 import { readFileSync, statSync } from "node:fs";
 import { endianness } from "node:os";
 import { basename } from "node:path";
-import { fillHgtVoids } from "./hgt-void-fill.ts";
+import { fillHgtVoids, HGT_VOID } from "./hgt-void-fill.ts";
 import { parseHgtTileName } from "./hgt-tile-name.ts";
 import { TerrainError } from "./terrain-error.ts";
 
@@ -50,6 +50,10 @@ export function checkHgtSize(path: string, label: string): 3601 | 1201 {
   return n;
 }
 
+/** Heights an SRTM tile may hold (m), besides the void marker: the Dead Sea shore to above Everest. */
+export const HGT_MIN_M = -500;
+export const HGT_MAX_M = 9000;
+
 /**
  * Read one SRTM .hgt tile: big-endian int16, n×n, row-major from the north edge,
  * samples on whole arc-seconds (SRTM format as distributed by NASA/USGS). The SW corner
@@ -68,6 +72,17 @@ export function readHgtTile(path: string, label = basename(path)): HgtTile {
   if (buf.byteOffset % 2 !== 0) buf = Buffer.from(new Uint8Array(buf)); // Int16Array needs 2-byte alignment
   if (endianness() === "LE") buf.swap16(); // file is big-endian; swap in place (our own buffer)
   const raw = new Int16Array(buf.buffer, buf.byteOffset, n * n);
+  // Heights outside what the Earth holds mean the file is not an SRTM tile (or is damaged):
+  // refused rather than used as ground tens of kilometres high or deep.
+  for (let i = 0; i < raw.length; i++) {
+    const v = raw[i];
+    if ((v < HGT_MIN_M || v > HGT_MAX_M) && v !== HGT_VOID) {
+      throw new TerrainError(
+        `SRTM tile ${label} holds a height of ${v} m at row ${Math.floor(i / n)}, column ${i % n}, outside ${HGT_MIN_M}…${HGT_MAX_M} m: it is not a big-endian SRTM height tile, or it is damaged`,
+        { path, hint: "download the tile again, or convert the DEM with gdal_translate -of SRTMHGT" },
+      );
+    }
+  }
   const filled = fillHgtVoids(raw, n);
   return {
     lat_deg: corner.lat_deg,

@@ -34,6 +34,9 @@ const REQUIRED = ["distance_m", "elevation_m"] as const;
 const KNOWN = ["distance_m", "elevation_m", "obstruction_m", "clutter_class", "clutter_height_m", "zone"];
 const NUMBER = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
 
+/** Longest surveyed profile accepted (m): far beyond any line-of-sight or diffraction path. */
+export const PROFILE_MAX_DISTANCE_M = 2_000_000;
+
 /**
  * Parse a surveyed profile CSV: a header `distance_m,elevation_m` with optional
  * `obstruction_m`, `clutter_class` (water, open, suburban, urban, dense_urban),
@@ -100,11 +103,14 @@ export function parseProfileCsv(text: string, path: string): SurveyedProfile {
     if (d.length > 0 && !(dist > d[d.length - 1])) {
       fail("distance does not increase", lineNo, col.distance_m + 1, "distance_m", cells[col.distance_m], `a distance greater than ${d[d.length - 1]} (rows in order of distance)`);
     }
+    if (!(dist <= PROFILE_MAX_DISTANCE_M)) fail("distance out of range", lineNo, col.distance_m + 1, "distance_m", cells[col.distance_m], `a distance of at most ${PROFILE_MAX_DISTANCE_M} m`);
     const elev = num("elevation_m");
+    if (!(elev >= -500 && elev <= 9000)) fail("elevation out of range", lineNo, col.elevation_m + 1, "elevation_m", cells[col.elevation_m], "a ground height from -500 to 9000 m above mean sea level");
     let obs = 0;
     if (hasObstruction) {
       obs = num("obstruction_m");
       if (obs < 0) fail("obstruction height is negative", lineNo, col.obstruction_m + 1, "obstruction_m", cells[col.obstruction_m], "a height ≥ 0 above ground");
+      if (!(obs <= 1000)) fail("obstruction height out of range", lineNo, col.obstruction_m + 1, "obstruction_m", cells[col.obstruction_m], "a height of at most 1000 m above ground");
     }
     if (col.clutter_class !== undefined) cc.push(word(cells, lineNo, "clutter_class", PROFILE_CLUTTER_CLASSES));
     if (col.clutter_height_m !== undefined) {

@@ -52,7 +52,7 @@ const cases: Case[] = [
     yaml: sub("  constant_m: 50", "  file: dem").replace("lat_deg: -33.4500", "lat_deg: -33.9995").replace("lon_deg: -70.6600", "lon_deg: -70.9500").replace("lat_deg: -33.5000", "lat_deg: -33.9995").replace("lon_deg: -70.6000", "lon_deg: -70.0500"),
     expect: ["links[0] (a-b)", "leaves the terrain", "S35W071.hgt"],
   },
-  { name: "frequency 0", yaml: sub("frequency_ghz: 6", "frequency_ghz: 0"), expect: ["radios[0].frequency_ghz", "0", "> 0"], line: 10 },
+  { name: "frequency 0", yaml: sub("frequency_ghz: 6", "frequency_ghz: 0"), expect: ["radios[0].frequency_ghz", "0", "≥ 0.03"], line: 10 },
   { name: "empty study", yaml: "# nothing here yet\n", expect: ["empty study"] },
   { name: "unknown field", yaml: sub("    radio: r1\n", "    radio: r1\n    polarisation: v\n"), expect: ["links[0].polarisation", "unknown field"], line: 27 },
 ];

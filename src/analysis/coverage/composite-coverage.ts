@@ -1,6 +1,6 @@
 import { crsFromEpsg } from "../../terrain/crs-from-epsg.ts";
 import { metresPerDegree } from "../../terrain/metres-per-degree.ts";
-import { pointScale, type CoverageGrid } from "./coverage-grid.ts";
+import { MAX_COVERAGE_CELLS, pointScale, type CoverageGrid } from "./coverage-grid.ts";
 import { LEVEL_NODATA, VISIBILITY_NODATA } from "./coverage-job.ts";
 
 /** What the composite reads of a level coverage (a ComputedCoverage is one). */
@@ -68,6 +68,8 @@ export function compositeCoverage(inputs: readonly CompositeInput[]): Composite 
   });
   const W = c1 - c0;
   const H = r1 - r0;
+  // the members' own limit applies to their union too: far-apart sites span a huge grid
+  if (!(W * H <= MAX_COVERAGE_CELLS)) return `the composite would need ${W} × ${H} = ${((W * H) / 1e6).toFixed(1)} M cells, more than the limit of ${MAX_COVERAGE_CELLS / 1e6} M (the coverages lie far apart; give them separate studies)`;
   const level = new Float32Array(W * H).fill(LEVEL_NODATA);
   const best = new Uint8Array(W * H).fill(VISIBILITY_NODATA);
   const dem = new Float32Array(W * H).fill(NaN);

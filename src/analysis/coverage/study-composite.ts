@@ -84,7 +84,7 @@ export async function studyComposite(study: Study, levels: CompositeMember[], ou
     files: out.files,
     best_server: levels.map((it, k) => ({ index: k + 1, coverage: it.result.id, site: it.result.sites[0], area_km2: a.served_m2[k] / 1e6, pct: pct(a.served_m2[k]) })),
     assumptions: [
-      `Each cell takes the strongest received level of the ${levels.length} coverages and the coverage providing it (best server; ${levels.map((it, k) => `${k + 1} = ${it.result.id}`).join(", ")}); the area a site serves counts cells where it is the best server at or above ${serveFrom} dBm.`,
+      `Each cell takes the strongest received level of the ${levels.length} coverages and the coverage providing it (best server; ${levels.map((it, k) => `${k + 1} = ${it.result.id}`).join(", ")}); the area a site serves counts cells where it is the best server${Number.isFinite(serveFrom) ? ` at or above ${serveFrom} dBm` : ""}.`,
       `Centre of the composite grid: ${lat.toFixed(5)}, ${lon.toFixed(5)}.`,
     ],
     warnings: [],

@@ -4,6 +4,7 @@ import { parseArgs } from "../args.ts";
 import { buildSite } from "../build-site.ts";
 import { findStudies, loadStudies } from "../load-all.ts";
 import { progressReporter } from "../progress.ts";
+import { removeTempDir } from "../../temp-dirs.ts";
 
 export interface BuildOptions {
   /** Study ids to build (default: every study under studiesDir). */
@@ -41,7 +42,12 @@ export async function runBuild(options: BuildOptions = {}): Promise<BuildReport>
     progress.stop();
   }
   const t1 = performance.now();
-  const { outDir } = await buildSite(studies, { outDir: options.outDir, pathPrefix: options.pathPrefix });
+  let outDir: string;
+  try {
+    outDir = (await buildSite(studies, { outDir: options.outDir, pathPrefix: options.pathPrefix })).outDir;
+  } finally {
+    for (const s of studies) if (s.coverage) removeTempDir(s.coverage.dir); // copied into the site
+  }
   return {
     outDir,
     studies,

@@ -9,6 +9,8 @@ export interface CheckRow {
   study: string;
   link: string;
   clearance_met: boolean;
+  /** false when the terrain is too coarse for the path to judge clearance */
+  clearance_reliable: boolean;
   fade_margin_db: number | null;
   availability_pct: number | null;
   target_availability_pct: number | null;
@@ -25,6 +27,7 @@ export function checkRows(studies: AnalyzedStudy[]): CheckRow[] {
       study: s.result.id,
       link: l.id,
       clearance_met: l.clearance_met,
+      clearance_reliable: l.clearance_reliable !== false,
       fade_margin_db: l.fade_margin_db ?? null,
       availability_pct: l.availability_pct ?? null,
       target_availability_pct: l.target_availability_pct ?? null,
@@ -105,7 +108,7 @@ export async function checkCommand(argv: string[]): Promise<number> {
     const table = rows.map((r) => [
       r.study,
       r.link,
-      r.clearance_met ? "meets" : "SHORT",
+      `${r.clearance_met ? "meets" : "SHORT"}${r.clearance_reliable ? "" : " (unreliable)"}`,
       formatNumber(r.fade_margin_db, 1),
       `${formatNumber(r.objectives?.performance.achieved_pct ?? null, 5)}${r.objectives && !r.objectives.performance.met ? " ✗" : ""}`,
       formatNumber(r.objectives?.performance.target_pct ?? null, 3),
@@ -116,6 +119,10 @@ export async function checkCommand(argv: string[]): Promise<number> {
     const widths = header.map((h, i) => Math.max(h.length, ...table.map((row) => row[i].length)));
     const line = (cells: string[]) => cells.map((c, i) => (i >= 3 && i <= 7 ? c.padStart(widths[i]) : c.padEnd(widths[i]))).join("  ");
     process.stdout.write(`${line(header)}\n${widths.map((w) => "-".repeat(w)).join("  ")}\n${table.map(line).join("\n")}\n`);
+    const unreliable = rows.filter((r) => !r.clearance_reliable);
+    if (unreliable.length) {
+      process.stdout.write(`\nClearance verdict unreliable (terrain coarser than a tenth of the path; see the link's warnings): ${unreliable.map((r) => `${r.study}/${r.link}`).join(", ")}\n`);
+    }
     process.stdout.write(missed ? `\n${missed} of ${rows.length} links miss a target.\n` : `\nAll ${rows.length} links meet their targets.\n`);
     if (ifx.length) {
       process.stdout.write(interferenceTable(ifx));

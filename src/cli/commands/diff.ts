@@ -36,7 +36,8 @@ async function analyzeSide(loc: StudiesLocation, rev: Revision, tmp: string, cac
   const side = await materializeRevision(loc, rev.commit, short, into);
   notes.push(...side.notes);
   try {
-    return await analyzeStudies(loadStudies(findStudies(side.studiesDir)), { cache });
+    // the revision as materialised (its own repository) and the working-tree copies linked into it for files git does not hold
+    return await analyzeStudies(loadStudies(findStudies(side.studiesDir), { roots: [loc.root, into] }), { cache });
   } catch (e) {
     if (!(e instanceof InputError)) throw e;
     const rename = (f: string) => (f.startsWith(into + sep) ? `${short}:${relative(into, f).split(sep).join("/")}` : f);

@@ -1,6 +1,6 @@
 import { scaleLinear } from "d3-scale";
 import { leftAxis } from "./axes.ts";
-import { escapeXml, px } from "./escape.ts";
+import { escapeXml, px, svgId } from "./escape.ts";
 import { fixed } from "./number-text.ts";
 
 /** The path cross-section at one k's point of least clearance. */
@@ -43,15 +43,16 @@ export function fresnelSectionSvg(p: FresnelSectionInput): string {
   const H = p.height ?? 340;
   const gap = 16;
   const pw = (W - gap * (n - 1)) / n;
-  const titleId = `${p.id}-title`;
-  const descId = `${p.id}-desc`;
+  const pid = svgId(p.id);
+  const titleId = `${pid}-title`;
+  const descId = `${pid}-desc`;
   const out: string[] = [
     `<svg xmlns="http://www.w3.org/2000/svg" class="fresnel-section" viewBox="0 0 ${W} ${H}" width="${W}" height="${H}" role="img" aria-labelledby="${titleId} ${descId}">`,
     `<title id="${titleId}">${escapeXml(p.title)}</title>`,
     `<desc id="${descId}">${escapeXml(p.panels.map(describe).join(" "))}</desc>`,
-    `<defs><pattern id="${p.id}-hatch" width="7" height="7" patternUnits="userSpaceOnUse" patternTransform="rotate(45)"><rect width="7" height="7" class="hatch-back" /><line x1="0" y1="0" x2="0" y2="7" class="hatch-line" /></pattern></defs>`,
+    `<defs><pattern id="${pid}-hatch" width="7" height="7" patternUnits="userSpaceOnUse" patternTransform="rotate(45)"><rect width="7" height="7" class="hatch-back" /><line x1="0" y1="0" x2="0" y2="7" class="hatch-line" /></pattern></defs>`,
   ];
-  p.panels.forEach((panel, j) => out.push(`<g transform="translate(${px(j * (pw + gap))},0)">${panelSvg(panel, pw, H, `${p.id}-${j}`, `${p.id}-hatch`, p.from)}</g>`));
+  p.panels.forEach((panel, j) => out.push(`<g transform="translate(${px(j * (pw + gap))},0)">${panelSvg(panel, pw, H, `${pid}-${j}`, `${pid}-hatch`, p.from)}</g>`));
   out.push("</svg>");
   return out.join("");
 }

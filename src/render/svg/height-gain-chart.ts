@@ -2,7 +2,7 @@ import { extent } from "d3-array";
 import { scaleLinear } from "d3-scale";
 import { line } from "d3-shape";
 import { bottomAxis, leftAxis } from "./axes.ts";
-import { escapeXml, px } from "./escape.ts";
+import { escapeXml, px, svgId } from "./escape.ts";
 
 export interface HeightGainInput {
   id: string;
@@ -38,8 +38,9 @@ export function heightGainSvg(p: HeightGainInput): string {
     .y((q) => y(q.rx_antenna_m))
     .digits(1)(pts);
   const at = pts.reduce<{ rx_antenna_m: number; relative_db: number } | null>((best, q) => (best === null || Math.abs(q.rx_antenna_m - p.design_m) < Math.abs(best.rx_antenna_m - p.design_m) ? q : best), null);
-  const titleId = `${p.id}-title`;
-  const descId = `${p.id}-desc`;
+  const pid = svgId(p.id);
+  const titleId = `${pid}-title`;
+  const descId = `${pid}-desc`;
   const lo = pts.filter((q) => Number.isFinite(q.relative_db)).reduce((a, q) => (q.relative_db < a.relative_db ? q : a), { rx_antenna_m: NaN, relative_db: Infinity });
   const out: string[] = [
     `<svg xmlns="http://www.w3.org/2000/svg" class="height-gain" viewBox="0 0 ${W} ${H}" width="${W}" height="${H}" role="img" aria-labelledby="${titleId} ${descId}">`,

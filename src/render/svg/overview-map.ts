@@ -1,5 +1,5 @@
 import { geoGraticule, geoPath, type GeoProjection } from "d3-geo";
-import { escapeXml, px } from "./escape.ts";
+import { escapeXml, px, svgId } from "./escape.ts";
 import { placeLabel, textWidthPx, type Box } from "./label-placement.ts";
 import { metresPerPixel } from "./map-projection.ts";
 
@@ -63,8 +63,9 @@ export function overviewMapSvg(p: OverviewMapInput): string {
   const proj = (s: MapSite) => projection([s.lon_deg, s.lat_deg]) ?? [Number.NaN, Number.NaN];
   const path = geoPath(projection).digits(1);
   const out: string[] = [];
-  const titleId = `${p.id}-title`;
-  const descId = `${p.id}-desc`;
+  const pid = svgId(p.id);
+  const titleId = `${pid}-title`;
+  const descId = `${pid}-desc`;
   const missed = p.links.filter((l) => !l.met);
   out.push(
     `<svg xmlns="http://www.w3.org/2000/svg" class="overview-map" viewBox="0 0 ${W} ${H}" width="${W}" height="${H}" role="img" aria-labelledby="${titleId} ${descId}">`,
@@ -74,7 +75,7 @@ export function overviewMapSvg(p: OverviewMapInput): string {
         p.links.map((l) => `Link ${l.id} from ${l.from.name} to ${l.to.name}: ${l.met ? "meets its targets" : "misses a target"}.`).join(" ") +
         (missed.length ? "" : " Every link meets its targets."),
     )}</desc>`,
-    `<defs><clipPath id="${p.id}-clip"><rect x="0" y="0" width="${W}" height="${H}" /></clipPath></defs>`,
+    `<defs><clipPath id="${pid}-clip"><rect x="0" y="0" width="${W}" height="${H}" /></clipPath></defs>`,
     `<rect class="map-paper" x="0" y="0" width="${W}" height="${H}" />`,
   );
   if (p.backdrop) out.push(`<image class="map-backdrop" href="${escapeXml(p.backdrop.href)}" x="0" y="0" width="${W}" height="${H}" preserveAspectRatio="none" />`);
@@ -100,7 +101,7 @@ export function overviewMapSvg(p: OverviewMapInput): string {
   const counts = places.map(sitesUnder);
   const legendBox: Box = places[counts.indexOf(Math.min(...counts))];
   const scaleBox: Box = { x: 8, y: H - 48, w: 200, h: 40 };
-  out.push(`<g clip-path="url(#${p.id}-clip)">`, graticule(projection, W, H, [legendBox, scaleBox]), "</g>");
+  out.push(`<g clip-path="url(#${pid}-clip)">`, graticule(projection, W, H, [legendBox, scaleBox]), "</g>");
 
   // Links: a white casing under each line so it reads over the shading.
   out.push(`<g class="map-links">`);
@@ -176,7 +177,7 @@ export function overviewMapSvg(p: OverviewMapInput): string {
   }
   out.push("</g>", `<g class="map-link-labels">${linkLabels.join("")}</g>`);
 
-  out.push(scaleBar(projection, W, H), northArrow(projection, W), legend(legendRows, legendBox, p.id, p.backdrop?.ramp));
+  out.push(scaleBar(projection, W, H), northArrow(projection, W), legend(legendRows, legendBox, pid, p.backdrop?.ramp));
   out.push(`<rect class="map-frame" x="0.5" y="0.5" width="${W - 1}" height="${H - 1}" />`, "</svg>");
   return out.join("");
 }

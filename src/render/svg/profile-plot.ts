@@ -3,7 +3,7 @@ import { area, line } from "d3-shape";
 import { earthBulgeM } from "../../physics/earth-bulge.ts";
 import { fresnelRadiusM } from "../../physics/fresnel-radius.ts";
 import { bottomAxis, leftAxis } from "./axes.ts";
-import { escapeXml, px } from "./escape.ts";
+import { escapeXml, px, svgId } from "./escape.ts";
 import { fixed } from "./number-text.ts";
 import { placeLabel, textWidthPx, type Box } from "./label-placement.ts";
 
@@ -75,8 +75,9 @@ export function profilePlotSvg(p: ProfilePlotInput): string {
   const yBase = y.range()[0];
   const pts = (f: (i: number) => number) => line<number>().x((i) => x(p.d_m[i])).y((i) => y(f(i))).digits(1)(idx) ?? "";
   const out: string[] = [];
-  const titleId = `${p.id}-title`;
-  const descId = `${p.id}-desc`;
+  const pid = svgId(p.id);
+  const titleId = `${pid}-title`;
+  const descId = `${pid}-desc`;
   out.push(
     `<svg xmlns="http://www.w3.org/2000/svg" class="profile-plot" viewBox="0 0 ${W} ${H}" width="${W}" height="${H}" role="img" aria-labelledby="${titleId} ${descId}">`,
     `<title id="${titleId}">${escapeXml(p.title)}</title>`,
