@@ -1,4 +1,5 @@
 import { annualPercentFromWorstMonth, worstMonthToAnnualDeltaGDb } from "../physics/worst-month-to-annual.ts";
+import { formatSmall } from "../format/quantity.ts";
 import { linkAvailabilityPct } from "../physics/availability.ts";
 import { bullingtonLoss } from "../physics/bullington.ts";
 import { EARTH_RADIUS_M } from "../physics/constants.ts";
@@ -99,7 +100,7 @@ export function linkLosses(study: Study, link: LinkInput, radio: RadioInput, bas
     rain_outage_pct = fade_margin_db <= 0 ? 100 : outage.outage_pct;
     warn(rangeWarning(RAIN_P530_VALIDITY.method, "frequency", f, RAIN_P530_VALIDITY.frequency_ghz, "GHz"));
     warn(rangeWarning(RAIN_P530_VALIDITY.method, "path length", d_km, RAIN_P530_VALIDITY.distance_km, "km"));
-    if (outage.flag !== "within_range" && fade_margin_db > 0) warn(`${RAIN_P530_VALIDITY.method}: the rain outage (${outage.outage_pct.toExponential(2)} %) lies outside the 0.001–1 % the method covers (${outage.flag.replace(/_/g, " ")}).`);
+    if (outage.flag !== "within_range" && fade_margin_db > 0) warn(`${RAIN_P530_VALIDITY.method}: the rain outage (${formatSmall(outage.outage_pct, 3)} %) lies outside the 0.001–1 % the method covers (${outage.flag.replace(/_/g, " ")}).`);
   }
 
   // Multipath, worst month → average year.

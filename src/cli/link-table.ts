@@ -1,5 +1,5 @@
 import type { LinkResult } from "../analysis/results.ts";
-import { formatNumber as f } from "../site/format.ts";
+import { formatNumber as f } from "../format/quantity.ts";
 
 /** Print one link result as a readable table on stdout. */
 export function printLinkTable(l: LinkResult): void {

@@ -1,6 +1,8 @@
 import { loadAllStudies } from "../cli/load-all.ts";
 import { cssString } from "./css-string.ts";
-import { formatDuration, formatNumber, formatSmall } from "./format.ts";
+import { formatDuration, formatFrequency, formatK, formatNumber, formatPercent, formatRatio, formatSigned, formatSmall } from "../format/quantity.ts";
+import { profileSourceText } from "./profile-source.ts";
+import { reviewWarnings } from "./review-warnings.ts";
 import { linkFresnelSvg, linkHeightGainSvg, linkProfileSvg } from "./link-figures.ts";
 import { relativeUrl } from "./relative-url.ts";
 import { analyzedStudy, getAnalyzedStudies, setAnalyzedStudies, siteData } from "./site-data.ts";
@@ -42,6 +44,14 @@ export default function ridgelineSite(eleventyConfig: EleventyConfig): void {
   eleventyConfig.addFilter("num", (v: unknown, digits = 1) => formatNumber(v, digits));
   eleventyConfig.addFilter("small", (v: unknown, sig = 3) => formatSmall(v, sig));
   eleventyConfig.addFilter("duration", (v: unknown) => formatDuration(v));
+  eleventyConfig.addFilter("freq", (ghz: unknown) => formatFrequency(ghz));
+  eleventyConfig.addFilter("kval", (k: unknown) => formatK(k));
+  eleventyConfig.addFilter("pct", (v: unknown, digits = 5) => formatPercent(v, digits));
+  eleventyConfig.addFilter("ratio", (v: unknown) => formatRatio(v));
+  // a budget item: its sign ("+", "−" or "") applied to its magnitude, written with the sign
+  eleventyConfig.addFilter("signed", (v: unknown, sign: string, digits = 2) => (typeof v === "number" && sign ? formatSigned(sign === "−" ? -v : v, digits) : formatNumber(v, digits)));
+  eleventyConfig.addFilter("profileSource", (s: unknown) => profileSourceText(String(s ?? "")));
+  eleventyConfig.addFilter("reviewWarnings", (w: unknown, ctx: { frequency_ghz?: number; gases_db?: number | null } = {}) => reviewWarnings(Array.isArray(w) ? w : [], ctx ?? {}));
   eleventyConfig.addFilter("cssString", (v: unknown) => cssString(v));
   eleventyConfig.addFilter("json", (v: unknown) => JSON.stringify(v, null, 2));
   eleventyConfig.addShortcode("profilePlot", (studyId: string, linkId: string) => linkProfileSvg(analyzedStudy(studyId), linkId));

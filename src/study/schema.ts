@@ -102,6 +102,41 @@ const coverageEntry = z
   })
   .strict();
 
+const isoDate = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, "a date as YYYY-MM-DD");
+
+const signOff = z
+  .object({
+    name: z.string().min(1).optional(),
+    role: z.string().min(1).optional(),
+    date: isoDate.optional(),
+  })
+  .strict()
+  .describe("who signed this step, in what role and when; the report leaves empty boxes for what is not given");
+
+const documentControl = z
+  .object({
+    number: z.string().min(1).optional().describe("document number under the client's or the firm's document control"),
+    paper: z.enum(["a4", "letter"]).default("a4").describe("paper size of the printed report and its PDF"),
+    revisions: z
+      .array(
+        z
+          .object({
+            revision: z.union([z.string(), z.number()]).transform(String),
+            date: isoDate,
+            author: z.string().min(1).optional(),
+            description: z.string().min(1),
+          })
+          .strict(),
+      )
+      .default([])
+      .describe("revision history, oldest first"),
+    prepared: signOff.optional(),
+    checked: signOff.optional(),
+    approved: signOff.optional(),
+  })
+  .strict()
+  .describe("document control: number, revision history and sign-off (shown on the study page and the PDF's first page)");
+
 export const studySchema = z
   .object({
     $schema: z.string().optional(),
@@ -114,6 +149,7 @@ export const studySchema = z
       .regex(/^\d{4}-\d{2}-\d{2}$/, "a date as YYYY-MM-DD")
       .describe("issue date of this revision (YYYY-MM-DD)"),
     summary: z.string().optional(),
+    document: documentControl.prefault({}),
     terrain,
     design: z
       .object({
@@ -190,8 +226,13 @@ export const studySchema = z
             polarization: z.enum(["h", "v"]).default("v"),
             profile_csv: z.string().optional().describe("surveyed profile CSV (distance_m,elevation_m[,obstruction_m]) used instead of the terrain"),
             availability_pct: z.number().gt(0).lt(100).optional().describe("overrides design.availability_pct for this link"),
+            design_status: z.enum(["alternative", "rejected"]).optional().describe("a design kept for the record: computed and shown in its own section, left out of the study's verdict and of `ridgeline check`'s exit code"),
+            design_reason: z.string().min(1).optional().describe("why the design is an alternative or was rejected (required with design_status)"),
           })
-          .strict(),
+          .strict()
+          .superRefine((l, ctx) => {
+            if (l.design_status && !l.design_reason) ctx.addIssue({ code: "custom", path: ["design_reason"], message: `a link marked design_status: ${l.design_status} needs design_reason, one sentence saying why` });
+          }),
       )
       .default([]),
     chains: z
@@ -203,4 +244,5 @@ export const studySchema = z
 
 export type StudyInput = z.output<typeof studySchema>;
 export type KValueInput = z.output<typeof kValue>;
+export type DocumentControlInput = z.output<typeof documentControl>;
 export type CoverageEntryInput = z.output<typeof coverageEntry>;

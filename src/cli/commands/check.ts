@@ -1,5 +1,5 @@
 import type { AnalyzedStudy } from "../../analysis/analyze-study.ts";
-import { formatNumber } from "../../site/format.ts";
+import { formatNumber } from "../../format/quantity.ts";
 import { parseArgs } from "../args.ts";
 import { loadAllStudies } from "../load-all.ts";
 import { progressReporter } from "../progress.ts";
@@ -13,6 +13,8 @@ export interface CheckRow {
   availability_pct: number | null;
   target_availability_pct: number | null;
   target_met: boolean;
+  /** "alternative" or "rejected": shown, not counted in the exit code. */
+  design_status: string | null;
 }
 
 /** Rows for every link of the analysed studies. */
@@ -26,6 +28,7 @@ export function checkRows(studies: AnalyzedStudy[]): CheckRow[] {
       availability_pct: l.availability_pct ?? null,
       target_availability_pct: l.target_availability_pct ?? null,
       target_met: l.target_met,
+      design_status: l.design_status ?? null,
     })),
   );
 }
@@ -40,9 +43,10 @@ export async function checkCommand(argv: string[]): Promise<number> {
   const studies = await loadAllStudies(args.values.get("studies-dir")?.[0] ?? "content/studies", { ids: args.positional, onProgress: (_s, d, t) => progress.update(d, t) });
   progress.stop();
   const rows = checkRows(studies);
-  const missed = rows.filter((r) => !r.target_met).length;
+  const counted = rows.filter((r) => !r.design_status);
+  const missed = counted.filter((r) => !r.target_met).length;
   if (args.flags.has("json")) {
-    process.stdout.write(`${JSON.stringify({ links: rows, missed, total: rows.length }, null, 2)}\n`);
+    process.stdout.write(`${JSON.stringify({ links: rows, missed, total: counted.length, set_aside: rows.length - counted.length }, null, 2)}\n`);
   } else {
     const header = ["study", "link", "clearance", "fade margin dB", "availability %", "target %", "result"];
     const table = rows.map((r) => [
@@ -52,12 +56,14 @@ export async function checkCommand(argv: string[]): Promise<number> {
       formatNumber(r.fade_margin_db, 1),
       formatNumber(r.availability_pct, 5),
       formatNumber(r.target_availability_pct, 3),
-      r.target_met ? "met" : "MISSED",
+      (r.target_met ? "met" : "MISSED") + (r.design_status ? ` (${r.design_status}, not counted)` : ""),
     ]);
     const widths = header.map((h, i) => Math.max(h.length, ...table.map((row) => row[i].length)));
     const line = (cells: string[]) => cells.map((c, i) => (i >= 3 && i <= 5 ? c.padStart(widths[i]) : c.padEnd(widths[i]))).join("  ");
     process.stdout.write(`${line(header)}\n${widths.map((w) => "-".repeat(w)).join("  ")}\n${table.map(line).join("\n")}\n`);
-    process.stdout.write(missed ? `\n${missed} of ${rows.length} links miss a target.\n` : `\nAll ${rows.length} links meet their targets.\n`);
+    const aside = rows.length - counted.length;
+    const note = aside ? ` (${aside} alternative or rejected design${aside === 1 ? "" : "s"} not counted)` : "";
+    process.stdout.write(missed ? `\n${missed} of ${counted.length} ${counted.length === 1 ? "link" : "links"} ${missed === 1 ? "misses" : "miss"} a target${note}.\n` : `\n${counted.length === 1 ? "The link meets its" : `All ${counted.length} links meet their`} targets${note}.\n`);
   }
   return missed ? 1 : 0;
 }

@@ -4,7 +4,7 @@ import { earthBulgeM } from "../../physics/earth-bulge.ts";
 import { fresnelRadiusM } from "../../physics/fresnel-radius.ts";
 import { bottomAxis, leftAxis } from "./axes.ts";
 import { escapeXml, px } from "./escape.ts";
-import { fixed } from "./number-text.ts";
+import { fixed } from "../../format/quantity.ts";
 import { placeLabel, textWidthPx, type Box } from "./label-placement.ts";
 
 export interface ProfilePlotInput {
