@@ -1,6 +1,8 @@
+import type { StudyResult } from "../analysis/results.ts";
 import { loadAllStudies } from "../cli/load-all.ts";
 import { cssString } from "./css-string.ts";
 import { formatDuration, formatFrequency, formatK, formatNumber, formatPercent, formatRatio, formatSigned, formatSmall } from "../format/quantity.ts";
+import { linksCsv, networkGeoJson, networkKml, sitesCsv } from "./exchange-files.ts";
 import { profileSourceText } from "./profile-source.ts";
 import { reviewWarnings } from "./review-warnings.ts";
 import { linkFresnelSvg, linkHeightGainSvg, linkProfileSvg } from "./link-figures.ts";
@@ -53,6 +55,10 @@ export default function ridgelineSite(eleventyConfig: EleventyConfig): void {
   eleventyConfig.addFilter("profileSource", (s: unknown) => profileSourceText(String(s ?? "")));
   eleventyConfig.addFilter("reviewWarnings", (w: unknown, ctx: { frequency_ghz?: number; gases_db?: number | null } = {}) => reviewWarnings(Array.isArray(w) ? w : [], ctx ?? {}));
   eleventyConfig.addFilter("cssString", (v: unknown) => cssString(v));
+  eleventyConfig.addFilter("sitesCsv", (r: StudyResult) => sitesCsv(r));
+  eleventyConfig.addFilter("linksCsv", (r: StudyResult) => linksCsv(r));
+  eleventyConfig.addFilter("networkGeojson", (r: StudyResult) => networkGeoJson(r));
+  eleventyConfig.addFilter("networkKml", (r: StudyResult) => networkKml(r));
   eleventyConfig.addFilter("json", (v: unknown) => JSON.stringify(v, null, 2));
   eleventyConfig.addShortcode("profilePlot", (studyId: string, linkId: string) => linkProfileSvg(analyzedStudy(studyId), linkId));
   eleventyConfig.addShortcode("fresnelSection", (studyId: string, linkId: string) => linkFresnelSvg(analyzedStudy(studyId), linkId));
