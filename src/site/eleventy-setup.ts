@@ -1,3 +1,6 @@
+import { createRequire } from "node:module";
+import { dirname, relative } from "node:path";
+import { liveMapData, scriptJson } from "./live-map-data.ts";
 import type { StudyResult } from "../analysis/results.ts";
 import { loadAllStudies } from "../cli/load-all.ts";
 import { cssString } from "./css-string.ts";
@@ -22,6 +25,8 @@ interface EleventyConfig {
 
 /** Overview maps drawn for this build (they need sharp, which is asynchronous), by study id. */
 const maps = new Map<string, string>();
+/** Interactive map data (JSON for a script block) by study id. */
+const liveMaps = new Map<string, string>();
 
 /**
  * The Eleventy side of Ridgeline: global data `ridgeline` (the analysed studies), filters for
@@ -36,8 +41,11 @@ export default function ridgelineSite(eleventyConfig: EleventyConfig): void {
       setAnalyzedStudies(studies);
     }
     maps.clear();
+    liveMaps.clear();
     const svgs = await Promise.all(studies.map((s) => studyMapSvg(s)));
     studies.forEach((s, i) => maps.set(s.study.id, svgs[i]));
+    const live = await Promise.all(studies.map((s) => liveMapData(s)));
+    studies.forEach((s, i) => liveMaps.set(s.study.id, scriptJson(live[i])));
     return siteData(studies);
   });
   eleventyConfig.addFilter("rel", function (this: { page?: { url?: string } }, target: string) {
@@ -63,6 +71,11 @@ export default function ridgelineSite(eleventyConfig: EleventyConfig): void {
   eleventyConfig.addShortcode("profilePlot", (studyId: string, linkId: string) => linkProfileSvg(analyzedStudy(studyId), linkId));
   eleventyConfig.addShortcode("fresnelSection", (studyId: string, linkId: string) => linkFresnelSvg(analyzedStudy(studyId), linkId));
   eleventyConfig.addShortcode("heightGain", (studyId: string, linkId: string) => linkHeightGainSvg(analyzedStudy(studyId), linkId));
+  eleventyConfig.addShortcode("liveMapData", (studyId: string) => {
+    const data = liveMaps.get(studyId);
+    if (data === undefined) throw new Error(`No interactive map data was made for study ${studyId}.`);
+    return data;
+  });
   eleventyConfig.addShortcode("overviewMap", (studyId: string) => {
     const svg = maps.get(studyId);
     if (svg === undefined) throw new Error(`No overview map was drawn for study ${studyId}.`);
@@ -74,6 +87,9 @@ export default function ridgelineSite(eleventyConfig: EleventyConfig): void {
     return map.svg;
   });
   eleventyConfig.addPassthroughCopy({ "content/assets": "assets" });
+  // Leaflet travels with the site (no CDN): its script, stylesheet and control images.
+  const leaflet = relative(process.cwd(), dirname(createRequire(import.meta.url).resolve("leaflet/dist/leaflet.js")));
+  eleventyConfig.addPassthroughCopy({ [`${leaflet}/leaflet.js`]: "assets/leaflet/leaflet.js", [`${leaflet}/leaflet.css`]: "assets/leaflet/leaflet.css", [`${leaflet}/images`]: "assets/leaflet/images" });
   eleventyConfig.ignores.add("content/studies/**");
   eleventyConfig.setQuietMode(true);
 }
