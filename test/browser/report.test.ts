@@ -137,9 +137,10 @@ function inspectAll(): Promise<Map<string, PageFacts>> {
           const cls = svg.getAttribute("class") ?? "";
           (figures[cls] ??= []).push({ width: r.width, height: r.height });
           // the static overview figure is for print while the interactive map runs on screen
-          if (!(r.width > 0 && r.height > 0) && !svg.closest(".has-live-map figure.map-static")) bad.push(`svg.${cls} ${r.width}×${r.height}`);
+          const printOnly = !!svg.closest(".has-live-map figure.map-static");
+          if (!(r.width > 0 && r.height > 0) && !printOnly) bad.push(`svg.${cls} ${r.width}×${r.height}`);
           if (svg.getAttribute("role") !== "img" || !svg.querySelector(":scope > title")?.textContent?.trim() || !svg.querySelector(":scope > desc")?.textContent?.trim()) bad.push(`svg.${cls} without role=img, title and desc`);
-          for (const im of Array.from(svg.querySelectorAll("image"))) {
+          for (const im of printOnly ? [] : Array.from(svg.querySelectorAll("image"))) {
             const b = (im as SVGGraphicsElement).getBBox();
             if (!(b.width > 0 && b.height > 0)) bad.push(`svg.${cls} image of zero size`);
           }
