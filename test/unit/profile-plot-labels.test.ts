@@ -44,6 +44,20 @@ describe("profilePlotSvg on an obstructed path", () => {
     lambda_m: 0.016,
     ks: [{ label: "4/3", ae_m: Infinity, worst: { at_distance_m: 9500, clearance_f1: -1.5 } }],
   });
+  it("regression: a clear path's detail panel draws no empty path (d=\"null\" was a console error)", () => {
+    const clear = profilePlotSvg({
+      id: "c",
+      title: "c",
+      d_m,
+      terrain_m: d_m.map((d) => 300 + 200 * Math.sin(d / 3000)),
+      obstruction_m: d_m.map(() => 0),
+      from: { name: "West", ground_m: 300, antenna_m: 30 },
+      to: { name: "East", ground_m: 1100, antenna_m: 30 },
+      lambda_m: 0.016,
+      ks: [{ label: "4/3", ae_m: Infinity, worst: { at_distance_m: 2000, clearance_f1: 3 } }],
+    });
+    expect(clear).not.toMatch(/d="null"|d=""/);
+  });
   it("regression: a 3.5 m blockage on a 700 m axis is marked and shown in a detail panel", () => {
     expect(svg).toMatch(/class="blocked"/);
     expect(svg).toMatch(/class="blocked-mark"/);

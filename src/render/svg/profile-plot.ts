@@ -224,11 +224,16 @@ function detailPanel(
     `<rect class="detail-panel" x="${px(ox)}" y="${px(oy)}" width="${PW}" height="${PH}" />` +
     `<g clip-path="url(#${clip})">` +
     `<path class="terrain k-primary" d="${area<number>().x((i) => X(p.d_m[i])).y0(oy + PH).y1((i) => Y(g(i))).digits(1)(win)}" />` +
-    `<path class="blocked" d="${area<number>().defined((i) => g(i) > 0).x((i) => X(p.d_m[i])).y0(Y(0)).y1((i) => Y(g(i))).digits(1)(win)}" />` +
+    optionalPath("blocked", area<number>().defined((i) => g(i) > 0).x((i) => X(p.d_m[i])).y0(Y(0)).y1((i) => Y(g(i))).digits(1)(win)) +
     `<path class="fresnel f1" d="${ln((i) => c.r1[i])}" /><path class="fresnel f1" d="${ln((i) => -c.r1[i])}" />` +
     `<path class="fresnel f06" d="${ln((i) => -0.6 * c.r1[i])}" /><path class="ray" d="${ln(() => 0)}" />` +
     `</g><text class="detail-label halo" x="${px(ox + 6)}" y="${px(oy + 12)}">${escapeXml(note)}</text></g>`
   );
+}
+
+/** A path element, or nothing when d3 drew no segment (every point undefined gives null). */
+function optionalPath(cls: string, d: string | null): string {
+  return d ? `<path class="${cls}" d="${d}" />` : "";
 }
 
 /** Runs of true values as [first, last] index pairs. */
