@@ -20,6 +20,10 @@ let site: string;
 let pages: string[];
 let pdf: string;
 
+const headingsOf = (html: string) => [...html.matchAll(/<h[1-3][^>]*>([^<]+)<\/h[1-3]>/g)].map((m) => m[1].replace(/&amp;/g, "&"));
+/** Running head and foot lines (not the page body). */
+const isMargin = (l: string) => /· rev\. B|Ridgeline radio link study|^Page \d+ of \d+$|Engineering estimates by published methods|licensed engineer\.$|^or review by/.test(l) && !/^Table/.test(l);
+
 const pageTexts = (file: string) => {
   const t = execFileSync("pdftotext", ["-layout", "-enc", "UTF-8", file, "-"], { encoding: "utf8" }).split("\f");
   if (t.length && !t[t.length - 1].trim()) t.pop();
@@ -67,12 +71,8 @@ describe("the PDF's first page", () => {
 
 describe("pagination rules", () => {
   it("no lone heading at a page foot, no caption split from its table, totals with their rows, no near-empty page", () => {
-    const html = readFileSync(join(site, "studies", DEMO, "print", "index.html"), "utf8");
-    const headings = [...html.matchAll(/<h[1-3][^>]*>([^<]+)<\/h[1-3]>/g)].map((m) => m[1].replace(/&amp;/g, "&"));
-    const faults = printRuleFaults(pages, {
-      headings,
-      isMargin: (l) => /· rev\. B|Ridgeline radio link study|^Page \d+ of \d+$|Engineering estimates by published methods|licensed engineer\.$|^or review by/.test(l) && !/^Table/.test(l),
-    });
+    const headings = headingsOf(readFileSync(join(site, "studies", DEMO, "print", "index.html"), "utf8"));
+    const faults = printRuleFaults(pages, { headings, isMargin });
     expect(faults).toEqual([]);
   });
 
@@ -95,6 +95,7 @@ describe("pagination rules", () => {
     expect(execFileSync("pdfinfo", [pdf], { encoding: "utf8" })).toMatch(/Page size:\s+612 x 792 pts \(letter\)/);
     const letter = pageTexts(pdf);
     expect(letter[0]).toMatch(/Contents/);
+    expect(printRuleFaults(letter, { headings: headingsOf(readFileSync(join(site, "studies", DEMO, "print", "index.html"), "utf8")), isMargin })).toEqual([]);
   }, 120_000);
 
 });
