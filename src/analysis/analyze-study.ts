@@ -282,7 +282,12 @@ export async function analyzeStudy(study: Study, options: AnalyzeOptions = {}): 
   // --- The study's result ---
   const inputs = createHash("sha256").update(study.file_sha256).update(terrainKey).update(TOOL_VERSION);
   for (const l of study.links) if (csvSha.has(l.id)) inputs.update(csvSha.get(l.id) ?? "unreadable");
-  if (facts.synthetic) warnings.unshift(`Terrain is synthetic (${facts.description}): figures show invented ground, not a real place.`);
+  if (facts.synthetic) warnings.unshift(`The figures show invented ground, not a real place: the terrain is ${facts.description}.`);
+  // Alternative and rejected designs: computed like any link, marked so that verdicts leave them out.
+  for (const l of study.links) {
+    const i = l.design_status ? links.findIndex((r) => r.id === l.id) : -1;
+    if (i >= 0) links[i] = { ...links[i], design_status: l.design_status, design_reason: l.design_reason };
+  }
   const ground_m = facts.ground_m;
   const siteResults = study.sites.map((s, i) => ({ id: s.id, name: s.name, lat_deg: s.lat_deg, lon_deg: s.lon_deg, ground_m: ground_m[i], ...(s.notes ? { notes: s.notes } : {}) }));
   // --- Interference between the links, when the study asks for it (interference.ts) ---
@@ -301,6 +306,7 @@ export async function analyzeStudy(study: Study, options: AnalyzeOptions = {}): 
     revision: study.meta.revision,
     date: study.meta.date,
     ...(study.meta.summary ? { summary: study.meta.summary } : {}),
+    ...(study.document ? { document: study.document } : {}),
     terrain: { description: facts.description, synthetic: facts.synthetic },
     assumptions: {
       k_factors: study.design.k_factors.map((k) => k.label),

@@ -89,6 +89,10 @@ export interface LinkResult {
   target_performance_pct?: number;
   target_met: boolean;
   warnings: string[];
+  /** A design kept for the record (study key design_status): not part of the study's verdict. */
+  design_status?: "alternative" | "rejected";
+  /** Why it is an alternative or was rejected (study key design_reason). */
+  design_reason?: string;
 }
 
 export interface Provenance {
@@ -98,6 +102,24 @@ export interface Provenance {
   git_dirty: boolean | null;
 }
 
+export interface SignOff {
+  name?: string;
+  role?: string;
+  date?: string;
+}
+
+export interface StudyDocument {
+  number?: string;
+  paper: "a4" | "letter";
+  revisions: { revision: string; date: string; author?: string; description: string }[];
+  prepared?: SignOff;
+  checked?: SignOff;
+  approved?: SignOff;
+}
+
+/** Whether a link counts toward the study's verdict (alternative and rejected designs do not). */
+export const inVerdict = (l: Pick<LinkResult, "design_status">): boolean => !l.design_status;
+
 export interface StudyResult {
   id: string;
   title: string;
@@ -106,6 +128,8 @@ export interface StudyResult {
   revision: string;
   date: string;
   summary?: string;
+  /** Document control as the study gives it (number, paper, revisions, sign-off). */
+  document?: StudyDocument;
   terrain: { description: string; synthetic: boolean };
   assumptions: Record<string, unknown>;
   sites: SiteResult[];

@@ -1,12 +1,12 @@
 import type { LinkResult } from "../analysis/results.ts";
-import { formatNumber as f } from "../site/format.ts";
+import { formatNumber as f, formatFrequency, formatPercent } from "../format/quantity.ts";
 
 /** Print one link result as a readable table on stdout, with a method's own rows after the targets. */
 export function printLinkTable(l: LinkResult, methodRows: [string, string][] = []): void {
   const rows: [string, string][] = [
     ["Distance", `${f(l.distance_m / 1000, 3)} km`],
     ["Azimuth from / to", `${f(l.azimuth_from_deg, 2)}° / ${f(l.azimuth_to_deg, 2)}° (true)`],
-    ["Frequency", `${f(l.frequency_ghz, 3)} GHz, ${l.polarization === "h" ? "horizontal" : "vertical"}`],
+    ["Frequency", `${formatFrequency(l.frequency_ghz)}, ${l.polarization === "h" ? "horizontal" : "vertical"}`],
     ["Profile", `${l.profile.source}, ${l.profile.samples} samples every ${f(l.profile.step_m, 1)} m`],
     ...l.clearance.map((c): [string, string] => [
       `Clearance at k = ${c.k_label}`,
@@ -21,8 +21,9 @@ export function printLinkTable(l: LinkResult, methodRows: [string, string][] = [
   if (l.losses_db.rain_0_01pct !== undefined) rows.push(["Rain, 0.01 % of time", l.losses_db.rain_0_01pct === null ? "no rain rate given" : `${f(l.losses_db.rain_0_01pct, 2)} dB`]);
   if (l.received_dbm !== undefined) rows.push(["Received level", `${f(l.received_dbm, 1)} dBm`]);
   if (l.fade_margin_db !== undefined) rows.push(["Fade margin", `${f(l.fade_margin_db, 1)} dB`]);
-  if (l.availability_pct !== undefined) rows.push(["Availability", `${f(l.availability_pct, 5)} % (target ${f(l.target_availability_pct, 3)} %)`]);
-  rows.push(["Targets", l.target_met ? "met" : "MISSED"]);
+  if (l.availability_pct !== undefined) rows.push(["Availability", `${formatPercent(l.availability_pct)} % (target ${formatPercent(l.target_availability_pct, 2)} %)`]);
+  if ("losses_only" in l) rows.push(["Verdict", l.received_dbm === undefined ? "none: losses only (no budget inputs given)" : "none: no --rx-threshold-dbm given"]);
+  else rows.push(["Targets", l.target_met ? "met" : "MISSED"]);
   rows.push(...methodRows);
   const w = Math.max(...rows.map((r) => r[0].length));
   process.stdout.write(rows.map(([k, v]) => `${k.padEnd(w)}  ${v}`).join("\n") + "\n");

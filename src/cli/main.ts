@@ -11,6 +11,8 @@ Commands:
   path                  one link from the command line (ridgeline path --help)
   coverage              one coverage raster from the command line (ridgeline coverage --help)
   pdf <study-id>        print the study and every link to _site/studies/<id>/<id>.pdf (system Chromium)
+  new <study-id>        scaffold content/studies/<id>/study.yaml from a commented template
+  import <file>…        sites and links from CSV, GeoJSON or KML into a study (ridgeline import --help)
   serve                 build, serve _site on http://127.0.0.1:8080 and rebuild on change (ridgeline serve --help)
 
 build, diff and serve keep computed link results in .ridgeline-cache/ (--no-cache to compute everything).
@@ -28,6 +30,8 @@ const COMMANDS: Record<string, () => Promise<Command>> = {
   coverage: async () => (await import("./commands/coverage.ts")).coverageCommand,
   pdf: async () => (await import("./commands/pdf.ts")).pdfCommand,
   serve: async () => (await import("./commands/serve.ts")).serveCommand,
+  new: async () => (await import("./commands/new.ts")).newCommand,
+  import: async () => (await import("./commands/import.ts")).importCommand,
 };
 
 /** Run the CLI; returns the exit code. Bad input prints a message (no stack) and returns 2. */

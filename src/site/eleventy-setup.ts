@@ -1,7 +1,14 @@
 import { capacityCurveSvg, diversityCurveSvg } from "./performance-figures.ts";
+import { createRequire } from "node:module";
+import { dirname, relative } from "node:path";
+import { liveMapData, scriptJson } from "./live-map-data.ts";
+import type { StudyResult } from "../analysis/results.ts";
 import { loadAllStudies } from "../cli/load-all.ts";
 import { cssString } from "./css-string.ts";
-import { formatDuration, formatNumber, formatSmall } from "./format.ts";
+import { formatDuration, formatFrequency, formatK, formatNumber, formatPercent, formatRatio, formatSigned, formatSmall } from "../format/quantity.ts";
+import { linksCsv, networkGeoJson, networkKml, sitesCsv } from "./exchange-files.ts";
+import { profileSourceText } from "./profile-source.ts";
+import { reviewWarnings } from "./review-warnings.ts";
 import { linkFresnelSvg, linkHeightGainSvg, linkProfileSvg } from "./link-figures.ts";
 import { relativeUrl } from "./relative-url.ts";
 import { analyzedStudy, getAnalyzedStudies, setAnalyzedStudies, siteData } from "./site-data.ts";
@@ -19,6 +26,8 @@ interface EleventyConfig {
 
 /** Overview maps drawn for this build (they need sharp, which is asynchronous), by study id. */
 const maps = new Map<string, string>();
+/** Interactive map data (JSON for a script block) by study id. */
+const liveMaps = new Map<string, string>();
 
 /**
  * The Eleventy side of Ridgeline: global data `ridgeline` (the analysed studies), filters for
@@ -33,8 +42,11 @@ export default function ridgelineSite(eleventyConfig: EleventyConfig): void {
       setAnalyzedStudies(studies);
     }
     maps.clear();
+    liveMaps.clear();
     const svgs = await Promise.all(studies.map((s) => studyMapSvg(s)));
     studies.forEach((s, i) => maps.set(s.study.id, svgs[i]));
+    const live = await Promise.all(studies.map((s) => liveMapData(s)));
+    studies.forEach((s, i) => liveMaps.set(s.study.id, scriptJson(live[i])));
     return siteData(studies);
   });
   eleventyConfig.addFilter("rel", function (this: { page?: { url?: string } }, target: string) {
@@ -43,13 +55,30 @@ export default function ridgelineSite(eleventyConfig: EleventyConfig): void {
   eleventyConfig.addFilter("num", (v: unknown, digits = 1) => formatNumber(v, digits));
   eleventyConfig.addFilter("small", (v: unknown, sig = 3) => formatSmall(v, sig));
   eleventyConfig.addFilter("duration", (v: unknown) => formatDuration(v));
+  eleventyConfig.addFilter("freq", (ghz: unknown) => formatFrequency(ghz));
+  eleventyConfig.addFilter("kval", (k: unknown) => formatK(k));
+  eleventyConfig.addFilter("pct", (v: unknown, digits = 5) => formatPercent(v, digits));
+  eleventyConfig.addFilter("ratio", (v: unknown) => formatRatio(v));
+  // a budget item: its sign ("+", "−" or "") applied to its magnitude, written with the sign
+  eleventyConfig.addFilter("signed", (v: unknown, sign: string, digits = 2) => (typeof v === "number" && sign ? formatSigned(sign === "−" ? -v : v, digits) : formatNumber(v, digits)));
+  eleventyConfig.addFilter("profileSource", (s: unknown) => profileSourceText(String(s ?? "")));
+  eleventyConfig.addFilter("reviewWarnings", (w: unknown, ctx: { frequency_ghz?: number; gases_db?: number | null } = {}) => reviewWarnings(Array.isArray(w) ? w : [], ctx ?? {}));
   eleventyConfig.addFilter("cssString", (v: unknown) => cssString(v));
+  eleventyConfig.addFilter("sitesCsv", (r: StudyResult) => sitesCsv(r));
+  eleventyConfig.addFilter("linksCsv", (r: StudyResult) => linksCsv(r));
+  eleventyConfig.addFilter("networkGeojson", (r: StudyResult) => networkGeoJson(r));
+  eleventyConfig.addFilter("networkKml", (r: StudyResult) => networkKml(r));
   eleventyConfig.addFilter("json", (v: unknown) => JSON.stringify(v, null, 2));
   eleventyConfig.addShortcode("profilePlot", (studyId: string, linkId: string) => linkProfileSvg(analyzedStudy(studyId), linkId));
   eleventyConfig.addShortcode("fresnelSection", (studyId: string, linkId: string) => linkFresnelSvg(analyzedStudy(studyId), linkId));
   eleventyConfig.addShortcode("heightGain", (studyId: string, linkId: string) => linkHeightGainSvg(analyzedStudy(studyId), linkId));
   eleventyConfig.addShortcode("diversityCurve", (studyId: string, linkId: string) => diversityCurveSvg(analyzedStudy(studyId), linkId));
   eleventyConfig.addShortcode("capacityCurve", (studyId: string, linkId: string) => capacityCurveSvg(analyzedStudy(studyId), linkId));
+  eleventyConfig.addShortcode("liveMapData", (studyId: string) => {
+    const data = liveMaps.get(studyId);
+    if (data === undefined) throw new Error(`No interactive map data was made for study ${studyId}.`);
+    return data;
+  });
   eleventyConfig.addShortcode("overviewMap", (studyId: string) => {
     const svg = maps.get(studyId);
     if (svg === undefined) throw new Error(`No overview map was drawn for study ${studyId}.`);
@@ -61,6 +90,9 @@ export default function ridgelineSite(eleventyConfig: EleventyConfig): void {
     return map.svg;
   });
   eleventyConfig.addPassthroughCopy({ "content/assets": "assets" });
+  // Leaflet travels with the site (no CDN): its script, stylesheet and control images.
+  const leaflet = relative(process.cwd(), dirname(createRequire(import.meta.url).resolve("leaflet/dist/leaflet.js")));
+  eleventyConfig.addPassthroughCopy({ [`${leaflet}/leaflet.js`]: "assets/leaflet/leaflet.js", [`${leaflet}/leaflet.css`]: "assets/leaflet/leaflet.css", [`${leaflet}/images`]: "assets/leaflet/images" });
   eleventyConfig.ignores.add("content/studies/**");
   eleventyConfig.setQuietMode(true);
 }

@@ -1,5 +1,5 @@
 import type { LinkResult } from "../analysis/results.ts";
-import { formatSmall } from "./format.ts";
+import { formatNumber, formatRatio } from "../format/quantity.ts";
 import { linkPerformanceReport, type LinkPerformanceReport } from "./link-performance-report.ts";
 
 /** Names and references of the diffraction methods, in report order. */
@@ -44,13 +44,14 @@ export interface LinkReport {
   height_gain_step_m: number | null;
   /** The two objectives' tables and the minimum antenna heights. */
   performance: LinkPerformanceReport;
+  /** Reflection points whose effective coefficient is below REFLECTION_SHOWN (left out of the table). */
+  reflections_weak: number;
+  /** Why the height-gain figure is left out (path obstructed, no reflection point), or null to draw it. */
+  height_gain_omitted: string | null;
 }
 
-/** A bit-error ratio as the trade writes it (1 × 10⁻⁶ rather than 0.000001); text that is not a number is left as given. */
-const berText = (ber: string): string => {
-  const x = Number(ber);
-  return Number.isFinite(x) && x > 0 && x < 0.01 ? formatSmall(x, String(ber).replace(/^0\.0*|e.*$|\./g, "").length || 1) : ber;
-};
+/** Reflection points with a smaller effective coefficient are counted, not listed (they print as 0.000). */
+export const REFLECTION_SHOWN = 0.001;
 const num = (v: unknown): number | null => (typeof v === "number" && Number.isFinite(v) ? v : null);
 
 /** Tables of one link, from its result (values are never recomputed here, only arranged). */
@@ -76,7 +77,7 @@ export function linkReport(l: LinkResult, radioName: string | undefined, diffrac
     ...opt("Receive connectors", b.rx_connector_loss_db, "−"),
     { label: "Receive feeder and branching loss", value: num(b.rx_feeder_loss_db), unit: "dB", sign: "−" },
     { label: "Median received level", value: num(b.received_dbm), unit: "dBm", total: true, sign: "" },
-    { label: "Receiver threshold", value: num(b.rx_threshold_dbm), unit: "dBm", sign: "", note: `at BER ${berText(l.threshold_ber)}` },
+    { label: "Receiver threshold", value: num(b.rx_threshold_dbm), unit: "dBm", sign: "", note: `at a bit-error ratio of ${formatRatio(l.threshold_ber)}` },
     { label: "Design allowance", value: num(b.design_allowance_db), unit: "dB", sign: "−" },
     { label: "Flat fade margin", value: num(b.fade_margin_db), unit: "dB", total: true, sign: "", note: "received level − threshold − design allowance" },
     ...(typeof b.wet_radome_loss_db === "number" && b.wet_radome_loss_db > 0
@@ -88,7 +89,7 @@ export function linkReport(l: LinkResult, radioName: string | undefined, diffrac
   ];
   const losses: Row[] = [
     { label: "Free space", value: num(l.losses_db.free_space), unit: "dB", note: "ITU-R P.525-4, 20·log10(4πd/λ)" },
-    { label: "Diffraction", value: num(l.losses_db.diffraction), unit: "dB", note: `${methodName}, ${DIFFRACTION_LABELS[method]?.reference ?? ""}, at the first k` },
+    { label: "Diffraction", value: num(l.losses_db.diffraction), unit: "dB", note: `${methodName}, ${DIFFRACTION_LABELS[method]?.reference ?? ""}, at k = ${l.clearance[0]?.k_label ?? "4/3"}` },
     { label: "Gaseous absorption", value: num(l.losses_db.gases), unit: "dB", note: "ITU-R P.676-12 Annex 1 (oxygen and water vapour)" },
     { label: "Rain, exceeded 0.01 % of the year", value: num(l.losses_db.rain_0_01pct), unit: "dB", note: "ITU-R P.838-3 and P.530-16 §2.4.1 — for availability, not in the median budget" },
   ];
@@ -101,5 +102,23 @@ export function linkReport(l: LinkResult, radioName: string | undefined, diffrac
   }));
   const first = l.reflection?.per_k[0];
   const height_gain_step_m = l.reflection ? num(l.reflection.height_gain_step_m) : null;
-  return { radio_name: radioName ?? l.radio, budget, losses, diffraction, reflection_k: first?.k_label ?? null, reflections: first?.points ?? [], height_gain_step_m, performance: linkPerformanceReport(l) };
+  const points = first?.points ?? [];
+  const shown = points.filter((p) => (p.effective_coefficient ?? 0) >= REFLECTION_SHOWN);
+  const worst = l.clearance[0];
+  let height_gain_omitted: string | null = null;
+  if (worst && worst.min_clearance_f1 < 0)
+    height_gain_omitted = `The path is obstructed at k = ${worst.k_label} (least clearance ${formatNumber(worst.min_clearance_f1, 2)} F1): the received level is set by diffraction (${formatNumber(l.losses_db.diffraction, 1)} dB), not by a ground reflection, so no height-gain curve is drawn.`;
+  else if (!shown.length) height_gain_omitted = `No ground reflection of consequence lies on the profile at k = ${first?.k_label ?? worst?.k_label ?? "4/3"}, so the level does not vary with antenna height and no height-gain curve is drawn.`;
+  return {
+    radio_name: radioName ?? l.radio,
+    budget,
+    losses,
+    diffraction,
+    reflection_k: first?.k_label ?? null,
+    reflections: shown,
+    height_gain_step_m,
+    reflections_weak: points.length - shown.length,
+    height_gain_omitted,
+    performance: linkPerformanceReport(l),
+  };
 }

@@ -1,6 +1,7 @@
 import type { AnalyzedStudy } from "../analysis/analyze-study.ts";
 import type { LinkResult, StudyResult } from "../analysis/results.ts";
 import { linkInterference, type LinkInterference } from "./interference-report.ts";
+import { DISCLAIMER } from "./disclaimer.ts";
 import { linkReport, type LinkReport } from "./link-report.ts";
 import { studyReport, type StudyReport } from "./study-report.ts";
 
@@ -17,6 +18,8 @@ export interface SiteData {
   reports: Record<string, StudyReport>;
   /** Options of this build. */
   options: { path_prefix: string };
+  /** The one disclaimer of every page's footer, on screen and in print. */
+  disclaimer: string;
 }
 
 /**
@@ -61,6 +64,7 @@ export function siteData(studies: AnalyzedStudy[]): SiteData {
     ),
     reports: Object.fromEntries(studies.map((s) => [s.result.id, studyReport(s)])),
     options: { path_prefix: handover().prefix },
+    disclaimer: DISCLAIMER,
   };
 }
 

@@ -1,8 +1,17 @@
 import type { AnalyzedStudy } from "../analysis/analyze-study.ts";
 import { studyCautions, type StudyCautions } from "./cautions.ts";
-import { formatNumber } from "./format.ts";
+import { formatNumber } from "../format/quantity.ts";
 import { interferenceReport, type InterferenceReport } from "./interference-report.ts";
+import { inVerdict } from "../analysis/results.ts";
 import { DIFFRACTION_LABELS } from "./link-report.ts";
+
+/** "All 7 links meet their design targets." / "1 of 7 links misses a design target." */
+export function verdictSentence(total: number, met: number): string {
+  if (total === 0) return "The study has no links to judge.";
+  if (met === total) return total === 1 ? "The link meets its design targets." : `All ${total} links meet their design targets.`;
+  const missed = total - met;
+  return `${missed} of ${total} ${total === 1 ? "link" : "links"} ${missed === 1 ? "misses" : "miss"} a design target.`;
+}
 
 /** A statement of the study's basis: what, the value, and where it comes from. */
 export interface AssumptionRow {
@@ -39,8 +48,15 @@ export interface RemedyRow {
 
 /** What the study page shows besides the raw results. */
 export interface StudyReport {
+  /** Links counted in the study's verdict (alternative and rejected designs are not). */
   links_total: number;
   links_met: number;
+  /** The verdict as one sentence ("✓ All 7 links meet their design targets."). */
+  verdict: string;
+  /** Ids of the links counted in the verdict, in study order. */
+  design_links: string[];
+  /** Alternative and rejected designs, with the reason, in study order. */
+  alternatives: { id: string; status: string; reason: string; target_met: boolean }[];
   assumptions: AssumptionRow[];
   methods: MethodRow[];
   chains: ChainRow[];
@@ -143,9 +159,14 @@ export function studyReport(s: AnalyzedStudy): StudyReport {
     combined_availability_pct: ch.combined_availability_pct ?? null,
   }));
   const remedies: RemedyRow[] = r.links.filter((l) => !l.target_met).map((l) => ({ link: l.id, name: `${l.ends.from.name} → ${l.ends.to.name}`, remedies: l.remedies ?? [] }));
+  const counted = r.links.filter(inVerdict);
+  const met = counted.filter((l) => l.target_met).length;
   return {
-    links_total: r.links.length,
-    links_met: r.links.filter((l) => l.target_met).length,
+    links_total: counted.length,
+    links_met: met,
+    verdict: verdictSentence(counted.length, met),
+    design_links: counted.map((l) => l.id),
+    alternatives: r.links.filter((l) => !inVerdict(l)).map((l) => ({ id: l.id, status: l.design_status!, reason: l.design_reason ?? "", target_met: l.target_met })),
     assumptions,
     methods: s.result.interference ? [...METHODS, ...INTERFERENCE_METHODS] : METHODS,
     chains,

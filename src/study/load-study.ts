@@ -79,6 +79,7 @@ export function loadStudy(file: string, options: { roots?: string[] } = {}): Stu
     dir,
     file: abs,
     meta: { title: input.title, client: input.client, prepared_by: input.prepared_by, revision: input.revision, date: input.date, summary: input.summary },
+    document: input.document,
     terrain: input.terrain,
     design: { ...input.design, k_factors, clearance_criteria },
     climate: input.climate,

@@ -168,6 +168,40 @@ const coverageEntry = z
   .strict()
   .refine((c) => c.method !== "hata" || c.frequency_ghz <= 3, { message: "a frequency of at most 3 GHz for the hata method (Okumura–Hata and COST-231 stop at 2 GHz)", path: ["frequency_ghz"] });
 
+const signOff = z
+  .object({
+    name: oneLine().optional(),
+    role: oneLine().optional(),
+    date: calendarDate.optional(),
+  })
+  .strict()
+  .describe("who signed this step, in what role and when; the report leaves empty boxes for what is not given");
+
+const documentControl = z
+  .object({
+    number: oneLine().optional().describe("document number under the client's or the firm's document control"),
+    paper: z.enum(["a4", "letter"]).default("a4").describe("paper size of the printed report and its PDF"),
+    revisions: z
+      .array(
+        z
+          .object({
+            revision: z.union([oneLine(), z.number().min(0).max(1e9)]).transform(String),
+            date: calendarDate,
+            author: oneLine().optional(),
+            description: text(true).pipe(z.string().min(1)),
+          })
+          .strict(),
+      )
+      .max(200)
+      .default([])
+      .describe("revision history, oldest first"),
+    prepared: signOff.optional(),
+    checked: signOff.optional(),
+    approved: signOff.optional(),
+  })
+  .strict()
+  .describe("document control: number, revision history and sign-off (shown on the study page and the PDF's first page)");
+
 export const studySchema = z
   .object({
     $schema: z.string().max(1024).optional(),
@@ -177,6 +211,7 @@ export const studySchema = z
     revision: z.union([oneLine(), z.number().min(0).max(1e9)]).transform(String),
     date: calendarDate.describe("issue date of this revision (YYYY-MM-DD)"),
     summary: text(true).optional(),
+    document: documentControl.prefault({}),
     terrain,
     design: z
       .object({
@@ -290,15 +325,20 @@ export const studySchema = z
             capacity_target: z
               .object({
                 capacity_mbps: z.number().positive().optional().describe("capacity that must be available"),
-                mode: z.string().optional().describe("or a mode of the radio that must be available"),
+                mode: oneLine().optional().describe("or a mode of the radio that must be available"),
                 availability_pct: z.number().gt(0).lt(100).describe("for this percentage of the year (%)"),
               })
               .strict()
               .optional()
               .describe("adaptive modulation target, e.g. ≥ 200 Mbit/s for 99.99 % of the year"),
             frequency_plan: frequencyPlan.optional(),
+            design_status: z.enum(["alternative", "rejected"]).optional().describe("a design kept for the record: computed and shown in its own section, left out of the study's verdict and of `ridgeline check`'s exit code"),
+            design_reason: text(true).pipe(z.string().min(1)).optional().describe("why the design is an alternative or was rejected (required with design_status)"),
           })
-          .strict(),
+          .strict()
+          .superRefine((l, ctx) => {
+            if (l.design_status && !l.design_reason) ctx.addIssue({ code: "custom", path: ["design_reason"], message: `a link marked design_status: ${l.design_status} needs design_reason, one sentence saying why` });
+          }),
       )
       .max(10000)
       .default([]),
@@ -313,4 +353,5 @@ export const studySchema = z
 
 export type StudyInput = z.output<typeof studySchema>;
 export type KValueInput = z.output<typeof kValue>;
+export type DocumentControlInput = z.output<typeof documentControl>;
 export type CoverageEntryInput = z.output<typeof coverageEntry>;

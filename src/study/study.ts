@@ -22,6 +22,8 @@ export interface Study {
   /** Absolute path of study.yaml. */
   file: string;
   meta: { title: string; client: string; prepared_by: string; revision: string; date: string; summary?: string };
+  /** Document control: number, paper, revision history, sign-off (absent in hand-built studies). */
+  document?: StudyInput["document"];
   terrain: TerrainInput;
   design: Omit<StudyInput["design"], "k_factors" | "clearance_criteria"> & {
     k_factors: KFactor[];

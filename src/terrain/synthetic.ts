@@ -2,6 +2,7 @@ import { createHash } from "node:crypto";
 import { mulberry32 } from "./mulberry32.ts";
 import { makeRasterGrid, RasterTerrain } from "./raster-terrain.ts";
 import { TerrainError } from "./terrain-error.ts";
+import { RotatedFractalNoise, thermalErosion } from "./gradient-noise.ts";
 import { FractalNoise } from "./value-noise.ts";
 
 /** Parameters of a synthetic terrain (all angles in degrees, WGS84). */
@@ -18,7 +19,7 @@ export interface SyntheticTerrainParams {
 /** Largest grid generated (cells); 25 M cells is 100 MB of Float32. */
 const MAX_CELLS = 25_000_000;
 /** Bump when the generator changes, so cached results keyed on the fingerprint are not reused. */
-const GENERATOR_VERSION = "synthetic-v1";
+const GENERATOR_VERSION = "synthetic-v2";
 
 /**
  * Seeded, deterministic synthetic terrain for demos and tests — NOT real terrain.
@@ -27,14 +28,15 @@ const GENERATOR_VERSION = "synthetic-v1";
  * the box corners are sample centres; it is generated once and `elevation()` interpolates
  * it bilinearly, exactly as a GeoTIFF would be. With (u, v) ∈ [0, 1]² the position across
  * the box (west→east, south→north) the height (m) is
- *   h = h0 + Δh·v + R·walls·(0.6 + 0.8·ridged(u, v)) + 60·(detail(u, v) − 0.5)
- * with walls = 1 − exp(−((u − centre(v))/w)²): a valley along a meandering axis centre(v)
- * (low-frequency value noise), its floor rising by Δh to the north, walls of relief R and
- * half-width w, crests from ridged multi-octave value noise that grow away from the axis,
- * and fine multi-octave detail. h0, Δh, R, w and every noise lattice are drawn from one
- * mulberry32(seed) stream. All random
- * numbers come from mulberry32(seed), so the same seed and box give identical heights on
- * any platform; a different seed gives a different landscape.
+ *   h = h0 + Δh·v + R·walls·(0.6 + 0.8·ridged(u, v)) + 40·(detail(u, v) − 0.5)
+ * with walls = 1 − exp(−((u − centre(v))/w)²): a valley along a meandering axis centre(v),
+ * its floor rising by Δh to the north, walls of relief R and half-width w. ridged is 0.85 of a
+ * coarse ridged lattice (3 and 6 cells, interpolated bicubically so no lattice line shows)
+ * and 0.15 of ridged multifractal gradient noise (four octaves from 24 cells, each turned by
+ * its own angle); detail is four octaves of turned gradient noise from 40 cells. Thermal
+ * erosion then sheds slopes steeper than about 35° into the valleys (4 passes). h0, Δh, R, w,
+ * every lattice, angle and offset come from one mulberry32(seed) stream, so the same seed and
+ * box give identical heights on any platform; a different seed gives a different landscape.
  * @throws TerrainError for a bad box, spacing or seed, or a grid over 25 M cells
  */
 export function syntheticTerrain(params: SyntheticTerrainParams): RasterTerrain {
@@ -62,9 +64,12 @@ export function syntheticTerrain(params: SyntheticTerrainParams): RasterTerrain 
   const floorRise = 100 + 300 * random(); // rise of the floor to the north edge (m)
   const relief = 500 + 900 * random(); // height of the valley walls (m)
   const halfWidth = 0.12 + 0.12 * random(); // valley half-width (fraction of box width)
-  const meander = new FractalNoise(2, 3, 0.5, random);
-  const ridges = new FractalNoise(3, 5, 0.55, random);
-  const detail = new FractalNoise(8, 4, 0.5, random);
+  // The landform (valley axis, walls, the broad crests) from coarse lattices; everything finer
+  // than ~8 km from gradient noise turned off the grid, so no lattice shows in a hillshade.
+  const meander = new FractalNoise(2, 3, 0.5, random, true);
+  const broad = new FractalNoise(3, 2, 0.55, random, true);
+  const crests = new RotatedFractalNoise(24, 4, 0.5, random);
+  const detail = new RotatedFractalNoise(40, 4, 0.5, random);
 
   const data = new Float32Array(width * height);
   for (let i = 0; i < height; i++) {
@@ -74,10 +79,15 @@ export function syntheticTerrain(params: SyntheticTerrainParams): RasterTerrain 
       const u = width > 1 ? j / (width - 1) : 0.5;
       const d = (u - centre) / halfWidth;
       const walls = 1 - Math.exp(-d * d);
-      const h = floor0 + floorRise * v + relief * walls * (0.6 + 0.8 * ridges.ridged(u, v)) + 60 * (detail.at(u, v) - 0.5);
+      const ridged = 0.85 * broad.ridged(u, v) + 0.15 * crests.ridged(u, v);
+      const h = floor0 + floorRise * v + relief * walls * (0.6 + 0.8 * ridged) + 40 * (detail.at(u, v) - 0.5);
       data[i * width + j] = h;
     }
   }
+
+  // Erosion-like smoothing: slopes steeper than about 35° between 1″ cells shed into the valleys.
+  const cell_m = spacing * 30.87;
+  thermalErosion(data, width, height, { talus_m: 0.7 * cell_m, rate: 0.5, passes: 4 });
 
   const raster = makeRasterGrid(width, height, [W - s / 2, s, 0, N + s / 2, 0, -s], 4326, data);
   const fingerprint = createHash("sha256")

@@ -35,6 +35,31 @@ export class ValueNoise {
     const b = L[i + n] + (L[i + n + 1] - L[i + n]) * sx;
     return a + (b - a) * sy;
   }
+
+  /**
+   * The same lattice interpolated bicubically (Catmull–Rom, edge values repeated): it passes
+   * through the same node values but keeps its slope across lattice lines, so a hillshade shows
+   * no straight bands along them (the fade blend flattens the surface along every lattice line).
+   */
+  cubicAt(u: number, v: number): number {
+    const c = this.cells;
+    const n = c + 1;
+    const x = Math.min(Math.max(u, 0), 1) * c;
+    const y = Math.min(Math.max(v, 0), 1) * c;
+    const ix = Math.min(Math.floor(x), c - 1);
+    const iy = Math.min(Math.floor(y), c - 1);
+    const tx = x - ix;
+    const ty = y - iy;
+    const L = this.lattice;
+    const at = (i: number, j: number) => L[Math.min(Math.max(j, 0), c) * n + Math.min(Math.max(i, 0), c)];
+    const row = (j: number) => catmullRom(at(ix - 1, j), at(ix, j), at(ix + 1, j), at(ix + 2, j), tx);
+    return catmullRom(row(iy - 1), row(iy), row(iy + 1), row(iy + 2), ty);
+  }
+}
+
+/** Catmull–Rom weights of the four lattice values around t ∈ [0, 1]. */
+function catmullRom(p0: number, p1: number, p2: number, p3: number, t: number): number {
+  return p1 + 0.5 * t * (p2 - p0 + t * (2 * p0 - 5 * p1 + 4 * p2 - p3 + t * (3 * (p1 - p2) + p3 - p0)));
 }
 
 function fade(t: number): number {
@@ -50,7 +75,8 @@ export class FractalNoise {
   private readonly amps: number[] = [];
   private readonly total: number;
 
-  constructor(baseCells: number, octaves: number, gain: number, random: () => number) {
+  /** @param cubic interpolate each lattice bicubically (ValueNoise.cubicAt) instead of by the fade blend */
+  constructor(baseCells: number, octaves: number, gain: number, random: () => number, private readonly cubic = false) {
     let amp = 1;
     let total = 0;
     for (let o = 0; o < octaves; o++) {
@@ -64,7 +90,7 @@ export class FractalNoise {
 
   at(u: number, v: number): number {
     let s = 0;
-    for (let o = 0; o < this.layers.length; o++) s += this.amps[o] * this.layers[o].at(u, v);
+    for (let o = 0; o < this.layers.length; o++) s += this.amps[o] * (this.cubic ? this.layers[o].cubicAt(u, v) : this.layers[o].at(u, v));
     return s / this.total;
   }
 
@@ -72,7 +98,8 @@ export class FractalNoise {
   ridged(u: number, v: number): number {
     let s = 0;
     for (let o = 0; o < this.layers.length; o++) {
-      const r = 1 - Math.abs(2 * this.layers[o].at(u, v) - 1);
+      const n = this.cubic ? Math.min(1, Math.max(0, this.layers[o].cubicAt(u, v))) : this.layers[o].at(u, v);
+      const r = 1 - Math.abs(2 * n - 1);
       s += this.amps[o] * r * r;
     }
     return s / this.total;

@@ -20,7 +20,7 @@ const LINK_KEYS = ["id", "from", "to", "frequency_ghz", "distance_m", "azimuth_f
 
 describe("ridgeline path", () => {
   it("prints one link object with the results.json keys, for southern and western coordinates", () => {
-    const r = runCli(["path", "--from", "-33.45,-70.66", "--to", "-33.52,-70.58", "--terrain", "constant:520", "--frequency-ghz", "18", "--from-antenna-m", "25", "--to-antenna-m", "20", "--k", "4/3", "--k", "inf", "--rain-rate-mm-h", "50", "--json"]);
+    const r = runCli(["path", "--from", "-33.45,-70.66", "--to", "-33.52,-70.58", "--terrain", "constant:520", "--frequency-ghz", "18", "--from-antenna-m", "25", "--to-antenna-m", "20", "--k", "4/3", "--k", "inf", "--rain-rate-mm-h", "50", "--tx-power-dbm", "20", "--from-gain-dbi", "38", "--to-gain-dbi", "38", "--rx-threshold-dbm", "-75", "--json"]);
     expect(r.status, r.stderr).toBe(0);
     const link = JSON.parse(r.stdout);
     for (const k of LINK_KEYS) expect(link, k).toHaveProperty(k);
@@ -66,9 +66,32 @@ describe("ridgeline path", () => {
     const rows = ["distance_m,elevation_m", "0,0", "2000,300", "4000,0"];
     const csv = join(dir, "blocked.csv");
     writeFileSync(csv, rows.join("\n") + "\n");
-    const r = runCli(["path", "--from", "0,0", "--to", "0,0.036", "--profile", csv, "--frequency-ghz", "6", "--from-antenna-m", "10", "--to-antenna-m", "10", "--json"]);
+    const r = runCli(["path", "--from", "0,0", "--to", "0,0.036", "--profile", csv, "--frequency-ghz", "6", "--from-antenna-m", "10", "--to-antenna-m", "10", "--tx-power-dbm", "20", "--from-gain-dbi", "30", "--to-gain-dbi", "30", "--rx-threshold-dbm", "-75", "--json"]);
     expect(r.status).toBe(0);
     expect(JSON.parse(r.stdout).target_met).toBe(false);
+  });
+
+  it("regression: without budget inputs it shows losses only, no verdict (it assumed 0 dBm, 0 dBi and printed MISSED)", () => {
+    const args = ["path", "--from", "-33.45,-70.66", "--to", "-33.52,-70.58", "--terrain", "constant:0", "--frequency-ghz", "11", "--from-antenna-m", "30", "--to-antenna-m", "30"];
+    const json = runCli([...args, "--json"]);
+    expect(json.status, json.stderr).toBe(0);
+    const link = JSON.parse(json.stdout);
+    expect(link.losses_only).toBe(true);
+    expect(link.target_met).toBeNull();
+    for (const k of ["received_dbm", "fade_margin_db", "availability_pct", "budget"]) expect(link, k).not.toHaveProperty(k);
+    expect(link.losses_db.free_space).toBeGreaterThan(100);
+    const table = runCli(args);
+    expect(table.stdout).not.toMatch(/MISSED|Received level/);
+    expect(table.stdout).toMatch(/Verdict\s+none: losses only/);
+    expect(table.stdout).toMatch(/Frequency\s+11\.000 GHz/);
+  });
+
+  it("with a power but no threshold: received level, no verdict, defaults named", () => {
+    const r = runCli(["path", "--from", "-33.45,-70.66", "--to", "-33.52,-70.58", "--terrain", "constant:0", "--frequency-ghz", "0.9", "--from-antenna-m", "30", "--to-antenna-m", "30", "--tx-power-dbm", "40", "--json"]);
+    const link = JSON.parse(r.stdout);
+    expect(typeof link.received_dbm).toBe("number");
+    expect(link.target_met).toBeNull();
+    expect(link.warnings.join(" ")).toMatch(/No --from-gain-dbi given: taken as 0 dBi/);
   });
 
   it.each([

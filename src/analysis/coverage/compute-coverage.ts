@@ -1,4 +1,5 @@
 import { EARTH_RADIUS_M, wavelengthM } from "../../physics/constants.ts";
+import { formatFrequency, formatK, formatNumber, formatSmall } from "../../format/quantity.ts";
 import { dryPressureFromTotalHpa, gasSpecificAttenuation, GAS_P676_VALIDITY } from "../../physics/gas-attenuation.ts";
 import { groundConstants } from "../../physics/ground-constants.ts";
 import { hataLoss } from "../../physics/hata.ts";
@@ -120,8 +121,8 @@ export function prepareCoverage(terrain: Terrain, req: CoverageRequest, options:
     push(warnings, rangeWarning("Diffraction (ITU-R P.526-15 §4.5)", "frequency", f, [0.03, 50], "GHz"));
     push(warnings, rangeWarning(GAS_P676_VALIDITY.method, "frequency", f, GAS_P676_VALIDITY.frequency_ghz, "GHz"));
     assumptions.push(
-      `Received level = EIRP − antenna pattern − free-space loss (ITU-R P.525-4) − delta-Bullington diffraction (ITU-R P.526-15 §4.5, k = ${fmtK(req.k)}, ${req.polarization === "v" ? "vertical" : "horizontal"} polarisation, ${req.ground.replace(/-/g, " ")} εr = ${ground.epsilon_r.toFixed(1)}, σ = ${ground.sigma_s_m.toPrecision(3)} S/m) − gases (ITU-R P.676-12, ${gamma.toPrecision(3)} dB/km) + receiver gain.`,
-      "Each cell's profile is the radial from the site toward it, sampled once per grid column (or row) and ending at the cell centre; the method's maxima are kept incrementally along each radial (exact, not an approximation of the profile method).",
+      `Received level = EIRP − antenna pattern − free-space loss (ITU-R P.525-4) − delta-Bullington diffraction (ITU-R P.526-15 §4.5, k = ${fmtK(req.k)}, ${req.polarization === "v" ? "vertical" : "horizontal"} polarisation, ${req.ground.replace(/-/g, " ")} εr = ${formatNumber(ground.epsilon_r, 1)}, σ = ${formatSmall(ground.sigma_s_m, 3)} S/m) − gases (ITU-R P.676-12, ${formatSmall(gamma, 3)} dB/km) + receiver gain.`,
+      "Each cell's profile is the radial from the site to the cell centre, sampled once per grid column or row.",
     );
   } else if (req.method === "hata") {
     const base = { frequency_mhz: f * 1000, base_m: req.antenna_m, mobile_m: req.receiver_m, environment: req.hata.environment, city_size: req.hata.city_size };
@@ -139,7 +140,7 @@ export function prepareCoverage(terrain: Terrain, req: CoverageRequest, options:
   } else {
     assumptions.push(
       req.clearance_f1 > 0
-        ? `Visible: line of sight with Earth curvature at k = ${fmtK(req.k)} and at least ${req.clearance_f1} of the first Fresnel radius clear at ${(f * 1000).toPrecision(4)} MHz over every sample of the radial.`
+        ? `Visible: line of sight with Earth curvature at k = ${fmtK(req.k)} and at least ${req.clearance_f1} of the first Fresnel radius clear at ${formatFrequency(f)} over every sample of the radial.`
         : `Visible: geometric line of sight with Earth curvature at k = ${fmtK(req.k)} (running horizon along each radial), receiver ${req.receiver_m} m above ground.`,
     );
   }
@@ -183,5 +184,5 @@ function push(list: string[], w: string | null): void {
 }
 
 function fmtK(k: number): string {
-  return k === Infinity ? "∞" : Math.abs(k - 4 / 3) < 1e-9 ? "4/3" : String(Number(k.toPrecision(4)));
+  return formatK(k);
 }

@@ -3,6 +3,7 @@ import { utmEpsgFor } from "../../geo/utm-zone.ts";
 import { crsFromEpsg, type Crs } from "../../terrain/crs-from-epsg.ts";
 import { metresPerDegree } from "../../terrain/metres-per-degree.ts";
 import type { Terrain } from "../../terrain/terrain.ts";
+import { formatNumber } from "../../format/quantity.ts";
 import { CoverageError } from "./coverage-error.ts";
 
 const { Geodesic } = geographiclib as unknown as typeof import("geographiclib-geodesic");
@@ -147,7 +148,7 @@ export function planCoverageGrid(
       area[r] = Math.abs(gt[1] * ew * gt[5] * ns);
     }
     distanceNote =
-      "Radials are straight lines on the latitude/longitude grid and distances use metres per degree at the mid-latitude; both depart from the geodesic by about d²·tan(lat)/(8·6371 km) (18 m at 30 km, 45°).";
+      `Radials run straight on the latitude/longitude grid; within this radius they depart from the geodesic by ${geodesicDepartureText(radius_m, site.lat_deg)}.`;
   } else {
     const k = pointScale(crs, site.lat_deg, site.lon_deg);
     east.fill(gt[1] / k);
@@ -212,4 +213,14 @@ export function cellCentreLatLon(grid: Pick<CoverageGrid, "epsg" | "geoTransform
   const gt = grid.geoTransform;
   const crs = crsFromEpsg(grid.epsg)!;
   return crs.fromCrs(gt[0] + (col + 0.5) * gt[1], gt[3] + (row + 0.5) * gt[5]);
+}
+
+/**
+ * How far a straight radial on the latitude/longitude grid departs from the geodesic at the
+ * coverage radius: about d²·tan(lat)/(8·6371 km) (small-angle estimate of the rhumb/geodesic
+ * separation, from memory, within ~10 % below 60°), as text for the report.
+ */
+function geodesicDepartureText(radius_m: number, lat_deg: number): string {
+  const dev_m = (radius_m * radius_m * Math.abs(Math.tan((lat_deg * Math.PI) / 180))) / (8 * 6_371_000);
+  return dev_m < 1 ? "less than 1 m" : `about ${formatNumber(dev_m, 0)} m`;
 }

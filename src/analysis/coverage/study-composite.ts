@@ -1,4 +1,5 @@
 import { join } from "node:path";
+import { formatLatLon, formatNumber } from "../../format/quantity.ts";
 import { writeGeoTiff } from "../../geo/geotiff-writer.ts";
 import type { CoverageMapData } from "../../render/coverage-map.ts";
 import type { Study } from "../../study/study.ts";
@@ -84,8 +85,8 @@ export async function studyComposite(study: Study, levels: CompositeMember[], ou
     files: out.files,
     best_server: levels.map((it, k) => ({ index: k + 1, coverage: it.result.id, site: it.result.sites[0], area_km2: a.served_m2[k] / 1e6, pct: pct(a.served_m2[k]) })),
     assumptions: [
-      `Each cell takes the strongest received level of the ${levels.length} coverages and the coverage providing it (best server; ${levels.map((it, k) => `${k + 1} = ${it.result.id}`).join(", ")}); the area a site serves counts cells where it is the best server${Number.isFinite(serveFrom) ? ` at or above ${serveFrom} dBm` : ""}.`,
-      `Centre of the composite grid: ${lat.toFixed(5)}, ${lon.toFixed(5)}.`,
+      `Each cell takes the strongest received level of the ${levels.length} coverages and the coverage providing it (best server; ${levels.map((it, k) => `${k + 1} = ${it.result.id}`).join(", ")}); the area a site serves counts cells where it is the best server${Number.isFinite(serveFrom) ? ` at or above ${formatNumber(serveFrom, 1)} dBm` : ""}.`,
+      `Centre of the composite grid: ${formatLatLon(lat, lon)}.`,
     ],
     warnings: [],
     compute_s: 0,

@@ -1,5 +1,5 @@
 import type { AnalyzedStudy } from "../../analysis/analyze-study.ts";
-import { formatNumber } from "../../site/format.ts";
+import { formatNumber } from "../../format/quantity.ts";
 import { parseArgs } from "../args.ts";
 import { loadAllStudies } from "../load-all.ts";
 import { progressReporter } from "../progress.ts";
@@ -18,6 +18,8 @@ export interface CheckRow {
   objectives: { performance: { achieved_pct: number; target_pct: number; met: boolean; counted: string }; availability: { achieved_pct: number; target_pct: number; met: boolean; counted: string }; combined_availability_pct: number } | null;
   capacity_target_met: boolean | null;
   target_met: boolean;
+  /** "alternative" or "rejected": shown, not counted in the exit code. */
+  design_status: string | null;
 }
 
 /** Rows for every link of the analysed studies. */
@@ -40,6 +42,7 @@ export function checkRows(studies: AnalyzedStudy[]): CheckRow[] {
         : null,
       capacity_target_met: l.adaptive_modulation?.target?.met ?? null,
       target_met: l.target_met,
+      design_status: l.design_status ?? null,
     })),
   );
 }
@@ -96,13 +99,14 @@ export async function checkCommand(argv: string[]): Promise<number> {
   const studies = await loadAllStudies(args.values.get("studies-dir")?.[0] ?? "content/studies", { ids: args.positional, onProgress: (_s, d, t) => progress.update(d, t) });
   progress.stop();
   const rows = checkRows(studies);
-  const missed = rows.filter((r) => !r.target_met).length;
+  const counted = rows.filter((r) => !r.design_status);
+  const missed = counted.filter((r) => !r.target_met).length;
   const ifx = interferenceCheckRows(studies);
   const ifxMissed = ifx.filter((r) => !r.met).length;
   if (args.flags.has("json")) {
     const chains = studies.flatMap((s) => s.result.chains.map((c) => ({ study: s.result.id, ...c })));
     const interference = ifx.length ? { interference: { receivers: ifx, missed: ifxMissed, total: ifx.length } } : {};
-    process.stdout.write(`${JSON.stringify({ links: rows, chains, missed, total: rows.length, ...interference }, null, 2)}\n`);
+    process.stdout.write(`${JSON.stringify({ links: rows, chains, missed, total: counted.length, set_aside: rows.length - counted.length, ...interference }, null, 2)}\n`);
   } else {
     const header = ["study", "link", "clearance", "fade margin dB", "performance % (worst month)", "target %", "availability % (year)", "target %", "result"];
     const table = rows.map((r) => [
@@ -114,7 +118,7 @@ export async function checkCommand(argv: string[]): Promise<number> {
       formatNumber(r.objectives?.performance.target_pct ?? null, 3),
       `${formatNumber(r.availability_pct, 5)}${r.objectives && !r.objectives.availability.met ? " ✗" : ""}`,
       formatNumber(r.target_availability_pct, 3),
-      r.target_met ? "met" : "MISSED",
+      (r.target_met ? "met" : "MISSED") + (r.design_status ? ` (${r.design_status}, not counted)` : ""),
     ]);
     const widths = header.map((h, i) => Math.max(h.length, ...table.map((row) => row[i].length)));
     const line = (cells: string[]) => cells.map((c, i) => (i >= 3 && i <= 7 ? c.padStart(widths[i]) : c.padEnd(widths[i]))).join("  ");
@@ -123,7 +127,9 @@ export async function checkCommand(argv: string[]): Promise<number> {
     if (unreliable.length) {
       process.stdout.write(`\nClearance verdict unreliable (terrain coarser than a tenth of the path; see the link's warnings): ${unreliable.map((r) => `${r.study}/${r.link}`).join(", ")}\n`);
     }
-    process.stdout.write(missed ? `\n${missed} of ${rows.length} links miss a target.\n` : `\nAll ${rows.length} links meet their targets.\n`);
+    const aside = rows.length - counted.length;
+    const note = aside ? ` (${aside} alternative or rejected design${aside === 1 ? "" : "s"} not counted)` : "";
+    process.stdout.write(missed ? `\n${missed} of ${counted.length} ${counted.length === 1 ? "link" : "links"} ${missed === 1 ? "misses" : "miss"} a target${note}.\n` : `\n${counted.length === 1 ? "The link meets its" : `All ${counted.length} links meet their`} targets${note}.\n`);
     if (ifx.length) {
       process.stdout.write(interferenceTable(ifx));
       process.stdout.write(ifxMissed ? `${ifxMissed} of ${ifx.length} receivers miss their interference limits.\n` : `All ${ifx.length} receivers meet their interference limits.\n`);

@@ -1,5 +1,6 @@
 import { analyzeLink } from "../../analysis/analyze-link.ts";
 import { checkSitesOnTerrain, openStudyTerrain } from "../../analysis/analyze-study.ts";
+import type { LinkResult } from "../../analysis/results.ts";
 import { sanitizeNumbers } from "../../analysis/sanitize.ts";
 import { parseK } from "../../study/load-study.ts";
 import type { KFactor, Study } from "../../study/study.ts";
@@ -13,7 +14,15 @@ export const PATH_USAGE = `Usage: ridgeline path --from LAT,LON --to LAT,LON (--
          --frequency-ghz F --from-antenna-m H --to-antenna-m H [--k K]... [--polarization h|v]
          [--rain-rate-mm-h R] [--tx-power-dbm P] [--from-gain-dbi G] [--to-gain-dbi G]
          [--rx-threshold-dbm T] [--availability-pct A] [--json]
-${PATH_METHOD_USAGE}`;
+${PATH_METHOD_USAGE}
+
+Without budget inputs (--tx-power-dbm, --from-gain-dbi, --to-gain-dbi, --rx-threshold-dbm) the
+command shows the path's clearance and losses only, and no verdict. With some of them it adds the
+received level (a gain not given counts as 0 dBi, and says so); fade margin, availability and
+the verdict need --rx-threshold-dbm as well.`;
+
+/** The options that make a link budget. */
+export const BUDGET_OPTIONS = ["tx-power-dbm", "from-gain-dbi", "to-gain-dbi", "rx-threshold-dbm"] as const;
 
 const DEFAULTS = { tx_power_dbm: 0, gain_dbi: 0, rx_threshold_dbm: -90, availability_pct: 99.99 };
 
@@ -34,6 +43,9 @@ export async function pathCommand(argv: string[]): Promise<number> {
     if (v(req) === undefined) throw new UsageError(`--${req} is required.\n${PATH_USAGE}`);
   }
   if ((v("terrain") === undefined) === (v("profile") === undefined)) throw new UsageError(`give exactly one of --terrain and --profile.\n${PATH_USAGE}`);
+  const givenBudget = BUDGET_OPTIONS.filter((n) => v(n) !== undefined);
+  const lossesOnly = givenBudget.length === 0;
+  const noVerdict = v("rx-threshold-dbm") === undefined;
   const from = latLonArg("from", v("from"));
   const to = latLonArg("to", v("to"));
   const f = numberArg("frequency-ghz", v("frequency-ghz"), (x) => x > 0 && x <= 1000, "a frequency in GHz above 0 and up to 1000");
@@ -99,9 +111,21 @@ export async function pathCommand(argv: string[]): Promise<number> {
   const extra = method?.run({ from, to, profile: figure.profile, profile_csv: v("profile"), from_antenna_m: hA, to_antenna_m: hB, polarization: pol, from_gain_dbi: l0.from.gain_dbi, to_gain_dbi: l0.to.gain_dbi });
   if (extra) warnings.push(...extra.warnings);
   const link = { ...sanitizeNumbers({ ...result, ...extra?.fields }, warnings, "path"), warnings };
-  if (a.flags.has("json")) process.stdout.write(`${JSON.stringify(link, null, 2)}\n`);
-  else printLinkTable(link, extra?.lines);
+  if (!lossesOnly) for (const n of ["tx-power-dbm", "from-gain-dbi", "to-gain-dbi"] as const) if (v(n) === undefined) link.warnings.push(`No --${n} given: taken as 0 ${n === "tx-power-dbm" ? "dBm" : "dBi"} in the received level.`);
+  const shown = lossesOnly ? lossesOnlyResult(link, "losses") : noVerdict ? lossesOnlyResult(link, "level") : link;
+  if (a.flags.has("json")) process.stdout.write(`${JSON.stringify(shown, null, 2)}\n`);
+  else printLinkTable(shown, extra?.lines);
   return 0;
+}
+
+/**
+ * A link result without the parts that need a budget (levels, margin, availability, verdict):
+ * what `path` shows when no budget inputs are given, instead of assuming 0 dBm and 0 dBi.
+ */
+export function lossesOnlyResult(l: LinkResult, keep: "losses" | "level"): LinkResult & { losses_only: true } {
+  const { budget, availability: _a, received_dbm, fade_margin_db: _f, availability_pct: _p, target_availability_pct: _t, ...rest } = l;
+  const level = keep === "level" ? { received_dbm, budget: Object.fromEntries(Object.entries(budget ?? {}).filter(([k]) => !/threshold|fade_margin|field_margin/.test(k))) } : {};
+  return { ...rest, ...level, losses_only: true, target_met: null as unknown as boolean, warnings: l.warnings.filter((w) => !/fade margin|does not close|rain outage|threshold/i.test(w)) };
 }
 
 function terrainInput(arg: string): Study["terrain"] {

@@ -15,8 +15,8 @@ export async function pdfCommand(argv: string[]): Promise<number> {
   const args = parseArgs(argv, { values: ["out", "studies-dir", "paper"] });
   if (args.positional.length !== 1) throw new UsageError(`pdf needs exactly one study id (received ${args.positional.length}). Usage: ridgeline pdf <study-id> [--out DIR] [--paper a4|letter]`);
   const id = args.positional[0];
-  const paperArg = (args.values.get("paper")?.[0] ?? "a4").toLowerCase();
-  if (paperArg !== "a4" && paperArg !== "letter") throw new UsageError(`--paper: received "${paperArg}"; expected a4 or letter.`);
+  const paperArg = (args.values.get("paper")?.[0] ?? "study").toLowerCase();
+  if (paperArg !== "a4" && paperArg !== "letter" && paperArg !== "study") throw new UsageError(`--paper: received "${paperArg}"; expected a4 or letter.`);
   const outDir = resolve(args.values.get("out")?.[0] ?? "_site");
   const studiesDir = args.values.get("studies-dir")?.[0] ?? "content/studies";
   const printPage = join(outDir, "studies", id, "print", "index.html");
@@ -28,7 +28,7 @@ export async function pdfCommand(argv: string[]): Promise<number> {
   const pdfPath = join(outDir, "studies", id, `${id}.pdf`);
   const browser = await launchChromium();
   try {
-    await printPdf({ html_path: printPage, pdf_path: pdfPath, paper: paperArg === "a4" ? "A4" : "Letter", context: browser.context });
+    await printPdf({ html_path: printPage, pdf_path: pdfPath, paper: paperArg === "a4" ? "A4" : paperArg === "letter" ? "Letter" : undefined, context: browser.context });
   } finally {
     await browser.close();
   }

@@ -1,7 +1,7 @@
 import { scaleLinear } from "d3-scale";
 import { leftAxis } from "./axes.ts";
 import { escapeXml, px, svgId } from "./escape.ts";
-import { fixed } from "./number-text.ts";
+import { fixed } from "../../format/quantity.ts";
 
 /** The path cross-section at one k's point of least clearance. */
 export interface FresnelSectionPanel {
