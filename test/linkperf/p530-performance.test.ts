@@ -99,21 +99,43 @@ describe("diversity improvement, P.530-16 §6.2", () => {
   it("the correlation pieces join at their breakpoints (k_ns² = 0.26, r_w = 0.5, r_w = 0.9628): the published constants are chosen so", () => {
     const rw = (k2: number, low: boolean) => (low ? 1 - 0.9746 * (1 - k2) ** 2.17 : 1 - 0.6921 * (1 - k2) ** 1.034);
     expectClose(rw(0.26, true), rw(0.26, false), { abs: 2e-4 }, "r_w at k_ns² = 0.26");
-    const ks = (r: number) => 1 - 0.195 * (1 - r) ** (0.109 - 0.13 * Math.log10(1 - r));
-    expectClose(ks(0.5), 0.8238, { abs: 1e-3 }, "k_s at r_w = 0.5");
-    expectClose(ks(0.9628), 1 - 0.3957 * (1 - 0.9628) ** 0.5136, { abs: 2e-3 }, "k_s at r_w = 0.9628");
+    const ks2 = (r: number) => 1 - 0.195 * (1 - r) ** (0.109 - 0.13 * Math.log10(1 - r));
+    expectClose(ks2(0.5), 0.8238, { abs: 1e-3 }, "k_s² at r_w = 0.5");
+    expectClose(ks2(0.9628), 1 - 0.3957 * (1 - 0.9628) ** 0.5136, { abs: 2e-3 }, "k_s² at r_w = 0.9628");
   });
 
-  it("combined flat + dispersive outage with diversity: hand evaluation of Steps 1–8 (second transcription)", () => {
-    const p0 = 20, Pns = 1e-4, Ps = 2e-5, Ins = 50;
-    const eta = 1 - Math.exp(-0.2 * 0.2 ** 0.75);
-    const kns2 = 1 - (Ins * Pns) / eta;
-    const r = kns2 <= 0.26 ? 1 - 0.9746 * (1 - kns2) ** 2.17 : 1 - 0.6921 * (1 - kns2) ** 1.034;
-    const ks = r <= 0.5 ? 0.8238 : r <= 0.9628 ? 1 - 0.195 * (1 - r) ** (0.109 - 0.13 * Math.log10(1 - r)) : 1 - 0.3957 * (1 - r) ** 0.5136;
-    const Pd = ((Ps * Ps) / (eta * (1 - ks * ks))) ** 0.75 + (Pns / Ins) ** 0.75;
-    const out = diversityOutageProbability(Pns, Ps, p0, Ins);
-    expectClose(out.Pd, Pd ** (4 / 3), { rel: 1e-12 }, { p0, Pns, Ps, Ins });
-    expect(out.Pd).toBeLessThan(Pns + Ps);
+  // Worked example, evaluated by hand (calculator, 6 digits) from the §6.2 equations: p0 = 20 %,
+  // P_ns = 1e-4, P_s = 2e-5, I_ns = 50.
+  //   η = 1 − exp(−0.2·0.2^0.75) = 1 − exp(−0.059814) = 0.058060
+  //   k_ns² = 1 − 50·1e-4/0.058060 = 0.913883                        (> 0.26: second r_w piece)
+  //   r_w = 1 − 0.6921·0.086117^1.034 = 1 − 0.6921·0.079225 = 0.945168 (0.5 < r_w ≤ 0.9628)
+  //   k_s² = 1 − 0.195·0.054832^(0.109 + 0.13·1.26093) = 1 − 0.195·0.452754 = 0.911713
+  //   P_ds = (2e-5)²/(0.058060·(1 − 0.911713)) = 4e-10/0.0051260 = 7.8035e-8
+  //   P_dns = 1e-4/50 = 2e-6
+  //   P_d = (7.8035e-8^0.75 + 2e-6^0.75)^(4/3) = (4.669e-6 + 5.3183e-5)^(4/3) = 2.2375e-6
+  // The piecewise k_s expression is the SQUARE of the selective correlation coefficient and
+  // enters P_ds as 1 − k_s² directly; source: the text as recalled, corroborated by an
+  // independent public implementation (a PHP link calculator in the public code index, function
+  // SD, P_ds = P_s²/(η·(1 − Ks))). Regression: the first transcription squared it again and gave
+  // P_ds = 4.082e-8, P_d = 2.1453e-6 for this input.
+  it("regression: the selective term with diversity uses the piecewise k_s² as is (hand-worked example: P_d = 2.2375e-6, not 2.1453e-6)", () => {
+    const out = diversityOutageProbability(1e-4, 2e-5, 20, 50);
+    expectClose(out.eta, 0.05806, { rel: 1e-4 }, "η");
+    expectClose(out.k_ns2, 0.913883, { rel: 1e-5 }, "k_ns²");
+    expectClose(out.r_w, 0.945168, { rel: 1e-5 }, "r_w");
+    expectClose(out.k_s2, 0.911713, { rel: 1e-5 }, "k_s²");
+    expectClose(out.Pds, 7.8035e-8, { rel: 2e-4 }, "P_ds");
+    expectClose(out.Pdns, 2e-6, { rel: 1e-12 }, "P_dns");
+    expectClose(out.Pd, 2.2375e-6, { rel: 2e-4 }, "P_d");
+    expect(out.Pd).toBeLessThan(1e-4 + 2e-5);
+  });
+
+  it("P_ds has the same form as the non-selective term: P_dns = P_ns/I_ns = P_ns²/(η·(1 − k_ns²)) (identity of Step k_ns²)", () => {
+    for (const [p0, Pns, Ps, Ins] of [[20, 1e-4, 2e-5, 50], [5, 3e-5, 1e-5, 20], [1, 1e-5, 1e-6, 200]]) {
+      const o = diversityOutageProbability(Pns, Ps, p0, Ins);
+      expectClose(o.Pdns, (Pns * Pns) / (o.eta * (1 - o.k_ns2)), { rel: 1e-9 }, { p0, Pns, Ins });
+      expectClose(o.Pds, (Ps * Ps) / (o.eta * (1 - o.k_s2)), { rel: 1e-12 }, { p0, Ps });
+    }
   });
 });
 
