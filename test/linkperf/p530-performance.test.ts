@@ -202,7 +202,26 @@ describe("worst month and average year, P.530-16 §2.3.4", () => {
     expectClose(annualFadeExceedancePercent(3, 0, 5).p_pct, 100 * (1 - Math.exp(-1)), { rel: 1e-12 });
   });
 
-  it("deep fades convert by 10^(−ΔG/10) exactly (eq. (21))", () => {
+  // ΔG of §2.3.4 Step 2, evaluated with Python's math module from the formula as printed in the
+  // ITU-R SG 3 MATLAB implementation (github.com/eeveetza/p530, matlab/P530.m), same in
+  // crc-covlib (itur_p530._DeltaG), with the text's cap ΔG ≤ 10.8 dB:
+  it.each([
+    { lat: 52, d: 40, eps: 5, dG: 8.263740555567374 }, // |ξ| > 45°: "−" sign
+    { lat: 30, d: 20, eps: 0, dG: 5.674528601707657 }, // |ξ| ≤ 45°: "+" sign
+    { lat: 80, d: 7.5, eps: 0, dG: 10.8 }, // 12.87 before the cap
+  ])("ΔG at ξ = $lat°, d = $d km, |εp| = $eps mrad is $dG dB (independent evaluation)", ({ lat, d, eps, dG }) => {
+    expectClose(worstMonthToAnnualDeltaGDb(lat, d, eps), dG, { abs: 1e-9 }, { lat, d, eps });
+  });
+
+  it("ΔG is capped from above (a year holds at least 1/12 of its worst month's fading: ΔG ≤ 10·log10 12 ≈ 10.8 dB), never raised to 10.8 dB", () => {
+    fc.assert(fc.property(fc.double({ min: -89, max: 89, noNaN: true }), fc.double({ min: 7.5, max: 185, noNaN: true }), fc.double({ min: 0, max: 37, noNaN: true }), (lat, d, eps) => {
+      const dG = worstMonthToAnnualDeltaGDb(lat, d, eps);
+      expect(dG).toBeLessThanOrEqual(10.8);
+    }));
+    expect(worstMonthToAnnualDeltaGDb(30, 20, 0)).toBeLessThan(10.8);
+  });
+
+  it("deep fades convert by 10^(−ΔG/10) exactly (§2.3.4 Step 3)", () => {
     const p0 = 2, A = 40, dG = 6;
     expectClose(annualFadeExceedancePercent(p0, A, dG).p_pct, fadeDepthExceedancePercent(p0, A).pw_pct * 10 ** -0.6, { rel: 1e-12 });
   });
