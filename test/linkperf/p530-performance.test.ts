@@ -153,6 +153,25 @@ describe("cross-polar discrimination outage, P.530-16 §4", () => {
     expectClose(xpdOutageClearAir({ xpd_g_db: xpd, c0_i_db: 15, xpif_db: xpif }, p0).Pxp, P0 * 10 ** (-M / 10), { rel: 1e-12 }, { p0, xpd, xpif });
   });
 
+  // Worked examples, evaluated with Python's math module from the steps as printed in the
+  // public implementations (iturpropag, github.com/mrazavian/ITURPropagPY, iturp530/XPD_outage_*.py,
+  // eqs. (101)–(106), (112)–(115); github.com/eeveetza/p530 for P.530-18), with P0 = p0/100 in η:
+  //   clear air, p0 = 5 %, XPD_g = 30 dB, C0/I = 15 dB, no XPIC, one transmit antenna:
+  //   XPD0 = 35, η = 0.0209254, Q = 5.331985 dB, M_XPD = 25.331985 dB, P_XP = 1.464777e-4
+  //   rain, 18 GHz, A0.01 = 35 dB, C0/I = 20 dB, XPIF = 10 dB, U0 = 15 dB:
+  //   U = 52.65818, V = 22.16725, A_p = 84.0192 dB, m = 30.26427, n = −3.180894, P_XPR = 6.59334e-6
+  it("clear air: worked example p0 = 5 %, XPD_g = 30 dB, C0/I = 15 dB gives P_XP = 1.4648e-4 (independent evaluation)", () => {
+    const r = xpdOutageClearAir({ xpd_g_db: 30, c0_i_db: 15, xpif_db: 0 }, 5);
+    expectClose(r.M_xpd_db, 25.331985, { abs: 1e-5 }, "M_XPD");
+    expectClose(r.Pxp, 1.464777e-4, { rel: 1e-5 }, "P_XP");
+  });
+
+  it("rain: worked example 18 GHz, A0.01 = 35 dB, C0/I = 20 dB, XPIF = 10 dB gives P_XPR = 6.5933e-6 (independent evaluation)", () => {
+    const r = xpdOutagePrecipitation({ xpd_g_db: 30, c0_i_db: 20, xpif_db: 10 }, 35, 18);
+    expectClose(r.Ap_db, 84.0192, { rel: 1e-5 }, "A_p");
+    expectClose(r.Pxpr, 6.59334e-6, { rel: 1e-5 }, "P_XPR");
+  });
+
   it("two transmit antennas: the outage scales with k_XP = 1 − 0.3·exp(−4·10⁻⁶·(s_t/λ)²) against 0.7 for one", () => {
     const one = xpdOutageClearAir(eq, 5).Pxp;
     for (const st of [2, 10, 50]) {
