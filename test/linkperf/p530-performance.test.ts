@@ -48,6 +48,18 @@ describe("dispersive (selective) fading, P.530-16 §2.3.6", () => {
     expectClose(selectiveOutageProbability(sig, d, p0).Ps, expected, { rel: 1e-12 }, { d, p0 });
   });
 
+  // Worked example, evaluated with Python's math module from §2.3.6 (the form also used by an
+  // independent public PHP link calculator in the public code index): d = 40 km, p0 = 5 %,
+  // W = 24 MHz, B_M = 22 dB, B_NM = 20 dB, τ_r = 6.3 ns:
+  //   η = 1 − exp(−0.2·0.05^0.75) = 0.0209254, τm = 0.7·0.8^1.3 = 0.523739 ns,
+  //   Ps = 2.15·η·(0.024·10^−1.1 + 0.024·10^−1)·τm²/6.3 = 8.43557e-6
+  it("worked example d = 40 km, p0 = 5 % gives Ps = 8.4356e-6 (independent evaluation)", () => {
+    const r = selectiveOutageProbability(sig, 40, 5);
+    expectClose(r.eta, 0.0209254, { rel: 1e-5 }, "η");
+    expectClose(r.tau_m_ns, 0.523739, { rel: 1e-5 }, "τm");
+    expectClose(r.Ps, 8.43557e-6, { rel: 1e-5 }, "Ps");
+  });
+
   it("outage falls as the signature narrows or deepens (property)", () => {
     fc.assert(
       fc.property(fc.double({ min: 0.001, max: 0.1, noNaN: true }), fc.double({ min: 0.1, max: 0.99, noNaN: true }), fc.double({ min: 5, max: 150, noNaN: true }), fc.double({ min: 0.001, max: 100, noNaN: true }), (W, shrink, d, p0) => {
