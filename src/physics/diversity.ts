@@ -18,7 +18,9 @@ export const DIVERSITY_P530_VALIDITY = {
  * V = |G1 − G2| the difference of the two receive antennas' gains (dB). The formula is a
  * deep-fade asymptote; below I = 1 (shallow fades, small spacing) it is bounded at 1, since a
  * second antenna cannot make the outage worse (common practice).
- * Reference: ITU-R P.530-16 §6.2.1 (space diversity), transcribed from memory of the text.
+ * Reference: ITU-R P.530-16 §6.2 (space diversity; section and equation numbers from memory).
+ * The formula, p0 in percent and the gain term 10^((A − V)/10) agree with an independent
+ * public implementation (a PHP link calculator in the public code index, function SD).
  * @param S_m vertical separation of the receive antennas, centre to centre (m)
  * @param frequency_ghz frequency f (GHz)
  * @param distance_km path length d (km)
@@ -35,7 +37,8 @@ export function spaceDiversityImprovement(S_m: number, frequency_ghz: number, di
 /**
  * Improvement factor of frequency diversity for non-selective fading:
  * I = (80/(f·d))·(Δf/f)·10^(F/10), bounded below at 1 (common practice, as above).
- * Reference: ITU-R P.530-16 §6.2.1 (frequency diversity), transcribed from memory of the text.
+ * Reference: ITU-R P.530-16 §6.2 (frequency diversity; section and equation numbers from
+ * memory). Agrees with the same independent PHP implementation, which also bounds I at 1.
  * @param frequency_ghz frequency f (GHz)
  * @param spacing_ghz frequency separation Δf (GHz)
  * @param distance_km path length d (km)

@@ -10,16 +10,21 @@ import { annualFadeExceedancePercent, worstMonthToAnnualDeltaGDb } from "../../s
 import { xpdOutageClearAir, xpdOutagePrecipitation } from "../../src/physics/xpd-outage.ts";
 import { expectClose } from "../helpers/expect-close.ts";
 
-// Sources. No copy of ITU-R P.530-16 was at hand while this was written: the formulas of
-// §2.3.6 (dispersive fading), §4 (XPD outage) and §6.2 (diversity) in src/physics were
-// transcribed from memory of the text, and the "second transcription" in each test below is
-// written again, independently, in another arrangement (logs, natural exponentials), also from
-// memory — it guards against slips in the code, not against a misremembered constant. Where a
-// stronger check exists it is used: the XPD rain outage is checked against the rain scaling law
-// it inverts (P.530-16 §2.4.1 eq. (34)); the clear-air XPD outage against the published MATLAB
-// implementation of P.530-18 by I. Stevanovic (OFCOM), github.com/eeveetza/p530, matlab/P530.m,
-// XPD_outage_clear_air (read, re-expressed here); the piecewise diversity correlations against
-// their own continuity at the breakpoints, which the published constants are chosen to give.
+// Sources. The text of ITU-R P.530-16 itself was not reachable (the stored copies show only
+// its opening pages), so each formula in src/physics was checked against what could be read:
+// - public implementations, read and re-expressed (never copied): the ITU-R SG 3 MATLAB
+//   implementation of P.530-18 by I. Stevanovic (github.com/eeveetza/p530, matlab/P530.m) for
+//   §2.3.4 and §4; iturpropag (github.com/mrazavian/ITURPropagPY, P.530-16/-17) for §4;
+//   crc-covlib (github.com/ic-crc/crc-covlib, itur_p530.py) for §2.3.4; a PHP link calculator
+//   in the public code index (repository not named by the index) for §2.3.6 and §6.2;
+// - worked examples evaluated independently (Python math module or by hand), written below
+//   with their inputs and intermediate values;
+// - structure: the XPD rain outage against the rain scaling law it inverts (P.530-16 §2.4.1),
+//   the continuity of the diversity correlation pieces, the form shared by P_ds and P_dns.
+// Still from memory: section, step and equation numbers where no implementation gives them
+// (§2.3.6, §6.2), U0's description, the validity ranges of §6.2, and the k_e curve (Fig. 3).
+// The "second transcription" checks below guard against slips in the code, not against a
+// misremembered constant; the worked examples and implementations carry that weight.
 
 const sig: RadioSignature = { width_ghz: 0.024, depth_minimum_phase_db: 22, depth_non_minimum_phase_db: 20, reference_delay_ns: 6.3 };
 
