@@ -257,6 +257,16 @@ describe("worst month and average year, P.530-16 §2.3.4", () => {
     expect(worstMonthToAnnualDeltaGDb(30, 20, 0)).toBeLessThan(10.8);
   });
 
+  // Shallow fade (A < At), §2.3.4 Step 4, evaluated with Python's math module following the
+  // steps of the SG 3 MATLAB implementation (github.com/eeveetza/p530, multipath_fading_annual):
+  // p0 = 10 %, A = 15 dB, ΔG = 6 dB: At = 26.2 dB, annual pt = 10·10^−2.62·10^−0.6 = 6.025596e-3 %,
+  // qa' = 3.221364, qt = 2.808739, qa = 4.214846, p = 0.0689788 % (worst month 0.2382988 %).
+  it("shallow fade A = 15 dB below At = 26.2 dB: p = 0.0689788 % of the year (independent evaluation of Step 4)", () => {
+    const r = annualFadeExceedancePercent(10, 15, 6);
+    expectClose(r.p_pct, 0.0689788488, { rel: 1e-6 }, "p year");
+    expectClose(r.pw_pct, 0.2382987931, { rel: 1e-6 }, "p worst month");
+  });
+
   it("deep fades convert by 10^(−ΔG/10) exactly (§2.3.4 Step 3)", () => {
     const p0 = 2, A = 40, dG = 6;
     expectClose(annualFadeExceedancePercent(p0, A, dG).p_pct, fadeDepthExceedancePercent(p0, A).pw_pct * 10 ** -0.6, { rel: 1e-12 });
