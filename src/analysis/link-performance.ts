@@ -227,6 +227,7 @@ export function linkPerformance(
     xpClear = 100 * ca.Pxp;
     xpRain = closes ? 100 * pr.Pxpr : 0;
     warn(rangeWarning(`${XPD_P530_VALIDITY.method}, precipitation`, "frequency", f, XPD_P530_VALIDITY.precipitation_frequency_ghz, "GHz"));
+    if (xpRain > 0) warn(rangeWarning(`${XPD_P530_VALIDITY.method}, precipitation`, "outage (percentage of the year)", xpRain, XPD_P530_VALIDITY.precipitation_time_pct, "%"));
     xpd = { clear_air_worst_month_pct: xpClear, rain_annual_pct: xpRain, margin_db: ca.M_xpd_db, ...eq, method: `${XPD_P530_VALIDITY.method}: §4.1 clear air, §4.2 precipitation` };
   }
 

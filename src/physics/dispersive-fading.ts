@@ -49,9 +49,11 @@ export function multipathActivityFactor(p0_pct: number): number {
  * Method: Ps = 2.15·η·(W_M·10^(−B_M/20)·τm²/|τ_r,M| + W_NM·10^(−B_NM/20)·τm²/|τ_r,NM|),
  * with W in GHz and delays in ns; one signature width and reference delay for both phases
  * here (the usual data sheet), the two depths apart.
- * Reference: ITU-R P.530-16 §2.3.6 Step 3 (transcribed from memory of the text; the tests
- * check it against a second transcription and its limits). Valid for single-carrier radios
- * whose signature was measured with a two-ray model at delay τ_r.
+ * Reference: ITU-R P.530-16 §2.3.6 Step 3 (transcribed from memory of the text; equation
+ * numbers not seen). Corroborated by an independent public implementation (a PHP link
+ * calculator in the public code index, function Selective: the same η with P0 = p0/100, the
+ * same τm and the same Ps with τ_r = 6.3 ns for both phases); the tests add a worked example.
+ * Valid for single-carrier radios whose signature was measured with a two-ray model at delay τ_r.
  * @param signature radio signature (GHz, dB, ns)
  * @param distance_km path length (km)
  * @param p0_pct multipath occurrence factor p0 (%)

@@ -18,7 +18,9 @@ export const DIVERSITY_P530_VALIDITY = {
  * V = |G1 − G2| the difference of the two receive antennas' gains (dB). The formula is a
  * deep-fade asymptote; below I = 1 (shallow fades, small spacing) it is bounded at 1, since a
  * second antenna cannot make the outage worse (common practice).
- * Reference: ITU-R P.530-16 §6.2.1 (space diversity), transcribed from memory of the text.
+ * Reference: ITU-R P.530-16 §6.2 (space diversity; section and equation numbers from memory).
+ * The formula, p0 in percent and the gain term 10^((A − V)/10) agree with an independent
+ * public implementation (a PHP link calculator in the public code index, function SD).
  * @param S_m vertical separation of the receive antennas, centre to centre (m)
  * @param frequency_ghz frequency f (GHz)
  * @param distance_km path length d (km)
@@ -35,7 +37,8 @@ export function spaceDiversityImprovement(S_m: number, frequency_ghz: number, di
 /**
  * Improvement factor of frequency diversity for non-selective fading:
  * I = (80/(f·d))·(Δf/f)·10^(F/10), bounded below at 1 (common practice, as above).
- * Reference: ITU-R P.530-16 §6.2.1 (frequency diversity), transcribed from memory of the text.
+ * Reference: ITU-R P.530-16 §6.2 (frequency diversity; section and equation numbers from
+ * memory). Agrees with the same independent PHP implementation, which also bounds I at 1.
  * @param frequency_ghz frequency f (GHz)
  * @param spacing_ghz frequency separation Δf (GHz)
  * @param distance_km path length d (km)
@@ -50,30 +53,39 @@ export function frequencyDiversityImprovement(frequency_ghz: number, spacing_ghz
 /**
  * Outage with diversity, flat and dispersive fading together (average worst month).
  *
- * Method, ITU-R P.530-16 §6.2.2 Steps 1–8 (space diversity; the same steps with the frequency
- * diversity improvement for frequency diversity):
- * η from P0 = p0/100; k_ns² = 1 − I_ns·P_ns/η (bounded to [0, 1]);
+ * Method, ITU-R P.530-16 §6.2 (the step-by-step outage with diversity; space diversity, and
+ * the same steps with the frequency-diversity improvement for frequency diversity):
+ * η from P0 = p0/100; k_ns² = 1 − I_ns·P_ns/η (bounded to [0, 1]), the square of the
+ * non-selective correlation coefficient;
  * r_w = 1 − 0.9746·(1 − k_ns²)^2.170 for k_ns² ≤ 0.26, else 1 − 0.6921·(1 − k_ns²)^1.034;
- * k_s = 0.8238 for r_w ≤ 0.5, 1 − 0.195·(1 − r_w)^(0.109 − 0.13·log10(1 − r_w)) for
- * r_w ≤ 0.9628, else 1 − 0.3957·(1 − r_w)^0.5136;
+ * k_s², the SQUARE of the selective correlation coefficient, = 0.8238 for r_w ≤ 0.5,
+ * 1 − 0.195·(1 − r_w)^(0.109 − 0.13·log10(1 − r_w)) for 0.5 < r_w ≤ 0.9628, else
+ * 1 − 0.3957·(1 − r_w)^0.5136;
  * P_ds = P_s²/(η·(1 − k_s²)); P_dns = P_ns/I_ns; P_d = (P_ds^0.75 + P_dns^0.75)^(4/3), bounded
  * by the outage without diversity P_ns + P_s (a second receiver cannot add outage; common practice).
- * Transcribed from memory of the text; the pieces join continuously at their breakpoints
- * (checked in the tests), which the published constants were chosen to do.
+ * The piecewise expression gives k_s² itself, used as is in P_ds: P_ds then has the same form as
+ * the non-selective term, P_dns = P_ns/I_ns = P_ns²/(η·(1 − k_ns²)) by the definition of k_ns².
+ * Sources: the Recommendation's text was not at hand; the constants, the breakpoints
+ * (0.26, 0.5, 0.9628) and the use of the piecewise value as 1 − k_s² directly agree with an
+ * independent public implementation (a PHP link calculator in the public code index, function
+ * SD: P_ds = P_s²/(η·(1 − Ks)) with Ks from the same pieces) and with the text as recalled
+ * ("calculate the square of the selective correlation coefficient"). Section and step numbers
+ * are from memory. Fixed 2026-12: the first transcription squared the piecewise value again
+ * (1 − k_s⁴ in effect), which understated P_ds by the factor 1 + k_s² (1.82–2.0).
  * @param Pns non-selective outage probability without diversity (0–1)
  * @param Ps selective outage probability without diversity (0–1)
  * @param p0_pct multipath occurrence factor (%)
  * @param Ins non-selective improvement factor (≥ 1)
  */
-export function diversityOutageProbability(Pns: number, Ps: number, p0_pct: number, Ins: number): { Pd: number; Pdns: number; Pds: number; k_ns2: number; r_w: number; k_s: number; eta: number } {
+export function diversityOutageProbability(Pns: number, Ps: number, p0_pct: number, Ins: number): { Pd: number; Pdns: number; Pds: number; k_ns2: number; r_w: number; k_s2: number; eta: number } {
   const eta = multipathActivityFactor(p0_pct);
-  const bad = { Pd: NaN, Pdns: NaN, Pds: NaN, k_ns2: NaN, r_w: NaN, k_s: NaN, eta };
+  const bad = { Pd: NaN, Pdns: NaN, Pds: NaN, k_ns2: NaN, r_w: NaN, k_s2: NaN, eta };
   if (!(Pns >= 0) || !(Ps >= 0) || !(Ins >= 1) || !(eta > 0)) return bad;
-  const k_ns2 = Math.min(1, Math.max(0, 1 - (Ins * Pns) / eta)); // P.530-16 §6.2.2 Step 3
-  const r_w = k_ns2 <= 0.26 ? 1 - 0.9746 * (1 - k_ns2) ** 2.17 : 1 - 0.6921 * (1 - k_ns2) ** 1.034; // P.530-16 §6.2.2 Step 5
-  const k_s = r_w <= 0.5 ? 0.8238 : r_w <= 0.9628 ? 1 - 0.195 * (1 - r_w) ** (0.109 - 0.13 * Math.log10(1 - r_w)) : 1 - 0.3957 * (1 - r_w) ** 0.5136; // P.530-16 §6.2.2 Step 5
-  const Pds = Ps ** 2 / (eta * (1 - k_s ** 2)); // P.530-16 §6.2.2 Step 6
-  const Pdns = Pns / Ins; // P.530-16 §6.2.2 Step 7
-  const Pd = (Pds ** 0.75 + Pdns ** 0.75) ** (4 / 3); // P.530-16 §6.2.2 Step 8
-  return { Pd: Math.min(Pd, Pns + Ps), Pdns, Pds, k_ns2, r_w, k_s, eta };
+  const k_ns2 = Math.min(1, Math.max(0, 1 - (Ins * Pns) / eta)); // P.530-16 §6.2 (k_ns²)
+  const r_w = k_ns2 <= 0.26 ? 1 - 0.9746 * (1 - k_ns2) ** 2.17 : 1 - 0.6921 * (1 - k_ns2) ** 1.034; // P.530-16 §6.2 (r_w)
+  const k_s2 = r_w <= 0.5 ? 0.8238 : r_w <= 0.9628 ? 1 - 0.195 * (1 - r_w) ** (0.109 - 0.13 * Math.log10(1 - r_w)) : 1 - 0.3957 * (1 - r_w) ** 0.5136; // P.530-16 §6.2 (k_s², already squared)
+  const Pds = Ps ** 2 / (eta * (1 - k_s2)); // P.530-16 §6.2 (P_ds)
+  const Pdns = Pns / Ins; // P.530-16 §6.2 (P_dns)
+  const Pd = (Pds ** 0.75 + Pdns ** 0.75) ** (4 / 3); // P.530-16 §6.2 (P_d)
+  return { Pd: Math.min(Pd, Pns + Ps), Pdns, Pds, k_ns2, r_w, k_s2, eta };
 }

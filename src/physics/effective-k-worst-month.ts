@@ -5,7 +5,10 @@
  *
  * The Recommendation gives the curve as a figure only. These points are a reading of it
  * from memory (about ±0.05 in k_e): check them against the printed figure before relying on
- * them for a licence; the report says the same.
+ * them for a licence; the report says the same. A published tabulation was looked for and not
+ * found: the public P.530 implementations searched (github.com/eeveetza/p530, crc-covlib,
+ * iturpropag) do not implement §2.2.2, and the stored copies of the Recommendation show only
+ * its opening pages.
  */
 export const KE_999_FIGURE_POINTS: readonly (readonly [number, number])[] = [
   [10, 0.6],
@@ -47,6 +50,6 @@ export function effectiveK999(distance_km: number): number {
 /**
  * Clearance the Recommendation asks at k_e(99.9 %) in temperate climates (fraction of F1):
  * 0 for a single isolated obstruction, 0.3 where the obstruction extends along part of the
- * path. Reference: ITU-R P.530-16 §2.2.2.1 Step 2 (from memory of the text).
+ * path. Reference: ITU-R P.530-16 §2.2.2.1 Step 2 (from memory of the text; not verified).
  */
 export const KE_999_CLEARANCE_F1 = { isolated: 0, extended: 0.3 } as const;

@@ -7,8 +7,13 @@ import { fadeDepthExceedancePercent } from "./multipath-fading.ts";
  * "+" for |ξ| ≤ 45°, "−" for |ξ| > 45°, and ΔG ≤ 10.8 dB; then
  * p_year = 10^(−ΔG/10) · p_worst_month.
  *
- * Reference: ITU-R P.530-16 §2.3.4, Steps 2–3, eq. (20) (from memory of the Recommendation's
- * text; the structure is checked in the tests). Valid for the same paths as §2.3.1.
+ * The cap is an upper bound (min, not max): a year cannot hold less than one twelfth of the
+ * fading of its worst month, p_year ≥ p_worst/12, i.e. ΔG ≤ 10·log10 12 = 10.79 dB.
+ * Reference: ITU-R P.530-16 §2.3.4 Step 2. Equation number (24) as in P.530-18 (the
+ * conversion p = 10^(−ΔG/10)·pw is eq. (25) there, per the comments of the ITU-R SG 3 MATLAB
+ * implementation github.com/eeveetza/p530, matlab/P530.m); the -16 numbering was not seen. The
+ * formula agrees with that implementation and with crc-covlib (itur_p530._DeltaG), except that
+ * both apply max(ΔG, 10.8) where the text's bound is ΔG ≤ 10.8 dB. Valid for the paths of §2.3.1.
  * @param latitude_deg path-centre latitude ξ (deg)
  * @param distance_km path length d (km)
  * @param epsilon_p_mrad path inclination |εp| (mrad)
@@ -17,18 +22,18 @@ export function worstMonthToAnnualDeltaGDb(latitude_deg: number, distance_km: nu
   const xi = (latitude_deg * Math.PI) / 180;
   const c = Math.abs(Math.cos(2 * xi)) ** 0.7;
   const sign = Math.abs(latitude_deg) <= 45 ? 1 : -1;
-  const dG = 10.5 - 5.6 * Math.log10(1.1 + sign * c) - 2.7 * Math.log10(distance_km) + 1.7 * Math.log10(1 + Math.abs(epsilon_p_mrad)); // P.530-16 eq. (20)
+  const dG = 10.5 - 5.6 * Math.log10(1.1 + sign * c) - 2.7 * Math.log10(distance_km) + 1.7 * Math.log10(1 + Math.abs(epsilon_p_mrad)); // P.530-16 §2.3.4 Step 2 (eq. (24) in -18)
   return Math.min(dG, 10.8); // P.530-16 §2.3.4 Step 2: ΔG ≤ 10.8 dB
 }
 
 /**
  * Average-year percentage from an average-worst-month percentage: p = 10^(−ΔG/10)·pw.
- * Reference: ITU-R P.530-16 §2.3.4 Step 3, eq. (21).
+ * Reference: ITU-R P.530-16 §2.3.4 Step 3 (eq. (25) in the P.530-18 numbering).
  * @param pw_pct worst-month percentage (%)
  * @param deltaG_db conversion factor ΔG (dB)
  */
 export function annualPercentFromWorstMonth(pw_pct: number, deltaG_db: number): number {
-  return 10 ** (-deltaG_db / 10) * pw_pct; // P.530-16 eq. (21)
+  return 10 ** (-deltaG_db / 10) * pw_pct; // P.530-16 §2.3.4 Step 3 (eq. (25) in -18)
 }
 
 /**
@@ -39,7 +44,10 @@ export function annualPercentFromWorstMonth(pw_pct: number, deltaG_db: number): 
  * (qa', qt, qa, p by eqs. (15)–(18) with that pt). At A = 0 both give 63.2 %, like the worst
  * month. A year cannot have more fading than its worst month, so the result is bounded by pw
  * (ΔG ≥ 0 on the method's paths makes the bound inactive there).
- * Reference: ITU-R P.530-16 §2.3.4 Steps 1–4.
+ * Reference: ITU-R P.530-16 §2.3.4 Steps 1–4. Step 4 agrees with the annual any-depth
+ * procedure of github.com/eeveetza/p530 (multipath_fading_annual) and crc-covlib; those apply the
+ * shallow-fade interpolation at every depth, here the deep-fade law is kept for A ≥ At (Step 3),
+ * where the two meet (the interpolation gives pt at A = At).
  * @param p0_pct multipath occurrence factor p0 (%), worst month
  * @param A_db fade depth (dB)
  * @param deltaG_db conversion factor ΔG (dB), {@link worstMonthToAnnualDeltaGDb}

@@ -55,6 +55,12 @@ describe("demo microwave-performance hops", () => {
     }
   });
 
+  it("regression: a rain XPD outage below 0.001 % of the year (the range of the P.530-16 §4.2 inversion) warns instead of passing silently", () => {
+    const l = link("pell-grey");
+    expect(l.xpd!.rain_annual_pct).toBeLessThan(0.001);
+    expect(l.warnings.some((w) => w.includes("§4 (XPD outage), precipitation: outage") && w.includes("outside the method's range"))).toBe(true);
+  });
+
   it("every link has the automatic k_e clearance case and a minimum-heights table; failing links are listed with remedies", () => {
     for (const l of a.result.links) expect(l.clearance.some((c) => c.automatic?.includes("99.9 % of the worst month"))).toBe(true);
     const rep = studyReport(a);
