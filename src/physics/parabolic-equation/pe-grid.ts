@@ -1,0 +1,130 @@
+/**
+ * Grid of the split-step parabolic-equation solver and how it is chosen.
+ *
+ * The vertical step follows from the largest propagation angle the grid must carry: the
+ * discrete Fourier transform of N points of step Δz holds vertical wavenumbers up to π/Δz, so
+ * angles up to θmax = asin(λ/(2·Δz)), i.e. Δz = λ/(2·sin θmax) (Nyquist; common practice, e.g.
+ * M. Levy, "Parabolic Equation Methods for Electromagnetic Wave Propagation", IEE 2000, §3 —
+ * from memory). θmax is three times the steepest angle of the geometry (the line of sight's slope
+ * plus the larger of the ground reflection's grazing angle and the bending over terrain above
+ * the line of sight) so that the
+ * angles that matter sit well inside the transform's band, where the discrete impedance
+ * boundary is accurate; at least the source's aim plus its beamwidth (so that the antenna's
+ * pattern, not the grid, shapes the illumination); no less than 2° (finer steps resolve the
+ * field deep beyond the horizon: 4 dB error at 80 km with 1°) and no more than
+ * PE_MAX_ANGLE_DEG. Above 75 % of the band the spectrum is absorbed (vertical-propagator.ts).
+ * The range step is the profile's own spacing
+ * (terrain is not resampled coarser than surveyed) within [D/3000, D/200]: the wide-angle
+ * propagator is exact for any step in a uniform medium, so the step only limits how finely
+ * terrain and refraction are followed. Convergence is measured by halving both steps
+ * (test/reference/parabolic-equation.test.ts, README validation table).
+ */
+
+/** Largest propagation angle (°) for which the wide-angle (Feit–Fleck) split-step propagator is trusted (common practice for the split-step Fourier method; from memory). */
+export const PE_MAX_ANGLE_DEG = 15;
+/** Smallest θmax (°) the grid is given. */
+export const PE_MIN_GRID_ANGLE_DEG = 2;
+/** Default memory limit of one solution (bytes): 256 MiB. */
+export const PE_DEFAULT_MEMORY_LIMIT_BYTES = 256 * 1024 * 1024;
+
+export interface PeGridChoice {
+  /** vertical step (m) */
+  dz_m: number;
+  /** range step (m) */
+  dx_m: number;
+  /** range steps from end to end */
+  steps: number;
+  /** largest angle the grid carries (°) */
+  max_angle_deg: number;
+  /** steepest angle of the geometry (°) */
+  geometry_angle_deg: number;
+  /** FFT half-size N: heights 0..N·Δz above the local ground; the transform has 2N points */
+  n: number;
+  /** height (m) above the local ground where the absorbing layer begins */
+  absorber_from_m: number;
+  /** lowest and highest absolute heights of interest (m) — the figure's range */
+  z_low_m: number;
+  z_high_m: number;
+  /** bytes the solution needs (transform buffers, field, tables, figure) */
+  memory_bytes: number;
+}
+
+export interface PeGridInput {
+  d_m: ArrayLike<number>;
+  ground_m: ArrayLike<number>;
+  lambda_m: number;
+  tx_amsl_m: number;
+  rx_amsl_m: number;
+  /** effective Earth radius for the geometry (m) */
+  ae_m: number;
+  /** 3 dB beamwidth of the source (°): the grid carries the beam's aim plus this */
+  beamwidth_deg: number;
+  /** figure size (columns × rows) kept in memory */
+  figure_cells: number;
+  overrides?: { dz_m?: number; dx_m?: number; max_angle_deg?: number };
+}
+
+/** Bytes per FFT half-size point: 2N complex points in three Float64 buffers (data, out, propagator), fft.js's tables (~3 doubles per point), the field and its helpers (~10 doubles per height). */
+const BYTES_PER_N = 2 * (3 * 16 + 24) + 10 * 8;
+
+/** The grid for a path (see the module comment). NaN fields for bad input. */
+export function choosePeGrid(input: PeGridInput): PeGridChoice {
+  const { d_m, ground_m, lambda_m, tx_amsl_m: zT, rx_amsl_m: zR, ae_m } = input;
+  const n = d_m.length;
+  const D = d_m[n - 1] - d_m[0];
+  let gMin = Infinity;
+  let gMax = -Infinity;
+  for (let i = 0; i < n; i++) {
+    gMin = Math.min(gMin, ground_m[i]);
+    gMax = Math.max(gMax, ground_m[i]);
+  }
+  // angles that matter: the line of sight's slope, plus the larger of the ground reflection's
+  // grazing angle over the mean ground and the angle by which rays must bend over the terrain
+  // that rises above the line of sight (middle 80 % of the path, flattened-Earth heights)
+  const los = (zR - zT) / D;
+  let sum = 0;
+  let count = 0;
+  let bend = 0;
+  for (let i = 0; i < n; i++) {
+    const x = d_m[i] - d_m[0];
+    if (x < 0.1 * D || x > 0.9 * D) continue;
+    const rayZ = zT + los * x - (x * (D - x)) / (2 * ae_m);
+    bend = Math.max(bend, (ground_m[i] - rayZ) / Math.min(x, D - x));
+    sum += ground_m[i];
+    count++;
+  }
+  const gMean = count > 0 ? sum / count : (ground_m[0] + ground_m[n - 1]) / 2;
+  const specular = Math.max(0, (zT + zR - 2 * gMean) / D - D / (2 * ae_m));
+  const slope = Math.abs(los) + Math.max(specular, bend);
+  const geometry_angle_deg = (Math.atan(slope) * 180) / Math.PI;
+  const beamNeed = Math.abs((Math.atan(los - D / (2 * ae_m)) * 180) / Math.PI) + input.beamwidth_deg;
+  const max_angle_deg = input.overrides?.max_angle_deg ?? Math.min(PE_MAX_ANGLE_DEG, Math.max(PE_MIN_GRID_ANGLE_DEG, 3 * geometry_angle_deg, beamNeed));
+  const dz_m = input.overrides?.dz_m ?? lambda_m / (2 * Math.sin((max_angle_deg * Math.PI) / 180));
+  let profileStep = Infinity;
+  for (let i = 1; i < n; i++) profileStep = Math.min(profileStep, d_m[i] - d_m[i - 1] > 0 ? d_m[i] - d_m[i - 1] : Infinity);
+  const dxWanted = input.overrides?.dx_m ?? Math.min(Math.max(profileStep, D / 3000), D / 200);
+  const steps = Math.max(1, Math.ceil(D / dxWanted - 1e-9));
+  const dx_m = D / steps;
+  const f1Max = 0.5 * Math.sqrt(lambda_m * D);
+  // room above the highest point for the Fresnel zone, for the rays that graze the terrain and
+  // rise again in the flattened frame (D²/2ae: a ray grazing at the transmitter, at the far end),
+  // and for a few wavelengths
+  const grazingRise = ae_m > 0 ? (D * D) / (2 * ae_m) : 0;
+  const zTop = Math.max(zT, zR, gMax) + Math.max(3 * f1Max, 0.25 * (Math.max(zT, zR, gMax) - gMin), 20 * lambda_m) + grazingRise;
+  const zNeed = zTop - gMin;
+  const cells = Math.ceil((1.5 * zNeed) / dz_m);
+  const N = cells <= 4 ? 4 : 2 ** Math.ceil(Math.log2(cells));
+  const memory_bytes = N * BYTES_PER_N + input.figure_cells * 4;
+  return {
+    dz_m,
+    dx_m,
+    steps,
+    max_angle_deg,
+    geometry_angle_deg,
+    n: N,
+    absorber_from_m: zNeed,
+    z_low_m: gMin,
+    z_high_m: zTop,
+    memory_bytes,
+  };
+}
