@@ -1,6 +1,7 @@
 import type { ChainResult } from "./chains.ts";
 import type { CoverageResult } from "./coverage/coverage-result.ts";
 import type { ReflectionResult } from "./link-reflection.ts";
+import type { WaveResult } from "./link-wave.ts";
 
 /** Plain-JSON results of a study (no NaN: the boundary turns NaN into errors or null with a warning). */
 
@@ -61,6 +62,8 @@ export interface LinkResult {
   budget?: Record<string, number | null>;
   availability?: Record<string, number | null>;
   reflection?: ReflectionResult;
+  /** The parabolic-equation wave solution and its difference from each diffraction method. */
+  wave?: WaveResult;
   received_dbm?: number;
   fade_margin_db?: number;
   availability_pct?: number;

@@ -136,6 +136,7 @@ export const studySchema = z
           .strict()
           .prefault({}),
         structure_notice_height_m: z.number().positive().default(45).describe("antennas higher than this above ground get a structure/aviation notice"),
+        wave_solution: z.boolean().default(true).describe("compute the parabolic-equation wave solution for every link (field figure and comparison with the diffraction methods)"),
       })
       .strict()
       .prefault({}),

@@ -64,6 +64,7 @@ export async function pathCommand(argv: string[]): Promise<number> {
       field_margin_db: 0,
       antenna_search: { step_m: 1, max_m: 100 },
       structure_notice_height_m: 45,
+      wave_solution: false,
     },
     climate: { pressure_hpa: 1013.25, temperature_c: 15, water_vapour_g_m3: 7.5, dn1: -400, ground: "medium_dry_ground", ...(rain !== undefined ? { rain_rate_mm_h: rain } : {}) },
     radios: [{ id: "radio", frequency_ghz: f, tx_power_dbm: num("tx-power-dbm", DEFAULTS.tx_power_dbm, Number.isFinite, "a power in dBm"), rx_threshold_dbm: num("rx-threshold-dbm", DEFAULTS.rx_threshold_dbm, Number.isFinite, "a level in dBm"), threshold_ber: "1e-6" }],

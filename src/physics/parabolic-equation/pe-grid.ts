@@ -7,7 +7,8 @@
  * M. Levy, "Parabolic Equation Methods for Electromagnetic Wave Propagation", IEE 2000, §3 —
  * from memory). θmax is three times the steepest angle of the geometry (the line of sight's slope
  * plus the larger of the ground reflection's grazing angle and the bending over terrain above
- * the line of sight) so that the
+ * the line of sight), but no more than the source's aim plus two beamwidths (a narrow beam
+ * sends nothing that matters, −48 dB, beyond that), so that the
  * angles that matter sit well inside the transform's band, where the discrete impedance
  * boundary is accurate; at least the source's aim plus its beamwidth (so that the antenna's
  * pattern, not the grid, shapes the illumination); no less than 2° (finer steps resolve the
@@ -40,8 +41,10 @@ export interface PeGridChoice {
   geometry_angle_deg: number;
   /** FFT half-size N: heights 0..N·Δz above the local ground; the transform has 2N points */
   n: number;
-  /** height (m) above the local ground where the absorbing layer begins */
-  absorber_from_m: number;
+  /** absolute height (m) where the absorbing layer begins, at each profile sample */
+  top_m: Float64Array;
+  /** thickness of the absorbing layer (cells) */
+  absorber_cells: number;
   /** lowest and highest absolute heights of interest (m) — the figure's range */
   z_low_m: number;
   z_high_m: number;
@@ -97,8 +100,10 @@ export function choosePeGrid(input: PeGridInput): PeGridChoice {
   const specular = Math.max(0, (zT + zR - 2 * gMean) / D - D / (2 * ae_m));
   const slope = Math.abs(los) + Math.max(specular, bend);
   const geometry_angle_deg = (Math.atan(slope) * 180) / Math.PI;
-  const beamNeed = Math.abs((Math.atan(los - D / (2 * ae_m)) * 180) / Math.PI) + input.beamwidth_deg;
-  const max_angle_deg = input.overrides?.max_angle_deg ?? Math.min(PE_MAX_ANGLE_DEG, Math.max(PE_MIN_GRID_ANGLE_DEG, 3 * geometry_angle_deg, beamNeed));
+  const aim = Math.abs((Math.atan(los - D / (2 * ae_m)) * 180) / Math.PI);
+  // a narrow beam puts nothing that matters beyond its aim ± 2 beamwidths (−48 dB)
+  const wanted = Math.max(Math.min(3 * geometry_angle_deg, aim + 2 * input.beamwidth_deg), aim + input.beamwidth_deg);
+  const max_angle_deg = input.overrides?.max_angle_deg ?? Math.min(PE_MAX_ANGLE_DEG, Math.max(PE_MIN_GRID_ANGLE_DEG, wanted));
   const dz_m = input.overrides?.dz_m ?? lambda_m / (2 * Math.sin((max_angle_deg * Math.PI) / 180));
   let profileStep = Infinity;
   for (let i = 1; i < n; i++) profileStep = Math.min(profileStep, d_m[i] - d_m[i - 1] > 0 ? d_m[i] - d_m[i - 1] : Infinity);
@@ -106,15 +111,45 @@ export function choosePeGrid(input: PeGridInput): PeGridChoice {
   const steps = Math.max(1, Math.ceil(D / dxWanted - 1e-9));
   const dx_m = D / steps;
   const f1Max = 0.5 * Math.sqrt(lambda_m * D);
-  // room above the highest point for the Fresnel zone, for the rays that graze the terrain and
-  // rise again in the flattened frame (D²/2ae: a ray grazing at the transmitter, at the far end),
-  // and for a few wavelengths
+  // top of the region of interest: the upper hull of the ends and the terrain (the taut string
+  // over every obstacle, straight in the Earth-bulge frame), plus room for the Fresnel zone,
+  // for rays that graze and rise again in the flattened frame (D²/2ae) and a few wavelengths;
+  // above it a Hann absorbing layer half as thick as the tallest region
   const grazingRise = ae_m > 0 ? (D * D) / (2 * ae_m) : 0;
-  const zTop = Math.max(zT, zR, gMax) + Math.max(3 * f1Max, 0.25 * (Math.max(zT, zR, gMax) - gMin), 20 * lambda_m) + grazingRise;
-  const zNeed = zTop - gMin;
-  const cells = Math.ceil((1.5 * zNeed) / dz_m);
+  const margin = Math.max(3 * f1Max, 20 * lambda_m) + grazingRise;
+  const bulge = (x: number) => (x * (D - x)) / (2 * ae_m);
+  const hx: number[] = [0];
+  const hz: number[] = [zT];
+  for (let i = 0; i <= n; i++) {
+    const x = i < n ? d_m[i] - d_m[0] : D;
+    const z = i < n ? Math.max(ground_m[i] + bulge(x), i === 0 ? zT : -Infinity) : zR;
+    if (i === n - 1 || i === 0) continue;
+    while (hx.length >= 2) {
+      const a = hx.length - 2;
+      const cross = (hx[a + 1] - hx[a]) * (z - hz[a]) - (hz[a + 1] - hz[a]) * (x - hx[a]);
+      if (cross >= 0) {
+        hx.pop();
+        hz.pop();
+      } else break;
+    }
+    hx.push(x);
+    hz.push(z);
+  }
+  const top_m = new Float64Array(n);
+  let tallest = 0;
+  for (let i = 0, h = 0; i < n; i++) {
+    const x = d_m[i] - d_m[0];
+    while (h < hx.length - 2 && hx[h + 1] < x) h++;
+    const t = hx[h + 1] > hx[h] ? (x - hx[h]) / (hx[h + 1] - hx[h]) : 0;
+    top_m[i] = Math.max(hz[h] + t * (hz[h + 1] - hz[h]) - bulge(x), ground_m[i]) + margin;
+    tallest = Math.max(tallest, top_m[i] - ground_m[i]);
+  }
+  const absorber_cells = Math.max(16, Math.ceil((0.5 * tallest) / dz_m));
+  const cells = Math.ceil(tallest / dz_m) + absorber_cells + 2;
   const N = cells <= 4 ? 4 : 2 ** Math.ceil(Math.log2(cells));
   const memory_bytes = N * BYTES_PER_N + input.figure_cells * 4;
+  let zTop = -Infinity;
+  for (let i = 0; i < n; i++) zTop = Math.max(zTop, top_m[i]);
   return {
     dz_m,
     dx_m,
@@ -122,7 +157,8 @@ export function choosePeGrid(input: PeGridInput): PeGridChoice {
     max_angle_deg,
     geometry_angle_deg,
     n: N,
-    absorber_from_m: zNeed,
+    top_m,
+    absorber_cells,
     z_low_m: gMin,
     z_high_m: zTop,
     memory_bytes,

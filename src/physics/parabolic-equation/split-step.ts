@@ -82,8 +82,8 @@ export interface ParabolicEquationResult {
  * chosen over a terrain-following (shift-map) transformation because it is stable for any
  * slope, cliffs and single-sample obstructions included, which surveyed and DEM profiles
  * contain; the shift map needs gentle, smooth slopes. Its error, steps of Δz, shrinks with
- * the grid (convergence measured in the tests). A Hann taper over the upper third of the
- * domain absorbs what leaves the top. The source is a Gaussian aperture of the antenna's
+ * the grid (convergence measured in the tests). A Hann taper above the region of interest (the upper hull of
+ * terrain and ends plus the Fresnel zone: pe-grid.ts) absorbs what leaves it. The source is a Gaussian aperture of the antenna's
  * 3 dB beamwidth aimed at the receiver (aperture-source.ts); the receiver is a point.
  * References: M. Levy, "Parabolic Equation Methods for Electromagnetic Wave Propagation",
  * IEE 2000 (split-step, modified refractivity, Gaussian source, staircase terrain);
@@ -167,9 +167,11 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
     screenRe[a] = Math.cos(ph);
     screenIm[a] = Math.sin(ph);
   }
-  const jA = Math.min(N - 1, Math.ceil(grid.absorber_from_m / dz));
-  const taper = new Float64Array(N + 1);
-  for (let j = 0; j <= N; j++) taper[j] = j < jA ? 1 : 0.5 * (1 + Math.cos((Math.PI * (j - jA)) / (N - jA))); // Hann absorbing layer (common practice)
+  // Hann absorbing layer (common practice) from the top of the region of interest upwards
+  const L = grid.absorber_cells;
+  const taper = new Float64Array(L);
+  for (let j = 0; j < L; j++) taper[j] = 0.5 * (1 + Math.cos((Math.PI * j) / L));
+  const topAt = makeGroundInterpolator(d, grid.top_m);
   const alpha = input.ground.kind === "impedance" ? impedanceAlpha(input.ground.epsilon_r, input.ground.sigma_s_m, lambda, input.polarization) : null;
   if (alpha && !(Number.isFinite(alpha.re) && Number.isFinite(alpha.im))) return bad("ground constants are not usable", grid);
   const step = makeVerticalPropagator({ n: N, dz_m: dz, dx_m: dx, k_rad_m: k, boundary: alpha ? { kind: "mixed", alpha } : input.polarization === "h" ? { kind: "dirichlet" } : { kind: "neumann" }, fft: new FFT(2 * N) });
@@ -208,13 +210,18 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
   for (let i = 1; i <= grid.steps; i++) {
     step(ur, ui);
     const off = s - sMin;
+    const jA = Math.min(N, Math.max(0, Math.ceil(topAt(d[0] + (i - 1) * dx) / dz) - s));
     for (let j = 0; j <= N; j++) {
       const cr = screenRe[off + j];
       const ci = screenIm[off + j];
-      const t = taper[j];
       const re = ur[j];
-      ur[j] = (re * cr - ui[j] * ci) * t;
-      ui[j] = (re * ci + ui[j] * cr) * t;
+      ur[j] = re * cr - ui[j] * ci;
+      ui[j] = re * ci + ui[j] * cr;
+    }
+    for (let j = jA; j <= N; j++) {
+      const t = j - jA < L ? taper[j - jA] : 0;
+      ur[j] *= t;
+      ui[j] *= t;
     }
     const x = i * dx;
     // the ground at this plane cuts off the field below it (a Kirchhoff screen); the next step
@@ -231,9 +238,10 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
       field.x_m[nextCol] = x;
       field.ground_m[nextCol] = cutAt * dz;
       const cutRel = (cutAt - s) * dz;
+      const topRel = topAt(d[0] + x) - s * dz;
       for (let r = 0; r < rows; r++) {
         const zRel = field.z0_m + r * field.dz_m - s * dz;
-        field.f_db[nextCol * rows + r] = zRel < cutRel ? NaN : relDb(zRel, x);
+        field.f_db[nextCol * rows + r] = zRel < cutRel || zRel > topRel ? NaN : relDb(zRel, x);
       }
       nextCol++;
     }
