@@ -5,6 +5,7 @@ import { linkFresnelSvg, linkHeightGainSvg, linkProfileSvg } from "./link-figure
 import { relativeUrl } from "./relative-url.ts";
 import { analyzedStudy, getAnalyzedStudies, setAnalyzedStudies, siteData } from "./site-data.ts";
 import { studyMapSvg } from "./study-map.ts";
+import { linkWaveFieldSvg, linkWaveHeightGainSvg } from "./wave-figures.ts";
 
 // Eleventy's config object is untyped here; only the calls below are used.
 interface EleventyConfig {
@@ -18,6 +19,8 @@ interface EleventyConfig {
 
 /** Overview maps drawn for this build (they need sharp, which is asynchronous), by study id. */
 const maps = new Map<string, string>();
+/** Wave-solution field figures drawn for this build (sharp again), by "study/link". */
+const waveFields = new Map<string, string>();
 
 /**
  * The Eleventy side of Ridgeline: global data `ridgeline` (the analysed studies), filters for
@@ -34,6 +37,11 @@ export default function ridgelineSite(eleventyConfig: EleventyConfig): void {
     maps.clear();
     const svgs = await Promise.all(studies.map((s) => studyMapSvg(s)));
     studies.forEach((s, i) => maps.set(s.study.id, svgs[i]));
+    waveFields.clear();
+    for (const s of studies) {
+      const figs = await Promise.all(s.result.links.map((l) => linkWaveFieldSvg(s, l.id)));
+      s.result.links.forEach((l, i) => waveFields.set(`${s.study.id}/${l.id}`, figs[i]));
+    }
     return siteData(studies);
   });
   eleventyConfig.addFilter("rel", function (this: { page?: { url?: string } }, target: string) {
@@ -47,6 +55,8 @@ export default function ridgelineSite(eleventyConfig: EleventyConfig): void {
   eleventyConfig.addShortcode("profilePlot", (studyId: string, linkId: string) => linkProfileSvg(analyzedStudy(studyId), linkId));
   eleventyConfig.addShortcode("fresnelSection", (studyId: string, linkId: string) => linkFresnelSvg(analyzedStudy(studyId), linkId));
   eleventyConfig.addShortcode("heightGain", (studyId: string, linkId: string) => linkHeightGainSvg(analyzedStudy(studyId), linkId));
+  eleventyConfig.addShortcode("waveField", (studyId: string, linkId: string) => waveFields.get(`${studyId}/${linkId}`) ?? "");
+  eleventyConfig.addShortcode("waveHeightGain", (studyId: string, linkId: string) => linkWaveHeightGainSvg(analyzedStudy(studyId), linkId));
   eleventyConfig.addShortcode("overviewMap", (studyId: string) => {
     const svg = maps.get(studyId);
     if (svg === undefined) throw new Error(`No overview map was drawn for study ${studyId}.`);

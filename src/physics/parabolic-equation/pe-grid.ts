@@ -113,10 +113,10 @@ export function choosePeGrid(input: PeGridInput): PeGridChoice {
   const f1Max = 0.5 * Math.sqrt(lambda_m * D);
   // top of the region of interest: the upper hull of the ends and the terrain (the taut string
   // over every obstacle, straight in the Earth-bulge frame), plus room for the Fresnel zone,
-  // for rays that graze and rise again in the flattened frame (D²/2ae) and a few wavelengths;
+  // and a tenth of the relief (the figure shows the field above the path), for rays that graze and rise again in the flattened frame (D²/2ae) and a few wavelengths;
   // above it a Hann absorbing layer half as thick as the tallest region
   const grazingRise = ae_m > 0 ? (D * D) / (2 * ae_m) : 0;
-  const margin = Math.max(3 * f1Max, 20 * lambda_m) + grazingRise;
+  const margin = Math.max(3 * f1Max, 20 * lambda_m, 0.1 * (Math.max(zT, zR, gMax) - gMin)) + grazingRise;
   const bulge = (x: number) => (x * (D - x)) / (2 * ae_m);
   const hx: number[] = [0];
   const hz: number[] = [zT];
