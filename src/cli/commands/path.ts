@@ -7,11 +7,13 @@ import { parseTerrainArg } from "../../terrain/open-terrain.ts";
 import { TerrainError } from "../../terrain/terrain-error.ts";
 import { latLonArg, numberArg, parseArgs, UsageError } from "../args.ts";
 import { printLinkTable } from "../link-table.ts";
+import { pathWave, PATH_WAVE_USAGE } from "./path-wave.ts";
 
 export const PATH_USAGE = `Usage: ridgeline path --from LAT,LON --to LAT,LON (--terrain PATH|constant:M | --profile CSV)
          --frequency-ghz F --from-antenna-m H --to-antenna-m H [--k K]... [--polarization h|v]
          [--rain-rate-mm-h R] [--tx-power-dbm P] [--from-gain-dbi G] [--to-gain-dbi G]
-         [--rx-threshold-dbm T] [--availability-pct A] [--json]`;
+         [--rx-threshold-dbm T] [--availability-pct A] [--json]
+         ${PATH_WAVE_USAGE}`;
 
 const DEFAULTS = { tx_power_dbm: 0, gain_dbi: 0, rx_threshold_dbm: -90, availability_pct: 99.99 };
 
@@ -22,7 +24,7 @@ export async function pathCommand(argv: string[]): Promise<number> {
     return 0;
   }
   const a = parseArgs(argv, {
-    values: ["from", "to", "terrain", "profile", "frequency-ghz", "from-antenna-m", "to-antenna-m", "polarization", "rain-rate-mm-h", "tx-power-dbm", "from-gain-dbi", "to-gain-dbi", "rx-threshold-dbm", "availability-pct"],
+    values: ["from", "to", "terrain", "profile", "frequency-ghz", "from-antenna-m", "to-antenna-m", "polarization", "rain-rate-mm-h", "tx-power-dbm", "from-gain-dbi", "to-gain-dbi", "rx-threshold-dbm", "availability-pct", "method", "field", "wave-memory-mib"],
     repeat: ["k"],
     flags: ["json"],
   });
@@ -89,7 +91,11 @@ export async function pathCommand(argv: string[]): Promise<number> {
   };
   const terrain = await openStudyTerrain(study);
   if (v("profile") === undefined) checkSitesOnTerrain(study, terrain);
-  const { result } = analyzeLink(study, study.links[0], terrain);
+  const method = v("method");
+  if (method !== undefined && method !== "wave") throw new UsageError(`--method: received "${method}"; expected wave.`);
+  if (method === undefined && (v("field") !== undefined || v("wave-memory-mib") !== undefined)) throw new UsageError(`--field and --wave-memory-mib need --method wave.`);
+  const analysed = analyzeLink(study, study.links[0], terrain);
+  const result = method === "wave" ? await pathWave(study, analysed.result, analysed.figure, { field: v("field"), memoryMib: v("wave-memory-mib") }) : analysed.result;
   const warnings = [...result.warnings];
   if (rain === undefined) warnings.push("No --rain-rate-mm-h given: the budget has no rain term.");
   const link = { ...sanitizeNumbers(result, warnings, "path"), warnings };

@@ -29,6 +29,12 @@ export interface WaveFieldFigureInput {
   height?: number;
 }
 
+/** Styles for the figure outside the site (the command line's PNG): the site's stylesheet has the same rules. */
+export const WAVE_FIGURE_STANDALONE_STYLE =
+  "text{font:11px sans-serif;fill:#1b2430}.axis line{stroke:#2a3644}.grid{stroke:#d6dce2;stroke-opacity:.5}.axis-label{font-size:12px}" +
+  ".wave-sky{fill:#f4f4f2}.wave-terrain{fill:#8a8378;stroke:#2b2a28}.wave-los{stroke:#111;stroke-width:1.4}.wave-fresnel{fill:none;stroke:#111;stroke-dasharray:4 3}" +
+  ".wave-shadow{stroke:#e8590c;stroke-width:1.6;stroke-dasharray:8 4}.wave-antenna{fill:#fff;stroke:#111;stroke-width:1.5}.wave-scale line{stroke:#2a3644}";
+
 /** Colour range of the figure (dB relative to free space). */
 export const WAVE_FIGURE_DB = { min: -40, max: 10 } as const;
 
@@ -92,7 +98,7 @@ export function waveFieldLayout(p: WaveFieldFigureInput, scale = 2): WaveFieldLa
  * geometrical shadow boundary of the transmitter's horizon, the two antennas — with a dB scale
  * bar and a text alternative.
  */
-export function waveFieldSvg(p: WaveFieldFigureInput, layout: WaveFieldLayout, imageHref: string): string {
+export function waveFieldSvg(p: WaveFieldFigureInput, layout: WaveFieldLayout, imageHref: string, options: { style?: string } = {}): string {
   const { W, H, m, x, y } = layout;
   const n = p.d_m.length;
   const D = p.d_m[n - 1];
@@ -114,6 +120,7 @@ export function waveFieldSvg(p: WaveFieldFigureInput, layout: WaveFieldLayout, i
   out.push(
     `<svg xmlns="http://www.w3.org/2000/svg" class="wave-field" viewBox="0 0 ${W} ${H}" width="${W}" height="${H}" role="img" aria-labelledby="${titleId} ${descId}">`,
     `<title id="${titleId}">${escapeXml(p.title)}</title>`,
+    options.style ? `<style>${options.style}</style>` : "",
     `<desc id="${descId}">${escapeXml(
       `Colour image of the field strength relative to free space computed by the parabolic-equation wave solution over the path from ${p.from.name} to ${p.to.name} ` +
         `(${(D / 1000).toFixed(2)} km, k = ${p.k_label}); colours run from ${WAVE_FIGURE_DB.min} dB (dark) to +${WAVE_FIGURE_DB.max} dB (light). ` +
