@@ -43,6 +43,10 @@ export interface PeGridChoice {
   n: number;
   /** absolute height (m) where the absorbing layer begins, at each profile sample */
   top_m: Float64Array;
+  /** the terrain-following frame's floor at each profile sample (m): the highest surface under
+   * the ground whose slope stays within ±max_frame_slope (slopeLimitedFloor) */
+  floor_m: Float64Array;
+  max_frame_slope: number;
   /** thickness of the absorbing layer (cells) */
   absorber_cells: number;
   /** lowest and highest absolute heights of interest (m) — the figure's range */
@@ -135,6 +139,8 @@ export function choosePeGrid(input: PeGridInput): PeGridChoice {
     hx.push(x);
     hz.push(z);
   }
+  const max_frame_slope = 0.25 * Math.sin(0.75 * ((max_angle_deg * Math.PI) / 180));
+  const floor_m = slopeLimitedFloor(d_m, ground_m, max_frame_slope);
   const top_m = new Float64Array(n);
   let tallest = 0;
   for (let i = 0, h = 0; i < n; i++) {
@@ -142,7 +148,7 @@ export function choosePeGrid(input: PeGridInput): PeGridChoice {
     while (h < hx.length - 2 && hx[h + 1] < x) h++;
     const t = hx[h + 1] > hx[h] ? (x - hx[h]) / (hx[h + 1] - hx[h]) : 0;
     top_m[i] = Math.max(hz[h] + t * (hz[h + 1] - hz[h]) - bulge(x), ground_m[i]) + margin;
-    tallest = Math.max(tallest, top_m[i] - ground_m[i]);
+    tallest = Math.max(tallest, top_m[i] - floor_m[i]);
   }
   const absorber_cells = Math.max(16, Math.ceil((0.5 * tallest) / dz_m));
   const cells = Math.ceil(tallest / dz_m) + absorber_cells + 2;
@@ -158,9 +164,25 @@ export function choosePeGrid(input: PeGridInput): PeGridChoice {
     geometry_angle_deg,
     n: N,
     top_m,
+    floor_m,
+    max_frame_slope,
     absorber_cells,
     z_low_m: gMin,
     z_high_m: zTop,
     memory_bytes,
   };
+}
+
+/**
+ * The highest surface f ≤ ground whose slope never exceeds ±s (two passes of the running
+ * minimum, forward and backward, over the profile; common practice for slope limiting). The
+ * parabolic-equation frame follows it; what of the ground rises above it (cliffs, single
+ * obstacles) is cut as a staircase of screens.
+ */
+export function slopeLimitedFloor(d_m: ArrayLike<number>, ground_m: ArrayLike<number>, s: number): Float64Array {
+  const n = d_m.length;
+  const f = Float64Array.from(ground_m);
+  for (let i = 1; i < n; i++) f[i] = Math.min(f[i], f[i - 1] + s * (d_m[i] - d_m[i - 1]));
+  for (let i = n - 2; i >= 0; i--) f[i] = Math.min(f[i], f[i + 1] + s * (d_m[i + 1] - d_m[i]));
+  return f;
 }

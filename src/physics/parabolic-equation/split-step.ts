@@ -149,19 +149,19 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
   const dz = grid.dz_m;
   const dx = grid.dx_m;
   const groundAt = makeGroundInterpolator(d, g);
-  const cell = (x: number) => Math.round(groundAt(x) / dz);
-  let s = cell(d[0]);
-  // s: the ground cell the domain starts at. Phase screen exp(ik·Δx·(m − 1)) by absolute cell
-  // index, over every index the domain visits
-  let sMin = s;
-  let sMax = s;
-  for (let i = 1; i <= grid.steps; i++) {
-    const c = cell(d[0] + i * dx);
-    sMin = Math.min(sMin, c);
-    sMax = Math.max(sMax, c);
+  const floorAt = makeGroundInterpolator(d, grid.floor_m);
+  const topAt = makeGroundInterpolator(d, grid.top_m);
+  // phase screen exp(ik·Δx·(m − 1)) by absolute height on the vertical grid, over every height
+  // the frame reaches (indices from the lowest floor)
+  let fMin = Infinity;
+  let fMax = -Infinity;
+  for (let i = 0; i < np; i++) {
+    fMin = Math.min(fMin, grid.floor_m[i]);
+    fMax = Math.max(fMax, grid.floor_m[i]);
   }
-  const screenRe = new Float64Array(sMax - sMin + N + 1);
-  const screenIm = new Float64Array(sMax - sMin + N + 1);
+  const sMin = Math.floor(fMin / dz);
+  const screenRe = new Float64Array(Math.ceil(fMax / dz) - sMin + N + 2);
+  const screenIm = new Float64Array(screenRe.length);
   for (let a = 0; a < screenRe.length; a++) {
     const ph = k * dx * mExcess((a + sMin) * dz); // Levy 2000: refraction phase screen exp(ik·Δx·(m − 1))
     screenRe[a] = Math.cos(ph);
@@ -171,46 +171,64 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
   const L = grid.absorber_cells;
   const taper = new Float64Array(L);
   for (let j = 0; j < L; j++) taper[j] = 0.5 * (1 + Math.cos((Math.PI * j) / L));
-  const topAt = makeGroundInterpolator(d, grid.top_m);
   const alpha = input.ground.kind === "impedance" ? impedanceAlpha(input.ground.epsilon_r, input.ground.sigma_s_m, lambda, input.polarization) : null;
   if (alpha && !(Number.isFinite(alpha.re) && Number.isFinite(alpha.im))) return bad("ground constants are not usable", grid);
   const step = makeVerticalPropagator({ n: N, dz_m: dz, dx_m: dx, k_rad_m: k, boundary: alpha ? { kind: "mixed", alpha } : input.polarization === "h" ? { kind: "dirichlet" } : { kind: "neumann" }, fft: new FFT(2 * N) });
-  // source
+  // the frame: heights above the floor b(x); the source at its height above the ground
+  let b = floorAt(d[0]);
   const ur = new Float64Array(N + 1);
   const ui = new Float64Array(N + 1);
   const sigma = gaussianSourceSigmaM(beam, k);
   const p0 = k * Math.sin(aim);
-  const zs = input.tx_antenna_m;
+  const zs = zT - b;
   for (let j = 0; j < N; j++) {
     const z = j * dz;
     const amp = Math.exp(-((z - zs) ** 2) / (2 * sigma * sigma)); // Levy 2000 §8: Gaussian aperture
     ur[j] = amp * Math.cos(p0 * (z - zs));
     ui[j] = amp * Math.sin(p0 * (z - zs));
   }
-  const zSource = s * dz + zs;
   const cols = Math.min(cols0, grid.steps);
   const field: PeField | null =
     cols > 0 && rows > 1
       ? { x_m: new Float64Array(cols), ground_m: new Float64Array(cols), z0_m: grid.z_low_m, dz_m: (grid.z_high_m - grid.z_low_m) / (rows - 1), rows, f_db: new Float32Array(cols * rows) }
       : null;
   let nextCol = 0;
+  /** F (dB) at height zRel above the frame's floor, distance x. */
   const relDb = (zRel: number, x: number): number => {
     if (zRel < 0) return NaN;
     const t = zRel / dz;
     const j = Math.floor(t);
-    if (j > N) return NaN;
+    if (j >= N) return NaN;
     const f = t - j;
-    if (j === N) return NaN;
     const a0 = Math.hypot(ur[j], ui[j]);
     const a1 = Math.hypot(ur[j + 1], ui[j + 1]);
     const amp = a0 + f * (a1 - a0);
-    const r = Math.hypot(x, s * dz + zRel - zSource);
+    const r = Math.hypot(x, b + zRel - zT);
     return 20 * Math.log10(amp / gaussianAxisAmplitude(r, sigma, k)); // F relative to free space on the beam axis
   };
+  let slope = 0;
   for (let i = 1; i <= grid.steps; i++) {
+    const x = i * dx;
+    const bNext = floorAt(d[0] + x);
+    // terrain-following frame (shift map): a change of the floor's slope tilts the field,
+    // exp(−ik·Δs·z'), so that in the frame angles are measured from the local ground; the
+    // impedance condition on the normal derivative, ∂u/∂z − s·∂u/∂x ≈ ∂u/∂z − ik·s·u, is then
+    // ∂v/∂z' + αv = 0 unchanged
+    const s = (bNext - b) / dx;
+    if (s !== slope) {
+      const c = -k * (s - slope) * dz;
+      for (let j = 0; j <= N; j++) {
+        const cr = Math.cos(c * j);
+        const ci = Math.sin(c * j);
+        const re = ur[j];
+        ur[j] = re * cr - ui[j] * ci;
+        ui[j] = re * ci + ui[j] * cr;
+      }
+      slope = s;
+    }
     step(ur, ui);
-    const off = s - sMin;
-    const jA = Math.min(N, Math.max(0, Math.ceil(topAt(d[0] + (i - 1) * dx) / dz) - s));
+    const off = Math.round(b / dz) - sMin;
+    const jA = Math.min(N, Math.max(0, Math.ceil((topAt(d[0] + x - dx) - b) / dz)));
     for (let j = 0; j <= N; j++) {
       const cr = screenRe[off + j];
       const ci = screenIm[off + j];
@@ -223,30 +241,29 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
       ur[j] *= t;
       ui[j] *= t;
     }
-    const x = i * dx;
-    // the ground at this plane cuts off the field below it (a Kirchhoff screen); the next step
-    // runs over the lower of this sample and the next, so a single-sample obstacle is a thin edge
-    const cutAt = cell(d[0] + x);
-    if (cutAt > s) {
-      ur.fill(0, 0, Math.min(N + 1, cutAt - s));
-      ui.fill(0, 0, Math.min(N + 1, cutAt - s));
+    b = bNext;
+    // ground above the floor at this plane cuts off the field below it (a Kirchhoff screen);
+    // the field vanishes half a cell below the first cell kept, so that cell is the one
+    // nearest half a cell above the ground (measured: the knife edge's J(ν) then has no bias)
+    const gx = groundAt(d[0] + x);
+    const above = (gx - b) / dz;
+    const cut = above < 0.5 ? 0 : Math.min(N + 1, Math.round(above + 0.5));
+    if (cut > 0) {
+      ur.fill(0, 0, cut);
+      ui.fill(0, 0, cut);
     }
-    const base = i === grid.steps ? cutAt : Math.min(cutAt, cell(d[0] + x + dx));
-    shiftField(ur, ui, base - s);
-    s = base;
     if (field && nextCol < cols && i === Math.round(((nextCol + 1) * grid.steps) / cols)) {
       field.x_m[nextCol] = x;
-      field.ground_m[nextCol] = cutAt * dz;
-      const cutRel = (cutAt - s) * dz;
-      const topRel = topAt(d[0] + x) - s * dz;
+      field.ground_m[nextCol] = gx;
+      const topRel = topAt(d[0] + x) - b;
       for (let r = 0; r < rows; r++) {
-        const zRel = field.z0_m + r * field.dz_m - s * dz;
-        field.f_db[nextCol * rows + r] = zRel < cutRel || zRel > topRel ? NaN : relDb(zRel, x);
+        const zRel = field.z0_m + r * field.dz_m - b;
+        field.f_db[nextCol * rows + r] = zRel < gx - b || zRel > topRel ? NaN : relDb(zRel, x);
       }
       nextCol++;
     }
   }
-  const excess_loss_db = -relDb(input.rx_antenna_m, D);
+  const excess_loss_db = -relDb(zR - b, D);
   let height_gain: ParabolicEquationResult["height_gain"] = null;
   if (input.height_gain && input.height_gain.step_m > 0) {
     const { half_range_m: h, step_m } = input.height_gain;
@@ -256,7 +273,7 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
     for (let c = 0; c < count; c++) {
       const z = lo + c * step_m;
       height_gain.rx_antenna_m[c] = z;
-      height_gain.relative_db[c] = relDb(z, D);
+      height_gain.relative_db[c] = relDb(g[np - 1] + z - b, D);
     }
   }
   return { status: "ok", reason: "", excess_loss_db, ...common, field, height_gain };
@@ -274,21 +291,4 @@ function makeGroundInterpolator(d: ArrayLike<number>, g: ArrayLike<number>): (x:
     const t = (x - d[i]) / (d[i + 1] - d[i]);
     return g[i] + t * (g[i + 1] - g[i]);
   };
-}
-
-/** Move the field by `by` cells to follow the ground (staircase): a rise drops the cells it buries, a fall adds zero field below. */
-function shiftField(ur: Float64Array, ui: Float64Array, by: number): void {
-  if (by === 0) return;
-  const n = ur.length;
-  if (by > 0) {
-    ur.copyWithin(0, by);
-    ui.copyWithin(0, by);
-    ur.fill(0, Math.max(0, n - by));
-    ui.fill(0, Math.max(0, n - by));
-  } else {
-    ur.copyWithin(-by, 0, n + by);
-    ui.copyWithin(-by, 0, n + by);
-    ur.fill(0, 0, Math.min(n, -by));
-    ui.fill(0, 0, Math.min(n, -by));
-  }
 }

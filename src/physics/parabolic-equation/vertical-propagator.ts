@@ -43,9 +43,10 @@ export interface VerticalPropagatorOptions {
  * Reference: G. D. Dockery & J. R. Kuttler, "An improved impedance-boundary algorithm for
  * Fourier split-step solutions of the parabolic wave equation", IEEE Trans. Antennas Propag.
  * 44(12), 1996 (from memory; the recursions and projection are derived afresh above).
- * @returns step(ur, ui), which overwrites its arguments
+ * @returns step(ur, ui, α?), which overwrites its arguments (α: a mixed boundary's coefficient
+ *   for this step, default the one given here)
  */
-export function makeVerticalPropagator(o: VerticalPropagatorOptions): (ur: Float64Array, ui: Float64Array) => void {
+export function makeVerticalPropagator(o: VerticalPropagatorOptions): (ur: Float64Array, ui: Float64Array, alpha?: Complex) => void {
   const { n, dz_m: dz, dx_m: dx, k_rad_m: k, fft } = o;
   const m2 = 2 * n;
   const data = new Float64Array(2 * m2);
@@ -116,50 +117,36 @@ export function makeVerticalPropagator(o: VerticalPropagatorOptions): (ur: Float
       ui[n] = 0;
     };
   }
-  // mixed: discrete mixed Fourier transform
-  const alpha = o.boundary.alpha;
-  const a = { re: alpha.re * dz, im: alpha.im * dz };
-  const root = csqrt({ re: 1 + a.re * a.re - a.im * a.im, im: 2 * a.re * a.im });
-  let rho = { re: -a.re + root.re, im: -a.im + root.im };
-  if (Math.hypot(rho.re, rho.im) >= 1) rho = { re: -a.re - root.re, im: -a.im - root.im };
-  // powers ρ^j until negligible, and the mode's norm Σ' ρ^{2j}
-  const powRe: number[] = [1];
-  const powIm: number[] = [0];
-  let nr = 0.5;
-  let ni = 0;
-  for (let j = 1; j < n; j++) {
-    const re = powRe[j - 1] * rho.re - powIm[j - 1] * rho.im;
-    const im = powRe[j - 1] * rho.im + powIm[j - 1] * rho.re;
-    if (Math.hypot(re, im) < 1e-17) break;
-    powRe.push(re);
-    powIm.push(im);
-    nr += re * re - im * im;
-    ni += 2 * re * im;
-  }
-  const J = powRe.length;
-  // mode propagator exp(iΔx(√(k² + λd) − k)), λd = (ρ + 1/ρ − 2)/Δz², root with Im ≥ 0 (decaying)
-  const inv = 1 / (rho.re * rho.re + rho.im * rho.im);
-  const lamRe = (rho.re + rho.re * inv - 2) / (dz * dz);
-  const lamIm = (rho.im - rho.im * inv) / (dz * dz);
-  let kz = csqrt({ re: k * k + lamRe, im: lamIm });
-  if (kz.im < 0) kz = { re: -kz.re, im: -kz.im };
-  const decay = Math.exp(-dx * kz.im);
-  const modeRe = decay * Math.cos(dx * (kz.re - k));
-  const modeIm = decay * Math.sin(dx * (kz.re - k));
+  // mixed: discrete mixed Fourier transform; the mode's constants depend on α (which the
+  // terrain-following frame changes with the slope), so they are made per α and kept
+  const setups = new Map<string, ModeSetup>();
+  const setupFor = (alpha: Complex): ModeSetup => {
+    const key = `${alpha.re.toPrecision(7)},${alpha.im.toPrecision(7)}`;
+    let m = setups.get(key);
+    if (!m) {
+      m = modeSetup(alpha, n, dz, dx, k);
+      if (setups.size > 256) setups.clear();
+      setups.set(key, m);
+    }
+    return m;
+  };
   const wr = new Float64Array(n + 1);
   const wi = new Float64Array(n + 1);
-  const project = (ur: Float64Array, ui: Float64Array) => {
-    let sr = 0.5 * ur[0];
-    let si = 0.5 * ui[0];
-    for (let j = 1; j < J; j++) {
-      sr += powRe[j] * ur[j] - powIm[j] * ui[j];
-      si += powRe[j] * ui[j] + powIm[j] * ur[j];
-    }
-    const d2 = nr * nr + ni * ni;
-    return { re: (sr * nr + si * ni) / d2, im: (si * nr - sr * ni) / d2 };
-  };
   const twoDz = 2 * dz;
-  return (ur, ui) => {
+  const fixed = o.boundary.alpha;
+  return (ur, ui, alphaNow) => {
+    const alpha = alphaNow ?? fixed;
+    const { rho, powRe, powIm, J, nr, ni, modeRe, modeIm } = setupFor(alpha);
+    const project = (ur: Float64Array, ui: Float64Array) => {
+      let sr = 0.5 * ur[0];
+      let si = 0.5 * ui[0];
+      for (let j = 1; j < J; j++) {
+        sr += powRe[j] * ur[j] - powIm[j] * ui[j];
+        si += powRe[j] * ui[j] + powIm[j] * ur[j];
+      }
+      const d2 = nr * nr + ni * ni;
+      return { re: (sr * nr + si * ni) / d2, im: (si * nr - sr * ni) / d2 };
+    };
     ur[n] = 0;
     ui[n] = 0;
     const c = project(ur, ui);
@@ -204,4 +191,45 @@ export function makeVerticalPropagator(o: VerticalPropagatorOptions): (ur: Float
     ur[n] = 0;
     ui[n] = 0;
   };
+}
+
+interface ModeSetup {
+  rho: Complex;
+  powRe: number[];
+  powIm: number[];
+  J: number;
+  nr: number;
+  ni: number;
+  modeRe: number;
+  modeIm: number;
+}
+
+/** The discrete mode of the mixed transform for one α: ρ, its powers, norm and propagator. */
+function modeSetup(alpha: Complex, n: number, dz: number, dx: number, k: number): ModeSetup {
+  const a = { re: alpha.re * dz, im: alpha.im * dz };
+  const root = csqrt({ re: 1 + a.re * a.re - a.im * a.im, im: 2 * a.re * a.im });
+  let rho = { re: -a.re + root.re, im: -a.im + root.im };
+  if (Math.hypot(rho.re, rho.im) >= 1) rho = { re: -a.re - root.re, im: -a.im - root.im };
+  // powers ρ^j until negligible, and the mode's norm Σ' ρ^{2j}
+  const powRe: number[] = [1];
+  const powIm: number[] = [0];
+  let nr = 0.5;
+  let ni = 0;
+  for (let j = 1; j < n; j++) {
+    const re = powRe[j - 1] * rho.re - powIm[j - 1] * rho.im;
+    const im = powRe[j - 1] * rho.im + powIm[j - 1] * rho.re;
+    if (Math.hypot(re, im) < 1e-17) break;
+    powRe.push(re);
+    powIm.push(im);
+    nr += re * re - im * im;
+    ni += 2 * re * im;
+  }
+  // mode propagator exp(iΔx(√(k² + λd) − k)), λd = (ρ + 1/ρ − 2)/Δz², root with Im ≥ 0 (decaying)
+  const inv = 1 / (rho.re * rho.re + rho.im * rho.im);
+  const lamRe = (rho.re + rho.re * inv - 2) / (dz * dz);
+  const lamIm = (rho.im - rho.im * inv) / (dz * dz);
+  let kz = csqrt({ re: k * k + lamRe, im: lamIm });
+  if (kz.im < 0) kz = { re: -kz.re, im: -kz.im };
+  const decay = Math.exp(-dx * kz.im);
+  return { rho, powRe, powIm, J: powRe.length, nr, ni, modeRe: decay * Math.cos(dx * (kz.re - k)), modeIm: decay * Math.sin(dx * (kz.re - k)) };
 }
