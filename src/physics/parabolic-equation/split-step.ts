@@ -74,19 +74,22 @@ export interface ParabolicEquationResult {
  * (modified-refractivity.ts), so the Earth is flat and its curvature and the atmosphere's
  * refraction are both in m. The ground is a Leontovich impedance boundary ∂u/∂z + αu = 0
  * (ground-impedance.ts) handled by the discrete mixed Fourier transform (vertical-
- * propagator.ts); a perfect conductor is a sine (H) or cosine (V) transform. Terrain is a
- * staircase: the ground is rounded to the vertical grid; at each range plane the field
- * below the ground there is cut off (the Kirchhoff screen of a knife edge), and the next step
- * runs over the lower of that plane's and the next plane's ground, the domain moving by whole
- * cells (a single-sample obstacle is then a thin screen, a fall opens below the field). The staircase was
- * chosen over a terrain-following (shift-map) transformation because it is stable for any
- * slope, cliffs and single-sample obstructions included, which surveyed and DEM profiles
- * contain; the shift map needs gentle, smooth slopes. Its error, steps of Δz, shrinks with
- * the grid (convergence measured in the tests). A Hann taper above the region of interest (the upper hull of
- * terrain and ends plus the Fresnel zone: pe-grid.ts) absorbs what leaves it. The source is a Gaussian aperture of the antenna's
- * 3 dB beamwidth aimed at the receiver (aperture-source.ts); the receiver is a point.
+ * propagator.ts); a perfect conductor is a sine (H) or cosine (V) transform. Terrain is
+ * followed two ways. The computational frame starts at a floor under the ground whose slope is
+ * limited (pe-grid.ts, slopeLimitedFloor): a terrain-following (shift-map) transformation,
+ * where a change of the floor's slope Δs tilts the field by exp(−ik·Δs·z') and the ground
+ * keeps its impedance condition, exact for gentle slopes. Ground rising above the floor
+ * (cliffs, steep flanks, single-sample obstacles) is a staircase of Kirchhoff screens: at each
+ * range plane the field below the ground there is cut off, which makes a thin obstacle a knife
+ * edge. The shift map alone fails on steep or abrupt terrain, which surveyed and DEM profiles
+ * contain; the staircase alone reflects poorly from long slopes; hence both. The staircase
+ * part converges slowly with Δx on slopes steeper than the frame's limit (measured in
+ * test/reference/parabolic-equation-convergence.test.ts). A Hann taper above the region of
+ * interest (the upper hull of terrain and ends plus the Fresnel zone: pe-grid.ts) absorbs what
+ * leaves it. The source is a Gaussian aperture of the antenna's 3 dB beamwidth aimed at the receiver (aperture-source.ts); the receiver is a point.
  * References: M. Levy, "Parabolic Equation Methods for Electromagnetic Wave Propagation",
- * IEE 2000 (split-step, modified refractivity, Gaussian source, staircase terrain);
+ * IEE 2000 (split-step, modified refractivity, Gaussian source, staircase terrain); the shift
+ * map after Beilis & Tappert (1979) as used by Donohue & Kuttler, IEEE TAP 48(2), 2000;
  * G. D. Dockery & J. R. Kuttler, IEEE Trans. Antennas Propag. 44(12), 1996 (discrete mixed
  * Fourier transform) — both from memory; the equations above are restated in the code.
  * Validity: angles to PE_MAX_ANGLE_DEG (15°); forward scattering only (no back-scatter from
