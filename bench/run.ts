@@ -8,11 +8,13 @@ import { fileURLToPath } from "node:url";
 import { benchCoverage } from "./coverage.ts";
 import { benchLinks } from "./links.ts";
 import { benchRebuild } from "./rebuild.ts";
+import { benchWave } from "./wave.ts";
 
 const parts: Record<string, () => Promise<unknown>> = {
   links_200: benchLinks,
   rebuild_one_link: () => benchRebuild(),
   coverage: () => benchCoverage(),
+  wave: () => benchWave(),
 };
 
 const at = process.argv.indexOf("--part");

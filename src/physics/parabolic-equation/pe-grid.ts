@@ -148,7 +148,10 @@ export function choosePeGrid(input: PeGridInput): PeGridChoice {
     while (h < hx.length - 2 && hx[h + 1] < x) h++;
     const t = hx[h + 1] > hx[h] ? (x - hx[h]) / (hx[h + 1] - hx[h]) : 0;
     top_m[i] = Math.max(hz[h] + t * (hz[h + 1] - hz[h]) - bulge(x), ground_m[i]) + margin;
-    tallest = Math.max(tallest, top_m[i] - floor_m[i]);
+    // the solver drops the cells below the ground (they hold no field): its domain starts at
+    // the lower of neighbouring samples' ground, never below the floor
+    const low = Math.max(floor_m[i], Math.min(ground_m[i], ground_m[Math.max(0, i - 1)], ground_m[Math.min(n - 1, i + 1)]));
+    tallest = Math.max(tallest, top_m[i] - low);
   }
   const absorber_cells = Math.max(16, Math.ceil((0.5 * tallest) / dz_m));
   const cells = Math.ceil(tallest / dz_m) + absorber_cells + 2;

@@ -157,13 +157,13 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
   // phase screen exp(ik·Δx·(m − 1)) by absolute height on the vertical grid, over every height
   // the frame reaches (indices from the lowest floor)
   let fMin = Infinity;
-  let fMax = -Infinity;
+  let gTop = -Infinity;
   for (let i = 0; i < np; i++) {
     fMin = Math.min(fMin, grid.floor_m[i]);
-    fMax = Math.max(fMax, grid.floor_m[i]);
+    gTop = Math.max(gTop, g[i]);
   }
   const sMin = Math.floor(fMin / dz);
-  const screenRe = new Float64Array(Math.ceil(fMax / dz) - sMin + N + 2);
+  const screenRe = new Float64Array(Math.ceil(gTop / dz) - sMin + N + 4);
   const screenIm = new Float64Array(screenRe.length);
   for (let a = 0; a < screenRe.length; a++) {
     const ph = k * dx * mExcess((a + sMin) * dz); // Levy 2000: refraction phase screen exp(ik·Δx·(m − 1))
@@ -199,7 +199,8 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
   /** F (dB) at height zRel above the frame's floor, distance x. */
   const relDb = (zRel: number, x: number): number => {
     if (zRel < 0) return NaN;
-    const t = zRel / dz;
+    const t = zRel / dz - q;
+    if (t < 0) return NaN;
     const j = Math.floor(t);
     if (j >= N) return NaN;
     const f = t - j;
@@ -210,6 +211,13 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
     return 20 * Math.log10(amp / gaussianAxisAmplitude(r, sigma, k)); // F relative to free space on the beam axis
   };
   let slope = 0;
+  // q: cells between the floor and the array's first cell, dropped because the ground covers
+  // them (they hold no field); array cell j is (j + q)·Δz above the floor
+  let q = 0;
+  const cellsAbove = (x: number, floor: number) => {
+    const above = (groundAt(x) - floor) / dz;
+    return above < 0.5 ? 0 : Math.round(above + 0.5);
+  };
   for (let i = 1; i <= grid.steps; i++) {
     const x = i * dx;
     const bNext = floorAt(d[0] + x);
@@ -221,8 +229,8 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
     if (s !== slope) {
       const c = -k * (s - slope) * dz;
       for (let j = 0; j <= N; j++) {
-        const cr = Math.cos(c * j);
-        const ci = Math.sin(c * j);
+        const cr = Math.cos(c * (j + q));
+        const ci = Math.sin(c * (j + q));
         const re = ur[j];
         ur[j] = re * cr - ui[j] * ci;
         ui[j] = re * ci + ui[j] * cr;
@@ -230,8 +238,8 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
       slope = s;
     }
     step(ur, ui);
-    const off = Math.round(b / dz) - sMin;
-    const jA = Math.min(N, Math.max(0, Math.ceil((topAt(d[0] + x - dx) - b) / dz)));
+    const off = Math.round(b / dz) + q - sMin;
+    const jA = Math.min(N, Math.max(0, Math.ceil((topAt(d[0] + x - dx) - b) / dz) - q));
     for (let j = 0; j <= N; j++) {
       const cr = screenRe[off + j];
       const ci = screenIm[off + j];
@@ -249,12 +257,16 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
     // the field vanishes half a cell below the first cell kept, so that cell is the one
     // nearest half a cell above the ground (measured: the knife edge's J(ν) then has no bias)
     const gx = groundAt(d[0] + x);
-    const above = (gx - b) / dz;
-    const cut = above < 0.5 ? 0 : Math.min(N + 1, Math.round(above + 0.5));
+    const cutCells = cellsAbove(d[0] + x, b);
+    const cut = Math.min(N + 1, cutCells - q);
     if (cut > 0) {
       ur.fill(0, 0, cut);
       ui.fill(0, 0, cut);
     }
+    // the next step starts at the lower of this plane's and the next plane's ground
+    const qNew = i === grid.steps ? Math.min(q, cutCells) : Math.min(cutCells, cellsAbove(d[0] + x + dx, floorAt(d[0] + x + dx)));
+    shiftField(ur, ui, qNew - q);
+    q = qNew;
     if (field && nextCol < cols && i === Math.round(((nextCol + 1) * grid.steps) / cols)) {
       field.x_m[nextCol] = x;
       field.ground_m[nextCol] = gx;
@@ -294,4 +306,21 @@ function makeGroundInterpolator(d: ArrayLike<number>, g: ArrayLike<number>): (x:
     const t = (x - d[i]) / (d[i + 1] - d[i]);
     return g[i] + t * (g[i + 1] - g[i]);
   };
+}
+
+/** Move the field by `by` cells: a positive shift drops cells at the bottom (zeros there), a negative one adds zero cells below. */
+function shiftField(ur: Float64Array, ui: Float64Array, by: number): void {
+  if (by === 0) return;
+  const n = ur.length;
+  if (by > 0) {
+    ur.copyWithin(0, by);
+    ui.copyWithin(0, by);
+    ur.fill(0, Math.max(0, n - by));
+    ui.fill(0, Math.max(0, n - by));
+  } else {
+    ur.copyWithin(-by, 0, n + by);
+    ui.copyWithin(-by, 0, n + by);
+    ur.fill(0, 0, Math.min(n, -by));
+    ui.fill(0, 0, Math.min(n, -by));
+  }
 }
