@@ -43,6 +43,8 @@ revision: "1"
 date: 2026-01-01
 terrain:
   file: dem
+design:
+  wave_solution: false
 climate:
   rain_rate_mm_h: 42
   sa_m: 60

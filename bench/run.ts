@@ -9,12 +9,14 @@ import { benchCoverage } from "./coverage.ts";
 import { benchInterference } from "./interference.ts";
 import { benchLinks } from "./links.ts";
 import { benchRebuild } from "./rebuild.ts";
+import { benchWave } from "./wave.ts";
 
 const parts: Record<string, () => Promise<unknown>> = {
   links_200: benchLinks,
   rebuild_one_link: () => benchRebuild(),
   coverage: () => benchCoverage(),
   interference_200: benchInterference,
+  wave: () => benchWave(),
 };
 
 const at = process.argv.indexOf("--part");

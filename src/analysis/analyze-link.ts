@@ -25,6 +25,7 @@ export const COARSE_TERRAIN_FRACTION = 10;
 import type { ClearanceRow, LinkEndResult, LinkResult } from "./results.ts";
 import { linkLosses } from "./link-losses.ts";
 import type { HeightGainCurve } from "./link-reflection.ts";
+import { linkWave, type WaveFigureData } from "./link-wave.ts";
 
 type LinkInput = Study["links"][number];
 
@@ -35,6 +36,8 @@ export interface LinkFigureData {
   ks: { label: string; ae_m: number; worst: { at_distance_m: number; clearance_f1: number } }[];
   /** The height-gain curve at the receiving end (a plot series; results carry its step). */
   height_gain: HeightGainCurve;
+  /** The wave solution's field and height-gain curve (link-wave.ts); absent when not computed. */
+  wave?: WaveFigureData;
 }
 
 /** Heights of a site's ground: the study's surveyed value, else the terrain under it. */
@@ -228,5 +231,12 @@ export function analyzeLink(study: Study, link: LinkInput, terrain: Terrain, opt
     warnings,
   };
   const { result, height_gain } = linkLosses(study, link, radio, base, profile);
-  return { result, figure: { profile, lambda_m, ks, height_gain } };
+  const figure: LinkFigureData = { profile, lambda_m, ks, height_gain };
+  if (study.design.wave_solution !== false && result.diffraction_db_by_method) {
+    const w = linkWave(study, profile, base.ends, radio.frequency_ghz, link.polarization, result.diffraction_db_by_method);
+    result.wave = w.wave;
+    result.warnings.push(...w.warnings);
+    if (w.figure) figure.wave = w.figure;
+  }
+  return { result, figure };
 }

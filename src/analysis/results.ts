@@ -4,6 +4,7 @@ import type { LinkPerformance } from "./link-performance.ts";
 import type { InterferenceResult } from "./interference-result.ts";
 import type { ReflectionResult } from "./link-reflection.ts";
 import type { Remedy } from "./remedies.ts";
+import type { WaveResult } from "./link-wave.ts";
 
 /** Plain-JSON results of a study (no NaN: the boundary turns NaN into errors or null with a warning). */
 
@@ -80,6 +81,8 @@ export interface LinkResult {
   /** What would bring the link to its targets (empty when it meets them). */
   remedies?: Remedy[];
   reflection?: ReflectionResult;
+  /** The parabolic-equation wave solution and its difference from each diffraction method. */
+  wave?: WaveResult;
   received_dbm?: number;
   fade_margin_db?: number;
   availability_pct?: number;

@@ -13,6 +13,7 @@ import { linkFresnelSvg, linkHeightGainSvg, linkProfileSvg } from "./link-figure
 import { relativeUrl } from "./relative-url.ts";
 import { analyzedStudy, getAnalyzedStudies, setAnalyzedStudies, siteData } from "./site-data.ts";
 import { studyMapSvg } from "./study-map.ts";
+import { linkWaveFieldSvg, linkWaveHeightGainSvg } from "./wave-figures.ts";
 
 // Eleventy's config object is untyped here; only the calls below are used.
 interface EleventyConfig {
@@ -28,6 +29,8 @@ interface EleventyConfig {
 const maps = new Map<string, string>();
 /** Interactive map data (JSON for a script block) by study id. */
 const liveMaps = new Map<string, string>();
+/** Wave-solution field figures drawn for this build (sharp again), by "study/link". */
+const waveFields = new Map<string, string>();
 
 /**
  * The Eleventy side of Ridgeline: global data `ridgeline` (the analysed studies), filters for
@@ -47,6 +50,11 @@ export default function ridgelineSite(eleventyConfig: EleventyConfig): void {
     studies.forEach((s, i) => maps.set(s.study.id, svgs[i]));
     const live = await Promise.all(studies.map((s) => liveMapData(s)));
     studies.forEach((s, i) => liveMaps.set(s.study.id, scriptJson(live[i])));
+    waveFields.clear();
+    for (const s of studies) {
+      const figs = await Promise.all(s.result.links.map((l) => linkWaveFieldSvg(s, l.id)));
+      s.result.links.forEach((l, i) => waveFields.set(`${s.study.id}/${l.id}`, figs[i]));
+    }
     return siteData(studies);
   });
   eleventyConfig.addFilter("rel", function (this: { page?: { url?: string } }, target: string) {
@@ -79,6 +87,8 @@ export default function ridgelineSite(eleventyConfig: EleventyConfig): void {
     if (data === undefined) throw new Error(`No interactive map data was made for study ${studyId}.`);
     return data;
   });
+  eleventyConfig.addShortcode("waveField", (studyId: string, linkId: string) => waveFields.get(`${studyId}/${linkId}`) ?? "");
+  eleventyConfig.addShortcode("waveHeightGain", (studyId: string, linkId: string) => linkWaveHeightGainSvg(analyzedStudy(studyId), linkId));
   eleventyConfig.addShortcode("overviewMap", (studyId: string) => {
     const svg = maps.get(studyId);
     if (svg === undefined) throw new Error(`No overview map was drawn for study ${studyId}.`);

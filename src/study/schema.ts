@@ -245,6 +245,7 @@ export const studySchema = z
           .refine((a) => a.max_m / a.step_m <= 2000, { message: "at most 2000 candidate heights: max_m / step_m ≤ 2000 (e.g. step_m: 0.5 up to 1000 m)", path: ["step_m"] })
           .prefault({}),
         structure_notice_height_m: z.number().positive().max(1000).default(45).describe("antennas higher than this above ground get a structure/aviation notice"),
+        wave_solution: z.boolean().default(true).describe("compute the parabolic-equation wave solution for every link (field figure and comparison with the diffraction methods)"),
       })
       .strict()
       .prefault({}),

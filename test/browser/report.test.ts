@@ -248,6 +248,22 @@ describe("report site in Chromium", () => {
     }
   });
 
+  it("each demo link page and the print page carry the wave solution's field figure (with its raster and text alternative), the comparison table and the height-gain comparison", async () => {
+    const pages = await inspectAll();
+    for (const id of demoLinks) {
+      const f = pages.get(`studies/${DEMO}/links/${id}/index.html`)!;
+      for (const cls of ["wave-field", "height-gain wave-height-gain"]) {
+        const figs = f.figures[cls] ?? [];
+        expect(figs.length, `${id} ${cls}`).toBe(1);
+        expect(figs[0].width > 300 && figs[0].height > 120, `${id} ${cls} ${JSON.stringify(figs[0])}`).toBe(true);
+      }
+      expect(f.bad.filter((b) => b.includes("wave")), id).toEqual([]);
+      expect(f.text, id).toMatch(/Method − wave solution \(dB\)/);
+    }
+    const print = pages.get(`studies/${DEMO}/print/index.html`)!;
+    expect(print.figures["wave-field"]?.length).toBe(demoLinks.length);
+  });
+
   it("a study whose names contain markup shows that text and runs nothing", async () => {
     const page = await browser.context.newPage();
     const urls = [

@@ -9,6 +9,7 @@ import { TerrainError } from "../../terrain/terrain-error.ts";
 import { latLonArg, numberArg, parseArgs, UsageError } from "../args.ts";
 import { printLinkTable } from "../link-table.ts";
 import { PATH_METHOD_OPTIONS, PATH_METHOD_USAGE, preparePathMethod } from "./path-methods/index.ts";
+import { pathWave } from "./path-wave.ts";
 
 export const PATH_USAGE = `Usage: ridgeline path --from LAT,LON --to LAT,LON (--terrain PATH|constant:M | --profile CSV)
          --frequency-ghz F --from-antenna-m H --to-antenna-m H [--k K]... [--polarization h|v]
@@ -80,6 +81,7 @@ export async function pathCommand(argv: string[]): Promise<number> {
       worst_month_k: { enabled: false, min_f1: 0.3 }, // the one-off path checks the k values given on the command line only
       antenna_search: { step_m: 1, max_m: 100 },
       structure_notice_height_m: 45,
+      wave_solution: false,
     },
     climate: { pressure_hpa: 1013.25, temperature_c: 15, water_vapour_g_m3: 7.5, dn1: -400, ground: "medium_dry_ground", ...(rain !== undefined ? { rain_rate_mm_h: rain } : {}) },
     radios: [{ id: "radio", frequency_ghz: f, tx_power_dbm: num("tx-power-dbm", DEFAULTS.tx_power_dbm, Number.isFinite, "a power in dBm"), rx_threshold_dbm: num("rx-threshold-dbm", DEFAULTS.rx_threshold_dbm, Number.isFinite, "a level in dBm"), threshold_ber: "1e-6" }],
@@ -104,7 +106,11 @@ export async function pathCommand(argv: string[]): Promise<number> {
   };
   const terrain = await openStudyTerrain(study);
   if (v("profile") === undefined) checkSitesOnTerrain(study, terrain);
-  const { result, figure } = analyzeLink(study, study.links[0], terrain);
+  const waveAsked = v("method") === "wave";
+  if (!waveAsked && (v("field") !== undefined || v("wave-memory-mib") !== undefined)) throw new UsageError(`--field and --wave-memory-mib need --method wave.`);
+  const analysed = analyzeLink(study, study.links[0], terrain);
+  const figure = analysed.figure;
+  const result = waveAsked ? await pathWave(study, analysed.result, analysed.figure, { field: v("field"), memoryMib: v("wave-memory-mib") }) : analysed.result;
   const warnings = [...result.warnings];
   if (rain === undefined) warnings.push("No --rain-rate-mm-h given: the budget has no rain term.");
   const l0 = study.links[0];

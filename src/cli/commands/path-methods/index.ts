@@ -1,16 +1,18 @@
 import { UsageError } from "../../args.ts";
+import { PATH_WAVE_USAGE } from "../path-wave.ts";
 import { ITU_PATH_METHODS, ITU_PATH_OPTIONS, ITU_PATH_USAGE, prepareItuMethod, type PreparedPathMethod } from "./itu.ts";
 
 export type { PathMethodContext, PathMethodOutput, PreparedPathMethod } from "./itu.ts";
 
 /** Propagation methods `ridgeline path --method` accepts besides the default link analysis. */
-export const PATH_METHODS: readonly string[] = [...ITU_PATH_METHODS];
+export const PATH_METHODS: readonly string[] = [...ITU_PATH_METHODS, "wave"];
 
 /** Option names the methods add to `ridgeline path` (besides --method). */
-export const PATH_METHOD_OPTIONS: readonly string[] = ["method", ...ITU_PATH_OPTIONS];
+export const PATH_METHOD_OPTIONS: readonly string[] = ["method", ...ITU_PATH_OPTIONS, "field", "wave-memory-mib"];
 
 /** Usage lines of the methods. */
-export const PATH_METHOD_USAGE = ITU_PATH_USAGE;
+export const PATH_METHOD_USAGE = `${ITU_PATH_USAGE}
+         ${PATH_WAVE_USAGE}`;
 
 /**
  * Check --method and the method options (UsageError on bad input, before any computation);

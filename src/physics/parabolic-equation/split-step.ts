@@ -1,0 +1,326 @@
+import FFT from "fft.js";
+import { wavelengthM } from "../constants.ts";
+import { gaussianAxisAmplitude, gaussianSourceSigmaM } from "./aperture-source.ts";
+import { impedanceAlpha, type PeGround } from "./ground-impedance.ts";
+import { effectiveRadiusFromRefractivity, modifiedRefractivity, type RefractivityModel } from "./modified-refractivity.ts";
+import { choosePeGrid, PE_DEFAULT_MEMORY_LIMIT_BYTES, PE_MAX_ANGLE_DEG, type PeGridChoice } from "./pe-grid.ts";
+import { makeVerticalPropagator } from "./vertical-propagator.ts";
+
+export interface ParabolicEquationInput {
+  /** profile distances from the transmitter (m), ascending */
+  d_m: ArrayLike<number>;
+  /** ground heights above the datum (m), obstructions included, one per distance */
+  ground_m: ArrayLike<number>;
+  frequency_ghz: number;
+  /** antenna heights above the ground at the two ends (m) */
+  tx_antenna_m: number;
+  rx_antenna_m: number;
+  polarization: "h" | "v";
+  ground: PeGround;
+  refractivity: RefractivityModel;
+  /** 3 dB beamwidth of the transmitting antenna (°) */
+  beamwidth_deg: number;
+  /** field kept for a figure: columns (range) × rows (height) */
+  figure?: { columns: number; rows: number };
+  /** height-gain curve at the receiving end: ± half range about the antenna, step (m) */
+  height_gain?: { half_range_m: number; step_m: number };
+  /** grid overrides (see pe-grid.ts for the defaults) */
+  grid?: { dz_m?: number; dx_m?: number; max_angle_deg?: number };
+  /** refuse grids needing more bytes than this (default PE_DEFAULT_MEMORY_LIMIT_BYTES) */
+  memory_limit_bytes?: number;
+}
+
+/** The field over the height–distance plane, dB relative to free space on the beam axis. */
+export interface PeField {
+  /** distance of each column (m) */
+  x_m: Float64Array;
+  /** the solver's (stair-stepped) ground under each column (m above the datum) */
+  ground_m: Float64Array;
+  /** absolute height of row 0 (m) and the row spacing (m) */
+  z0_m: number;
+  dz_m: number;
+  rows: number;
+  /** column-major: f_db[c·rows + r]; NaN below the ground */
+  f_db: Float32Array;
+}
+
+export interface ParabolicEquationResult {
+  status: "ok" | "refused" | "bad-input";
+  /** why a grid was refused or the input is bad; "" when ok */
+  reason: string;
+  /** −20·log10 F at the receiver (dB): the loss relative to free space */
+  excess_loss_db: number;
+  grid: PeGridChoice;
+  /** beamwidth of the source actually used (°) and its aim above the horizontal (°) */
+  beamwidth_used_deg: number;
+  aim_deg: number;
+  /** the geometry needs angles beyond PE_MAX_ANGLE_DEG */
+  angle_limit_exceeded: boolean;
+  field: PeField | null;
+  height_gain: { rx_antenna_m: Float64Array; relative_db: Float64Array } | null;
+}
+
+/**
+ * Field of a transmitting antenna over a terrain profile by the split-step Fourier solution of
+ * the wide-angle parabolic equation, expressed as the propagation factor F (dB relative to
+ * free space on the beam's axis) over the height–distance plane and at the receiver.
+ *
+ * Method. The reduced field u = e^{−ikx}·ψ of one polarisation obeys the parabolic
+ * approximation of the Helmholtz equation; each range step Δx is the Fresnel–Kirchhoff
+ * integral from one vertical plane to the next, evaluated by FFT:
+ *   u(x + Δx) = exp(ik·Δx·(m − 1)) · F⁻¹[ exp(iΔx·(√(k² − p²) − k)) · F[u(x)] ]
+ * (the Feit–Fleck wide-angle propagator, exact for any angle in a uniform medium; the
+ * refraction screen is the splitting's approximation). m is the modified refractive index
+ * (modified-refractivity.ts), so the Earth is flat and its curvature and the atmosphere's
+ * refraction are both in m. The ground is a Leontovich impedance boundary ∂u/∂z + αu = 0
+ * (ground-impedance.ts) handled by the discrete mixed Fourier transform (vertical-
+ * propagator.ts); a perfect conductor is a sine (H) or cosine (V) transform. Terrain is
+ * followed two ways. The computational frame starts at a floor under the ground whose slope is
+ * limited (pe-grid.ts, slopeLimitedFloor): a terrain-following (shift-map) transformation,
+ * where a change of the floor's slope Δs tilts the field by exp(−ik·Δs·z') and the ground
+ * keeps its impedance condition, exact for gentle slopes. Ground rising above the floor
+ * (cliffs, steep flanks, single-sample obstacles) is a staircase of Kirchhoff screens: at each
+ * range plane the field below the ground there is cut off, which makes a thin obstacle a knife
+ * edge. The shift map alone fails on steep or abrupt terrain, which surveyed and DEM profiles
+ * contain; the staircase alone reflects poorly from long slopes; hence both. The staircase
+ * part converges slowly with Δx on slopes steeper than the frame's limit (measured in
+ * test/reference/parabolic-equation-convergence.test.ts). A Hann taper above the region of
+ * interest (the upper hull of terrain and ends plus the Fresnel zone: pe-grid.ts) absorbs what
+ * leaves it. The source is a Gaussian aperture of the antenna's 3 dB beamwidth aimed at the receiver (aperture-source.ts); the receiver is a point.
+ * References: M. Levy, "Parabolic Equation Methods for Electromagnetic Wave Propagation",
+ * IEE 2000 (split-step, modified refractivity, Gaussian source, staircase terrain); the shift
+ * map after Beilis & Tappert (1979) as used by Donohue & Kuttler, IEEE TAP 48(2), 2000;
+ * G. D. Dockery & J. R. Kuttler, IEEE Trans. Antennas Propag. 44(12), 1996 (discrete mixed
+ * Fourier transform) — both from memory; the equations above are restated in the code.
+ * Validity: angles to PE_MAX_ANGLE_DEG (15°); forward scattering only (no back-scatter from
+ * terrain); the two-dimensional field of a line source scaled to a point source by the
+ * free-space reference (common practice). Grid choice: pe-grid.ts.
+ * Bad numbers give status "bad-input"; a grid over the memory limit, status "refused"
+ * (no throwing).
+ */
+export function parabolicEquationField(input: ParabolicEquationInput): ParabolicEquationResult {
+  const lambda = wavelengthM(input.frequency_ghz);
+  const k = (2 * Math.PI) / lambda;
+  const d = input.d_m;
+  const g = input.ground_m;
+  const np = d.length;
+  const cols0 = input.figure?.columns ?? 0;
+  const rows = input.figure?.rows ?? 0;
+  const mExcess = modifiedRefractivity(input.refractivity);
+  const ae = effectiveRadiusFromRefractivity(input.refractivity, g[0] ?? 0);
+  const bad = (reason: string, grid?: PeGridChoice): ParabolicEquationResult => ({
+    status: "bad-input",
+    reason,
+    excess_loss_db: NaN,
+    grid: grid ?? ({} as PeGridChoice),
+    beamwidth_used_deg: NaN,
+    aim_deg: NaN,
+    angle_limit_exceeded: false,
+    field: null,
+    height_gain: null,
+  });
+  if (!(lambda > 0) || !Number.isFinite(lambda)) return bad("frequency is not a positive number");
+  if (np < 2 || g.length !== np) return bad("the profile needs at least two samples with one ground height each");
+  for (let i = 0; i < np; i++) {
+    if (!Number.isFinite(d[i]) || !Number.isFinite(g[i]) || (i > 0 && !(d[i] > d[i - 1]))) return bad("profile distances must be ascending and heights finite");
+  }
+  if (!(input.tx_antenna_m >= 0) || !(input.rx_antenna_m >= 0)) return bad("antenna heights must be ≥ 0");
+  if (Number.isNaN(mExcess(g[0])) || Number.isNaN(ae)) return bad("the refractivity description is not usable");
+  if (!(input.beamwidth_deg > 0)) return bad("beamwidth must be positive");
+  const D = d[np - 1] - d[0];
+  const zT = g[0] + input.tx_antenna_m;
+  const zR = g[np - 1] + input.rx_antenna_m;
+  const grid = choosePeGrid({ d_m: d, ground_m: g, lambda_m: lambda, tx_amsl_m: zT, rx_amsl_m: zR, ae_m: ae, beamwidth_deg: input.beamwidth_deg, figure_cells: cols0 * rows, overrides: input.grid });
+  const limit = input.memory_limit_bytes ?? PE_DEFAULT_MEMORY_LIMIT_BYTES;
+  const angle_limit_exceeded = grid.geometry_angle_deg > PE_MAX_ANGLE_DEG;
+  const thetaMax = (grid.max_angle_deg * Math.PI) / 180;
+  const beam = Math.min((input.beamwidth_deg * Math.PI) / 180, 0.7 * thetaMax);
+  const aim = Math.atan((zR - zT) / D - D / (2 * ae));
+  const common = { grid, beamwidth_used_deg: (beam * 180) / Math.PI, aim_deg: (aim * 180) / Math.PI, angle_limit_exceeded };
+  if (!(grid.memory_bytes <= limit)) {
+    const mib = (b: number) => (b / 1048576).toFixed(b < 10 * 1048576 ? 1 : 0);
+    return {
+      status: "refused",
+      reason: `the grid (${2 * grid.n} heights of ${(grid.dz_m * 1000).toFixed(1)} mm, ${grid.steps} range steps of ${grid.dx_m.toFixed(1)} m) needs ${mib(grid.memory_bytes)} MiB, above the limit of ${mib(limit)} MiB`,
+      excess_loss_db: NaN,
+      ...common,
+      field: null,
+      height_gain: null,
+    };
+  }
+  const N = grid.n;
+  const dz = grid.dz_m;
+  const dx = grid.dx_m;
+  const groundAt = makeGroundInterpolator(d, g);
+  const floorAt = makeGroundInterpolator(d, grid.floor_m);
+  const topAt = makeGroundInterpolator(d, grid.top_m);
+  // phase screen exp(ik·Δx·(m − 1)) by absolute height on the vertical grid, over every height
+  // the frame reaches (indices from the lowest floor)
+  let fMin = Infinity;
+  let gTop = -Infinity;
+  for (let i = 0; i < np; i++) {
+    fMin = Math.min(fMin, grid.floor_m[i]);
+    gTop = Math.max(gTop, g[i]);
+  }
+  const sMin = Math.floor(fMin / dz);
+  const screenRe = new Float64Array(Math.ceil(gTop / dz) - sMin + N + 4);
+  const screenIm = new Float64Array(screenRe.length);
+  for (let a = 0; a < screenRe.length; a++) {
+    const ph = k * dx * mExcess((a + sMin) * dz); // Levy 2000: refraction phase screen exp(ik·Δx·(m − 1))
+    screenRe[a] = Math.cos(ph);
+    screenIm[a] = Math.sin(ph);
+  }
+  // Hann absorbing layer (common practice) from the top of the region of interest upwards
+  const L = grid.absorber_cells;
+  const taper = new Float64Array(L);
+  for (let j = 0; j < L; j++) taper[j] = 0.5 * (1 + Math.cos((Math.PI * j) / L));
+  const alpha = input.ground.kind === "impedance" ? impedanceAlpha(input.ground.epsilon_r, input.ground.sigma_s_m, lambda, input.polarization) : null;
+  if (alpha && !(Number.isFinite(alpha.re) && Number.isFinite(alpha.im))) return bad("ground constants are not usable", grid);
+  const step = makeVerticalPropagator({ n: N, dz_m: dz, dx_m: dx, k_rad_m: k, boundary: alpha ? { kind: "mixed", alpha } : input.polarization === "h" ? { kind: "dirichlet" } : { kind: "neumann" }, fft: new FFT(2 * N) });
+  // the frame: heights above the floor b(x); the source at its height above the ground
+  let b = floorAt(d[0]);
+  const ur = new Float64Array(N + 1);
+  const ui = new Float64Array(N + 1);
+  const sigma = gaussianSourceSigmaM(beam, k);
+  const p0 = k * Math.sin(aim);
+  const zs = zT - b;
+  for (let j = 0; j < N; j++) {
+    const z = j * dz;
+    const amp = Math.exp(-((z - zs) ** 2) / (2 * sigma * sigma)); // Levy 2000 §8: Gaussian aperture
+    ur[j] = amp * Math.cos(p0 * (z - zs));
+    ui[j] = amp * Math.sin(p0 * (z - zs));
+  }
+  const cols = Math.min(cols0, grid.steps);
+  const field: PeField | null =
+    cols > 0 && rows > 1
+      ? { x_m: new Float64Array(cols), ground_m: new Float64Array(cols), z0_m: grid.z_low_m, dz_m: (grid.z_high_m - grid.z_low_m) / (rows - 1), rows, f_db: new Float32Array(cols * rows) }
+      : null;
+  let nextCol = 0;
+  /** F (dB) at height zRel above the frame's floor, distance x. */
+  const relDb = (zRel: number, x: number): number => {
+    if (zRel < 0) return NaN;
+    const t = zRel / dz - q;
+    if (t < 0) return NaN;
+    const j = Math.floor(t);
+    if (j >= N) return NaN;
+    const f = t - j;
+    const a0 = Math.hypot(ur[j], ui[j]);
+    const a1 = Math.hypot(ur[j + 1], ui[j + 1]);
+    const amp = a0 + f * (a1 - a0);
+    const r = Math.hypot(x, b + zRel - zT);
+    return 20 * Math.log10(amp / gaussianAxisAmplitude(r, sigma, k)); // F relative to free space on the beam axis
+  };
+  let slope = 0;
+  // q: cells between the floor and the array's first cell, dropped because the ground covers
+  // them (they hold no field); array cell j is (j + q)·Δz above the floor
+  let q = 0;
+  const cellsAbove = (x: number, floor: number) => {
+    const above = (groundAt(x) - floor) / dz;
+    return above < 0.5 ? 0 : Math.round(above + 0.5);
+  };
+  for (let i = 1; i <= grid.steps; i++) {
+    const x = i * dx;
+    const bNext = floorAt(d[0] + x);
+    // terrain-following frame (shift map): a change of the floor's slope tilts the field,
+    // exp(−ik·Δs·z'), so that in the frame angles are measured from the local ground; the
+    // impedance condition on the normal derivative, ∂u/∂z − s·∂u/∂x ≈ ∂u/∂z − ik·s·u, is then
+    // ∂v/∂z' + αv = 0 unchanged
+    const s = (bNext - b) / dx;
+    if (s !== slope) {
+      const c = -k * (s - slope) * dz;
+      for (let j = 0; j <= N; j++) {
+        const cr = Math.cos(c * (j + q));
+        const ci = Math.sin(c * (j + q));
+        const re = ur[j];
+        ur[j] = re * cr - ui[j] * ci;
+        ui[j] = re * ci + ui[j] * cr;
+      }
+      slope = s;
+    }
+    step(ur, ui);
+    const off = Math.round(b / dz) + q - sMin;
+    const jA = Math.min(N, Math.max(0, Math.ceil((topAt(d[0] + x - dx) - b) / dz) - q));
+    for (let j = 0; j <= N; j++) {
+      const cr = screenRe[off + j];
+      const ci = screenIm[off + j];
+      const re = ur[j];
+      ur[j] = re * cr - ui[j] * ci;
+      ui[j] = re * ci + ui[j] * cr;
+    }
+    for (let j = jA; j <= N; j++) {
+      const t = j - jA < L ? taper[j - jA] : 0;
+      ur[j] *= t;
+      ui[j] *= t;
+    }
+    b = bNext;
+    // ground above the floor at this plane cuts off the field below it (a Kirchhoff screen);
+    // the field vanishes half a cell below the first cell kept, so that cell is the one
+    // nearest half a cell above the ground (measured: the knife edge's J(ν) then has no bias)
+    const gx = groundAt(d[0] + x);
+    const cutCells = cellsAbove(d[0] + x, b);
+    const cut = Math.min(N + 1, cutCells - q);
+    if (cut > 0) {
+      ur.fill(0, 0, cut);
+      ui.fill(0, 0, cut);
+    }
+    // the next step starts at the lower of this plane's and the next plane's ground
+    const qNew = i === grid.steps ? Math.min(q, cutCells) : Math.min(cutCells, cellsAbove(d[0] + x + dx, floorAt(d[0] + x + dx)));
+    shiftField(ur, ui, qNew - q);
+    q = qNew;
+    if (field && nextCol < cols && i === Math.round(((nextCol + 1) * grid.steps) / cols)) {
+      field.x_m[nextCol] = x;
+      field.ground_m[nextCol] = gx;
+      const topRel = topAt(d[0] + x) - b;
+      for (let r = 0; r < rows; r++) {
+        const zRel = field.z0_m + r * field.dz_m - b;
+        field.f_db[nextCol * rows + r] = zRel < gx - b || zRel > topRel ? NaN : relDb(zRel, x);
+      }
+      nextCol++;
+    }
+  }
+  const excess_loss_db = -relDb(zR - b, D);
+  let height_gain: ParabolicEquationResult["height_gain"] = null;
+  if (input.height_gain && input.height_gain.step_m > 0) {
+    const { half_range_m: h, step_m } = input.height_gain;
+    const lo = Math.max(0, input.rx_antenna_m - h);
+    const count = Math.floor((input.rx_antenna_m + h - lo) / step_m + 1e-9) + 1;
+    height_gain = { rx_antenna_m: new Float64Array(count), relative_db: new Float64Array(count) };
+    for (let c = 0; c < count; c++) {
+      const z = lo + c * step_m;
+      height_gain.rx_antenna_m[c] = z;
+      height_gain.relative_db[c] = relDb(g[np - 1] + z - b, D);
+    }
+  }
+  return { status: "ok", reason: "", excess_loss_db, ...common, field, height_gain };
+}
+
+/** Ground height (m) at distance x by linear interpolation of the profile (ends held). */
+function makeGroundInterpolator(d: ArrayLike<number>, g: ArrayLike<number>): (x: number) => number {
+  let i = 0;
+  const n = d.length;
+  return (x) => {
+    if (x <= d[0]) return g[0];
+    if (x >= d[n - 1]) return g[n - 1];
+    if (x < d[i]) i = 0;
+    while (i < n - 2 && d[i + 1] < x) i++;
+    const t = (x - d[i]) / (d[i + 1] - d[i]);
+    return g[i] + t * (g[i + 1] - g[i]);
+  };
+}
+
+/** Move the field by `by` cells: a positive shift drops cells at the bottom (zeros there), a negative one adds zero cells below. */
+function shiftField(ur: Float64Array, ui: Float64Array, by: number): void {
+  if (by === 0) return;
+  const n = ur.length;
+  if (by > 0) {
+    ur.copyWithin(0, by);
+    ui.copyWithin(0, by);
+    ur.fill(0, Math.max(0, n - by));
+    ui.fill(0, Math.max(0, n - by));
+  } else {
+    ur.copyWithin(-by, 0, n + by);
+    ui.copyWithin(-by, 0, n + by);
+    ur.fill(0, 0, Math.min(n, -by));
+    ui.fill(0, 0, Math.min(n, -by));
+  }
+}

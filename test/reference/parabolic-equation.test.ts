@@ -1,0 +1,143 @@
+import { describe, expect, it } from "vitest";
+import { wavelengthM } from "../../src/physics/constants.ts";
+import { knifeEdgeLossExact } from "../../src/physics/knife-edge.ts";
+import { parabolicEquationField, type ParabolicEquationInput } from "../../src/physics/parabolic-equation/split-step.ts";
+import { sphericalEarthDiffractionLoss } from "../../src/physics/spherical-earth-diffraction.ts";
+import { expectClose } from "../helpers/expect-close.ts";
+
+/** A flat path of n samples over D metres at ground height 0 (m). */
+function flatPath(D: number, n: number): { d_m: Float64Array; ground_m: Float64Array } {
+  return { d_m: Float64Array.from({ length: n }, (_, i) => (i * D) / (n - 1)), ground_m: new Float64Array(n) };
+}
+
+const flatEarth = { kind: "k-factor", k: Infinity } as const;
+
+describe("parabolic equation: free space where the ground cannot be seen", () => {
+  // Reference: free-space propagation (ITU-R P.525-4: loss relative to free space is 0 dB) with
+  // the Gaussian source's own pattern off its axis, exp(−4·ln2·θ²/θbw²) in power (the
+  // transform of the aperture; common practice). The ground reflection arrives 6.8° off the
+  // 0.5° beam's axis: below −2000 dB.
+  const D = 5000;
+  const r = parabolicEquationField({
+    ...flatPath(D, 501),
+    frequency_ghz: 3,
+    tx_antenna_m: 300,
+    rx_antenna_m: 300,
+    polarization: "h",
+    ground: { kind: "pec" },
+    refractivity: flatEarth,
+    beamwidth_deg: 0.5,
+    height_gain: { half_range_m: 10, step_m: 2.5 },
+  });
+  it.each([0, 1, 2, 3, 4, 5, 6, 7, 8])("height step %i within 0.1 dB of the free-space beam", (i) => {
+    const dz = r.height_gain!.rx_antenna_m[i] - 300;
+    const theta = Math.atan(dz / D);
+    const bw = (r.beamwidth_used_deg * Math.PI) / 180;
+    const pattern = 10 * Math.log10(Math.exp((-4 * Math.LN2 * theta * theta) / (bw * bw)));
+    expectClose(r.height_gain!.relative_db[i], pattern, { abs: 0.1 }, { dz, bw_deg: r.beamwidth_used_deg });
+  });
+  it("at the receiver, on the beam's axis, 0 dB within 0.1 dB", () => {
+    expectClose(r.excess_loss_db, 0, { abs: 0.1 });
+  });
+});
+
+describe("parabolic equation: a single thin screen (ITU-R P.526-15 §4.1, exact J(ν) from the Fresnel integrals)", () => {
+  // Screen at mid-path, antennas 400 m above a conductor so that the ground reflection leaves
+  // 9° off the beam (≥ 70 dB down): the knife edge alone. The solver rounds the edge to its
+  // vertical grid (Δz = 0.57 m here, Δν ≤ 0.02, up to 0.15 dB), which the tolerance covers.
+  const f = 3;
+  const lambda = wavelengthM(f);
+  const d1 = 5000;
+  const D = 2 * d1;
+  const H = 400;
+  const scale = Math.sqrt((lambda * d1 * d1) / (2 * D)); // P.526-15 eq. (22) solved for h at ν = 1
+  it.each([-1, -0.5, 0, 0.5, 1, 2, 3])("ν = %f within 0.5 dB of J(ν)", (nu) => {
+    const path = flatPath(D, 1001);
+    path.ground_m[500] = H + nu * scale;
+    const r = parabolicEquationField({ ...path, frequency_ghz: f, tx_antenna_m: H, rx_antenna_m: H, polarization: "h", ground: { kind: "pec" }, refractivity: flatEarth, beamwidth_deg: 20, grid: { max_angle_deg: 5 } });
+    expectClose(r.excess_loss_db, knifeEdgeLossExact(nu), { abs: 0.5 }, { nu, dz_m: r.grid.dz_m });
+  });
+});
+
+describe("parabolic equation: smooth spherical Earth beyond the horizon (ITU-R P.526-15 §3, sphericalEarthDiffractionLoss)", () => {
+  // 20 m antennas, k = 4/3, land εr = 22, σ = 0.003 S/m (the first term's defaults); the
+  // radio horizon is 36.9 km, so 60 and 80 km are well beyond it, where the first term of the
+  // residue series that P.526 §3 uses is accurate.
+  const cases: [number, number, "h" | "v"][] = [
+    [3, 60000, "h"],
+    [3, 80000, "v"],
+    [1, 70000, "h"],
+  ];
+  it.each(cases)("%f GHz, %f m, %s: within 1.5 dB", (f, D, pol) => {
+    const r = parabolicEquationField({ ...flatPath(D, 801), frequency_ghz: f, tx_antenna_m: 20, rx_antenna_m: 20, polarization: pol, ground: { kind: "impedance", epsilon_r: 22, sigma_s_m: 0.003 }, refractivity: { kind: "k-factor", k: 4 / 3 }, beamwidth_deg: 10 });
+    const ref = sphericalEarthDiffractionLoss(D, 20, 20, (4 / 3) * 6371000, wavelengthM(f), { polarization: pol, epsilon_r: 22, sigma_s_m: 0.003 });
+    expect(ref.transhorizon).toBe(true);
+    expectClose(r.excess_loss_db, ref.Ldsph, { abs: 1.5 }, { f, D, pol, grid: r.grid });
+  });
+});
+
+describe("parabolic equation: flat perfectly conducting ground against the two-ray sum", () => {
+  // Two rays over a flat conductor, R = −1 (horizontal) or +1 (vertical), exact path lengths
+  // (common practice). Lobe spacing in receiver height λD/(2h1) = 25 m; positions of nulls and
+  // maxima within a tenth of it, maxima within 0.3 dB, nulls deeper than −15 dB.
+  const f = 3;
+  const D = 10000;
+  const h1 = 20;
+  const lambda = wavelengthM(f);
+  const k = (2 * Math.PI) / lambda;
+  const lobe = (lambda * D) / (2 * h1);
+  for (const pol of ["h", "v"] as const) {
+    const R = pol === "h" ? -1 : 1;
+    const r = parabolicEquationField({ ...flatPath(D, 201), frequency_ghz: f, tx_antenna_m: h1, rx_antenna_m: 35, polarization: pol, ground: { kind: "pec" }, refractivity: flatEarth, beamwidth_deg: 20, grid: { max_angle_deg: 5 }, height_gain: { half_range_m: 33, step_m: 0.05 } });
+    const z = r.height_gain!.rx_antenna_m;
+    const pe = r.height_gain!.relative_db;
+    const twoRay = Array.from(z, (h2) => {
+      const a = Math.hypot(D, h2 - h1);
+      const b = Math.hypot(D, h2 + h1);
+      return 20 * Math.log10(Math.hypot(Math.cos(k * a) / a + (R * Math.cos(k * b)) / b, Math.sin(k * a) / a + (R * Math.sin(k * b)) / b) * a);
+    });
+    const extrema = (v: ArrayLike<number>, sign: 1 | -1) => {
+      const out: number[] = [];
+      for (let i = 1; i < v.length - 1; i++) if (sign * (v[i] - v[i - 1]) > 0 && sign * (v[i] - v[i + 1]) >= 0) out.push(i);
+      return out;
+    };
+    it(`${pol}: maxima in position and level`, () => {
+      const a = extrema(twoRay, 1);
+      const b = extrema(pe, 1);
+      expect(b.length).toBe(a.length);
+      a.forEach((i, n) => {
+        expectClose(z[b[n]], z[i], { abs: lobe / 10 }, { pol, maximum: n });
+        expectClose(pe[b[n]], twoRay[i], { abs: 0.3 }, { pol, maximum: n });
+      });
+    });
+    it(`${pol}: nulls in position and depth`, () => {
+      const a = extrema(twoRay, -1).filter((i) => twoRay[i] < -15);
+      const b = extrema(pe, -1).filter((i) => pe[i] < -15);
+      expect(a.length).toBeGreaterThan(0);
+      expect(b.length).toBe(a.length);
+      a.forEach((i, n) => expectClose(z[b[n]], z[i], { abs: lobe / 10 }, { pol, null: n }));
+    });
+  }
+});
+
+describe("parabolic equation: reciprocity on a terrain profile", () => {
+  // Swapping the ends of a hilly path (two ridges, one grazing the line of sight) gives the
+  // same loss relative to free space within 0.5 dB (reciprocity; common practice). Both ends
+  // use the same broad beam, as reciprocity needs.
+  const D = 12000;
+  const n = 401;
+  const d = Float64Array.from({ length: n }, (_, i) => (i * D) / (n - 1));
+  const g = Float64Array.from(d, (x) => 100 + 60 * Math.exp(-(((x - 3500) / 700) ** 2)) + 45 * Math.exp(-(((x - 8000) / 900) ** 2)) + 8 * Math.sin(x / 400));
+  const base: Omit<ParabolicEquationInput, "d_m" | "ground_m" | "tx_antenna_m" | "rx_antenna_m"> = { frequency_ghz: 2, polarization: "v", ground: { kind: "impedance", epsilon_r: 15, sigma_s_m: 0.01 }, refractivity: { kind: "k-factor", k: 4 / 3 }, beamwidth_deg: 30 };
+  it.each([
+    [30, 20],
+    [15, 60],
+  ])("antennas %f m and %f m", (ha, hb) => {
+    const ab = parabolicEquationField({ ...base, d_m: d, ground_m: g, tx_antenna_m: ha, rx_antenna_m: hb });
+    const rev = Float64Array.from(g).reverse();
+    const ba = parabolicEquationField({ ...base, d_m: d, ground_m: rev, tx_antenna_m: hb, rx_antenna_m: ha });
+    expect(ab.status).toBe("ok");
+    expect(ab.excess_loss_db).toBeGreaterThan(3);
+    expectClose(ba.excess_loss_db, ab.excess_loss_db, { abs: 0.5 }, { ha, hb, grid: ab.grid });
+  });
+});
