@@ -12,8 +12,10 @@ Commands:
   coverage              one coverage raster from the command line (ridgeline coverage --help)
   pdf <study-id>        print the study and every link to _site/studies/<id>/<id>.pdf (system Chromium)
   serve                 build, serve _site on http://127.0.0.1:8080 and rebuild on change (ridgeline serve --help)
+  worker --queue URL    run the tasks of builds made with build --queue URL on this machine (ridgeline worker --help)
 
 build, diff and serve keep computed link results in .ridgeline-cache/ (--no-cache to compute everything).
+build --queue redis://HOST:PORT spreads the computation over the machines running ridgeline worker.
 
 Exit codes: 0 success, 1 a design target missed (check only), 2 bad input.`;
 
@@ -28,6 +30,7 @@ const COMMANDS: Record<string, () => Promise<Command>> = {
   coverage: async () => (await import("./commands/coverage.ts")).coverageCommand,
   pdf: async () => (await import("./commands/pdf.ts")).pdfCommand,
   serve: async () => (await import("./commands/serve.ts")).serveCommand,
+  worker: async () => (await import("./commands/worker.ts")).workerCommand,
 };
 
 /** Run the CLI; returns the exit code. Bad input prints a message (no stack) and returns 2. */
