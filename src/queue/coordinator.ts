@@ -80,12 +80,12 @@ export async function distributeStudies(studies: Study[], cache: ResultCache, ta
     log(progressLine(p), final);
   };
   const refusals = new Set<string>();
+  const fetching: Promise<void>[] = [];
   try {
     await events.waitUntilReady();
     for (const plan of plans) if (plan.tasks.length) await putChunked(redis, studyKey(plan.sha), plan.bytes);
     const finished = new Promise<void>((resolve, reject) => {
       const pending = new Set(byId.keys());
-      const fetching: Promise<void>[] = [];
       const finish = (id: string) => {
         pending.delete(id);
         if (pending.size === 0) Promise.all(fetching).then(() => resolve(), reject);
@@ -124,7 +124,10 @@ export async function distributeStudies(studies: Study[], cache: ResultCache, ta
         p.failed++;
         p.running.delete(jobId);
         show(true);
-        reject(new QueueTaskError(`task "${task.label}" failed and will not be retried (up to ${TASK_ATTEMPTS} attempts, on any worker); last error: ${failedReason}`));
+        const why = /stalled/i.test(failedReason)
+          ? `its workers stopped answering while running it (${failedReason}): a worker was killed each time, or the task kept a worker busy longer than its --stall-seconds`
+          : `last error: ${failedReason}`;
+        reject(new QueueTaskError(`task "${task.label}" failed and will not be retried (up to ${TASK_ATTEMPTS} attempts, on any worker); ${why}`));
       });
     });
     finished.catch(() => {}); // handled below
@@ -145,6 +148,7 @@ export async function distributeStudies(studies: Study[], cache: ResultCache, ta
     await Promise.all([...byId.keys()].map((id) => queue.remove(id).catch(() => 0)));
     throw e;
   } finally {
+    await Promise.allSettled(fetching);
     for (const plan of plans) if (plan.tasks.length) await deleteChunked(redis, studyKey(plan.sha)).catch(() => {});
     await Promise.allSettled([events.close(), queue.close()]);
     redis.disconnect();

@@ -53,6 +53,7 @@ export async function runWorker(target: RedisTarget, o: WorkerOptions): Promise<
       throw new WaitingError();
     }
     await job.updateProgress({ worker: o.name });
+    o.log(`ridgeline worker ${o.name}: started "${t.label}"${job.attemptsStarted > 1 ? ` (attempt ${job.attemptsStarted})` : ""}`);
     try {
       const t0 = performance.now();
       const study = await loadStudy(redis, studies, t, o.terrainRoot ?? null);
@@ -63,6 +64,7 @@ export async function runWorker(target: RedisTarget, o: WorkerOptions): Promise<
         await putChunked(redis, resultKey(id.slice(0, at), id.slice(at + 1)), bytes);
       }
       const t2 = performance.now();
+      o.log(`ridgeline worker ${o.name}: done "${t.label}" in ${((t2 - t0) / 1000).toFixed(2)} s`);
       return { worker: o.name, entries: [...entries.keys()].map((id) => ({ kind: id.slice(0, id.indexOf(":")), key: id.slice(id.indexOf(":") + 1) })), compute_s: (t1 - t0) / 1000, store_s: (t2 - t1) / 1000 };
     } catch (e) {
       const m = (e as Error)?.message ?? String(e);

@@ -56,12 +56,19 @@ export async function runBuild(options: BuildOptions = {}): Promise<BuildReport>
       queue = await distributeStudies(loaded, cache!, target, { log: options.log });
     }
     studies = await analyzeStudies(loaded, { cache, onProgress: (_s, d, t) => progress.update(d, t) });
+  } catch (e) {
+    if (scratch) rmSync(scratch, { recursive: true, force: true });
+    throw e;
   } finally {
     progress.stop();
-    if (scratch) rmSync(scratch, { recursive: true, force: true });
   }
   const t1 = performance.now();
-  const { outDir } = await buildSite(studies, { outDir: options.outDir, pathPrefix: options.pathPrefix });
+  let outDir: string;
+  try {
+    ({ outDir } = await buildSite(studies, { outDir: options.outDir, pathPrefix: options.pathPrefix }));
+  } finally {
+    if (scratch) rmSync(scratch, { recursive: true, force: true }); // after rendering: figure data is read from the cache while pages are drawn
+  }
   return {
     outDir,
     studies,
