@@ -46,7 +46,11 @@ export function parseRedisUrl(text: string): RedisTarget {
   return { host, port, db, username, password, tls, display };
 }
 
-/** The URL as it may be printed: a password (the part between ":" and "@") replaced by "****". */
+/** The URL as it may be printed: a password (the part between ":" and "@") replaced by "****"; in text that is no URL, all before an "@". */
 export function maskRedisUrl(text: string): string {
-  return text.replace(/^([a-z][a-z0-9+.-]*:\/\/[^:@/]*:)[^@/]*@/i, "$1****@");
+  const url = /^([a-z][a-z0-9+.-]*:\/\/[^:@/]*:)[^@/]*@/i;
+  if (url.test(text)) return text.replace(url, "$1****@");
+  // Not a URL we can read: whatever comes before an "@" may be a password.
+  const at = text.lastIndexOf("@");
+  return at < 0 ? text : `****${text.slice(at)}`;
 }
