@@ -6,6 +6,7 @@ import { spawnSync } from "node:child_process";
 import { cpus, totalmem } from "node:os";
 import { fileURLToPath } from "node:url";
 import { benchCoverage } from "./coverage.ts";
+import { benchLargeStudy, benchLazyTiles, benchQueue } from "./large-study.ts";
 import { benchLinks } from "./links.ts";
 import { benchRebuild } from "./rebuild.ts";
 
@@ -13,6 +14,9 @@ const parts: Record<string, () => Promise<unknown>> = {
   links_200: benchLinks,
   rebuild_one_link: () => benchRebuild(),
   coverage: () => benchCoverage(),
+  large_study: benchLargeStudy,
+  queue: benchQueue,
+  lazy_tiles: benchLazyTiles,
 };
 
 const at = process.argv.indexOf("--part");
