@@ -1,16 +1,32 @@
 import { mkdtempSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
-import { analyzeStudy } from "../analysis/analyze-study.ts";
+import { analyzeStudy, openStudyTerrain } from "../analysis/analyze-study.ts";
 import { coverageKeyer } from "../analysis/coverage/coverage-cache-keys.ts";
 import { linkKeyer } from "../cache/cache-keys.ts";
 import { canonicalJson } from "../cache/canonical-json.ts";
 import { ResultCache } from "../cache/result-cache.ts";
 import { terrainSourceKey } from "../cache/terrain-source-key.ts";
 import type { Study } from "../study/study.ts";
+import type { Terrain } from "../terrain/terrain.ts";
 import { taskEntries, type TaskData } from "./task.ts";
 
 const terrainKeys = new Map<string, string | null>();
+/** Terrains kept open between tasks (tiles already read stay in their LRU), by folder and content key; the last few. */
+const terrains = new Map<string, Promise<Terrain>>();
+const KEEP_TERRAINS = 4;
+
+function openTerrainOnce(study: Study, terrainKey: string): Promise<Terrain> {
+  const id = `${study.dir}\0${terrainKey}`;
+  let t = terrains.get(id);
+  if (!t) {
+    t = openStudyTerrain(study);
+    t.catch(() => terrains.delete(id));
+    terrains.set(id, t);
+    if (terrains.size > KEEP_TERRAINS) terrains.delete(terrains.keys().next().value!);
+  }
+  return t;
+}
 
 /**
  * The terrain source key of a study on this machine, remembered for the worker's life (a
@@ -59,7 +75,7 @@ export async function runTask(t: TaskData, study: Study): Promise<Map<string, Bu
   const dir = mkdtempSync(join(tmpdir(), "ridgeline-task-"));
   try {
     const cache = new ResultCache(dir);
-    const analysed = await analyzeStudy(sub, { cache });
+    const analysed = await analyzeStudy(sub, { cache, terrain: await openTerrainOnce(study, terrainKey) });
     if (analysed.coverage) rmSync(analysed.coverage.dir, { recursive: true, force: true });
     const out = new Map<string, Buffer>();
     for (const { kind, key } of taskEntries(t)) {
