@@ -71,7 +71,7 @@ export interface StudyCoverage {
  * A link's cache entry ("link"): its result. Its figure data is an entry of its own
  * ("link-figure", same key), read only when a figure is drawn (LinkFigureMap).
  */
-interface CachedLink {
+export interface CachedLink {
   result: LinkResult;
 }
 

@@ -1,10 +1,11 @@
 import { mkdtempSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
-import { analyzeStudy, openStudyTerrain } from "../analysis/analyze-study.ts";
+import { analyzeStudy, openStudyTerrain, type CachedLink } from "../analysis/analyze-study.ts";
 import { coverageKeyer } from "../analysis/coverage/coverage-cache-keys.ts";
 import { linkKeyer } from "../cache/cache-keys.ts";
 import { canonicalJson } from "../cache/canonical-json.ts";
+import { encodeEntry } from "../cache/entry-codec.ts";
 import { ResultCache } from "../cache/result-cache.ts";
 import { terrainSourceKey } from "../cache/terrain-source-key.ts";
 import type { Study } from "../study/study.ts";
@@ -41,8 +42,8 @@ function workerTerrainKey(study: Study): string | null {
 
 /**
  * Compute a task's cache entries on this machine, exactly as a local build computes them:
- * the study is cut down to the task's links (or its one coverage entry) and analysed with a
- * private, temporary cache, from which the entries are read. Returns each entry's bytes by
+ * the study is cut down to the task's links (or its one coverage entry) and analysed by the
+ * ordinary analyzeStudy on the terrain kept open for the worker. Returns each entry's bytes by
  * "kind:key". Throws (the task then fails and is retried) when this machine's terrain or a
  * recomputed key differs from the coordinator's, naming the difference.
  */
@@ -72,10 +73,27 @@ export async function runTask(t: TaskData, study: Study): Promise<Map<string, Bu
     if (coverageKeyer(study, terrainKey).entry(entry) !== t.keys[0]) throw new Error(`coverage ${entry.id}: the cache key computed here differs from the coordinator's`);
     sub = { ...study, links: [], chains: [], coverage: [entry] };
   }
+  const terrain = await openTerrainOnce(study, terrainKey);
+  if (t.kind === "links") {
+    // Without a cache: a cache would only remember this task's terrain queries and geodesics
+    // (many small files, which made a batch 3–8 times slower), and the entries are the same
+    // encodeEntry bytes of the same values a local build stores ("link": { result }, "link-figure").
+    const analysed = await analyzeStudy(sub, { cache: null, terrain });
+    const out = new Map<string, Buffer>();
+    for (const [i, link] of analysed.result.links.entries()) {
+      const figure = analysed.figures.get(link.id);
+      if (link.id !== t.ids[i] || !figure) throw new Error(`link ${t.ids[i]} was not computed`);
+      out.set(`link-figure:${t.keys[i]}`, encodeEntry(figure));
+      out.set(`link:${t.keys[i]}`, encodeEntry({ result: link } satisfies CachedLink));
+    }
+    return out;
+  }
+  // A coverage map: its entry (files, rasters, figure) is laid out by the coverage cache, so
+  // the map is computed through a private, temporary cache and its entry read back.
   const dir = mkdtempSync(join(tmpdir(), "ridgeline-task-"));
   try {
     const cache = new ResultCache(dir);
-    const analysed = await analyzeStudy(sub, { cache, terrain: await openTerrainOnce(study, terrainKey) });
+    const analysed = await analyzeStudy(sub, { cache, terrain });
     if (analysed.coverage) rmSync(analysed.coverage.dir, { recursive: true, force: true });
     const out = new Map<string, Buffer>();
     for (const { kind, key } of taskEntries(t)) {
