@@ -83,7 +83,7 @@ export async function distributeStudies(studies: Study[], cache: ResultCache, ta
   const fetching: Promise<void>[] = [];
   try {
     await events.waitUntilReady();
-    for (const plan of plans) if (plan.tasks.length) await putChunked(redis, studyKey(plan.sha), plan.bytes);
+    await putChunked(redis, plans.filter((plan) => plan.tasks.length).map((plan) => [studyKey(plan.sha), plan.bytes] as const));
     const finished = new Promise<void>((resolve, reject) => {
       const pending = new Set(byId.keys());
       const finish = (id: string) => {
@@ -162,12 +162,13 @@ export async function distributeStudies(studies: Study[], cache: ResultCache, ta
  */
 async function fetchResults(redis: Redis, cache: ResultCache, task: TaskData, report: QueueReport): Promise<void> {
   const t0 = performance.now();
-  for (const { kind, key } of taskEntries(task)) {
-    const bytes = await getChunked(redis, resultKey(kind, key));
+  const entries = taskEntries(task);
+  const got = await getChunked(redis, entries.map(({ kind, key }) => resultKey(kind, key)), { remove: true });
+  for (const { kind, key } of entries) {
+    const bytes = got.get(resultKey(kind, key));
     if (bytes) {
       cache.putBytes(kind, key, bytes);
       report.entries++;
-      await deleteChunked(redis, resultKey(kind, key));
     }
   }
   report.fetch_s += (performance.now() - t0) / 1000;

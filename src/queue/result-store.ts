@@ -13,35 +13,53 @@ export const MAX_VALUE_BYTES = 1024 * 1024 * 1024;
 export const STORE_TTL_S = 24 * 3600;
 
 /**
- * Store `bytes` under `key` in chunks of CHUNK_BYTES (`key:n` holds the count and size,
- * `key:0`, `key:1` … the chunks), with a time to live. Throws when the value exceeds
- * MAX_VALUE_BYTES.
+ * Store values under their keys, each in chunks of CHUNK_BYTES (`key:n` holds the count and
+ * size, `key:0`, `key:1` … the chunks), with a time to live, in one round trip (a pipeline;
+ * each value's head written after its chunks, so a reader never sees a partial value).
+ * Throws when a value exceeds MAX_VALUE_BYTES.
  */
-export async function putChunked(redis: Redis, key: string, bytes: Uint8Array): Promise<void> {
-  if (bytes.byteLength > MAX_VALUE_BYTES) {
-    throw new Error(`a result of ${(bytes.byteLength / 2 ** 20).toFixed(0)} MiB exceeds the queue's limit of ${MAX_VALUE_BYTES / 2 ** 20} MiB per cache entry; build this study without --queue`);
+export async function putChunked(redis: Redis, values: Iterable<readonly [string, Uint8Array]>): Promise<void> {
+  const p = redis.pipeline();
+  for (const [key, bytes] of values) {
+    if (bytes.byteLength > MAX_VALUE_BYTES) {
+      throw new Error(`a result of ${(bytes.byteLength / 2 ** 20).toFixed(0)} MiB exceeds the queue's limit of ${MAX_VALUE_BYTES / 2 ** 20} MiB per cache entry; build this study without --queue`);
+    }
+    const count = Math.max(1, Math.ceil(bytes.byteLength / CHUNK_BYTES));
+    const buf = Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength);
+    for (let i = 0; i < count; i++) p.set(`${key}:${i}`, buf.subarray(i * CHUNK_BYTES, (i + 1) * CHUNK_BYTES), "EX", STORE_TTL_S);
+    p.set(`${key}:n`, `${count} ${bytes.byteLength}`, "EX", STORE_TTL_S);
   }
-  const count = Math.max(1, Math.ceil(bytes.byteLength / CHUNK_BYTES));
-  const buf = Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength);
-  for (let i = 0; i < count; i++) await redis.set(`${key}:${i}`, buf.subarray(i * CHUNK_BYTES, (i + 1) * CHUNK_BYTES), "EX", STORE_TTL_S);
-  await redis.set(`${key}:n`, `${count} ${bytes.byteLength}`, "EX", STORE_TTL_S); // last: a reader never sees a partial value
+  const results = (await p.exec()) ?? [];
+  const failed = results.find(([e]) => e);
+  if (failed) throw failed[0];
 }
 
-/** A value stored by putChunked, or undefined when absent or incomplete. */
-export async function getChunked(redis: Redis, key: string): Promise<Buffer | undefined> {
-  const head = await redis.get(`${key}:n`);
-  const m = head ? /^(\d+) (\d+)$/.exec(head) : null;
-  if (!m) return undefined;
-  const count = Number(m[1]);
-  const size = Number(m[2]);
-  const parts: Buffer[] = [];
-  for (let i = 0; i < count; i++) {
-    const part = await redis.getBuffer(`${key}:${i}`);
-    if (!part) return undefined;
-    parts.push(part);
+/**
+ * Values stored by putChunked, by key (absent or incomplete ones left out), read in two round
+ * trips (the heads, then every chunk); with `remove`, deleted from Redis once read.
+ */
+export async function getChunked(redis: Redis, keys: string[], options: { remove?: boolean } = {}): Promise<Map<string, Buffer>> {
+  const out = new Map<string, Buffer>();
+  if (keys.length === 0) return out;
+  const heads = await redis.mget(...keys.map((k) => `${k}:n`));
+  const sizes = keys.map((key, j) => {
+    const m = heads[j] ? /^(\d+) (\d+)$/.exec(heads[j]!) : null;
+    return m ? { key, count: Number(m[1]), size: Number(m[2]) } : null;
+  });
+  const p = redis.pipeline();
+  for (const s of sizes) if (s) for (let i = 0; i < s.count; i++) p.getBuffer(`${s.key}:${i}`);
+  if (options.remove) for (const s of sizes) if (s) p.del(`${s.key}:n`, ...Array.from({ length: s.count }, (_, i) => `${s.key}:${i}`));
+  const results = (await p.exec()) ?? [];
+  let at = 0;
+  for (const s of sizes) {
+    if (!s) continue;
+    const parts = results.slice(at, at + s.count).map(([e, v]) => (e ? null : (v as Buffer | null)));
+    at += s.count;
+    if (parts.some((x) => !x)) continue;
+    const bytes = parts.length === 1 ? parts[0]! : Buffer.concat(parts as Buffer[]);
+    if (bytes.byteLength === s.size) out.set(s.key, bytes);
   }
-  const out = parts.length === 1 ? parts[0] : Buffer.concat(parts);
-  return out.byteLength === size ? out : undefined;
+  return out;
 }
 
 /** Delete a value stored by putChunked. */

@@ -59,10 +59,7 @@ export async function runWorker(target: RedisTarget, o: WorkerOptions): Promise<
       const study = await loadStudy(redis, studies, t, o.terrainRoot ?? null);
       const entries = await runTask(t, study);
       const t1 = performance.now();
-      for (const [id, bytes] of entries) {
-        const at = id.indexOf(":");
-        await putChunked(redis, resultKey(id.slice(0, at), id.slice(at + 1)), bytes);
-      }
+      await putChunked(redis, [...entries].map(([id, bytes]) => [resultKey(id.slice(0, id.indexOf(":")), id.slice(id.indexOf(":") + 1)), bytes] as const));
       const t2 = performance.now();
       o.log(`ridgeline worker ${o.name}: done "${t.label}" in ${((t2 - t0) / 1000).toFixed(2)} s`);
       return { worker: o.name, entries: [...entries.keys()].map((id) => ({ kind: id.slice(0, id.indexOf(":")), key: id.slice(id.indexOf(":") + 1) })), compute_s: (t1 - t0) / 1000, store_s: (t2 - t1) / 1000 };
@@ -105,7 +102,7 @@ export async function runWorker(target: RedisTarget, o: WorkerOptions): Promise<
 async function loadStudy(redis: Redis, studies: Map<string, Promise<Buffer | undefined>>, t: TaskData, terrainRoot: string | null): Promise<Study> {
   let bytes = studies.get(t.studySha);
   if (!bytes) {
-    bytes = getChunked(redis, studyKey(t.studySha));
+    bytes = getChunked(redis, [studyKey(t.studySha)]).then((m) => m.get(studyKey(t.studySha)));
     studies.set(t.studySha, bytes);
   }
   const b = await bytes;

@@ -103,6 +103,26 @@ describe("ridgeline build --queue", () => {
     await stopCli(good);
   });
 
+  it("a task that fails three times fails the build, naming the task, the worker and the error; the previous _site is kept", async () => {
+    const root = join(tmp, "failing");
+    writeQueueStudy(root, "changed-terrain");
+    const out = join(tmp, "site-local"); // a site that must survive the failed build
+    const b = startCli(["build", "--studies-dir", root, "--out", out, "--queue", redis.url, "--no-cache"]);
+    await b.waitFor(/tasks? queued/);
+    // The terrain changes under the build: every worker now reads other bytes than the coordinator hashed.
+    const tile = join(root, "changed-terrain", "dem", "S44W031.hgt");
+    const bytes = readFileSync(tile);
+    bytes[1000] ^= 0x7f;
+    writeFileSync(tile, bytes);
+    const w = worker("tired");
+    expect(await b.exited).toBe(2);
+    expect(b.output()).toMatch(/task "(links l00–l24|links l25–l43|coverage cov-a|coverage cov-b) of study changed-terrain" failed and will not be retried \(up to 3 attempts, on any worker\); last error: worker tired: the terrain \(dem in .*changed-terrain\) differs from the coordinator's/);
+    expect(w.output()).toMatch(/failed \(attempt 3\)/);
+    expect(b.output()).not.toMatch(/\n\s+at /);
+    expect(siteDifferences(treeBytes(out), localSite)).toEqual([]);
+    await stopCli(w);
+  });
+
   it("Redis unreachable: exit 2 naming the URL with its password masked and the reason; the previous _site is kept", async () => {
     const port = await freePort(); // nothing listens there
     const out = join(tmp, "site-local");
