@@ -1,3 +1,4 @@
+import { isIP } from "node:net";
 import { Redis, type RedisOptions } from "ioredis";
 import { RidgelineError } from "../errors.ts";
 import type { RedisTarget } from "./redis-url.ts";
@@ -13,7 +14,7 @@ export function redisOptions(t: RedisTarget): RedisOptions {
     db: t.db,
     username: t.username,
     password: t.password,
-    tls: t.tls ? { servername: t.host } : undefined,
+    tls: t.tls ? (isIP(t.host) ? {} : { servername: t.host }) : undefined, // SNI takes host names only
     maxRetriesPerRequest: null, // BullMQ's requirement: commands wait for a reconnection rather than fail
     connectionName: "ridgeline",
   };
