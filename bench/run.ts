@@ -34,7 +34,9 @@ if (at >= 0) {
   for (const name of Object.keys(parts)) {
     const r = spawnSync(process.execPath, ["--import", "tsx", fileURLToPath(import.meta.url), "--part", name], { encoding: "utf8", stdio: ["ignore", "pipe", "inherit"], maxBuffer: 1 << 26 });
     if (r.status !== 0) throw new Error(`bench/run.ts: the ${name} benchmark failed (exit ${r.status ?? r.signal})`);
-    report[name] = JSON.parse(r.stdout);
+    // the figures are the last line: a part that renders a site may have printed Eleventy's summary before it
+    report[name] = JSON.parse(r.stdout.trim().split("\n").pop()!);
+    process.stderr.write(`bench ${name}: ${JSON.stringify(report[name])}\n`); // each part as soon as it is done
   }
   process.stdout.write(`${JSON.stringify(report, null, 2)}\n`);
 }
