@@ -69,8 +69,9 @@ export async function distributeStudies(studies: Study[], cache: ResultCache, ta
   const events = new QueueEvents(QUEUE_NAME, { connection, prefix: KEY_PREFIX });
   queue.on("error", () => {}); // connection errors: ioredis reconnects; a lasting outage stalls the wait
   events.on("error", () => {});
-  const byId = new Map(tasks.map((t) => [taskJobId(t.kind, t.keys), t]));
-  const p: Progress = { done: 0, failed: 0, total: tasks.length, running: new Map(), perWorker: new Map() };
+  const byId = new Map(tasks.map((t) => [taskJobId(t.kind, t.keys), t])); // two studies may share a task
+  report.tasks = byId.size;
+  const p: Progress = { done: 0, failed: 0, total: byId.size, running: new Map(), perWorker: new Map() };
   const log = o.log ?? (() => {});
   let lastLog = 0;
   const show = (final = false) => {
@@ -132,13 +133,13 @@ export async function distributeStudies(studies: Study[], cache: ResultCache, ta
     });
     finished.catch(() => {}); // handled below
     await queue.addBulk(
-      tasks.map((t) => ({
+      [...byId].map(([jobId, t]) => ({
         name: t.kind,
         data: t,
-        opts: { jobId: taskJobId(t.kind, t.keys), attempts: TASK_ATTEMPTS, backoff: { type: "fixed", delay: 500 }, removeOnComplete: true, removeOnFail: true },
+        opts: { jobId, attempts: TASK_ATTEMPTS, backoff: { type: "fixed", delay: 500 }, removeOnComplete: true, removeOnFail: true },
       })),
     );
-    log(`queue: ${tasks.length} task${tasks.length === 1 ? "" : "s"} queued on ${target.display}`, true);
+    log(`queue: ${byId.size} task${byId.size === 1 ? "" : "s"} queued on ${target.display}`, true);
     await finished;
     show(true);
     report.wall_s = (performance.now() - t0) / 1000;
