@@ -4,7 +4,8 @@
 //   bin/ridgeline.js; both nodes are in the time), beside
 //   `gdal_viewshed` on the same DEM, same observer, heights and k, timed alternately in the
 //   same run (median of runs); for comparison, gdal_viewshed is also timed with the same
-//   tunable set (not part of the target, which is gdal_viewshed as installed);
+//   tunable set (not part of the target, which is gdal_viewshed as installed); all of it on the
+//   Int16 DEM and on the same DEM converted to Float32, alternating within each round;
 // - delta-Bullington: whole process; cells per second of the compute phase and of the process;
 // - peak RSS of each child process (/usr/bin/time -v).
 // Run alone: node --import tsx bench/coverage.ts  (npm run bench runs it through bench/run.ts)
@@ -127,22 +128,55 @@ export async function benchCoverage(options: CoverageBenchOptions = {}): Promise
     const common = ["--site", `${lat},${lon}`, "--antenna-m", "30", "--receiver-m", "2", "--terrain", demPath, "--radius-km", String(radius_km), "--resolution-m", String(res), "--frequency-ghz", "0.9", "--k", "4/3"];
     const oursVis = join(dir, "ours.tif");
     const gdalVis = join(dir, "gdal.tif");
-    const ours: ProcessRun[] = [];
-    const gdal: ProcessRun[] = [];
-    const gdalTuned: ProcessRun[] = [];
-    const gdalArgs = ["-q", "-ox", String(X), "-oy", String(Y), "-oz", "30", "-tz", "2", "-md", String(radius_km * 1000), "-cc", String(1 / (4 / 3)), "-vv", "1", "-iv", "0", "-ov", "255", demPath, gdalVis];
+    // The same DEM as Float32 (GDAL's conversion): the sweep reads either type, and so does gdal_viewshed.
+    const demF32 = join(dir, "dem-float32.tif");
+    const conv = spawnSync("gdal_translate", ["-q", "-ot", "Float32", demPath, demF32]);
+    if (conv.status !== 0) throw new Error(`gdal_translate -ot Float32 failed: ${conv.stderr}`);
     const tuned = { ...process.env, GLIBC_TUNABLES: ["glibc.malloc.hugetlb=1", process.env.GLIBC_TUNABLES].filter(Boolean).join(":") };
     // the command as installed (npm links bin/ridgeline.js; its first line starts node), with node from this run first on the PATH
     const path = { ...process.env, PATH: `${dirname(process.execPath)}:${process.env.PATH ?? ""}` };
+    const dems = { int16: demPath, float32: demF32 };
+    const runsOf = { int16: { ours: [] as ProcessRun[], gdal: [] as ProcessRun[], gdalTuned: [] as ProcessRun[] }, float32: { ours: [] as ProcessRun[], gdal: [] as ProcessRun[], gdalTuned: [] as ProcessRun[] } };
+    const gdalArgsFor = (dem: string) => ["-q", "-ox", String(X), "-oy", String(Y), "-oz", "30", "-tz", "2", "-md", String(radius_km * 1000), "-cc", String(1 / (4 / 3)), "-vv", "1", "-iv", "0", "-ov", "255", dem, gdalVis];
+    // Whole processes, alternating ours / GDAL / GDAL with our malloc tunable, Int16 then Float32, in each round.
     for (let k = 0; k < runs; k++) {
-      ours.push(timed(join(ROOT, "bin/ridgeline.js"), ["coverage", ...common, "--method", "visibility", "--out", oursVis], path));
-      gdal.push(timed("gdal_viewshed", gdalArgs));
-      gdalTuned.push(timed("gdal_viewshed", gdalArgs, tuned));
-      for (const r of [ours[k], gdal[k], gdalTuned[k]]) if (r.status !== 0) throw new Error(`benchmark process failed:\n${r.stderr}`);
+      for (const type of ["int16", "float32"] as const) {
+        const r = runsOf[type];
+        const common = ["--site", `${lat},${lon}`, "--antenna-m", "30", "--receiver-m", "2", "--terrain", dems[type], "--radius-km", String(radius_km), "--resolution-m", String(res), "--frequency-ghz", "0.9", "--k", "4/3"];
+        r.ours.push(timed(join(ROOT, "bin/ridgeline.js"), ["coverage", ...common, "--method", "visibility", "--out", oursVis], path));
+        r.gdal.push(timed("gdal_viewshed", gdalArgsFor(dems[type])));
+        r.gdalTuned.push(timed("gdal_viewshed", gdalArgsFor(dems[type]), tuned));
+        for (const x of [r.ours[k], r.gdal[k], r.gdalTuned[k]]) if (x.status !== 0) throw new Error(`benchmark process failed:\n${x.stderr}`);
+      }
     }
+    const { ours, gdal, gdalTuned } = runsOf.int16;
     const visOurs = median(ours.map((r) => r.wall_s));
     const visGdal = median(gdal.map((r) => r.wall_s));
-    const agree = agreement(oursVis, gdalVis, dir);
+    const agree = agreement(oursVis, gdalVis, dir); // the last pair written: Float32
+    const byType = (type: "int16" | "float32") => {
+      const r = runsOf[type];
+      const o = median(r.ours.map((x) => x.wall_s));
+      const g = median(r.gdal.map((x) => x.wall_s));
+      const gt = median(r.gdalTuned.map((x) => x.wall_s));
+      const oc = median(r.ours.map((x) => x.cpu_s));
+      const gc = median(r.gdal.map((x) => x.cpu_s));
+      return {
+        ridgeline_median_s: r3(o),
+        gdal_viewshed_median_s: r3(g),
+        gdal_viewshed_hugetlb_median_s: r3(gt),
+        /** wall-time ratio against gdal_viewshed as installed */
+        ratio: r3(o / g),
+        /** against gdal_viewshed with the same glibc tunable as ridgeline (same malloc settings) */
+        ratio_same_malloc: r3(o / gt),
+        /** CPU-time ratio (we use two threads, GDAL one) */
+        ratio_cpu: r3(oc / gc),
+        /** the worst of the wall-time ratios above */
+        ratio_worst: r3(Math.max(o / g, o / gt)),
+        target_ratio: 1.0,
+        target_met: Math.max(o / g, o / gt) <= 1.0,
+      };
+    };
+    const ratios = { int16: byType("int16"), float32: byType("float32") };
 
     const db = timed(join(ROOT, "bin/ridgeline.js"), ["coverage", ...common, "--method", "delta-bullington", "--tx-power-dbm", "43", "--thresholds-dbm", "-100,-90,-80", "--out", join(dir, "db.tif")], path);
     if (db.status !== 0) throw new Error(`benchmark process failed:\n${db.stderr}`);
@@ -155,6 +189,7 @@ export async function benchCoverage(options: CoverageBenchOptions = {}): Promise
       radius_km,
       grid_cells: n * n,
       threads: availableParallelism(),
+      visibility_ratios_by_dem_type: ratios,
       visibility: {
         ridgeline_wall_s: ours.map((r) => r3(r.wall_s)),
         gdal_viewshed_wall_s: gdal.map((r) => r3(r.wall_s)),
@@ -171,6 +206,7 @@ export async function benchCoverage(options: CoverageBenchOptions = {}): Promise
         ridgeline_phases_s: visSummary ? { read_terrain: Number(visSummary[1]), grid_elevations: Number(visSummary[2]), compute: Number(visSummary[3]), write: Number(visSummary[5]) } : null,
         ridgeline_max_rss_mib: Math.round(Math.max(...ours.map((r) => r.max_rss_mib))),
         gdal_viewshed_max_rss_mib: Math.round(Math.max(...gdal.map((r) => r.max_rss_mib))),
+        /** on the Float32 DEM (the last pair of rasters written) */
         cells_agreeing_with_gdal_pct: r3(100 * agree),
       },
       delta_bullington: {

@@ -11,15 +11,17 @@ export function benchTerrainM(lat: number, lon: number): number {
 }
 
 /**
- * Write `<dir>/study.yaml` with `links` links (5–35 km, 6–23 GHz) between 60 sites, and the
+ * Write `<dir>/study.yaml` with `links` links (5–35 km, 6–23 GHz) between `siteCount` sites
+ * (default 60; then `coverage`, YAML text of a coverage list, if given), and the
  * DEM tiles N46E007.hgt and N46E008.hgt in `<dir>/dem/`.
  */
-export function makeBenchStudy(dir: string, links = 200, options: { interference?: boolean } = {}): string {
+export function makeBenchStudy(dir: string, links = 200, options: { interference?: boolean; siteCount?: number; coverage?: string } = {}): string {
+  const { siteCount = 60, coverage = "" } = options;
   mkdirSync(join(dir, "dem"), { recursive: true });
   writeHgtTile(join(dir, "dem", "N46E007.hgt"), 46, 7, 1, benchTerrainM);
   writeHgtTile(join(dir, "dem", "N46E008.hgt"), 46, 8, 1, benchTerrainM);
   const rnd = mulberry32(2026);
-  const sites = Array.from({ length: 60 }, (_, i) => ({ id: `S${String(i).padStart(2, "0")}`, lat: 46.1 + 0.8 * rnd(), lon: 7.1 + 1.8 * rnd() }));
+  const sites = Array.from({ length: siteCount }, (_, i) => ({ id: `S${String(i).padStart(2, "0")}`, lat: 46.1 + 0.8 * rnd(), lon: 7.1 + 1.8 * rnd() }));
   const freqs = [6.175, 7.5, 11.2, 13, 15, 18.7, 23];
   const out: string[] = [];
   let tries = 0;
@@ -54,7 +56,7 @@ sites:
 ${sites.map((s) => `  - { id: ${s.id}, name: Site ${s.id}, lat_deg: ${s.lat.toFixed(5)}, lon_deg: ${s.lon.toFixed(5)} }`).join("\n")}
 links:
 ${out.join("\n")}
-${options.interference ? "interference:\n  long_term_pct: 20\n" : ""}`;
+${options.interference ? "interference:\n  long_term_pct: 20\n" : ""}${coverage}`;
   writeFileSync(join(dir, "study.yaml"), yaml);
   return join(dir, "study.yaml");
 }

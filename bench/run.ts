@@ -7,6 +7,7 @@ import { cpus, totalmem } from "node:os";
 import { fileURLToPath } from "node:url";
 import { benchCoverage } from "./coverage.ts";
 import { benchInterference } from "./interference.ts";
+import { benchLargeStudy, benchLazyTiles, benchQueue } from "./large-study.ts";
 import { benchLinks } from "./links.ts";
 import { benchRebuild } from "./rebuild.ts";
 import { benchWave } from "./wave.ts";
@@ -17,6 +18,9 @@ const parts: Record<string, () => Promise<unknown>> = {
   coverage: () => benchCoverage(),
   interference_200: benchInterference,
   wave: () => benchWave(),
+  large_study: benchLargeStudy,
+  queue: benchQueue,
+  lazy_tiles: benchLazyTiles,
 };
 
 const at = process.argv.indexOf("--part");
@@ -34,7 +38,9 @@ if (at >= 0) {
   for (const name of Object.keys(parts)) {
     const r = spawnSync(process.execPath, ["--import", "tsx", fileURLToPath(import.meta.url), "--part", name], { encoding: "utf8", stdio: ["ignore", "pipe", "inherit"], maxBuffer: 1 << 26 });
     if (r.status !== 0) throw new Error(`bench/run.ts: the ${name} benchmark failed (exit ${r.status ?? r.signal})`);
-    report[name] = JSON.parse(r.stdout);
+    // the figures are the last line: a part that renders a site may have printed Eleventy's summary before it
+    report[name] = JSON.parse(r.stdout.trim().split("\n").pop()!);
+    process.stderr.write(`bench ${name}: ${JSON.stringify(report[name])}\n`); // each part as soon as it is done
   }
   process.stdout.write(`${JSON.stringify(report, null, 2)}\n`);
 }

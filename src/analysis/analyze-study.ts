@@ -56,6 +56,8 @@ export interface AnalyzeOptions {
   onProgress?: (done: number, total: number) => void;
   /** Look results up here and store what is computed; null or absent: compute everything. */
   cache?: ResultCache | null;
+  /** The study's terrain, already open (a queue worker keeps it open from one task to the next). */
+  terrain?: Terrain;
 }
 
 /** Coverage maps of a study: the folder their files were written to, and each map's SVG. */
@@ -70,7 +72,7 @@ export interface StudyCoverage {
  * A link's cache entry ("link"): its result. Its figure data is an entry of its own
  * ("link-figure", same key), read only when a figure is drawn (LinkFigureMap).
  */
-interface CachedLink {
+export interface CachedLink {
   result: LinkResult;
 }
 
@@ -132,7 +134,7 @@ const sha256 = (b: Buffer | string): string => createHash("sha256").update(b).di
 export async function analyzeStudy(study: Study, options: AnalyzeOptions = {}): Promise<AnalyzedStudy> {
   const cache = options.cache ?? null;
   const git = gitStateAsync(study.dir); // runs while the links are read or computed
-  let terrain: Terrain | null = null;
+  let terrain: Terrain | null = options.terrain ?? null;
   const open = async (): Promise<Terrain> => (terrain ??= await openStudyTerrain(study));
   // The terrain's content key, without opening it; an unreadable file is reported by opening.
   const terrainKey = terrainSourceKey(study.terrain, study.dir, cache) ?? (await open()).fingerprint();

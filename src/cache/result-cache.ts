@@ -117,6 +117,11 @@ export class ResultCache {
     return existsSync(this.file(kind, key));
   }
 
+  /** Store an entry's bytes as they are (an entry encoded elsewhere, e.g. by a queue worker). */
+  putBytes(kind: string, key: string, bytes: Uint8Array): void {
+    this.writeFile(kind, key, bytes);
+  }
+
   /** Replace the pack `name` with these entries (key and entry bytes), atomically. */
   writePack(name: string, entries: Iterable<readonly [string, Uint8Array]>): void {
     this.writeFile("pack", name, encodePack(entries));

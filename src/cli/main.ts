@@ -14,8 +14,10 @@ Commands:
   new <study-id>        scaffold content/studies/<id>/study.yaml from a commented template
   import <file>…        sites and links from CSV, GeoJSON or KML into a study (ridgeline import --help)
   serve                 build, serve _site on http://127.0.0.1:8080 and rebuild on change (ridgeline serve --help)
+  worker --queue URL    run the tasks of builds made with build --queue URL on this machine (ridgeline worker --help)
 
 build, diff and serve keep computed link results in .ridgeline-cache/ (--no-cache to compute everything).
+build --queue redis://HOST:PORT spreads the computation over the machines running ridgeline worker.
 
 Exit codes: 0 success, 1 a design target missed (check only), 2 bad input.`;
 
@@ -32,6 +34,7 @@ const COMMANDS: Record<string, () => Promise<Command>> = {
   serve: async () => (await import("./commands/serve.ts")).serveCommand,
   new: async () => (await import("./commands/new.ts")).newCommand,
   import: async () => (await import("./commands/import.ts")).importCommand,
+  worker: async () => (await import("./commands/worker.ts")).workerCommand,
 };
 
 /** Run the CLI; returns the exit code. Bad input prints a message (no stack) and returns 2. */

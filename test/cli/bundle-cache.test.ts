@@ -182,7 +182,7 @@ describe("the real CLI bundles", () => {
     expect([...staticGraph("main.mjs")].filter((s) => !s.startsWith("./") && !s.startsWith("node:"))).toEqual([]);
     // main.ts imports each command when it is asked for: those are the bundle's dynamic imports
     const commands = [...chunk("main.mjs").matchAll(/import\("\.\/([^"]+)"\)/g)].map((m) => m[1]);
-    expect(commands.map((c) => c.split("-")[0]).sort()).toEqual(["build", "check", "coverage", "diff", "import", "new", "path", "pdf", "serve"]);
+    expect(commands.map((c) => c.split("-")[0]).sort()).toEqual(["build", "check", "coverage", "diff", "import", "new", "path", "pdf", "serve", "worker"]);
     const reaching = commands.filter((c) => staticGraph(c).has("@11ty/eleventy")).map((c) => c.split("-")[0]).sort();
     expect(reaching).toEqual(["build", "pdf", "serve"]);
   });

@@ -12,6 +12,7 @@ const PACKAGES: Record<string, string> = {
   gdal_translate: "gdal-bin",
   gdalinfo: "gdal-bin",
   pdfinfo: "poppler-utils",
+  "redis-server": "redis-server",
 };
 
 /**

@@ -22,6 +22,11 @@ const encoders = (): Record<string, string> => ({ ...sharp.versions, node_zlib: 
 
 const sha256 = (text: string): string => createHash("sha256").update(text).digest("hex");
 
+/** The fingerprint of the coverage code that coverage keys cover (for the job queue's version check). */
+export function coverageCodeFingerprint(): string {
+  return modulesFingerprint(CODE);
+}
+
 /** Cache keys of a study's coverage maps. */
 export interface CoverageKeyer {
   /** Key of one coverage entry's result, page figure, files and composite data. */

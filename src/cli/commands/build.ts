@@ -4,7 +4,7 @@ import { parseArgs } from "../args.ts";
 import { buildSite } from "../build-site.ts";
 import { findStudies, loadStudies } from "../load-all.ts";
 import { progressReporter } from "../progress.ts";
-import { removeTempDir } from "../../temp-dirs.ts";
+import { makeTempDir, removeTempDir } from "../../temp-dirs.ts";
 
 export interface BuildOptions {
   /** Study ids to build (default: every study under studiesDir). */
@@ -14,6 +14,10 @@ export interface BuildOptions {
   pathPrefix?: string;
   /** Cache folder, or null to compute everything. */
   cacheDir?: string | null;
+  /** Redis URL: compute on the workers of this queue (src/queue/), then assemble and render here. */
+  queue?: string;
+  /** Where queue progress lines go (default: nowhere). */
+  log?: (line: string, final: boolean) => void;
 }
 
 /** What a build did, for the summary line and for `serve`. */
@@ -28,25 +32,41 @@ export interface BuildReport {
   cacheUsed: boolean;
   compute_s: number;
   render_s: number;
+  /** what the queue's workers did, with --queue */
+  queue?: import("../../queue/coordinator.ts").QueueReport;
 }
 
 /** Load, analyse (with the cache) and render; throws InputError on bad input. */
 export async function runBuild(options: BuildOptions = {}): Promise<BuildReport> {
   const t0 = performance.now();
-  const cache = options.cacheDir === null ? null : new ResultCache(options.cacheDir ?? DEFAULT_CACHE_DIR);
+  // With a queue the workers' results travel through a cache: a temporary one under --no-cache.
+  const scratch = options.queue && options.cacheDir === null ? makeTempDir("ridgeline-queue-cache-") : null;
+  const cache = scratch ? new ResultCache(scratch) : options.cacheDir === null ? null : new ResultCache(options.cacheDir ?? DEFAULT_CACHE_DIR);
   const progress = progressReporter("links");
   let studies: AnalyzedStudy[];
+  let queue: BuildReport["queue"];
   try {
-    studies = await analyzeStudies(loadStudies(findStudies(options.studiesDir ?? "content/studies", options.ids)), { cache, onProgress: (_s, d, t) => progress.update(d, t) });
+    const loaded = loadStudies(findStudies(options.studiesDir ?? "content/studies", options.ids));
+    if (options.queue) {
+      const { parseRedisUrl } = await import("../../queue/redis-url.ts");
+      const target = parseRedisUrl(options.queue); // checked before anything is queued
+      const { distributeStudies } = await import("../../queue/coordinator.ts");
+      queue = await distributeStudies(loaded, cache!, target, { log: options.log });
+    }
+    studies = await analyzeStudies(loaded, { cache, onProgress: (_s, d, t) => progress.update(d, t) });
+  } catch (e) {
+    if (scratch) removeTempDir(scratch);
+    throw e;
   } finally {
     progress.stop();
   }
   const t1 = performance.now();
   let outDir: string;
   try {
-    outDir = (await buildSite(studies, { outDir: options.outDir, pathPrefix: options.pathPrefix })).outDir;
+    ({ outDir } = await buildSite(studies, { outDir: options.outDir, pathPrefix: options.pathPrefix }));
   } finally {
     for (const s of studies) if (s.coverage) removeTempDir(s.coverage.dir); // copied into the site
+    if (scratch) removeTempDir(scratch); // after rendering: figure data is read from the cache while pages are drawn
   }
   return {
     outDir,
@@ -58,6 +78,7 @@ export async function runBuild(options: BuildOptions = {}): Promise<BuildReport>
     cacheUsed: cache !== null,
     compute_s: (t1 - t0) / 1000,
     render_s: (performance.now() - t1) / 1000,
+    ...(queue ? { queue } : {}),
   };
 }
 
@@ -67,21 +88,31 @@ export async function runBuild(options: BuildOptions = {}): Promise<BuildReport>
  */
 export function buildSummary(r: BuildReport): string {
   const n = r.studies.length;
+  const workers = r.queue ? Object.keys(r.queue.workers).length : 0;
+  const queued = r.queue ? `; ${r.queue.tasks} task${r.queue.tasks === 1 ? "" : "s"} on ${workers} worker${workers === 1 ? "" : "s"}` : "";
   const maps = r.coverageMaps > 0 ? `, ${r.coverageFromCache} of ${r.coverageMaps} coverage maps from cache` : "";
   const cache = r.cacheUsed ? `${r.fromCache} of ${r.links} links from cache${maps}` : "cache off";
-  return `Built ${n} stud${n === 1 ? "y" : "ies"}, ${r.links} links into ${r.outDir} (${cache}; compute ${r.compute_s.toFixed(2)} s, render ${r.render_s.toFixed(2)} s).`;
+  return `Built ${n} stud${n === 1 ? "y" : "ies"}, ${r.links} links into ${r.outDir} (${cache}; compute ${r.compute_s.toFixed(2)} s${queued}, render ${r.render_s.toFixed(2)} s).`;
 }
 
-/** `ridgeline build [study-id…] [--out DIR] [--path-prefix /sub/] [--studies-dir DIR] [--cache-dir DIR] [--no-cache]` */
+/** `ridgeline build [study-id…] [--out DIR] [--path-prefix /sub/] [--studies-dir DIR] [--cache-dir DIR] [--no-cache] [--queue URL]` */
 export async function buildCommand(argv: string[]): Promise<number> {
-  const args = parseArgs(argv, { values: ["out", "path-prefix", "studies-dir", "cache-dir"], flags: ["no-cache"] });
+  const args = parseArgs(argv, { values: ["out", "path-prefix", "studies-dir", "cache-dir", "queue"], flags: ["no-cache"] });
   const report = await runBuild({
     ids: args.positional,
     studiesDir: args.values.get("studies-dir")?.[0],
     outDir: args.values.get("out")?.[0],
     pathPrefix: args.values.get("path-prefix")?.[0],
     cacheDir: args.flags.has("no-cache") ? null : args.values.get("cache-dir")?.[0],
+    queue: args.values.get("queue")?.[0],
+    log: queueLog(),
   });
   process.stderr.write(`${buildSummary(report)}\n`);
   return 0;
+}
+
+/** Queue progress on stderr: one line rewritten in place on a terminal, whole lines otherwise. */
+function queueLog(): (line: string, final: boolean) => void {
+  const tty = Boolean(process.stderr.isTTY);
+  return (line, final) => process.stderr.write(tty ? `\r\x1b[K${line}${final ? "\n" : ""}` : `${line}\n`);
 }

@@ -1,0 +1,212 @@
+// Benchmarks for large studies on one machine and on the job queue:
+// - a generated 1 000-link, 300-site study built cold by the whole `ridgeline build` process
+//   (compute and render times from its summary, peak RSS from /usr/bin/time);
+// - the same links, and a 4-coverage study, computed on the job queue by 1 and then 2 local
+//   workers (a redis-server started here), against the same computation in one process;
+// - a folder of 100 one-degree HGT tiles (3″) of which a study touches 2: which tiles are read.
+import { spawn, spawnSync, type ChildProcess } from "node:child_process";
+import * as fs from "node:fs";
+import { mkdtempSync, rmSync } from "node:fs";
+import { createRequire, syncBuiltinESMExports } from "node:module";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import { fileURLToPath } from "node:url";
+import { analyzeStudies } from "../src/analysis/analyze-study.ts";
+import { ResultCache } from "../src/cache/result-cache.ts";
+import { buildSite } from "../src/cli/build-site.ts";
+import { loadStudies } from "../src/cli/load-all.ts";
+import { distributeStudies, type QueueReport } from "../src/queue/coordinator.ts";
+import { parseRedisUrl } from "../src/queue/redis-url.ts";
+import { writeHgtTile } from "../src/terrain/write-hgt.ts";
+import { startRedis } from "../test/queue/redis-server.ts";
+import { benchTerrainM, makeBenchStudy } from "./make-study.ts";
+
+const ROOT = fileURLToPath(new URL("..", import.meta.url));
+const BIN = join(ROOT, "bin", "ridgeline.js");
+const r3 = (x: number) => Math.round(x * 1000) / 1000;
+
+/** `ridgeline build` as a whole process under /usr/bin/time -v: its summary's compute and render times, wall time, peak RSS. */
+function timedBuild(args: string[]) {
+  const t0 = performance.now();
+  const r = spawnSync("/usr/bin/time", ["-v", process.execPath, BIN, "build", ...args], { encoding: "utf8", cwd: ROOT, maxBuffer: 1 << 26 });
+  const wall_s = (performance.now() - t0) / 1000;
+  if (r.status !== 0) throw new Error(`ridgeline build failed:\n${r.stderr}`);
+  const m = /compute ([\d.]+) s.*render ([\d.]+) s/.exec(r.stderr);
+  const rss = /Maximum resident set size \(kbytes\): (\d+)/.exec(r.stderr);
+  const user = /User time \(seconds\): ([\d.]+)/.exec(r.stderr);
+  const sys = /System time \(seconds\): ([\d.]+)/.exec(r.stderr);
+  // CPU time beside wall time: on a machine shared with other work, wall time says more about the neighbours
+  return { wall_s: r3(wall_s), cpu_s: user && sys ? r3(Number(user[1]) + Number(sys[1])) : NaN, compute_s: m ? Number(m[1]) : NaN, render_s: m ? Number(m[2]) : NaN, max_rss_mib: rss ? Math.round(Number(rss[1]) / 1024) : NaN };
+}
+
+/** One 1 000-link, 300-site study built cold (no cache) by the whole command. */
+export async function benchLargeStudy(): Promise<Record<string, unknown>> {
+  const dir = mkdtempSync(join(tmpdir(), "ridgeline-bench-large-"));
+  try {
+    makeBenchStudy(join(dir, "studies", "large"), 1000, { siteCount: 300 });
+    const run = timedBuild(["--studies-dir", join(dir, "studies"), "--out", join(dir, "site"), "--no-cache"]);
+    // CPU time of each phase, in this process (analysis, then Eleventy): figures that the
+    // machine's other load does not inflate as it does wall times.
+    const cpu = () => { const u = process.cpuUsage(); return (u.user + u.system) / 1e6; };
+    const c0 = cpu();
+    const w0 = performance.now();
+    const analysed = await analyzeStudies(loadStudies([join(dir, "studies", "large", "study.yaml")]), { cache: null });
+    const c1 = cpu();
+    const w1 = performance.now();
+    await buildSite(analysed, { outDir: join(dir, "site-in-process") });
+    const phases = { compute_cpu_s: r3(c1 - c0), compute_wall_s: r3((w1 - w0) / 1000), render_cpu_s: r3(cpu() - c1), render_wall_s: r3((performance.now() - w1) / 1000) };
+    // The default build keeps a cache: cold, it also stores every link's terrain queries and geodesic.
+    const cached = timedBuild(["--studies-dir", join(dir, "studies"), "--out", join(dir, "site"), "--cache-dir", join(dir, "cache")]);
+    return { links: 1000, sites: 300, dem: "1″ SRTM-format tiles (generated, 2 tiles)", no_cache: run, in_process_no_cache: phases, cold_cache: cached, targets: { compute_s: 10, render_s: 30, max_rss_mib: 2048 } };
+  } finally {
+    rmSync(dir, { recursive: true, force: true });
+  }
+}
+
+const coverageYaml = (sites: string[]) =>
+  `coverage:\n${sites
+    .map(
+      (s, i) => `  - id: cov-${i}
+    site: ${s}
+    method: delta-bullington
+    frequency_ghz: 0.4585
+    antenna_m: 30
+    gain_dbi: 6
+    tx_power_dbm: 37
+    tx_losses_db: 2
+    receiver_m: 3
+    receiver_gain_dbi: 6
+    radius_km: 12
+    thresholds: [-95, -85, -75]
+`,
+    )
+    .join("")}`;
+
+function startWorker(url: string, name: string): Promise<ChildProcess> {
+  const p = spawn(process.execPath, [BIN, "worker", "--queue", url, "--name", name], { cwd: ROOT, stdio: ["ignore", "ignore", "pipe"] });
+  return new Promise((resolve, reject) => {
+    let out = "";
+    p.stderr!.on("data", (d: Buffer) => {
+      out += d.toString();
+      if (out.includes("waiting for tasks")) resolve(p);
+    });
+    p.once("exit", (c) => reject(new Error(`worker exited ${c}: ${out}`)));
+  });
+}
+
+/** Queue figures of one study: computed in this process (no queue), then on 1 and 2 workers, each from an empty cache. */
+async function queueRuns(studyDir: string, url: string) {
+  const studies = () => loadStudies([join(studyDir, "study.yaml")]);
+  const t0 = performance.now();
+  await analyzeStudies(studies(), { cache: new ResultCache(mkdtempSync(join(tmpdir(), "ridgeline-bench-cache-"))) });
+  const local_s = (performance.now() - t0) / 1000;
+  const out: Record<string, unknown> = { one_process_s: r3(local_s) };
+  const workers: ChildProcess[] = [];
+  try {
+    for (const n of [1, 2]) {
+      while (workers.length < n) workers.push(await startWorker(url, `bench-${workers.length + 1}`));
+      const cacheDir = mkdtempSync(join(tmpdir(), "ridgeline-bench-cache-"));
+      const cache = new ResultCache(cacheDir);
+      const s = studies();
+      const q0 = performance.now();
+      const report: QueueReport = await distributeStudies(s, cache, parseRedisUrl(url));
+      const q1 = performance.now();
+      await analyzeStudies(s, { cache }); // assembly from the cache (the composite, if any, is made here)
+      const q2 = performance.now();
+      rmSync(cacheDir, { recursive: true, force: true });
+      const compute = Object.values(report.workers).reduce((a, w) => a + w.compute_s, 0);
+      const store = Object.values(report.workers).reduce((a, w) => a + w.store_s, 0);
+      out[`workers_${n}`] = {
+        tasks: report.tasks,
+        queue_wall_s: r3((q1 - q0) / 1000),
+        assemble_s: r3((q2 - q1) / 1000),
+        total_s: r3((q2 - q0) / 1000),
+        task_compute_total_s: r3(compute),
+        mean_task_compute_s: r3(compute / report.tasks),
+        store_total_s: r3(store),
+        fetch_total_s: r3(report.fetch_s),
+        /** (queue wall × workers − compute) / tasks: everything a task costs beyond its computation, idle time at the end included */
+        overhead_per_task_s: r3(((q1 - q0) / 1000 * n - compute) / report.tasks),
+        overhead_pct_of_task: r3((100 * ((q1 - q0) / 1000 * n - compute)) / compute),
+        tasks_per_worker: Object.fromEntries(Object.entries(report.workers).map(([w, x]) => [w, x.done])),
+      };
+    }
+  } finally {
+    for (const w of workers) w.kill("SIGTERM");
+  }
+  const one = out.workers_1 as { total_s: number };
+  const two = out.workers_2 as { total_s: number };
+  out.speed_up_2_vs_1 = r3(one.total_s / two.total_s);
+  return out;
+}
+
+/** The 1 000-link study and a 4-coverage study on the job queue with 1 and 2 local workers. */
+export async function benchQueue(): Promise<Record<string, unknown>> {
+  const dir = mkdtempSync(join(tmpdir(), "ridgeline-bench-queue-"));
+  const redis = await startRedis();
+  try {
+    const linksDir = join(dir, "links");
+    makeBenchStudy(linksDir, 1000, { siteCount: 300 });
+    const covDir = join(dir, "coverage");
+    makeBenchStudy(covDir, 4, { coverage: coverageYaml(["S00", "S11", "S22", "S33"]) });
+    return {
+      note: "workers are local processes on the same 2 cores as the coordinator; one_process_s: the same computation in one process without the queue",
+      links_1000: await queueRuns(linksDir, redis.url),
+      coverage_4: await queueRuns(covDir, redis.url),
+    };
+  } finally {
+    await redis.stop();
+    rmSync(dir, { recursive: true, force: true });
+  }
+}
+
+/** A study touching 2 of 100 one-degree 3″ HGT tiles: tiles read for the computation, and for the cache key. */
+export async function benchLazyTiles(): Promise<Record<string, unknown>> {
+  const dir = mkdtempSync(join(tmpdir(), "ridgeline-bench-tiles-"));
+  try {
+    const study = join(dir, "studies", "tiles");
+    fs.mkdirSync(join(study, "dem"), { recursive: true });
+    for (let lat = 40; lat < 50; lat++) for (let lon = 0; lon < 10; lon++) writeHgtTile(join(study, "dem", `N${lat}E${String(lon).padStart(3, "0")}.hgt`), lat, lon, 3, benchTerrainM);
+    // the 200-link bench study's links (between N46E007 and N46E008) over this folder
+    makeBenchStudy(join(dir, "gen"), 200);
+    fs.writeFileSync(join(study, "study.yaml"), fs.readFileSync(join(dir, "gen", "study.yaml")));
+    const reads = new Map<string, number>();
+    const fsModule = createRequire(import.meta.url)("node:fs") as { readFileSync: typeof fs.readFileSync };
+    const original = fsModule.readFileSync;
+    const counting = ((path: fs.PathOrFileDescriptor, ...rest: unknown[]) => {
+      if (typeof path === "string" && path.endsWith(".hgt")) reads.set(path, (reads.get(path) ?? 0) + 1);
+      return (original as (...a: unknown[]) => unknown)(path, ...rest);
+    }) as typeof fs.readFileSync;
+    fsModule.readFileSync = counting; // and the named export every module imported, below
+    syncBuiltinESMExports();
+    const measure = async (cache: ResultCache | null) => {
+      reads.clear();
+      const t0 = performance.now();
+      await analyzeStudies(loadStudies([join(study, "study.yaml")]), { cache });
+      return { s: r3((performance.now() - t0) / 1000), tiles_read: reads.size };
+    };
+    try {
+      const noCache = await measure(null);
+      const coldCache = await measure(new ResultCache(join(dir, "cache")));
+      // Keep only the remembered file digests: the computation's own tile reads, without the key's.
+      for (const kind of fs.readdirSync(join(dir, "cache"))) if (kind !== "file-digest") rmSync(join(dir, "cache", kind), { recursive: true, force: true });
+      const digestsKnown = await measure(new ResultCache(join(dir, "cache")));
+      return {
+        tiles_in_folder: 100,
+        tile: "3″ (1201 × 1201), one degree",
+        links_between_tiles: "N46E007, N46E008",
+        /** the terrain's content key (in every link and coverage key and the provenance) reads every tile of the folder */
+        no_cache: noCache,
+        /** the same with a cache: the key's tile digests are then remembered by file identity */
+        cold_cache: coldCache,
+        /** digests remembered, results not: the tiles the computation itself reads (links, ground under sites; the overview map, drawn when the site is rendered, is not part of this) */
+        digests_remembered: digestsKnown,
+      };
+    } finally {
+      fsModule.readFileSync = original;
+      syncBuiltinESMExports();
+    }
+  } finally {
+    rmSync(dir, { recursive: true, force: true });
+  }
+}

@@ -1,0 +1,176 @@
+import { Queue, QueueEvents, type ConnectionOptions } from "bullmq";
+import type { Redis } from "ioredis";
+import type { ResultCache } from "../cache/result-cache.ts";
+import { RidgelineError } from "../errors.ts";
+import type { Study } from "../study/study.ts";
+import { connectRedis, redisOptions } from "./connect.ts";
+import { queueIdentity } from "./identity.ts";
+import { planStudy } from "./plan-tasks.ts";
+import type { RedisTarget } from "./redis-url.ts";
+import { deleteChunked, getChunked, KEY_PREFIX, putChunked, resultKey, studyKey } from "./result-store.ts";
+import { QUEUE_NAME, taskEntries, taskJobId, type TaskData, type TaskResult } from "./task.ts";
+
+/** Attempts of a task before the build fails (BullMQ retries a failed task, on any worker). */
+export const TASK_ATTEMPTS = 3;
+
+/** A task failed TASK_ATTEMPTS times (or stalled too often): the build fails naming it, its last worker and the error. */
+export class QueueTaskError extends RidgelineError {}
+
+/** What the workers did for a build. */
+export interface QueueReport {
+  tasks: number;
+  /** cache entries received from the workers */
+  entries: number;
+  /** per worker: tasks done and seconds of compute they reported */
+  workers: Record<string, { done: number; compute_s: number; store_s: number }>;
+  /** seconds from the first task queued to the last result stored in the local cache */
+  wall_s: number;
+  /** seconds spent fetching results from Redis into the local cache */
+  fetch_s: number;
+}
+
+interface Progress {
+  done: number;
+  failed: number;
+  total: number;
+  running: Map<string, string>; // job id → worker
+  perWorker: Map<string, { done: number; running: number }>;
+}
+
+/** A progress line: "tasks 12/50 done, 0 failed, 2 running — host-a:41 7 done, 1 running; …". */
+export function progressLine(p: Progress): string {
+  const running = new Map<string, number>();
+  for (const w of p.running.values()) running.set(w, (running.get(w) ?? 0) + 1);
+  const names = [...new Set([...p.perWorker.keys(), ...running.keys()])].sort();
+  const each = names.map((w) => `${w} ${p.perWorker.get(w)?.done ?? 0} done, ${running.get(w) ?? 0} running`).join("; ");
+  return `queue: tasks ${p.done}/${p.total} done, ${p.failed} failed, ${p.running.size} running${each ? ` — ${each}` : ""}`;
+}
+
+/**
+ * Compute on the workers every cache entry the studies need that `cache` lacks, and store the
+ * results in `cache`: afterwards the ordinary build finds them there, assembles and renders.
+ * Tasks are queued under content-addressed job ids; results come back through Redis (chunked,
+ * result-store.ts). Progress goes to `log` (a line on a terminal, every 10 s otherwise).
+ * @throws QueueConnectionError when Redis cannot be used, QueueTaskError when a task fails for good
+ */
+export async function distributeStudies(studies: Study[], cache: ResultCache, target: RedisTarget, o: { log?: (line: string, final: boolean) => void } = {}): Promise<QueueReport> {
+  const identity = queueIdentity();
+  const plans = studies.map((s) => planStudy(s, cache, identity));
+  const tasks = plans.flatMap((p) => p.tasks);
+  const report: QueueReport = { tasks: tasks.length, entries: 0, workers: {}, wall_s: 0, fetch_s: 0 };
+  const redis = await connectRedis(target);
+  if (tasks.length === 0) {
+    redis.disconnect();
+    return report;
+  }
+  const t0 = performance.now();
+  const connection = redisOptions(target) as ConnectionOptions; // ioredis options; BullMQ opens its own connections with them
+  const queue = new Queue<TaskData, TaskResult>(QUEUE_NAME, { connection, prefix: KEY_PREFIX });
+  const events = new QueueEvents(QUEUE_NAME, { connection, prefix: KEY_PREFIX });
+  queue.on("error", () => {}); // connection errors: ioredis reconnects; a lasting outage stalls the wait
+  events.on("error", () => {});
+  const byId = new Map(tasks.map((t) => [taskJobId(t.kind, t.keys), t])); // two studies may share a task
+  report.tasks = byId.size;
+  const p: Progress = { done: 0, failed: 0, total: byId.size, running: new Map(), perWorker: new Map() };
+  const log = o.log ?? (() => {});
+  let lastLog = 0;
+  const show = (final = false) => {
+    const now = performance.now();
+    if (!final && now - lastLog < (process.stderr.isTTY ? 250 : 10_000)) return;
+    lastLog = now;
+    log(progressLine(p), final);
+  };
+  const refusals = new Set<string>();
+  const fetching: Promise<void>[] = [];
+  try {
+    await events.waitUntilReady();
+    await putChunked(redis, plans.filter((plan) => plan.tasks.length).map((plan) => [studyKey(plan.sha), plan.bytes] as const));
+    const finished = new Promise<void>((resolve, reject) => {
+      const pending = new Set(byId.keys());
+      const finish = (id: string) => {
+        pending.delete(id);
+        if (pending.size === 0) Promise.all(fetching).then(() => resolve(), reject);
+      };
+      events.on("progress", ({ jobId, data }) => {
+        const d = data as { worker?: string; refused?: string };
+        if (!byId.has(jobId) || !d || typeof d !== "object") return;
+        if (d.refused && !refusals.has(`${d.worker}`)) {
+          refusals.add(`${d.worker}`);
+          log(`queue: worker ${d.worker} refused the tasks: ${d.refused}`, true);
+        } else if (d.worker) {
+          p.running.set(jobId, d.worker);
+          show();
+        }
+      });
+      events.on("completed", ({ jobId, returnvalue }) => {
+        const task = byId.get(jobId);
+        if (!task || !pending.has(jobId)) return;
+        const r = (typeof returnvalue === "string" ? JSON.parse(returnvalue) : returnvalue) as TaskResult;
+        p.running.delete(jobId);
+        p.done++;
+        const w = (report.workers[r.worker] ??= { done: 0, compute_s: 0, store_s: 0 });
+        w.done++;
+        w.compute_s += r.compute_s;
+        w.store_s += r.store_s;
+        const pw = p.perWorker.get(r.worker) ?? { done: 0, running: 0 };
+        pw.done++;
+        p.perWorker.set(r.worker, pw);
+        show();
+        fetching.push(fetchResults(redis, cache, task, report));
+        finish(jobId);
+      });
+      events.on("failed", ({ jobId, failedReason }) => {
+        const task = byId.get(jobId);
+        if (!task || !pending.has(jobId)) return;
+        p.failed++;
+        p.running.delete(jobId);
+        show(true);
+        const why = /stalled/i.test(failedReason)
+          ? `its workers stopped answering while running it (${failedReason}): a worker was killed each time, or the task kept a worker busy longer than its --stall-seconds`
+          : `last error: ${failedReason}`;
+        reject(new QueueTaskError(`task "${task.label}" failed and will not be retried (up to ${TASK_ATTEMPTS} attempts, on any worker); ${why}`));
+      });
+    });
+    finished.catch(() => {}); // handled below
+    await queue.addBulk(
+      [...byId].map(([jobId, t]) => ({
+        name: t.kind,
+        data: t,
+        opts: { jobId, attempts: TASK_ATTEMPTS, backoff: { type: "fixed", delay: 500 }, removeOnComplete: true, removeOnFail: true },
+      })),
+    );
+    log(`queue: ${byId.size} task${byId.size === 1 ? "" : "s"} queued on ${target.display}`, true);
+    await finished;
+    show(true);
+    report.wall_s = (performance.now() - t0) / 1000;
+    return report;
+  } catch (e) {
+    // A failed build takes its remaining tasks off the queue (those running finish on their own).
+    await Promise.all([...byId.keys()].map((id) => queue.remove(id).catch(() => 0)));
+    throw e;
+  } finally {
+    await Promise.allSettled(fetching);
+    for (const plan of plans) if (plan.tasks.length) await deleteChunked(redis, studyKey(plan.sha)).catch(() => {});
+    await Promise.allSettled([events.close(), queue.close()]);
+    redis.disconnect();
+  }
+}
+
+/**
+ * Copy a finished task's entries from Redis into the local cache, then delete them there. An
+ * entry missing from Redis (taken by another coordinator, say) is simply computed by the local
+ * build that follows.
+ */
+async function fetchResults(redis: Redis, cache: ResultCache, task: TaskData, report: QueueReport): Promise<void> {
+  const t0 = performance.now();
+  const entries = taskEntries(task);
+  const got = await getChunked(redis, entries.map(({ kind, key }) => resultKey(kind, key)), { remove: true });
+  for (const { kind, key } of entries) {
+    const bytes = got.get(resultKey(kind, key));
+    if (bytes) {
+      cache.putBytes(kind, key, bytes);
+      report.entries++;
+    }
+  }
+  report.fetch_s += (performance.now() - t0) / 1000;
+}

@@ -1,0 +1,54 @@
+import { createHash } from "node:crypto";
+import { relative, isAbsolute } from "node:path";
+import { coverageKeyer } from "../analysis/coverage/coverage-cache-keys.ts";
+import { linkKeyer } from "../cache/cache-keys.ts";
+import type { ResultCache } from "../cache/result-cache.ts";
+import { terrainSourceKey } from "../cache/terrain-source-key.ts";
+import type { Study } from "../study/study.ts";
+import type { QueueIdentity } from "./identity.ts";
+import { encodeStudy, type TaskData } from "./task.ts";
+
+/**
+ * Links per task: at about 4 ms a link (all methods, README performance table) a batch is
+ * about 0.1 s of work, enough that the queue's own cost per task (a few ms) stays small, and
+ * short enough that the worker's event loop renews its task lock in time.
+ */
+export const LINKS_PER_TASK = 25;
+
+/** A study's tasks, with the bytes the workers load it from. */
+export interface StudyPlan {
+  study: Study;
+  bytes: Buffer;
+  sha: string;
+  tasks: TaskData[];
+}
+
+/**
+ * The tasks of a study: the cache entries it needs that `cache` lacks — terrain links in
+ * batches of LINKS_PER_TASK, in study order, and each coverage map on its own. Links with a
+ * surveyed profile (no terrain, microseconds each) and the multi-site composite (made from
+ * its members' rasters once they are in the cache) are left to the coordinator's own build,
+ * as is a study whose terrain cannot be read (the build then reports why).
+ */
+export function planStudy(study: Study, cache: ResultCache, identity: QueueIdentity, cwd = process.cwd(), linksPerTask = LINKS_PER_TASK): StudyPlan {
+  const bytes = encodeStudy(study);
+  const sha = createHash("sha256").update(bytes).digest("hex");
+  const plan: StudyPlan = { study, bytes, sha, tasks: [] };
+  const terrainKey = terrainSourceKey(study.terrain, study.dir, cache);
+  if (terrainKey === null) return plan;
+  const rel = relative(cwd, study.dir);
+  const base = { studySha: sha, studyDir: study.dir, studyDirRel: rel.startsWith("..") || isAbsolute(rel) ? null : rel, terrainKey, identity };
+  const keyOf = linkKeyer(study, terrainKey);
+  const missing = study.links.filter((l) => !l.profile_csv).map((l) => ({ id: l.id, key: keyOf(l, null) })).filter((l) => !(cache.has("link", l.key) && cache.has("link-figure", l.key)));
+  for (let i = 0; i < missing.length; i += linksPerTask) {
+    const batch = missing.slice(i, i + linksPerTask);
+    const span = batch.length === 1 ? batch[0].id : `${batch[0].id}–${batch[batch.length - 1].id}`;
+    plan.tasks.push({ ...base, kind: "links", label: `links ${span} of study ${study.id}`, keys: batch.map((l) => l.key), ids: batch.map((l) => l.id) });
+  }
+  const keyer = coverageKeyer(study, terrainKey);
+  for (const entry of study.coverage ?? []) {
+    const key = keyer.entry(entry);
+    if (!cache.has("coverage", key)) plan.tasks.push({ ...base, kind: "coverage", label: `coverage ${entry.id} of study ${study.id}`, keys: [key], ids: [entry.id] });
+  }
+  return plan;
+}
