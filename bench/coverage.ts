@@ -14,7 +14,7 @@ import { availableParallelism, tmpdir } from "node:os";
 import { dirname, join } from "node:path";
 import { fileURLToPath } from "node:url";
 import { writeGeoTiff } from "../src/geo/geotiff-writer.ts";
-import { crsFromEpsg } from "../src/terrain/crs-from-epsg.ts";
+import { crsFromEpsg } from "../src/geo/crs-from-epsg.ts";
 import { mulberry32 } from "../src/terrain/mulberry32.ts";
 import { FractalNoise } from "../src/terrain/value-noise.ts";
 

@@ -250,7 +250,7 @@ export async function analyzeStudy(study: Study, options: AnalyzeOptions = {}): 
     const dir = mkdtempSync(join(tmpdir(), `ridgeline-coverage-${study.id}-`));
     // loaded only for a study with coverage: it brings the raster encoders (sharp), which the
     // link analysis, `ridgeline path` and `check` of a links-only study do not need
-    const { cachedStudyCoverage } = await import("./coverage/coverage-cache.ts");
+    const { cachedStudyCoverage } = await import("../coverage/coverage-cache.ts");
     const cov = await cachedStudyCoverage(study, { outDir: dir, cache, terrainKey, openTerrain: open });
     coverageResults = cov.results; // without compute time: no clock in results
     coverageCache = cov.cache;

@@ -1,5 +1,5 @@
 import type { ChainResult } from "./chains.ts";
-import type { CoverageResult } from "./coverage/coverage-result.ts";
+import type { CoverageResult } from "../coverage/coverage-result.ts";
 import type { ReflectionResult } from "./link-reflection.ts";
 
 /** Plain-JSON results of a study (no NaN: the boundary turns NaN into errors or null with a warning). */

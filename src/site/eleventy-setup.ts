@@ -1,4 +1,4 @@
-import { loadAllStudies } from "../cli/load-all.ts";
+import { loadAllStudies } from "../analysis/load-all.ts";
 import { cssString } from "./css-string.ts";
 import { formatDuration, formatNumber, formatSmall } from "./format.ts";
 import { linkFresnelSvg, linkHeightGainSvg, linkProfileSvg } from "./link-figures.ts";

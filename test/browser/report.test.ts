@@ -7,7 +7,7 @@ import type { BrowserContext, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { buildSite } from "../../src/cli/build-site.ts";
 import { pdfCommand } from "../../src/cli/commands/pdf.ts";
-import { loadAllStudies } from "../../src/cli/load-all.ts";
+import { loadAllStudies } from "../../src/analysis/load-all.ts";
 import { launchChromium } from "../../src/render/pdf/chromium.ts";
 import { printPdf } from "../../src/render/pdf/print-pdf.ts";
 import { IMG_TEXT, SCRIPT_TEXT, writeHostileStudy } from "./hostile-study.ts";

@@ -2,7 +2,7 @@ import { analyzeStudies, type AnalyzedStudy } from "../../analysis/analyze-study
 import { DEFAULT_CACHE_DIR, ResultCache } from "../../cache/result-cache.ts";
 import { parseArgs } from "../args.ts";
 import { buildSite } from "../build-site.ts";
-import { findStudies, loadStudies } from "../load-all.ts";
+import { findStudies, loadStudies } from "../../analysis/load-all.ts";
 import { progressReporter } from "../progress.ts";
 
 export interface BuildOptions {

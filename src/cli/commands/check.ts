@@ -1,7 +1,7 @@
 import type { AnalyzedStudy } from "../../analysis/analyze-study.ts";
 import { formatNumber } from "../../site/format.ts";
 import { parseArgs } from "../args.ts";
-import { loadAllStudies } from "../load-all.ts";
+import { loadAllStudies } from "../../analysis/load-all.ts";
 import { progressReporter } from "../progress.ts";
 
 /** One row of the check table. */

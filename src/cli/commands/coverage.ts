@@ -57,19 +57,19 @@ export async function coverageCommand(argv: string[]): Promise<number> {
   // requests stay in this thread.
   const estimate = ((2 * radius_km * 1000) / resolution_m) ** 2;
   const nThreads = threads ?? (estimate < 2e6 ? 0 : availableParallelism());
-  const [{ CoveragePool }, { lineOfSightOnly }] = await Promise.all([import("../../analysis/coverage/coverage-pool.ts"), import("../../analysis/coverage/horizon-sweep.ts")]);
+  const [{ CoveragePool }, { lineOfSightOnly }] = await Promise.all([import("../../coverage/coverage-pool.ts"), import("../../coverage/horizon-sweep.ts")]);
   const clearance_f1 = num("clearance-f1", 0, (x) => x >= 0 && x <= 5, "a fraction of the first Fresnel radius from 0 to 5");
   const pool = nThreads > 0 ? CoveragePool.start(nThreads, lineOfSightOnly(method, clearance_f1) ? { warmUp: "line-of-sight" } : {}) : null;
   if (TIMINGS) void pool?.whenReady().then(() => mark("threads ready"));
   // Heavy modules load only for this command (nothing below may throw before the try that closes the pool, but a failing import).
   const [{ prepareCoverage, runCoverage }, { CoverageError }, { parseTerrainArg, openTerrain }, { TerrainError }, { writeGeoTiff }, { coverageResult }, { crsFromEpsg }] = await Promise.all([
-    import("../../analysis/coverage/compute-coverage.ts"),
-    import("../../analysis/coverage/coverage-error.ts"),
+    import("../../coverage/compute-coverage.ts"),
+    import("../../coverage/coverage-error.ts"),
     import("../../terrain/open-terrain.ts"),
     import("../../terrain/terrain-error.ts"),
     import("../../geo/geotiff-writer.ts"),
-    import("../../analysis/coverage/coverage-result.ts"),
-    import("../../terrain/crs-from-epsg.ts"),
+    import("../../coverage/coverage-result.ts"),
+    import("../../geo/crs-from-epsg.ts"),
   ]).catch(async (e) => {
     await pool?.close();
     throw e;

@@ -12,7 +12,7 @@ import { DEFAULT_THRESHOLDS, type DiffThresholds, type StudiesDiff } from "../..
 import { changesPageHtml } from "../../render/html/changes-page.ts";
 import { InputError } from "../../study/input-error.ts";
 import { numberArg, parseArgs, UsageError } from "../args.ts";
-import { findStudies, loadStudies } from "../load-all.ts";
+import { findStudies, loadStudies } from "../../analysis/load-all.ts";
 
 export const DIFF_USAGE = `Usage: ridgeline diff <rev> [<rev>] [--studies-dir DIR] [--out DIR] [--json]
          [--fade-margin-db X] [--availability-pct X] [--clearance-f1 X] [--cache-dir DIR] [--no-cache]

@@ -4,7 +4,7 @@ import { launchChromium } from "../../render/pdf/chromium.ts";
 import { printPdf } from "../../render/pdf/print-pdf.ts";
 import { parseArgs, UsageError } from "../args.ts";
 import { buildSite } from "../build-site.ts";
-import { findStudies, loadAllStudies } from "../load-all.ts";
+import { findStudies, loadAllStudies } from "../../analysis/load-all.ts";
 
 /**
  * `ridgeline pdf <study-id> [--out DIR] [--studies-dir DIR] [--paper a4|letter]`: print the

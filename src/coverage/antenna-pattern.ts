@@ -1,4 +1,4 @@
-import { patternTableProblem } from "../../study/pattern-table.ts";
+import { patternTableProblem } from "../study/pattern-table.ts";
 import { CoverageError } from "./coverage-error.ts";
 
 /** A transmitting antenna's pattern as given: attenuation (dB, ≥ 0) against angle (deg). */

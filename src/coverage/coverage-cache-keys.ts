@@ -1,9 +1,9 @@
 import { createHash } from "node:crypto";
 import sharp from "sharp";
-import { toolIdentity } from "../../cache/cache-keys.ts";
-import { canonicalJson } from "../../cache/canonical-json.ts";
-import { modulesFingerprint } from "../../cache/code-fingerprint.ts";
-import type { CoverageInput, Study } from "../../study/study.ts";
+import { toolIdentity } from "../cache/cache-keys.ts";
+import { canonicalJson } from "../cache/canonical-json.ts";
+import { modulesFingerprint } from "../cache/code-fingerprint.ts";
+import type { CoverageInput, Study } from "../study/study.ts";
 
 /**
  * The modules whose code computes a coverage, writes its files and lays out its cache entry;

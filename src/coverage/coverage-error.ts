@@ -1,4 +1,4 @@
-import { RidgelineError } from "../../errors.ts";
+import { RidgelineError } from "../errors.ts";
 
 /**
  * A coverage request that cannot be computed as given: too many cells, a site off the DEM,

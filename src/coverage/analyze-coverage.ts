@@ -1,12 +1,12 @@
 import { elevationsFloat32 } from "./elevation-window.ts";
 import { availableParallelism } from "node:os";
 import { join } from "node:path";
-import type { GroundClass } from "../../physics/ground-constants.ts";
-import type { CoverageMapData } from "../../render/coverage-map.ts";
-import { InputError } from "../../study/input-error.ts";
-import { parseK } from "../../study/load-study.ts";
-import type { CoverageInput, Study } from "../../study/study.ts";
-import type { Terrain } from "../../terrain/terrain.ts";
+import type { GroundClass } from "../physics/ground-constants.ts";
+import type { CoverageMapData } from "../render/coverage-map.ts";
+import { InputError } from "../study/input-error.ts";
+import { parseK } from "../study/load-study.ts";
+import type { CoverageInput, Study } from "../study/study.ts";
+import type { Terrain } from "../terrain/terrain.ts";
 import { computeCoverage, type ComputedCoverage } from "./compute-coverage.ts";
 import { CoverageError } from "./coverage-error.ts";
 import { CoveragePool } from "./coverage-pool.ts";

@@ -1,10 +1,10 @@
-import { EARTH_RADIUS_M, wavelengthM } from "../../physics/constants.ts";
-import { dryPressureFromTotalHpa, gasSpecificAttenuation, GAS_P676_VALIDITY } from "../../physics/gas-attenuation.ts";
-import { groundConstants } from "../../physics/ground-constants.ts";
-import { hataLoss } from "../../physics/hata.ts";
-import type { ShareDecode } from "../../terrain/geotiff.ts";
-import type { Terrain } from "../../terrain/terrain.ts";
-import { rangeWarning } from "../range-warning.ts";
+import { EARTH_RADIUS_M, wavelengthM } from "../physics/constants.ts";
+import { dryPressureFromTotalHpa, gasSpecificAttenuation, GAS_P676_VALIDITY } from "../physics/gas-attenuation.ts";
+import { groundConstants } from "../physics/ground-constants.ts";
+import { hataLoss } from "../physics/hata.ts";
+import type { ShareDecode } from "../terrain/geotiff.ts";
+import type { Terrain } from "../terrain/terrain.ts";
+import { rangeWarning } from "../analysis/range-warning.ts";
 import { planCoverageGrid, type CoverageGrid } from "./coverage-grid.ts";
 import { LEVEL_NODATA, VISIBILITY_NODATA, type CoverageJob } from "./coverage-job.ts";
 import { runInThisThread, type CoveragePool, type CoverageProgress } from "./coverage-pool.ts";

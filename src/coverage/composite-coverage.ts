@@ -1,5 +1,5 @@
-import { crsFromEpsg } from "../../terrain/crs-from-epsg.ts";
-import { metresPerDegree } from "../../terrain/metres-per-degree.ts";
+import { crsFromEpsg } from "../geo/crs-from-epsg.ts";
+import { metresPerDegree } from "../terrain/metres-per-degree.ts";
 import { pointScale, type CoverageGrid } from "./coverage-grid.ts";
 import { LEVEL_NODATA, VISIBILITY_NODATA } from "./coverage-job.ts";
 

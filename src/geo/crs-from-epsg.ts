@@ -1,4 +1,4 @@
-import { utmZone } from "../geo/transverse-mercator.ts";
+import { utmZone } from "./transverse-mercator.ts";
 
 /** A coordinate reference system the terrain readers understand, with its projection. */
 export interface Crs {

@@ -1,4 +1,4 @@
-import { INT16_NODATA } from "../../terrain/tiff-band-reader.ts";
+import { INT16_NODATA } from "../terrain/tiff-band-reader.ts";
 
 /** What the sweep needs of the grid (plain numbers, sent to worker threads). */
 export interface SweepGeometry {

@@ -1,11 +1,11 @@
 import { mkdirSync, readFileSync, writeFileSync } from "node:fs";
 import { availableParallelism } from "node:os";
 import { join } from "node:path";
-import { decodeEntry } from "../../cache/entry-codec.ts";
-import type { ResultCache } from "../../cache/result-cache.ts";
-import { coverageMapSvg, type CoverageMapData } from "../../render/coverage-map.ts";
-import type { CoverageInput, Study } from "../../study/study.ts";
-import type { Terrain } from "../../terrain/terrain.ts";
+import { decodeEntry } from "../cache/entry-codec.ts";
+import type { ResultCache } from "../cache/result-cache.ts";
+import { coverageMapSvg, type CoverageMapData } from "../render/coverage-map.ts";
+import type { CoverageInput, Study } from "../study/study.ts";
+import type { Terrain } from "../terrain/terrain.ts";
 import { analyzeCoverage, compositeMemberOf, type CoverageOptions } from "./analyze-coverage.ts";
 import { coverageKeyer } from "./coverage-cache-keys.ts";
 import { CoveragePool } from "./coverage-pool.ts";

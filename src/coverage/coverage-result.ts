@@ -1,4 +1,4 @@
-import { crsFromEpsg } from "../../terrain/crs-from-epsg.ts";
+import { crsFromEpsg } from "../geo/crs-from-epsg.ts";
 import type { ComputedCoverage } from "./compute-coverage.ts";
 import { fieldStrengthDbuvM } from "./field-strength.ts";
 

@@ -1,6 +1,6 @@
 import { existsSync, readdirSync } from "node:fs";
 import { join, resolve } from "node:path";
-import { analyzeStudies, type AnalyzedStudy } from "../analysis/analyze-study.ts";
+import { analyzeStudies, type AnalyzedStudy } from "./analyze-study.ts";
 import { DEFAULT_CACHE_DIR, ResultCache } from "../cache/result-cache.ts";
 import { InputError, type InputProblem } from "../study/input-error.ts";
 import { loadStudy } from "../study/load-study.ts";

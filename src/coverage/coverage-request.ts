@@ -1,5 +1,5 @@
-import type { GroundClass } from "../../physics/ground-constants.ts";
-import type { HataCitySize, HataEnvironment } from "../../physics/hata.ts";
+import type { GroundClass } from "../physics/ground-constants.ts";
+import type { HataCitySize, HataEnvironment } from "../physics/hata.ts";
 import { buildPatternTables, type AntennaPatternInput, type PatternTables } from "./antenna-pattern.ts";
 import { CoverageError } from "./coverage-error.ts";
 import type { CoverageMethod } from "./coverage-job.ts";

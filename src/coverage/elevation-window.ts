@@ -1,6 +1,6 @@
-import type { ShareDecode } from "../../terrain/geotiff.ts";
-import { INT16_NODATA, type PixelWindow } from "../../terrain/tiff-band-reader.ts";
-import type { Terrain } from "../../terrain/terrain.ts";
+import type { ShareDecode } from "../terrain/geotiff.ts";
+import { INT16_NODATA, type PixelWindow } from "../terrain/tiff-band-reader.ts";
+import type { Terrain } from "../terrain/terrain.ts";
 import { cellCentreLatLon, type CoverageGrid } from "./coverage-grid.ts";
 import { uniformMetric } from "./radial-sweep.ts";
 

@@ -2,7 +2,7 @@
 // chunks of it on request and answers with each chunk's tally.
 import { closeSync, openSync } from "node:fs";
 import { parentPort } from "node:worker_threads";
-import { decodeBands, type PixelWindow, type TiffBandSource } from "../../terrain/tiff-band-reader.ts";
+import { decodeBands, type PixelWindow, type TiffBandSource } from "../terrain/tiff-band-reader.ts";
 import type { CoverageJob } from "./coverage-job.ts";
 import { createChunkRunner } from "./coverage-kernel.ts";
 import { warmUpHorizonSweep } from "./horizon-sweep.ts";

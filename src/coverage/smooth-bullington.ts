@@ -1,4 +1,4 @@
-import { knifeEdgeLossApprox } from "../../physics/knife-edge.ts";
+import { knifeEdgeLossApprox } from "../physics/knife-edge.ts";
 
 /**
  * Bullington loss Lbull (dB) of the smooth profile of the delta-Bullington method: zero heights

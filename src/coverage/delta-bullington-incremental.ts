@@ -1,4 +1,4 @@
-import { knifeEdgeLossApprox } from "../../physics/knife-edge.ts";
+import { knifeEdgeLossApprox } from "../physics/knife-edge.ts";
 import { BLOCK1, BLOCK2, hullHighestAboveSlope, hullTangentFromRight, type RadialProfile } from "./radial-profile.ts";
 import { smoothBullington } from "./smooth-bullington.ts";
 import { sphericalEarthLossScalar, type SphericalGround } from "./spherical-earth-scalar.ts";

@@ -1,5 +1,5 @@
 import { Worker } from "node:worker_threads";
-import type { PixelWindow, TiffBandSource } from "../../terrain/tiff-band-reader.ts";
+import type { PixelWindow, TiffBandSource } from "../terrain/tiff-band-reader.ts";
 import type { CoverageJob } from "./coverage-job.ts";
 import { coverageUnits, createChunkRunner } from "./coverage-kernel.ts";
 import { mergeTallies, type TallyData } from "./coverage-tally.ts";

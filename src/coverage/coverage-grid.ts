@@ -1,8 +1,8 @@
 import geographiclib from "geographiclib-geodesic";
-import { utmEpsgFor } from "../../geo/utm-zone.ts";
-import { crsFromEpsg, type Crs } from "../../terrain/crs-from-epsg.ts";
-import { metresPerDegree } from "../../terrain/metres-per-degree.ts";
-import type { Terrain } from "../../terrain/terrain.ts";
+import { utmEpsgFor } from "../geo/utm-zone.ts";
+import { crsFromEpsg, type Crs } from "../geo/crs-from-epsg.ts";
+import { metresPerDegree } from "../terrain/metres-per-degree.ts";
+import type { Terrain } from "../terrain/terrain.ts";
 import { CoverageError } from "./coverage-error.ts";
 
 const { Geodesic } = geographiclib as unknown as typeof import("geographiclib-geodesic");

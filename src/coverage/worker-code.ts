@@ -29,7 +29,7 @@ interface Manifest {
 
 function bundled(entry: string): string {
   const req = createRequire(import.meta.url);
-  const root = resolve(dirname(entry), "../../..");
+  const root = resolve(dirname(entry), "../..");
   const cacheDir = join(root, "node_modules", ".cache", "ridgeline");
   const codePath = join(cacheDir, "coverage-worker.cjs");
   const manifestPath = join(cacheDir, "coverage-worker.json");

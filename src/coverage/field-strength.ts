@@ -1,4 +1,4 @@
-import { wavelengthM } from "../../physics/constants.ts";
+import { wavelengthM } from "../physics/constants.ts";
 
 /** Impedance of free space used with field strength (Ω), 120π (common practice). */
 const Z0_OHM = 120 * Math.PI;

@@ -1,4 +1,4 @@
-import { INT16_NODATA } from "../../terrain/tiff-band-reader.ts";
+import { INT16_NODATA } from "../terrain/tiff-band-reader.ts";
 import { CoverageTally } from "./coverage-tally.ts";
 import { faceAxes, radialSample, siteMetric, uniformMetric, type SweepGeometry } from "./radial-sweep.ts";
 

@@ -1,7 +1,7 @@
 import { join } from "node:path";
-import { writeGeoTiff } from "../../geo/geotiff-writer.ts";
-import type { CoverageMapData } from "../../render/coverage-map.ts";
-import type { Study } from "../../study/study.ts";
+import { writeGeoTiff } from "../geo/geotiff-writer.ts";
+import type { CoverageMapData } from "../render/coverage-map.ts";
+import type { Study } from "../study/study.ts";
 import { compositeAreas, compositeCoverage } from "./composite-coverage.ts";
 import { cellCentreLatLon, type CoverageGrid } from "./coverage-grid.ts";
 import { formatDb, type CoverageResult } from "./coverage-result.ts";
