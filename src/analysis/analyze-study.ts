@@ -9,6 +9,7 @@ import { fileDigest } from "../cache/file-digest.ts";
 import { modulesFingerprint } from "../cache/code-fingerprint.ts";
 import { memoGeodesicPath } from "../cache/memo-geodesic.ts";
 import { MemoTerrain, TerrainQueryMiss } from "../cache/memo-terrain.ts";
+import type { CoverageOutputStage } from "../coverage/coverage-output-stage.ts";
 import type { ResultCache } from "../cache/result-cache.ts";
 import { terrainSourceKey } from "../cache/terrain-source-key.ts";
 import { InputError, type InputProblem } from "../study/input-error.ts";
@@ -55,6 +56,12 @@ export interface AnalyzeOptions {
   onProgress?: (done: number, total: number) => void;
   /** Look results up here and store what is computed; null or absent: compute everything. */
   cache?: ResultCache | null;
+  /**
+   * Loads the stage that writes coverage files and figures (`loadCoverageOutputStage`,
+   * src/render/coverage-output-loader.ts); needed for a study with coverage. Analysis never
+   * imports render: the caller above both hands it in.
+   */
+  coverageOutputs?: () => Promise<CoverageOutputStage>;
 }
 
 /** Coverage maps of a study: the folder their files were written to, and each map's SVG. */
@@ -251,7 +258,7 @@ export async function analyzeStudy(study: Study, options: AnalyzeOptions = {}): 
     // loaded only for a study with coverage: it brings the raster encoders (sharp), which the
     // link analysis, `ridgeline path` and `check` of a links-only study do not need
     const { cachedStudyCoverage } = await import("../coverage/coverage-cache.ts");
-    const cov = await cachedStudyCoverage(study, { outDir: dir, cache, terrainKey, openTerrain: open });
+    const cov = await cachedStudyCoverage(study, { outDir: dir, outputs: await options.coverageOutputs?.(), cache, terrainKey, openTerrain: open });
     coverageResults = cov.results; // without compute time: no clock in results
     coverageCache = cov.cache;
     warnings.push(...cov.warnings);
@@ -318,13 +325,13 @@ export async function analyzeStudy(study: Study, options: AnalyzeOptions = {}): 
  */
 export async function analyzeStudies(
   studies: Study[],
-  options: { cache?: ResultCache | null; onProgress?: (study: string, done: number, total: number) => void } = {},
+  options: Omit<AnalyzeOptions, "onProgress"> & { onProgress?: (study: string, done: number, total: number) => void } = {},
 ): Promise<AnalyzedStudy[]> {
   const out: AnalyzedStudy[] = [];
   const problems: InputProblem[] = [];
   for (const s of studies) {
     try {
-      out.push(await analyzeStudy(s, { cache: options.cache, onProgress: (d, t) => options.onProgress?.(s.id, d, t) }));
+      out.push(await analyzeStudy(s, { cache: options.cache, coverageOutputs: options.coverageOutputs, onProgress: (d, t) => options.onProgress?.(s.id, d, t) }));
     } catch (e) {
       if (e instanceof InputError) problems.push(...e.problems);
       else throw e;

@@ -1,6 +1,7 @@
 import { existsSync, readdirSync } from "node:fs";
 import { join, resolve } from "node:path";
 import { analyzeStudies, type AnalyzedStudy } from "./analyze-study.ts";
+import type { CoverageOutputStage } from "../coverage/coverage-output-stage.ts";
 import { DEFAULT_CACHE_DIR, ResultCache } from "../cache/result-cache.ts";
 import { InputError, type InputProblem } from "../study/input-error.ts";
 import { loadStudy } from "../study/load-study.ts";
@@ -47,8 +48,8 @@ export function loadStudies(files: string[]): Study[] {
  */
 export async function loadAllStudies(
   root: string,
-  options: { ids?: string[]; cache?: ResultCache | null; onProgress?: (study: string, done: number, total: number) => void } = {},
+  options: { ids?: string[]; cache?: ResultCache | null; coverageOutputs?: () => Promise<CoverageOutputStage>; onProgress?: (study: string, done: number, total: number) => void } = {},
 ): Promise<AnalyzedStudy[]> {
   const cache = options.cache === undefined ? new ResultCache(DEFAULT_CACHE_DIR) : options.cache;
-  return analyzeStudies(loadStudies(findStudies(root, options.ids)), { cache, onProgress: options.onProgress });
+  return analyzeStudies(loadStudies(findStudies(root, options.ids)), { cache, coverageOutputs: options.coverageOutputs, onProgress: options.onProgress });
 }

@@ -2,7 +2,6 @@ import { elevationsFloat32 } from "./elevation-window.ts";
 import { availableParallelism } from "node:os";
 import { join } from "node:path";
 import type { GroundClass } from "../physics/ground-constants.ts";
-import type { CoverageMapData } from "../render/coverage-map.ts";
 import { InputError } from "../study/input-error.ts";
 import { parseK } from "../study/load-study.ts";
 import type { CoverageInput, Study } from "../study/study.ts";
@@ -14,7 +13,7 @@ import type { CoverageRequest, FieldNames } from "./coverage-request.ts";
 import { coverageResult, formatDb, thresholdAreas, type CoverageResult } from "./coverage-result.ts";
 import { isotropicPowerDbm } from "./field-strength.ts";
 import { studyComposite, type CompositeMember, type CompositeOutputs } from "./study-composite.ts";
-import { coverageRaster, writeCoverageOutputs } from "./write-coverage-outputs.ts";
+import { coverageRaster, requireOutputStage, type CoverageFigure, type CoverageOutputStage } from "./coverage-output-stage.ts";
 
 /** Study field names of the request's quantities (for messages). */
 const STUDY_FIELDS: FieldNames = {
@@ -27,6 +26,8 @@ const STUDY_FIELDS: FieldNames = {
 export interface CoverageOptions {
   /** folder for the coverage files (GeoTIFF, PNGs, GeoJSON, KML) */
   outDir: string;
+  /** writes the files and page figure (src/render/coverage-outputs.ts) */
+  outputs?: CoverageOutputStage;
   /** worker threads; null or absent computes in the calling thread */
   pool?: CoveragePool | null;
   /** called with (coverage id, phase, done, total) */
@@ -39,7 +40,7 @@ export interface AnalyzedCoverage {
   /** absolute paths of the files written */
   files: Record<string, string>;
   /** data for the page's coverage map (coverageMapSvg) and the SVG itself */
-  figure: CoverageMapData;
+  figure: CoverageFigure;
   svg: string;
   computed: ComputedCoverage;
 }
@@ -116,7 +117,7 @@ export async function analyzeCoverage(study: Study, entry: CoverageInput, terrai
   const labels = entry.threshold_unit === "dBuV/m" ? entry.thresholds.map((e) => `≥ ${formatDb(e)} dBµV/m`) : undefined;
   const areas = thresholdAreas(computed, labels);
   const title = `${entry.id}: ${methodName(entry.method)} from ${site.name}, ${entry.frequency_ghz} GHz, radius ${entry.radius_km} km`;
-  const out = await writeCoverageOutputs(coverageRaster(computed, title, areas, { name: site.name, lat_deg: site.lat_deg, lon_deg: site.lon_deg }), { dir: options.outDir, stem: entry.id });
+  const out = await requireOutputStage(options.outputs).write(coverageRaster(computed, title, areas, { name: site.name, lat_deg: site.lat_deg, lon_deg: site.lon_deg }), { dir: options.outDir, stem: entry.id });
   const result = coverageResult(entry.id, [site.id], computed, out.files, labels);
   const files = Object.fromEntries(Object.entries(out.files).map(([k, f]) => [k, join(options.outDir, f)]));
   return { result, files, figure: out.figure, svg: out.svg, computed };
@@ -148,7 +149,7 @@ export async function analyzeStudyCoverage(
   const results = items.map((it) => it.result);
   const levels = items.map(compositeMemberOf).filter((m) => m !== null);
   if (levels.length < 2) return { results, items, composite: null, warnings };
-  const comp = await studyComposite(study, levels, options.outDir);
+  const comp = await studyComposite(study, levels, options.outDir, requireOutputStage(options.outputs));
   if ("warning" in comp) {
     warnings.push(comp.warning);
     return { results, items, composite: null, warnings };

@@ -8,9 +8,10 @@ import type { CoverageInput, Study } from "../study/study.ts";
 /**
  * The modules whose code computes a coverage, writes its files and lays out its cache entry;
  * the fingerprint follows their project imports (compute, kernel, render, GeoTIFF writer…).
- * The worker is named on its own: the threads load it by URL, not by an import.
+ * The worker is named on its own: the threads load it by URL, not by an import; so is the
+ * render stage that writes the files, which the caller hands in (coverage-output-stage.ts).
  */
-const CODE = ["./analyze-coverage.ts", "./coverage-worker.ts", "./study-composite.ts", "./coverage-cache.ts"].map((m) => new URL(m, import.meta.url).href);
+const CODE = ["./analyze-coverage.ts", "./coverage-worker.ts", "./study-composite.ts", "./coverage-cache.ts", "../render/coverage-outputs.ts"].map((m) => new URL(m, import.meta.url).href);
 
 /**
  * Versions of the libraries that encode the output files (libvips, libpng, librsvg and the

@@ -3,11 +3,11 @@ import { availableParallelism } from "node:os";
 import { join } from "node:path";
 import { decodeEntry } from "../cache/entry-codec.ts";
 import type { ResultCache } from "../cache/result-cache.ts";
-import { coverageMapSvg, type CoverageMapData } from "../render/coverage-map.ts";
 import type { CoverageInput, Study } from "../study/study.ts";
 import type { Terrain } from "../terrain/terrain.ts";
 import { analyzeCoverage, compositeMemberOf, type CoverageOptions } from "./analyze-coverage.ts";
 import { coverageKeyer } from "./coverage-cache-keys.ts";
+import { requireOutputStage, type CoverageFigure, type CoverageOutputStage } from "./coverage-output-stage.ts";
 import { CoveragePool } from "./coverage-pool.ts";
 import type { CoverageResult } from "./coverage-result.ts";
 import { studyComposite, type CompositeMember, type CompositeOutputs } from "./study-composite.ts";
@@ -15,6 +15,8 @@ import { studyComposite, type CompositeMember, type CompositeOutputs } from "./s
 export interface CachedCoverageOptions {
   /** folder for the coverage files (GeoTIFF, PNGs, GeoJSON, KML); created */
   outDir: string;
+  /** writes the files and page figures (src/render/coverage-outputs.ts) */
+  outputs?: CoverageOutputStage;
   /** look maps up here and store what is computed; null computes everything */
   cache: ResultCache | null;
   /** the study's terrain source key (terrainSourceKey) */
@@ -30,7 +32,7 @@ export interface CachedCoverageOptions {
 export interface StudyCoverageMap {
   result: CoverageResult;
   files: Record<string, string>;
-  figure: CoverageMapData;
+  figure: CoverageFigure;
   svg: string;
 }
 
@@ -54,14 +56,14 @@ interface StoredFile {
 /** A coverage entry's cache entry (the SVG is rebuilt from the figure: coverageMapSvg is pure). */
 interface CoverageEntry {
   result: CoverageResult;
-  figure: CoverageMapData;
+  figure: CoverageFigure;
   files: StoredFile[];
   /** what the composite needs of a level coverage; null for visibility */
   member: Omit<CompositeMember, "result"> | null;
 }
 
 /** The composite's cache entry: its map, or why there is none. */
-type CompositeEntry = { warning: string } | { result: CoverageResult; figure: CoverageMapData; files: StoredFile[] };
+type CompositeEntry = { warning: string } | { result: CoverageResult; figure: CoverageFigure; files: StoredFile[] };
 
 /**
  * Every coverage map of a study, each read from the cache or computed, then the multi-site
@@ -90,14 +92,14 @@ export async function cachedStudyCoverage(study: Study, o: CachedCoverageOptions
       const hit = bytes ? coverageHit(decodeEntry(bytes, { views: true }), entry) : null;
       let member: CompositeMember | null;
       if (hit) {
-        const map = restore(hit, o.outDir);
+        const map = restore(hit, o.outDir, requireOutputStage(o.outputs));
         run.items.push(map);
         member = hit.member && { result: map.result, ...hit.member };
         run.cache.hits++;
       } else {
         const workers = o.workers ?? availableParallelism();
         if (pool === undefined) pool = workers > 0 ? CoveragePool.start(workers) : null; // threads load while the terrain opens
-        const a = await analyzeCoverage(study, entry, await o.openTerrain(), { outDir: o.outDir, pool, index: i, onProgress: o.onProgress });
+        const a = await analyzeCoverage(study, entry, await o.openTerrain(), { outDir: o.outDir, outputs: o.outputs, pool, index: i, onProgress: o.onProgress });
         const { compute_s: _clock, ...result } = a.result; // no clock in results
         run.items.push({ result, files: a.files, figure: a.figure, svg: a.svg });
         const m = compositeMemberOf(a);
@@ -130,13 +132,13 @@ async function addComposite(run: CachedStudyCoverage, study: Study, members: Com
     return;
   }
   if (hit) {
-    const map = restore(hit, o.outDir);
+    const map = restore(hit, o.outDir, requireOutputStage(o.outputs));
     run.results.push(map.result);
     run.composite = { files: map.files, figure: map.figure, svg: map.svg };
     run.cache.hits++;
     return;
   }
-  const comp = await studyComposite(study, members, o.outDir);
+  const comp = await studyComposite(study, members, o.outDir, requireOutputStage(o.outputs));
   if ("warning" in comp) {
     run.warnings.push(comp.warning);
     if (key) o.cache!.put("coverage", key, comp satisfies CompositeEntry);
@@ -150,10 +152,10 @@ async function addComposite(run: CachedStudyCoverage, study: Study, members: Com
 }
 
 /** Write a cached map's files into dir; its JSON, absolute file paths, figure and SVG. */
-function restore(e: { result: CoverageResult; figure: CoverageMapData; files: StoredFile[] }, dir: string): StudyCoverageMap {
+function restore(e: { result: CoverageResult; figure: CoverageFigure; files: StoredFile[] }, dir: string, outputs: CoverageOutputStage): StudyCoverageMap {
   for (const f of e.files) writeFileSync(join(dir, f.name), f.bytes);
   const files = Object.fromEntries(Object.entries(e.result.files).map(([k, f]) => [k, join(dir, f)]));
-  return { result: e.result, files, figure: e.figure, svg: coverageMapSvg(e.figure) };
+  return { result: e.result, files, figure: e.figure, svg: outputs.svg(e.figure) };
 }
 
 /** The bytes of the files a map wrote (names relative to dir). */
@@ -167,7 +169,7 @@ function readFiles(dir: string, files: Record<string, string>): StoredFile[] {
 const FILE_NAME = /^[A-Za-z0-9][A-Za-z0-9._-]*$/;
 
 /** The map part of a decoded entry when it is well formed (files named plainly and all present). */
-function mapOk(v: unknown): v is { result: CoverageResult; figure: CoverageMapData; files: StoredFile[] } {
+function mapOk(v: unknown): v is { result: CoverageResult; figure: CoverageFigure; files: StoredFile[] } {
   const e = v as Partial<CoverageEntry> | null;
   if (!e || typeof e !== "object" || typeof e.result?.id !== "string" || typeof e.figure?.image_href !== "string" || !Array.isArray(e.files)) return false;
   if (!e.files.every((f) => typeof f?.name === "string" && FILE_NAME.test(f.name) && f.bytes instanceof Uint8Array)) return false;

@@ -1,11 +1,10 @@
 import { join } from "node:path";
 import { writeGeoTiff } from "../geo/geotiff-writer.ts";
-import type { CoverageMapData } from "../render/coverage-map.ts";
 import type { Study } from "../study/study.ts";
 import { compositeAreas, compositeCoverage } from "./composite-coverage.ts";
 import { cellCentreLatLon, type CoverageGrid } from "./coverage-grid.ts";
 import { formatDb, type CoverageResult } from "./coverage-result.ts";
-import { writeCoverageOutputs } from "./write-coverage-outputs.ts";
+import type { CoverageFigure, CoverageOutputStage } from "./coverage-output-stage.ts";
 
 /**
  * What the multi-site composite reads of one level coverage: its JSON, thresholds (dBm), grid
@@ -24,7 +23,7 @@ export interface CompositeMember {
 /** The composite's files (absolute paths), page figure and SVG. */
 export interface CompositeOutputs {
   files: Record<string, string>;
-  figure: CoverageMapData;
+  figure: CoverageFigure;
   svg: string;
 }
 
@@ -34,7 +33,7 @@ export interface CompositeOutputs {
  * Returns its JSON (compute_s 0) and outputs, or a warning when the coverages cannot be
  * combined (e.g. different coordinate systems). Call it with two or more members.
  */
-export async function studyComposite(study: Study, levels: CompositeMember[], outDir: string): Promise<{ result: CoverageResult; outputs: CompositeOutputs } | { warning: string }> {
+export async function studyComposite(study: Study, levels: CompositeMember[], outDir: string, outputs: CoverageOutputStage): Promise<{ result: CoverageResult; outputs: CompositeOutputs } | { warning: string }> {
   const comp = compositeCoverage(levels);
   if (typeof comp === "string") return { warning: `No multi-site composite: ${comp}.` };
   const thresholds = [...new Set(levels.flatMap((it) => it.thresholds_dbm))].sort((a, b) => a - b);
@@ -48,7 +47,7 @@ export async function studyComposite(study: Study, levels: CompositeMember[], ou
     return { name: s.name, lat_deg: s.lat_deg, lon_deg: s.lon_deg, col: it.grid.site_col + comp.offsets[k][0], row: it.grid.site_row + comp.offsets[k][1] };
   });
   const title = `Composite of ${levels.map((it) => it.result.id).join(", ")}: strongest level`;
-  const out = await writeCoverageOutputs(
+  const out = await outputs.write(
     { title, values: comp.level, dem: comp.dem, width: comp.width, height: comp.height, geoTransform: comp.geoTransform, epsg: comp.epsg, cell_m: comp.cell_m, kind: "level", areas, sites: crsSites },
     { dir: outDir, stem: "composite" },
   );

@@ -5,6 +5,7 @@ import { linkFresnelSvg, linkHeightGainSvg, linkProfileSvg } from "./link-figure
 import { relativeUrl } from "./relative-url.ts";
 import { analyzedStudy, getAnalyzedStudies, setAnalyzedStudies, siteData } from "./site-data.ts";
 import { studyMapSvg } from "./study-map.ts";
+import { loadCoverageOutputStage } from "../render/coverage-output-loader.ts";
 
 // Eleventy's config object is untyped here; only the calls below are used.
 interface EleventyConfig {
@@ -28,7 +29,7 @@ export default function ridgelineSite(eleventyConfig: EleventyConfig): void {
     let studies = getAnalyzedStudies();
     if (!studies) {
       // Eleventy run on its own (npx @11ty/eleventy): analyse the studies here.
-      studies = await loadAllStudies("content/studies");
+      studies = await loadAllStudies("content/studies", { coverageOutputs: loadCoverageOutputStage });
       setAnalyzedStudies(studies);
     }
     maps.clear();

@@ -12,6 +12,7 @@ import { launchChromium } from "../../src/render/pdf/chromium.ts";
 import { printPdf } from "../../src/render/pdf/print-pdf.ts";
 import { IMG_TEXT, SCRIPT_TEXT, writeHostileStudy } from "./hostile-study.ts";
 import { serveStatic } from "./static-server.ts";
+import { loadCoverageOutputStage } from "../../src/render/coverage-output-loader.ts";
 
 // The whole report site in a real browser (Debian's chromium through playwright-core): the
 // demo study and a study whose names carry markup, built into a temporary folder and served
@@ -84,7 +85,7 @@ beforeAll(async () => {
   cpSync(resolve("content/studies", DEMO), join(studies, DEMO), { recursive: true });
   hostileId = writeHostileStudy(studies);
   site = join(work, "site");
-  const analysed = await loadAllStudies(studies);
+  const analysed = await loadAllStudies(studies, { coverageOutputs: loadCoverageOutputStage });
   await buildSite(analysed, { outDir: site });
   demoLinks = analysed.find((s) => s.study.id === DEMO)!.result.links.map((l) => l.id);
   hostileLinks = analysed.find((s) => s.study.id === hostileId)!.result.links.map((l) => l.id);

@@ -4,6 +4,7 @@ import { parseArgs } from "../args.ts";
 import { buildSite } from "../build-site.ts";
 import { findStudies, loadStudies } from "../../analysis/load-all.ts";
 import { progressReporter } from "../progress.ts";
+import { loadCoverageOutputStage } from "../../render/coverage-output-loader.ts";
 
 export interface BuildOptions {
   /** Study ids to build (default: every study under studiesDir). */
@@ -36,7 +37,7 @@ export async function runBuild(options: BuildOptions = {}): Promise<BuildReport>
   const progress = progressReporter("links");
   let studies: AnalyzedStudy[];
   try {
-    studies = await analyzeStudies(loadStudies(findStudies(options.studiesDir ?? "content/studies", options.ids)), { cache, onProgress: (_s, d, t) => progress.update(d, t) });
+    studies = await analyzeStudies(loadStudies(findStudies(options.studiesDir ?? "content/studies", options.ids)), { cache, coverageOutputs: loadCoverageOutputStage, onProgress: (_s, d, t) => progress.update(d, t) });
   } finally {
     progress.stop();
   }

@@ -3,6 +3,7 @@ import { formatNumber } from "../../site/format.ts";
 import { parseArgs } from "../args.ts";
 import { loadAllStudies } from "../../analysis/load-all.ts";
 import { progressReporter } from "../progress.ts";
+import { loadCoverageOutputStage } from "../../render/coverage-output-loader.ts";
 
 /** One row of the check table. */
 export interface CheckRow {
@@ -37,7 +38,7 @@ export function checkRows(studies: AnalyzedStudy[]): CheckRow[] {
 export async function checkCommand(argv: string[]): Promise<number> {
   const args = parseArgs(argv, { values: ["studies-dir"], flags: ["json"] });
   const progress = progressReporter("links");
-  const studies = await loadAllStudies(args.values.get("studies-dir")?.[0] ?? "content/studies", { ids: args.positional, onProgress: (_s, d, t) => progress.update(d, t) });
+  const studies = await loadAllStudies(args.values.get("studies-dir")?.[0] ?? "content/studies", { ids: args.positional, coverageOutputs: loadCoverageOutputStage, onProgress: (_s, d, t) => progress.update(d, t) });
   progress.stop();
   const rows = checkRows(studies);
   const missed = rows.filter((r) => !r.target_met).length;

@@ -1,43 +1,15 @@
-import { elevationsFloat32 } from "./elevation-window.ts";
 import { mkdirSync, writeFileSync } from "node:fs";
 import { join } from "node:path";
 import { writeGeoTiff } from "../geo/geotiff-writer.ts";
 import { isobandsGeoJson } from "../geo/isobands.ts";
 import { coverageKml } from "../geo/kml.ts";
 import { crsFromEpsg } from "../geo/crs-from-epsg.ts";
-import { coverageMapSvg, type CoverageMapData } from "../render/coverage-map.ts";
-import { coverageMapData, coverageMapPng } from "../render/raster/coverage-map-data.ts";
-import { overlayPng } from "../render/raster/coverage-overlay.ts";
-import { thresholdColors, VISIBLE_COLOR } from "../render/raster/coverage-palette.ts";
-import type { ComputedCoverage } from "./compute-coverage.ts";
-import { LEVEL_NODATA, VISIBILITY_NODATA } from "./coverage-job.ts";
-import type { ThresholdArea } from "./coverage-result.ts";
-
-/** The raster and drawing a coverage is written as (or the multi-site composite). */
-export interface CoverageRaster {
-  title: string;
-  values: Float32Array | Uint8Array;
-  /** elevations on the same grid (for the map's hillshade) */
-  dem: Float32Array;
-  width: number;
-  height: number;
-  geoTransform: [number, number, number, number, number, number];
-  epsg: number;
-  /** ground metres per cell across and down */
-  cell_m: [number, number];
-  kind: "level" | "visibility";
-  areas: ThresholdArea[];
-  sites: { name: string; col: number; row: number; lat_deg: number; lon_deg: number }[];
-}
-
-export interface WriteOptions {
-  /** folder to write into (created) */
-  dir: string;
-  /** file name stem, e.g. the coverage id */
-  stem: string;
-  /** GeoTIFF compression, default "deflate" */
-  compression?: "none" | "deflate";
-}
+import { coverageMapSvg, type CoverageMapData } from "./coverage-map.ts";
+import { coverageMapData, coverageMapPng } from "./raster/coverage-map-data.ts";
+import { overlayPng } from "./raster/coverage-overlay.ts";
+import { thresholdColors, VISIBLE_COLOR } from "./raster/coverage-palette.ts";
+import type { CoverageOutputStage, CoverageRaster, WriteOptions } from "../coverage/coverage-output-stage.ts";
+import { LEVEL_NODATA, VISIBILITY_NODATA } from "../coverage/coverage-job.ts";
 
 /**
  * Write a coverage's files: `<stem>.tif` (GeoTIFF: float32 received level in dBm with nodata
@@ -105,24 +77,11 @@ export async function writeCoverageOutputs(r: CoverageRaster, o: WriteOptions): 
   return { files, figure, svg };
 }
 
-/** The raster description of one computed coverage. */
-export function coverageRaster(c: ComputedCoverage, title: string, areas: ThresholdArea[], site: { name: string; lat_deg: number; lon_deg: number }): CoverageRaster {
-  const g = c.grid;
-  const row = Math.min(g.height - 1, Math.max(0, Math.round(g.site_row)));
-  return {
-    title,
-    values: c.values,
-    dem: elevationsFloat32(c.dem),
-    width: g.width,
-    height: g.height,
-    geoTransform: g.geoTransform,
-    epsg: g.epsg,
-    cell_m: [Math.abs(g.east_per_col_m[row]), Math.abs(g.north_per_row_m[row])],
-    kind: c.request.method === "visibility" ? "visibility" : "level",
-    areas,
-    sites: [{ ...site, col: g.site_col, row: g.site_row }],
-  };
-}
+/** The render stage coverage analysis writes through (coverage never imports render). */
+export const coverageOutputStage: CoverageOutputStage = {
+  write: (r, o) => writeCoverageOutputs(r, o),
+  svg: (figure) => coverageMapSvg(figure as CoverageMapData),
+};
 
 function fmtArea(km2: number): string {
   return km2 >= 100 ? `${km2.toFixed(0)} km²` : km2 >= 1 ? `${km2.toFixed(1)} km²` : `${km2.toFixed(3)} km²`;
