@@ -1,3 +1,4 @@
+import { inverseComplementaryNormal } from "./itu-path-geometry.ts";
 import { bullingtonFromArrays, type BullingtonResult } from "./bullington.ts";
 import { isComputablePath, pathLambdaM, type DiffractionPath } from "./profile.ts";
 import { smoothEarthHeights } from "./smooth-earth-heights.ts";
@@ -109,4 +110,85 @@ function nanResult(): DeltaBullingtonResult {
     bullington_actual: b, bullington_smooth: { ...b },
     spherical: { Ldsph: NaN, dlos_m: NaN, transhorizon: false, hse_m: NaN, hreq_m: NaN, aem_m: NaN, Ldft: NaN },
   };
+}
+
+/** Ground, polarisation and wavelength of `deltaBullingtonOverSurface`. */
+export interface SurfaceDiffractionOptions {
+  /** wavelength (m) used by the Bullington parts and hreq */
+  lambda_m: number;
+  /** fraction of the path over sea, 0–1 */
+  omega: number;
+  /** polarisation "h" or "v" */
+  polarization: "h" | "v";
+  /** frequency (GHz): the spherical-Earth first term in the Recommendations' practical units */
+  frequency_ghz?: number;
+}
+
+/** Ld and its parts from `deltaBullingtonOverSurface` (dB). */
+export interface SurfaceDiffractionLoss {
+  Ld: number;
+  Lbulla: number;
+  Lbulls: number;
+  Ldsph: number;
+}
+
+/**
+ * Delta-Bullington diffraction loss (dB) when the smooth surface heights hstd, hsrd come
+ * from the caller's path analysis (the profile of the Bullington part may differ from the
+ * terrain that defines the surface, e.g. terrain plus representative clutter).
+ * Method: ITU-R P.1812-6 §4.3.4 / P.452-18 §4.2.3 (same scheme as `deltaBullingtonLoss`):
+ *   Lbulla = Bullington loss of the profile g with hts, hrs (eq. (21));
+ *   hts' = hts − hstd, hrs' = hrs − hsrd (eq. (37a), (37b));
+ *   Lbulls = Bullington loss of a zero-height profile with hts', hrs' (eq. (21));
+ *   Ldsph = spherical-Earth loss for hts', hrs' (eq. (22)–(27));
+ *   Ld = Lbulla + max(Ldsph − Lbulls, 0) (eq. (39)).
+ * Equation numbers of P.1812-6. hts' or hrs' below 0 give NaN (antenna under the surface).
+ * @param d_m distances from Tx (m)
+ * @param g_m profile heights amsl for the Bullington part (m)
+ * @param hts_m Tx antenna height amsl (m)
+ * @param hrs_m Rx antenna height amsl (m)
+ * @param hstd_m smooth surface at Tx (m amsl)
+ * @param hsrd_m smooth surface at Rx (m amsl)
+ * @param ae_m effective Earth radius (m)
+ * @param options wavelength, sea fraction, polarisation, frequency
+ * @returns Ld, Lbulla, Lbulls, Ldsph (dB)
+ */
+export function deltaBullingtonOverSurface(
+  d_m: ArrayLike<number>,
+  g_m: ArrayLike<number>,
+  hts_m: number,
+  hrs_m: number,
+  hstd_m: number,
+  hsrd_m: number,
+  ae_m: number,
+  options: SurfaceDiffractionOptions,
+): SurfaceDiffractionLoss {
+  const lambda = options.lambda_m;
+  const Lbulla = bullingtonFromArrays(d_m, g_m, hts_m, hrs_m, lambda, ae_m).Lbull; // P.1812-6 eq. (21)
+  const hts1 = hts_m - hstd_m; // P.1812-6 eq. (37a)
+  const hrs1 = hrs_m - hsrd_m; // P.1812-6 eq. (37b)
+  const Lbulls = bullingtonFromArrays(d_m, null, hts1, hrs1, lambda, ae_m).Lbull; // P.1812-6 eq. (21)
+  const sph = sphericalEarthDiffractionLoss(d_m[d_m.length - 1], hts1, hrs1, ae_m, lambda, {
+    omega: options.omega,
+    polarization: options.polarization,
+    frequency_ghz: options.frequency_ghz,
+  });
+  const Ld = Lbulla + Math.max(sph.Ldsph - Lbulls, 0); // P.1812-6 eq. (39)
+  return { Ld: Number.isNaN(sph.Ldsph) ? NaN : Ld, Lbulla, Lbulls, Ldsph: sph.Ldsph };
+}
+
+/**
+ * Diffraction loss not exceeded for p % of time from the losses at 50 % (ae) and β0 % (aβ).
+ * Method: P.1812-6 eq. (40a), (41) (P.452-18 eq. (41a), (41)):
+ *   Fi = I(p/100)/I(β0/100) for p > β0, else 1; Ldp = Ld50 + Fi·(Ldβ − Ld50); p = 50 gives Ld50.
+ * @param p_pct time percentage (%), 0 < p ≤ 50
+ * @param beta0_pct β0 (%)
+ * @param Ld50_db diffraction loss for ae (dB)
+ * @param Ldbeta_db diffraction loss for aβ (dB)
+ * @returns Ldp (dB)
+ */
+export function diffractionLossForTime(p_pct: number, beta0_pct: number, Ld50_db: number, Ldbeta_db: number): number {
+  if (p_pct >= 50) return Ld50_db;
+  const Fi = p_pct > beta0_pct ? inverseComplementaryNormal(p_pct / 100) / inverseComplementaryNormal(beta0_pct / 100) : 1; // P.1812-6 eq. (40a)
+  return Ld50_db + Fi * (Ldbeta_db - Ld50_db); // P.1812-6 eq. (41)
 }

@@ -82,7 +82,10 @@ export function sphericalEarthDiffractionLoss(
   const h = ((h1 - (d1 * d1) / (2 * a)) * d2 + (h2 - (d2 * d2) / (2 * a)) * d1) / d; // P.526-15 §3.2 (h)
   // d1·d2 ≥ 0 exactly (0 ≤ b ≤ 1); rounding can leave it a few ulp below 0 when b → 1.
   const d1d2 = d1 * d2 > 0 ? d1 * d2 : 0;
-  const hreq = 0.552 * Math.sqrt((d1d2 * lambda) / d); // P.526-15 §3.2 (hreq)
+  // with options.frequency_ghz (the practical-unit form of P.1812-6 / P.452-18), the printed
+  // constant 17.456 (km units) is kept: 17.456/sqrt(1000) = 0.55201, not 0.552
+  const hreqConst = options.frequency_ghz !== undefined ? 17.456 / Math.sqrt(1000) : 0.552;
+  const hreq = hreqConst * Math.sqrt((d1d2 * lambda) / d); // P.526-15 §3.2 (hreq); P.1812-6 eq. (25) // P.526-15 §3.2 (hreq)
   if (h > hreq) {
     return { Ldsph: 0, dlos_m: dlos, transhorizon: false, hse_m: h, hreq_m: hreq, aem_m: NaN, Ldft: NaN };
   }

@@ -8,6 +8,12 @@ export interface FirstTermOptions {
   epsilon_r?: number;
   /** conductivity of land (S/m) (default 0.003) */
   sigma_s_m?: number;
+  /**
+   * frequency (GHz): when given, the practical-unit form of P.1812-6 eq. (29)–(36) and
+   * P.452-18 §4.2.2.1 (constants 0.036, 21.88, 0.9575 with f in GHz, km) is used, as those
+   * Recommendations print it; otherwise the SI form of P.526-15
+   */
+  frequency_ghz?: number;
 }
 
 /**
@@ -49,9 +55,10 @@ export function sphericalEarthFirstTermLoss(
   const vertical = options.polarization === "v";
   const epsilonR = options.epsilon_r ?? 22;
   const sigma = options.sigma_s_m ?? 0.003;
-  const land = firstTerm(d_m, hte_m, hre_m, adft_m, lambda_m, epsilonR, sigma, vertical);
+  const f = options.frequency_ghz;
+  const land = f !== undefined ? firstTermPractical(d_m, hte_m, hre_m, adft_m, f, epsilonR, sigma, vertical) : firstTerm(d_m, hte_m, hre_m, adft_m, lambda_m, epsilonR, sigma, vertical);
   if (omega === 0) return land;
-  const sea = firstTerm(d_m, hte_m, hre_m, adft_m, lambda_m, 80, 5, vertical);
+  const sea = f !== undefined ? firstTermPractical(d_m, hte_m, hre_m, adft_m, f, 80, 5, vertical) : firstTerm(d_m, hte_m, hre_m, adft_m, lambda_m, 80, 5, vertical);
   return omega * sea + (1 - omega) * land; // P.452-17 §4.2.2.1 (Ldft, land/sea mix)
 }
 
@@ -70,6 +77,27 @@ function firstTerm(d: number, h1: number, h2: number, a: number, lambda: number,
   const Fx = X >= 1.6 ? 11 + 10 * Math.log10(X) - 17.6 * X : -20 * Math.log10(X) - 5.6488 * Math.pow(X, 1.425); // P.526-15 §3.1.1.2 (F(X))
   const Gmin = 2 + 20 * Math.log10(K);
   return -Fx - heightGain(beta * Y1, Gmin) - heightGain(beta * Y2, Gmin); // P.526-15 §3.1.1.2 (L = −F − G − G)
+}
+
+/**
+ * −F(X) − G(Y1) − G(Y2) in the practical units of P.1812-6 eq. (29)–(36) (= P.452-18
+ * §4.2.2.1): K_H = 0.036·(a·f)^(−1/3)·[(εr − 1)² + (18σ/f)²]^(−1/4), K_V = K_H·[εr² + (18σ/f)²]^(1/2),
+ * X = 21.88·β·(f/a²)^(1/3)·d, Y = 0.9575·β·(f²/a)^(1/3)·h (a, d in km, h in m, f in GHz).
+ */
+function firstTermPractical(d_m: number, h1: number, h2: number, a_m: number, f: number, epsilonR: number, sigma: number, vertical: boolean): number {
+  const a = a_m / 1000;
+  const d = d_m / 1000;
+  const s18 = (18 * sigma) / f;
+  const KH = 0.036 * Math.cbrt(1 / (a * f)) * Math.pow((epsilonR - 1) ** 2 + s18 * s18, -0.25); // P.1812-6 eq. (29a)
+  const K = vertical ? KH * Math.sqrt(epsilonR * epsilonR + s18 * s18) : KH; // P.1812-6 eq. (29b)
+  const K2 = K * K;
+  const K4 = K2 * K2;
+  const beta = (1 + 1.6 * K2 + 0.67 * K4) / (1 + 4.5 * K2 + 1.53 * K4); // P.1812-6 eq. (30)
+  const X = 21.88 * beta * Math.cbrt(f / (a * a)) * d; // P.1812-6 eq. (31)
+  const yScale = 0.9575 * beta * Math.cbrt((f * f) / a);
+  const Fx = X >= 1.6 ? 11 + 10 * Math.log10(X) - 17.6 * X : -20 * Math.log10(X) - 5.6488 * Math.pow(X, 1.425); // P.1812-6 eq. (33)
+  const Gmin = 2 + 20 * Math.log10(K);
+  return -Fx - heightGain(beta * yScale * h1, Gmin) - heightGain(beta * yScale * h2, Gmin); // P.1812-6 eq. (32), (34)–(36)
 }
 
 /** Height-gain function G(Y) (dB) of P.526-15 §3.1.1.2 with B = β·Y, floored at Gmin. */

@@ -1,0 +1,87 @@
+/** Inputs of `ductingLayerReflectionLoss` (one object can be reused per call). */
+export interface AnomalousInput {
+  /** path length d (km) */
+  d_km: number;
+  /** horizon distances dlt, dlr (km) */
+  dlt_km: number;
+  dlr_km: number;
+  /** distances over land from Tx/Rx to the coast (km), 0 for a terminal at sea */
+  dct_km: number;
+  dcr_km: number;
+  /** longest continuous inland section dlm (km) */
+  dlm_km: number;
+  /** antenna heights amsl hts, hrs (m) */
+  hts_m: number;
+  hrs_m: number;
+  /** effective heights for ducting hte, hre (m) */
+  hte_m: number;
+  hre_m: number;
+  /** terrain roughness hm (m) */
+  hm_m: number;
+  /** horizon elevation angles θt, θr (mrad) */
+  theta_t_mrad: number;
+  theta_r_mrad: number;
+  /** frequency (GHz) */
+  f_ghz: number;
+  /** time percentage p (%) */
+  p_pct: number;
+  /** sea fraction ω */
+  omega: number;
+  /** median effective Earth radius ae (km) */
+  ae_km: number;
+  /** β0 (%) */
+  beta0_pct: number;
+  /** P.1812 adds the low-frequency correction Alf below 0.5 GHz; P.452 does not */
+  low_frequency_correction: boolean;
+}
+
+/**
+ * Basic transmission loss Lba (dB) during anomalous propagation (ducting and layer
+ * reflection), without gaseous absorption (P.452 adds its Ag to this).
+ * Method: ITU-R P.1812-6 §4.5 eq. (46)–(56a); ITU-R P.452-18 §4.4 eq. (46)–(56a) (the same
+ * except the low-frequency term Alf of P.1812 and the Ag of P.452):
+ *   Lba = Af + Ad(p) (eq. (46));
+ *   Af = 102.45 + 20·log f + 20·log(dlt + dlr) + Alf + Ast + Asr + Act + Acr (eq. (47)),
+ *   Alf = 45.375 − 137·f + 92.5·f² for f < 0.5 GHz (P.1812 eq. (47a));
+ *   θ″ = θ − 0.1·dl, Ast = 20·log[1 + 0.361·θ″·sqrt(f·dl)] + 0.264·θ″·f^(1/3) for θ″ > 0 (eq. (48), (48a));
+ *   Act = −3·exp(−0.25·dct²)·[1 + tanh(0.07·(50 − hts))] for ω ≥ 0.75, dct ≤ dlt, dct ≤ 5 km (eq. (49));
+ *   Ad(p) = γd·θ′ + A(p), γd = 5e-5·ae·f^(1/3), θ′ = 1e3·d/ae + θ′t + θ′r,
+ *     θ′t = min(θt, 0.1·dlt) (eq. (50)–(52a));
+ *   A(p) = −12 + (1.2 + 3.7e-3·d)·log(p/β) + 12·(p/β)^Γ,
+ *     Γ = 1.076/(2.0058 − log β)^1.012 · exp(−(9.51 − 4.8·log β + 0.198·(log β)²)·1e-6·d^1.13) (eq. (53), (53a));
+ *   β = β0·μ2·μ3, μ2 = [500/ae · d²/(sqrt(hte) + sqrt(hre))²]^α ≤ 1,
+ *     α = max(−0.6 − 3.5e-9·d^3.1·τ, −3.4), τ = 1 − exp(−4.12e-4·dlm^2.41),
+ *     μ3 = exp(−4.6e-5·(hm − 10)·(43 + 6·dI)) for hm > 10 m, else 1, dI = min(d − dlt − dlr, 40) (eq. (54)–(56a)).
+ * @param i inputs
+ * @returns Lba (dB)
+ */
+export function ductingLayerReflectionLoss(i: AnomalousInput): number {
+  const f = i.f_ghz;
+  const d = i.d_km;
+  const Alf = i.low_frequency_correction && f < 0.5 ? 45.375 - 137.0 * f + 92.5 * f * f : 0; // P.1812-6 eq. (47a)
+  const tt2 = i.theta_t_mrad - 0.1 * i.dlt_km; // P.1812-6 eq. (48a)
+  const tr2 = i.theta_r_mrad - 0.1 * i.dlr_km; // P.1812-6 eq. (48a)
+  const Ast = tt2 > 0 ? 20 * Math.log10(1 + 0.361 * tt2 * Math.sqrt(f * i.dlt_km)) + 0.264 * tt2 * Math.cbrt(f) : 0; // P.1812-6 eq. (48)
+  const Asr = tr2 > 0 ? 20 * Math.log10(1 + 0.361 * tr2 * Math.sqrt(f * i.dlr_km)) + 0.264 * tr2 * Math.cbrt(f) : 0; // P.1812-6 eq. (48)
+  const Act = i.dct_km <= 5 && i.dct_km <= i.dlt_km && i.omega >= 0.75 ? -3 * Math.exp(-0.25 * i.dct_km * i.dct_km) * (1 + Math.tanh(0.07 * (50 - i.hts_m))) : 0; // P.1812-6 eq. (49)
+  const Acr = i.dcr_km <= 5 && i.dcr_km <= i.dlr_km && i.omega >= 0.75 ? -3 * Math.exp(-0.25 * i.dcr_km * i.dcr_km) * (1 + Math.tanh(0.07 * (50 - i.hrs_m))) : 0; // P.1812-6 eq. (49)
+  const gammaD = 5e-5 * i.ae_km * Math.cbrt(f); // P.1812-6 eq. (51)
+  const tt1 = i.theta_t_mrad <= 0.1 * i.dlt_km ? i.theta_t_mrad : 0.1 * i.dlt_km; // P.1812-6 eq. (52a)
+  const tr1 = i.theta_r_mrad <= 0.1 * i.dlr_km ? i.theta_r_mrad : 0.1 * i.dlr_km; // P.1812-6 eq. (52a)
+  const theta1 = (1e3 * d) / i.ae_km + tt1 + tr1; // P.1812-6 eq. (52)
+  const dI = Math.min(d - i.dlt_km - i.dlr_km, 40); // P.1812-6 eq. (56a)
+  const mu3 = i.hm_m > 10 ? Math.exp(-4.6e-5 * (i.hm_m - 10) * (43 + 6 * dI)) : 1; // P.1812-6 eq. (56)
+  const tau = 1 - Math.exp(-4.12e-4 * Math.pow(i.dlm_km, 2.41)); // P.1812-6 eq. (3)
+  let alpha = -0.6 - 3.5e-9 * Math.pow(d, 3.1) * tau; // P.1812-6 eq. (55a)
+  if (alpha < -3.4) alpha = -3.4;
+  const sh = Math.sqrt(i.hte_m) + Math.sqrt(i.hre_m);
+  let mu2 = Math.pow(((500 / i.ae_km) * d * d) / (sh * sh), alpha); // P.1812-6 eq. (55)
+  if (mu2 > 1) mu2 = 1;
+  const beta = i.beta0_pct * mu2 * mu3; // P.1812-6 eq. (54)
+  const lb = Math.log10(beta);
+  const Gamma = (1.076 / Math.pow(2.0058 - lb, 1.012)) * Math.exp(-(9.51 - 4.8 * lb + 0.198 * lb * lb) * 1e-6 * Math.pow(d, 1.13)); // P.1812-6 eq. (53a)
+  const Ap = -12 + (1.2 + 3.7e-3 * d) * Math.log10(i.p_pct / beta) + 12 * Math.pow(i.p_pct / beta, Gamma); // P.1812-6 eq. (53)
+  const Adp = gammaD * theta1 + Ap; // P.1812-6 eq. (50)
+  const Af = 102.45 + 20 * Math.log10(f) + 20 * Math.log10(i.dlt_km + i.dlr_km) + Alf + Ast + Asr + Act + Acr; // P.1812-6 eq. (47)
+  return Af + Adp; // P.1812-6 eq. (46)
+}

@@ -1,0 +1,89 @@
+import { inverseComplementaryNormal } from "./itu-path-geometry.ts";
+
+/** Interpolation factors and blended losses of `clearAirBlend` (dB unless noted). */
+export interface ClearAirBlend {
+  /** Fi (eq. (40)), 1 for p < β0 */
+  Fi: number;
+  Lbd50: number;
+  Lbd: number;
+  Lminb0p: number;
+  Lminbap: number;
+  Lbda: number;
+  Lbam: number;
+  /** combination with troposcatter, Lbc (P.1812-6 eq. (63); P.452-18 eq. (64) before clutter) */
+  Lbc: number;
+}
+
+/**
+ * Path-angular-distance factor Fj = 1 − 0.5·[1 + tanh(3ξ·(x − Θ)/Θ)], Θ = 0.3, ξ = 0.8.
+ * P.1812-6 eq. (57) takes x = θ (mrad); P.452-18 eq. (58) takes x = Stim − Str (m/km).
+ * @param x θ (mrad) or Stim − Str (m/km)
+ * @returns Fj
+ */
+export function interpolationFj(x: number): number {
+  return 1.0 - 0.5 * (1.0 + Math.tanh((3.0 * 0.8 * (x - 0.3)) / 0.3)); // P.1812-6 eq. (57)
+}
+
+/**
+ * Great-circle-distance factor Fk = 1 − 0.5·[1 + tanh(3κ·(d − dsw)/dsw)], dsw = 20 km, κ = 0.5.
+ * P.1812-6 eq. (58); P.452-18 eq. (59).
+ * @param d_km path length (km)
+ * @returns Fk
+ */
+export function interpolationFk(d_km: number): number {
+  return 1.0 - 0.5 * (1.0 + Math.tanh((3.0 * 0.5 * (d_km - 20)) / 20)); // P.1812-6 eq. (58)
+}
+
+/**
+ * Blending of line of sight, diffraction, ducting/layer reflection and troposcatter into the
+ * basic transmission loss not exceeded for p % of time.
+ * Method: P.1812-6 §4.6 eq. (42), (43), (59)–(63) (P.452-18 §4.6 eq. (43), (44), (60)–(64)):
+ *   Lbd50 = Lbfs + Ld50; Lbd = Lb0p + Ldp;
+ *   Lminb0p = Lb0p + (1 − ω)·Ldp for p < β0, else Lbd50 + (Lb0β + (1 − ω)·Ldp − Lbd50)·Fi,
+ *     Fi = I(p/100)/I(β0/100);
+ *   Lminbap = η·ln(exp(Lba/η) + exp(Lb0p/η)), η = 2.5;
+ *   Lbda = Lbd if Lminbap > Lbd, else Lminbap + (Lbd − Lminbap)·Fk;
+ *   Lbam = Lbda + (Lminb0p − Lbda)·Fj;
+ *   Lbc = −5·log(10^(−0.2·Lbs) + 10^(−0.2·Lbam)).
+ * Pure scalar function (no profile), so a coverage sweep can call it per cell.
+ * @returns the blended losses
+ */
+export function clearAirBlend(
+  p_pct: number,
+  beta0_pct: number,
+  omega: number,
+  Lbfs: number,
+  Lb0p: number,
+  Lb0b: number,
+  Ld50: number,
+  Ldp: number,
+  Lba: number,
+  Lbs: number,
+  Fj: number,
+  Fk: number,
+  out?: ClearAirBlend,
+): ClearAirBlend {
+  const o = out ?? ({} as ClearAirBlend);
+  const Lbd50 = Lbfs + Ld50; // P.1812-6 eq. (42)
+  const Lbd = Lb0p + Ldp; // P.1812-6 eq. (43)
+  let Lminb0p = Lb0p + (1 - omega) * Ldp; // P.1812-6 eq. (59)
+  let Fi = 1;
+  if (p_pct >= beta0_pct) {
+    Fi = inverseComplementaryNormal(p_pct / 100) / inverseComplementaryNormal(beta0_pct / 100); // P.1812-6 eq. (40)
+    Lminb0p = Lbd50 + (Lb0b + (1 - omega) * Ldp - Lbd50) * Fi; // P.1812-6 eq. (59)
+  }
+  const eta = 2.5;
+  const Lminbap = eta * Math.log(Math.exp(Lba / eta) + Math.exp(Lb0p / eta)); // P.1812-6 eq. (60)
+  const Lbda = Lminbap <= Lbd ? Lminbap + (Lbd - Lminbap) * Fk : Lbd; // P.1812-6 eq. (61)
+  const Lbam = Lbda + (Lminb0p - Lbda) * Fj; // P.1812-6 eq. (62)
+  const Lbc = -5 * Math.log10(Math.pow(10, -0.2 * Lbs) + Math.pow(10, -0.2 * Lbam)); // P.1812-6 eq. (63)
+  o.Fi = Fi;
+  o.Lbd50 = Lbd50;
+  o.Lbd = Lbd;
+  o.Lminb0p = Lminb0p;
+  o.Lminbap = Lminbap;
+  o.Lbda = Lbda;
+  o.Lbam = Lbam;
+  o.Lbc = Lbc;
+  return o;
+}

@@ -1,0 +1,356 @@
+/**
+ * ITU-R P.1812-6 (09/2021): path-specific prediction for point-to-area terrestrial services,
+ * 30 MHz – 6 GHz. Pure functions, no I/O; NaN for bad numbers, no throwing.
+ *
+ * API
+ *   `p1812Loss(input)` → `P1812Result`: basic transmission loss Lb (dB) not exceeded for p %
+ *     of time and pL % of locations, field strength Ep (dBµV/m) for `ptx_kw` (1 kW e.r.p. by
+ *     default), and every intermediate (geometry, Lbfs, Lb0p, Lb0β, Ld50, Ldβ, Ldp, Lbs, Lba,
+ *     Lbc, …).
+ *   Inputs (`P1812Input`): frequency_ghz; time_pct (1–50); location_pct (1–99, default 50);
+ *     sigma_l_db (location variability σL, dB, default 0 — see `p1812LocationSigmaDb`);
+ *     d_km (distances from Tx, km, first 0, increasing, any spacing); h_m (terrain amsl, m);
+ *     clutter_height_m (representative clutter height per point, m, default 0);
+ *     zone (per point, ZONE_SEA / ZONE_COASTAL / ZONE_INLAND, default inland);
+ *     htg_m, hrg_m (antenna heights above ground, m); polarization "h" | "v";
+ *     path-centre latitude phi_path_deg, or tx/rx latitude/longitude (deg);
+ *     dn (ΔN, N-units/km, default 45), n0 (N0, N-units, default 325);
+ *     dct_km, dcr_km (distance to coast, km, default 500, 0 when the terminal point is sea).
+ *   For a coverage sweep: `p1812PathLoss(path, geometry, p, pL, σL)` takes a precomputed
+ *     `PathGeometry` (src/physics/itu-path-geometry.ts) and the profile arrays, and the scalar
+ *     parts (`p1812LineOfSight`, `p1812Troposcatter`, `ductingLayerReflectionLoss`,
+ *     `clearAirBlend`, `p1812FieldStrengthDbuvM`) can be called per cell on running values.
+ * Terminal clutter in this edition: the representative clutter heights of the profile are
+ * added to the terrain for the diffraction calculation at every point but the two
+ * terminals (§3.2); the terminal clutter losses of earlier editions are gone (the terminal
+ * clutter category only sets σL through the receiver's height relative to its clutter).
+ */
+import { clearAirBlend, interpolationFj, interpolationFk, type ClearAirBlend } from "./itu-blend.ts";
+import { ductingLayerReflectionLoss } from "./itu-anomalous.ts";
+import { deltaBullingtonOverSurface, diffractionLossForTime } from "./delta-bullington.ts";
+import {
+  beta0Pct,
+  EARTH_RADIUS_BETA_KM,
+  effectiveEarthRadiusKm,
+  inverseComplementaryNormal,
+  longestZoneSectionKm,
+  newPathGeometry,
+  pathCentreLatitudeDeg,
+  pathGeometry,
+  seaFraction,
+  ZONE_INLAND,
+  ZONE_SEA,
+  type PathGeometry,
+} from "./itu-path-geometry.ts";
+
+/** Where P.1812-6 applies (§1 and the Recommendation's scope); outside: warn. */
+export const P1812_VALIDITY = {
+  recommendation: "ITU-R P.1812-6",
+  frequency_ghz: [0.03, 6] as const,
+  time_pct: [1, 50] as const,
+  location_pct: [1, 99] as const,
+  antenna_height_m: [1, 3000] as const,
+  path_length_km: [0.25, 3000] as const,
+  latitude_deg: [-80, 80] as const,
+} as const;
+
+/** Defaults the method uses when a value is not given (stated in outputs). */
+export const P1812_DEFAULTS = { dn: 45, n0: 325, dct_km: 500, dcr_km: 500, location_pct: 50, sigma_l_db: 0, ptx_kw: 1 } as const;
+
+/**
+ * Clutter categories of P.1812-6 Table 2 with their default representative clutter heights
+ * (m) — water/sea 0, open/rural 0, suburban 10, urban/trees/forest 15, dense urban 20.
+ * Codes 1–5 as in the Recommendation's validation profiles.
+ */
+export const P1812_CLUTTER = {
+  water: { code: 1, height_m: 0 },
+  open: { code: 2, height_m: 0 },
+  suburban: { code: 3, height_m: 10 },
+  urban: { code: 4, height_m: 15 },
+  dense_urban: { code: 5, height_m: 20 },
+} as const;
+
+export type P1812ClutterClass = keyof typeof P1812_CLUTTER;
+
+/** Inputs of `p1812Loss`. */
+export interface P1812Input {
+  frequency_ghz: number;
+  time_pct: number;
+  location_pct?: number;
+  sigma_l_db?: number;
+  d_km: ArrayLike<number>;
+  h_m: ArrayLike<number>;
+  clutter_height_m?: ArrayLike<number>;
+  zone?: ArrayLike<number>;
+  htg_m: number;
+  hrg_m: number;
+  polarization: "h" | "v";
+  phi_path_deg?: number;
+  tx_lat_deg?: number;
+  tx_lon_deg?: number;
+  rx_lat_deg?: number;
+  rx_lon_deg?: number;
+  dn?: number;
+  n0?: number;
+  dct_km?: number;
+  dcr_km?: number;
+  ptx_kw?: number;
+}
+
+/** Result of `p1812Loss`: every intermediate of the method (dB unless the name says). */
+export interface P1812Result {
+  /** basic transmission loss Lb (eq. (69)) */
+  Lb: number;
+  /** field strength Ep (dBµV/m) for ptx_kw e.r.p. (eq. (70)) */
+  Ep_dbuv_m: number;
+  geometry: PathGeometry;
+  phi_path_deg: number;
+  dtm_km: number;
+  dlm_km: number;
+  omega: number;
+  beta0_pct: number;
+  ae_km: number;
+  Fj: number;
+  Fk: number;
+  Lbfs: number;
+  Lb0p: number;
+  Lb0b: number;
+  Lbulla: number;
+  Lbulls: number;
+  Ldsph: number;
+  Ld50: number;
+  Ldb: number;
+  Ldp: number;
+  Lba: number;
+  Lbs: number;
+  blend: ClearAirBlend;
+  /** location term −I(pL/100)·σL added to Lbc (0 at sea) */
+  Lloc: number;
+}
+
+/** Line-of-sight losses of `p1812LineOfSight` (dB). */
+export interface LineOfSightLoss {
+  Lbfs: number;
+  Lb0p: number;
+  Lb0b: number;
+}
+
+/**
+ * Line-of-sight basic transmission losses with the time-percentage enhancements.
+ * Method: P.1812-6 §4.2 eq. (8)–(11):
+ *   dfs = sqrt(d² + ((hts − hrs)/1000)²) (eq. (8a)); Lbfs = 92.4 + 20·log f + 20·log dfs (eq. (8));
+ *   Esp = 2.6·[1 − exp(−0.1·(dlt + dlr))]·log(p/50) (eq. (9a)), Esβ likewise with β0 (eq. (9b));
+ *   Lb0p = Lbfs + Esp (eq. (10)); Lb0β = Lbfs + Esβ (eq. (11)).
+ * @param d_km path length (km)
+ * @param hts_m Tx antenna height amsl (m)
+ * @param hrs_m Rx antenna height amsl (m)
+ * @param f_ghz frequency (GHz)
+ * @param p_pct time percentage (%)
+ * @param beta0_pct β0 (%)
+ * @param dlt_km Tx horizon distance (km)
+ * @param dlr_km Rx horizon distance (km)
+ * @param out optional object to fill
+ * @returns Lbfs, Lb0p, Lb0b (dB)
+ */
+export function p1812LineOfSight(d_km: number, hts_m: number, hrs_m: number, f_ghz: number, p_pct: number, beta0_pct: number, dlt_km: number, dlr_km: number, out?: LineOfSightLoss): LineOfSightLoss {
+  const o = out ?? ({} as LineOfSightLoss);
+  const dh = (hts_m - hrs_m) / 1000;
+  const dfs = Math.sqrt(d_km * d_km + dh * dh); // P.1812-6 eq. (8a)
+  const Lbfs = 92.4 + 20 * Math.log10(f_ghz) + 20 * Math.log10(dfs); // P.1812-6 eq. (8)
+  const e = 2.6 * (1 - Math.exp(-0.1 * (dlt_km + dlr_km)));
+  o.Lbfs = Lbfs;
+  o.Lb0p = Lbfs + e * Math.log10(p_pct / 50); // P.1812-6 eq. (9a), (10)
+  o.Lb0b = Lbfs + e * Math.log10(beta0_pct / 50); // P.1812-6 eq. (9b), (11)
+  return o;
+}
+
+/**
+ * Basic transmission loss due to troposcatter not exceeded for p % of time (dB).
+ * Method: P.1812-6 §4.4 eq. (44), (45):
+ *   Lf = 25·log f − 2.5·[log(f/2)]²;
+ *   Lbs = 190.1 + Lf + 20·log d + 0.573·θ − 0.15·N0 − 10.125·[log(50/p)]^0.7.
+ * @param d_km path length (km)
+ * @param theta_mrad path angular distance θ (mrad)
+ * @param f_ghz frequency (GHz)
+ * @param p_pct time percentage (%)
+ * @param n0 sea-level surface refractivity N0 (N-units)
+ * @returns Lbs (dB)
+ */
+export function p1812Troposcatter(d_km: number, theta_mrad: number, f_ghz: number, p_pct: number, n0: number): number {
+  const lf = Math.log10(f_ghz / 2);
+  const Lf = 25 * Math.log10(f_ghz) - 2.5 * lf * lf; // P.1812-6 eq. (45)
+  return 190.1 + Lf + 20 * Math.log10(d_km) + 0.573 * theta_mrad - 0.15 * n0 - 10.125 * Math.pow(Math.log10(50 / p_pct), 0.7); // P.1812-6 eq. (44)
+}
+
+/**
+ * Field strength (dBµV/m) for 1 kW e.r.p. from the basic transmission loss, scaled to ptx_kw.
+ * Method: P.1812-6 eq. (70): Ep = 199.36 + 20·log f − Lb (f in GHz), + 10·log(Ptx/1 kW).
+ * @param Lb_db basic transmission loss (dB)
+ * @param f_ghz frequency (GHz)
+ * @param ptx_kw e.r.p. (kW), default 1
+ * @returns Ep (dBµV/m)
+ */
+export function p1812FieldStrengthDbuvM(Lb_db: number, f_ghz: number, ptx_kw = 1): number {
+  return 199.36 + 20 * Math.log10(f_ghz) - Lb_db + 10 * Math.log10(ptx_kw); // P.1812-6 eq. (70)
+}
+
+/**
+ * Standard deviation σL (dB) of the location variability.
+ * Method: P.1812-6 §4.8: σL = (0.024·f + 0.52)·wa^0.28 (f in GHz, wa the width in m of the
+ * square area over which the variability applies), times uh = 1 for a receiver at or below
+ * its representative clutter height R, 1 − (h − R)/10 for R < h < R + 10, 0 above.
+ * (0.024 for the f coefficient: P.1812-5 printed 0.0024, a misprint noted by ITU-R WP 3K.)
+ * @param f_ghz frequency (GHz)
+ * @param hrg_m receiver height above ground (m)
+ * @param clutter_m representative clutter height at the receiver (m)
+ * @param wa_m area width (m), e.g. 100
+ * @returns σL (dB)
+ */
+export function p1812LocationSigmaDb(f_ghz: number, hrg_m: number, clutter_m: number, wa_m: number): number {
+  const base = (0.024 * f_ghz + 0.52) * Math.pow(wa_m, 0.28); // P.1812-6 §4.8 (σL)
+  const uh = hrg_m < clutter_m ? 1 : hrg_m >= clutter_m + 10 ? 0 : 1 - (hrg_m - clutter_m) / 10; // P.1812-6 §4.8 (uh)
+  return base * uh;
+}
+
+/** Precomputed per-path values of `p1812PathLoss` (build once with `p1812Path`). */
+export interface P1812Path {
+  frequency_ghz: number;
+  polarization: "h" | "v";
+  d_km: ArrayLike<number>;
+  /** distances in m for the Bullington parts */
+  d_m: Float64Array;
+  /** terrain + representative clutter, terminals bare (m amsl) */
+  g_m: Float64Array;
+  htg_m: number;
+  hrg_m: number;
+  rx_at_sea: boolean;
+  phi_path_deg: number;
+  dtm_km: number;
+  dlm_km: number;
+  omega: number;
+  beta0_pct: number;
+  ae_km: number;
+  n0: number;
+  dct_km: number;
+  dcr_km: number;
+  ptx_kw: number;
+}
+
+/**
+ * The per-path constants of P.1812-6 §3 (path-centre latitude, dtm, dlm, ω, β0, ae, the
+ * clutter-augmented profile g). NaN values in the result mark bad input.
+ * @param input see `P1812Input`
+ * @returns the path
+ */
+export function p1812Path(input: P1812Input): P1812Path {
+  const n = input.d_km.length;
+  const zone = input.zone ?? new Uint8Array(n).fill(ZONE_INLAND);
+  const R = input.clutter_height_m;
+  const d_m = new Float64Array(n);
+  const g_m = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    d_m[i] = input.d_km[i] * 1000;
+    g_m[i] = input.h_m[i] + (R && i > 0 && i < n - 1 ? R[i] : 0); // P.1812-6 §3.2 (g = h + R, terminals excluded)
+  }
+  const dtot = input.d_km[n - 1] - input.d_km[0];
+  const phi =
+    input.phi_path_deg ??
+    pathCentreLatitudeDeg(input.tx_lat_deg ?? NaN, input.tx_lon_deg ?? NaN, input.rx_lat_deg ?? NaN, input.rx_lon_deg ?? NaN, dtot / 2);
+  const dtm = longestZoneSectionKm(input.d_km, zone, (z) => z !== ZONE_SEA);
+  const dlm = longestZoneSectionKm(input.d_km, zone, (z) => z === ZONE_INLAND);
+  return {
+    frequency_ghz: input.frequency_ghz,
+    polarization: input.polarization,
+    d_km: input.d_km,
+    d_m,
+    g_m,
+    htg_m: input.htg_m,
+    hrg_m: input.hrg_m,
+    rx_at_sea: zone[n - 1] === ZONE_SEA,
+    phi_path_deg: phi,
+    dtm_km: dtm,
+    dlm_km: dlm,
+    omega: seaFraction(input.d_km, zone),
+    beta0_pct: beta0Pct(phi, dtm, dlm),
+    ae_km: effectiveEarthRadiusKm(input.dn ?? P1812_DEFAULTS.dn),
+    n0: input.n0 ?? P1812_DEFAULTS.n0,
+    dct_km: zone[0] === ZONE_SEA ? 0 : input.dct_km ?? P1812_DEFAULTS.dct_km,
+    dcr_km: zone[n - 1] === ZONE_SEA ? 0 : input.dcr_km ?? P1812_DEFAULTS.dcr_km,
+    ptx_kw: input.ptx_kw ?? P1812_DEFAULTS.ptx_kw,
+  };
+}
+
+/**
+ * P.1812-6 basic transmission loss for a path (see the module comment).
+ * @param input see `P1812Input`
+ * @returns Lb, Ep and every intermediate
+ */
+export function p1812Loss(input: P1812Input): P1812Result {
+  const path = p1812Path(input);
+  const geo = pathGeometry(input.d_km, input.h_m, input.htg_m, input.hrg_m, path.ae_km, input.frequency_ghz, newPathGeometry());
+  return p1812PathLoss(path, geo, input.time_pct, input.location_pct ?? P1812_DEFAULTS.location_pct, input.sigma_l_db ?? P1812_DEFAULTS.sigma_l_db);
+}
+
+/**
+ * P.1812-6 §4 on a precomputed path and geometry: line of sight (§4.2), diffraction (§4.3),
+ * troposcatter (§4.4), ducting/layer reflection (§4.5), blending (§4.6), location
+ * variability (§4.8) and field strength (§4.9):
+ *   Lb = max(Lb0p, Lbc + Lloc), Lloc = −I(pL/100)·σL (0 for a receiver at sea) (eq. (69));
+ *   Ep from eq. (70).
+ * @param path from `p1812Path`
+ * @param geo from `pathGeometry` on the terrain heights
+ * @param p_pct time percentage (%)
+ * @param pL_pct location percentage (%)
+ * @param sigmaL_db σL (dB)
+ * @returns Lb, Ep and every intermediate
+ */
+export function p1812PathLoss(path: P1812Path, geo: PathGeometry, p_pct: number, pL_pct: number, sigmaL_db: number): P1812Result {
+  const f = path.frequency_ghz;
+  const d = geo.d_km;
+  const hts = geo.hts_m;
+  const hrs = geo.hrs_m;
+  const b0 = path.beta0_pct;
+  const Fj = interpolationFj(geo.theta_mrad); // P.1812-6 eq. (57)
+  const Fk = interpolationFk(d); // P.1812-6 eq. (58)
+  const los = p1812LineOfSight(d, hts, hrs, f, p_pct, b0, geo.dlt_km, geo.dlr_km);
+  const opts = { lambda_m: 0.2998 / f, omega: path.omega, polarization: path.polarization, frequency_ghz: f };
+  const d50 = deltaBullingtonOverSurface(path.d_m, path.g_m, hts, hrs, geo.hstd_m, geo.hsrd_m, path.ae_km * 1000, opts);
+  const db = deltaBullingtonOverSurface(path.d_m, path.g_m, hts, hrs, geo.hstd_m, geo.hsrd_m, EARTH_RADIUS_BETA_KM * 1000, opts);
+  const Ldp = diffractionLossForTime(p_pct, b0, d50.Ld, db.Ld); // P.1812-6 eq. (41)
+  const Lba = ductingLayerReflectionLoss({
+    d_km: d, dlt_km: geo.dlt_km, dlr_km: geo.dlr_km, dct_km: path.dct_km, dcr_km: path.dcr_km, dlm_km: path.dlm_km,
+    hts_m: hts, hrs_m: hrs, hte_m: geo.hte_m, hre_m: geo.hre_m, hm_m: geo.hm_m,
+    theta_t_mrad: geo.theta_t_mrad, theta_r_mrad: geo.theta_r_mrad, f_ghz: f, p_pct, omega: path.omega,
+    ae_km: path.ae_km, beta0_pct: b0, low_frequency_correction: true,
+  }); // P.1812-6 eq. (46)
+  const Lbs = p1812Troposcatter(d, geo.theta_mrad, f, p_pct, path.n0); // P.1812-6 eq. (44)
+  const blend = clearAirBlend(p_pct, b0, path.omega, los.Lbfs, los.Lb0p, los.Lb0b, d50.Ld, Ldp, Lba, Lbs, Fj, Fk);
+  const Lloc = path.rx_at_sea ? 0 : -inverseComplementaryNormal(pL_pct / 100) * sigmaL_db; // P.1812-6 eq. (69) (location term)
+  const Lb = Math.max(los.Lb0p, blend.Lbc + Lloc); // P.1812-6 eq. (69)
+  return {
+    Lb,
+    Ep_dbuv_m: p1812FieldStrengthDbuvM(Lb, f, path.ptx_kw), // P.1812-6 eq. (70)
+    geometry: geo,
+    phi_path_deg: path.phi_path_deg,
+    dtm_km: path.dtm_km,
+    dlm_km: path.dlm_km,
+    omega: path.omega,
+    beta0_pct: b0,
+    ae_km: path.ae_km,
+    Fj,
+    Fk,
+    Lbfs: los.Lbfs,
+    Lb0p: los.Lb0p,
+    Lb0b: los.Lb0b,
+    Lbulla: d50.Lbulla,
+    Lbulls: d50.Lbulls,
+    Ldsph: d50.Ldsph,
+    Ld50: d50.Ld,
+    Ldb: db.Ld,
+    Ldp,
+    Lba,
+    Lbs,
+    blend,
+    Lloc,
+  };
+}
