@@ -63,20 +63,7 @@ export function deltaBullingtonIncremental(p: RadialProfile, d_m: number, hR_m: 
   const dkm = d / 1000;
 
   // --- Bullington, actual profile (P.526-15 §4.5.1) ---
-  const Stim = n > 1 ? p.maxSlopeZ + d * k2 : -Infinity; // P.526-15 §4.5.1 (Stim)
-  const Str = (hrs - hts) / d; // P.526-15 §4.5.1 (Str)
-  let nu: number;
-  if (Stim < Str) {
-    nu = nuMaxLineOfSight(p, d, hrs, lambda);
-  } else {
-    const zR = hrs - d * d * k2;
-    const j = hullTangentFromRight(p.hullZ, p.nHullZ, p.d, p.z, d, zR);
-    const Srim = (p.z[j] - zR) / (d - p.d[j]) - d * k2; // P.526-15 §4.5.1 (Srim)
-    const dbp = (hrs - hts + Srim * d) / (Stim + Srim); // P.526-15 §4.5.1 (dbp)
-    nu = (hts + Stim * dbp - (hts * (d - dbp) + hrs * dbp) / d) * Math.sqrt((2 * d) / (lambda * dbp * (d - dbp))); // P.526-15 §4.5.1 (νb)
-  }
-  const Luca = knifeEdgeLossApprox(nu); // P.526-15 §4.5.1 (Luc = J(ν)), eq. (31)
-  const Lbulla = Luca + (1 - Math.exp(-Luca / 6)) * (10 + 0.02 * dkm); // P.526-15 §4.5.1 (Lbull)
+  const Lbulla = bullingtonActualIncremental(p, d, hrs, lambda);
 
   // --- Smooth surface and effective heights (P.526-15 §4.5.2) ---
   const hLast = p.h[n - 1];
@@ -122,11 +109,38 @@ export function deltaBullingtonIncremental(p: RadialProfile, d_m: number, hR_m: 
 }
 
 /**
+ * Bullington loss Lbull (dB) of the actual profile (P.526-15 §4.5.1) for a receiver antenna at
+ * hrs_m (m amsl) at distance d_m beyond p's inner samples, from the radial's running maximum
+ * (Stim), hull tangent (Srim) and, for line of sight, the bounded νmax search.
+ */
+export function bullingtonActualIncremental(p: RadialProfile, d_m: number, hrs_m: number, lambda_m: number): number {
+  const d = d_m;
+  const hts = p.hts;
+  const hrs = hrs_m;
+  const k2 = p.invTwoAe;
+  const Stim = p.n > 1 ? p.maxSlopeZ + d * k2 : -Infinity; // P.526-15 §4.5.1 (Stim)
+  const Str = (hrs - hts) / d; // P.526-15 §4.5.1 (Str)
+  let nu: number;
+  if (Stim < Str) {
+    nu = nuMaxLineOfSight(p, d, hrs, lambda_m);
+  } else {
+    const zR = hrs - d * d * k2;
+    const j = hullTangentFromRight(p.hullZ, p.nHullZ, p.d, p.z, d, zR);
+    const Srim = (p.z[j] - zR) / (d - p.d[j]) - d * k2; // P.526-15 §4.5.1 (Srim)
+    const dbp = (hrs - hts + Srim * d) / (Stim + Srim); // P.526-15 §4.5.1 (dbp)
+    nu = (hts + Stim * dbp - (hts * (d - dbp) + hrs * dbp) / d) * Math.sqrt((2 * d) / (lambda_m * dbp * (d - dbp))); // P.526-15 §4.5.1 (νb)
+  }
+  const Luca = knifeEdgeLossApprox(nu); // P.526-15 §4.5.1 (Luc = J(ν)), eq. (31)
+  return Luca + (1 - Math.exp(-Luca / 6)) * (10 + 0.02 * (d / 1000)); // P.526-15 §4.5.1 (Lbull)
+}
+
+/**
  * νmax of P.526-15 §4.5.1 case 1 for the actual profile: max over inner samples of
  * (z_i − L(d_i))·w(d_i), L the Tx–Rx line in the flat-Earth frame, w = sqrt(2d/(λ·d_i·(d − d_i))).
- * Exact when the result exceeds −0.78; otherwise any value ≤ −0.78 (J is 0 there either way).
+ * Exact when the result exceeds `floor0` (default −0.78: below it J(ν) is 0, so any value
+ * ≤ −0.78 will do); pass −Infinity for the exact maximiser, which is left in p.lastNuIndex.
  */
-function nuMaxLineOfSight(p: RadialProfile, d: number, hrs: number, lambda: number): number {
+export function nuMaxLineOfSight(p: RadialProfile, d: number, hrs: number, lambda: number, floor0 = NU_J_ZERO): number {
   const n = p.n;
   if (n <= 1) return -Infinity;
   const hts = p.hts;
@@ -142,7 +156,7 @@ function nuMaxLineOfSight(p: RadialProfile, d: number, hrs: number, lambda: numb
     const v = nuPoint(D[g], Z[g], hts, sL, d, twoD_lambda);
     if (v > best) (best = v), (bestI = g);
   }
-  let floor = best > NU_J_ZERO ? best : NU_J_ZERO;
+  let floor = best > floor0 ? best : floor0;
   const last = n - 1;
   const nb2 = ((last / BLOCK2) | 0) + 1;
   for (let b2 = 0; b2 < nb2; b2++) {

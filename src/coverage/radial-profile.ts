@@ -35,6 +35,8 @@ export class RadialProfile {
   /** 1/(2·ae) (1/m); 0 for k = ∞ */
   invTwoAe = 0;
   maxSlopeZ = -Infinity;
+  /** index of the first sample attaining maxSlopeZ (the transmitter's horizon point) */
+  argMaxSlopeZ = -1;
   maxSlopeH = -Infinity;
   v1 = 0;
   v2 = 0;
@@ -76,6 +78,7 @@ export class RadialProfile {
     this.hts = hts_m;
     this.invTwoAe = ae_m === Infinity ? 0 : 1 / (2 * ae_m);
     this.maxSlopeZ = -Infinity;
+    this.argMaxSlopeZ = -1;
     this.maxSlopeH = -Infinity;
     this.v1 = 0;
     this.v2 = 0;
@@ -102,7 +105,7 @@ export class RadialProfile {
     this.v1 += (di - dp) * (h_m + hp); // P.526-15 §4.5.2 (v1)
     this.v2 += (di - dp) * (h_m * (2 * di + dp) + hp * (di + 2 * dp)); // P.526-15 §4.5.2 (v2)
     const sz = (z - this.hts) / d_m;
-    if (sz > this.maxSlopeZ) this.maxSlopeZ = sz;
+    if (sz > this.maxSlopeZ) (this.maxSlopeZ = sz), (this.argMaxSlopeZ = i);
     const sh = (h_m - this.hts) / d_m;
     if (sh > this.maxSlopeH) this.maxSlopeH = sh;
     this.nHullZ = pushUpperHull(this.hullZ, this.nHullZ, this.d, this.z, i);

@@ -27,8 +27,12 @@ export interface RayVisitor {
    * @param north_m ground offset north of the site (m)
    */
   cell(index: number, row: number, d_m: number, h_m: number, east_m: number, north_m: number): void;
-  /** A terrain sample along the radial at distance d_m (increasing), height h_m (finite). */
-  sample(d_m: number, h_m: number): void;
+  /**
+   * A terrain sample along the radial at distance d_m (increasing), height h_m (finite);
+   * nearest_index is the row-major index of the grid cell nearest to the sample (for rasters
+   * on the same grid, e.g. land cover).
+   */
+  sample(d_m: number, h_m: number, nearest_index: number): void;
 }
 
 /**
@@ -215,7 +219,8 @@ export function sweepRays(g: SweepGeometry, dem: Float32Array | Int16Array, rc: 
         k = other;
       }
       if (hs !== hs) break;
-      v.sample(ds, hs);
+      const kn = b < 0 ? 0 : b > bmax ? bmax : Math.round(b);
+      v.sample(ds, hs, a * aStride + kn * bStride);
     }
   }
 }
