@@ -3,6 +3,10 @@ import { availableParallelism } from "node:os";
 import { join } from "node:path";
 import type { GroundClass } from "../physics/ground-constants.ts";
 import { InputError } from "../study/input-error.ts";
+import { openGeoTiff } from "../terrain/geotiff.ts";
+import { resolve } from "node:path";
+import type { LandCoverSource } from "./land-cover.ts";
+import { clutterHeightM, type ClutterClass, type P1812Request } from "./p1812-setup.ts";
 import { parseK } from "../study/load-study.ts";
 import type { CoverageInput, Study } from "../study/study.ts";
 import type { Terrain } from "../terrain/terrain.ts";
@@ -79,6 +83,45 @@ export function coverageRequestOf(study: Study, entry: CoverageInput): CoverageR
 }
 
 /**
+ * The P.1812 inputs of a study's coverage entry, with its land cover opened (null for another
+ * method).
+ * @throws InputError naming the study file and field when the land-cover file cannot be read
+ */
+export async function p1812RequestOf(study: Study, entry: CoverageInput, index: number): Promise<P1812Request | null> {
+  if (entry.method !== "p1812") return null;
+  const o = entry.p1812 ?? P1812_INPUT_DEFAULTS;
+  let land_cover: LandCoverSource | null = null;
+  let classes: ClutterClass[];
+  if (o.land_cover) {
+    const file = o.land_cover.file;
+    try {
+      const t = await openGeoTiff(resolve(study.dir, file), { label: file });
+      land_cover = { raster: t.raster, label: file, values: o.land_cover.classes.map((c) => c.value) };
+    } catch (e) {
+      const msg = e instanceof Error ? e.message : String(e);
+      throw new InputError([{ file: study.file, ...study.locate(["coverage", index, "p1812", "land_cover", "file"]), field: `coverage[${index}].p1812.land_cover.file (${entry.id})`, received: `"${file}"`, expected: `a readable land-cover GeoTIFF (${msg})` }], { cause: e });
+    }
+    classes = o.land_cover.classes.map((c) => ({ value: c.value, name: c.name ?? c.category.replace("_", " "), category: c.category, height_m: c.height_m ?? clutterHeightM(c.category) }));
+  } else {
+    classes = [{ value: null, name: o.clutter.replace("_", " "), category: o.clutter, height_m: o.clutter_height_m ?? clutterHeightM(o.clutter) }];
+  }
+  return {
+    time_pct: o.time_pct,
+    location_pct: o.location_pct,
+    sigma_l_db: o.sigma_l_db ?? null,
+    dn: o.dn,
+    n0: o.n0,
+    classes,
+    land_cover,
+    receiver_clutter_loss: o.receiver_clutter_loss,
+    indoor: o.indoor ? { building: o.indoor.building } : null,
+  };
+}
+
+/** P.1812 inputs of an entry that gives none (the schema's defaults). */
+const P1812_INPUT_DEFAULTS = { time_pct: 50, location_pct: 50, sigma_l_db: undefined, dn: 45, n0: 325, land_cover: undefined, clutter: "open", clutter_height_m: undefined, receiver_clutter_loss: "none", indoor: undefined } as const;
+
+/**
  * Compute one coverage entry of a study on the study's terrain and write its files into
  * options.outDir (`<id>.tif`, `<id>-overlay.png`, `<id>-map.png`, `<id>.geojson`, `<id>.kml`).
  * @param index the entry's position in study.coverage (for messages)
@@ -88,7 +131,10 @@ export async function analyzeCoverage(study: Study, entry: CoverageInput, terrai
   const i = options.index;
   let computed: ComputedCoverage;
   try {
-    computed = await computeCoverage(terrain, coverageRequestOf(study, entry), {
+    const request = coverageRequestOf(study, entry);
+    const p1812 = await p1812RequestOf(study, entry, i);
+    if (p1812) request.p1812 = p1812;
+    computed = await computeCoverage(terrain, request, {
       pool: options.pool,
       names: STUDY_FIELDS,
       patternField: "pattern",
@@ -167,5 +213,5 @@ export function compositeMemberOf(it: Pick<AnalyzedCoverage, "result" | "compute
 }
 
 function methodName(m: string): string {
-  return m === "visibility" ? "radio line of sight" : m === "hata" ? "Hata" : "delta-Bullington";
+  return m === "visibility" ? "radio line of sight" : m === "hata" ? "Hata" : m === "p1812" ? "ITU-R P.1812-6" : "delta-Bullington";
 }

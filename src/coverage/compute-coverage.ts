@@ -12,6 +12,8 @@ import { validateCoverageRequest, type CoverageRequest, type FieldNames } from "
 import type { TallyData } from "./coverage-tally.ts";
 import { elevationWindow, type Elevations } from "./elevation-window.ts";
 import { raysPerHalfFace } from "./radial-sweep.ts";
+import { CoverageError } from "./coverage-error.ts";
+import { p1812Job } from "./p1812-setup.ts";
 
 /** A computed coverage raster with what it was computed from. */
 export interface ComputedCoverage {
@@ -174,6 +176,12 @@ export function prepareCoverage(terrain: Terrain, req: CoverageRequest, options:
     thresholds_dbm: Float64Array.from(isLevel ? req.thresholds_dbm : [1]),
     rc: raysPerHalfFace({ ...grid, radius_m: req.radius_m }),
   };
+  if (req.method === "p1812") {
+    if (!req.p1812) throw new CoverageError("p1812: the method's inputs are missing", "p1812");
+    const a: string[] = [];
+    job.p1812 = p1812Job(req.p1812, { grid, site: req.site, frequency_ghz: f, receiver_m: req.receiver_m, resolution_m: req.resolution_m, polarization: req.polarization }, warnings, a);
+    assumptions.unshift(...a);
+  }
   if (!(site_ground_m === site_ground_m)) warnings.push("The ground height at the site is unknown.");
   return { request: req, grid, dem, site_ground_m, eirp_dbm, warnings, assumptions, job, terrain_s: (t1 - t0) / 1000 };
 }

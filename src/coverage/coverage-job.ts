@@ -2,7 +2,7 @@ import type { PatternTables } from "./antenna-pattern.ts";
 import type { SweepGeometry } from "./radial-sweep.ts";
 import type { SphericalGround } from "./spherical-earth-scalar.ts";
 
-export type CoverageMethod = "visibility" | "delta-bullington" | "hata";
+export type CoverageMethod = "visibility" | "delta-bullington" | "hata" | "p1812";
 
 /** Nodata of the received-level raster (dBm). */
 export const LEVEL_NODATA = -9999;
@@ -49,4 +49,40 @@ export interface CoverageJob extends SweepGeometry {
   thresholds_dbm: Float64Array;
   /** radials per half face of the sweep */
   rc: number;
+  /** p1812 only: the method's statistics, clutter classes and the location-probability raster */
+  p1812?: P1812Job;
+}
+
+/** Nodata of the location-probability raster. */
+export const PROBABILITY_NODATA = -1;
+
+/** The P.1812-6 part of a coverage job (plain numbers and shared buffers). */
+export interface P1812Job {
+  time_pct: number;
+  location_pct: number;
+  /** −I(pL/100) of P.1812-6 eq. (69): times σ gives the location term (dB) */
+  loc_factor: number;
+  /** median effective Earth radius from ΔN (m) */
+  ae_m: number;
+  n0: number;
+  polarization: "h" | "v";
+  /** site latitude (deg): path-centre latitudes are taken half-way north along each cell's offset */
+  site_lat_deg: number;
+  /** metres per degree of latitude at the site */
+  m_per_deg_lat: number;
+  /** per clutter class: representative height (m), at sea (1/0), location σ (dB, σL with any building-entry spread) */
+  clutter_m: Float64Array;
+  sea: Uint8Array;
+  sigma_db: Float64Array;
+  /** land-cover class index per cell (Uint8, row-major), or null: class `default_class` everywhere */
+  classes: SharedArrayBuffer | null;
+  default_class: number;
+  /** class of the site's own cell */
+  site_class: number;
+  /** median building entry loss (dB), 0 outdoors */
+  extra_median_db: number;
+  /** add the P.2108-1 §3.2 terrestrial clutter loss (median, spread into σ) per cell */
+  p2108: boolean;
+  /** location-probability raster for the first threshold (Float32, 0–1, PROBABILITY_NODATA outside) */
+  probability: SharedArrayBuffer;
 }

@@ -3,6 +3,7 @@ import { elevationAt, type Elevations } from "./elevation-window.ts";
 import { horizonSweep, horizonSweepApplies, lineOfSightOnly } from "./horizon-sweep.ts";
 import { CoverageTally, type TallyData } from "./coverage-tally.ts";
 import { ClearanceVisitor, DeltaBullingtonVisitor, HorizonVisitor, patternLoss } from "./level-visitors.ts";
+import { P1812Visitor } from "./p1812-visitor.ts";
 import { maxSamplesPerRay, rayCount, sweepRays, type RayVisitor } from "./radial-sweep.ts";
 
 /** Units of work of a job: radials for the swept methods, rows for Hata. */
@@ -41,7 +42,9 @@ export function createChunkRunner(job: CoverageJob): { run(from: number, to: num
   }
   const capacity = maxSamplesPerRay(job);
   const visitor: RayVisitor =
-    job.method === "delta-bullington"
+    job.method === "p1812"
+      ? new P1812Visitor(job, capacity, tally)
+      : job.method === "delta-bullington"
       ? new DeltaBullingtonVisitor(job, capacity, tally)
       : job.clearance_f1 > 0
         ? new ClearanceVisitor(job, capacity, tally)

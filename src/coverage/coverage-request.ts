@@ -3,6 +3,7 @@ import type { HataCitySize, HataEnvironment } from "../physics/hata.ts";
 import { buildPatternTables, type AntennaPatternInput, type PatternTables } from "./antenna-pattern.ts";
 import { CoverageError } from "./coverage-error.ts";
 import type { CoverageMethod } from "./coverage-job.ts";
+import type { P1812Request } from "./p1812-setup.ts";
 
 /** One coverage to compute, in SI units and dB (the study entry or the command line, resolved). */
 export interface CoverageRequest {
@@ -33,6 +34,8 @@ export interface CoverageRequest {
   ground: GroundClass;
   atmosphere: { pressure_hpa: number; temperature_c: number; water_vapour_g_m3: number };
   hata: { environment: HataEnvironment; city_size: HataCitySize };
+  /** p1812: the method's statistics and clutter */
+  p1812?: P1812Request;
 }
 
 /** The field names used in messages for each request quantity (study keys or CLI options). */
@@ -55,9 +58,23 @@ export function validateCoverageRequest(req: CoverageRequest, names: FieldNames 
   need(req.frequency_ghz > 0 && req.frequency_ghz <= 1000, "frequency_ghz", req.frequency_ghz, "a frequency above 0 and up to 1000 GHz");
   need(req.k > 0, "k", req.k, "a positive effective Earth-radius factor (e.g. 4/3), or inf");
   need(req.clearance_f1 >= 0 && req.clearance_f1 <= 5, "clearance_f1", req.clearance_f1, "a fraction of the first Fresnel radius from 0 (geometric line of sight) to 5");
-  const minHeight = req.method === "delta-bullington" ? 0 : -1;
+  const above = req.method === "delta-bullington" || req.method === "p1812";
+  const minHeight = above ? 0 : -1;
   for (const k of ["antenna_m", "receiver_m"] as const) {
-    need(req[k] > minHeight && req[k] <= 1000, k, req[k], req.method === "delta-bullington" ? "a height above ground greater than 0 and up to 1000 m (delta-Bullington needs the antenna above the surface)" : "a height above ground from 0 to 1000 m");
+    need(req[k] > minHeight && req[k] <= 1000, k, req[k], above ? "a height above ground greater than 0 and up to 1000 m (the method needs the antenna above the surface)" : "a height above ground from 0 to 1000 m");
+  }
+  if (req.method === "p1812") {
+    need(req.frequency_ghz >= 0.03 && req.frequency_ghz <= 6, "frequency_ghz", req.frequency_ghz, "a frequency from 0.03 to 6 GHz (the range of ITU-R P.1812-6)");
+    const q = req.p1812;
+    if (q) {
+      const nm = (k: string) => names[k as keyof CoverageRequest] ?? `p1812.${k}`;
+      const needP = (ok: boolean, k: string, v: number, expected: string) => {
+        if (!ok) throw new CoverageError(`${nm(k)}: received ${v}; expected ${expected}`, nm(k), { received: String(v), expected });
+      };
+      needP(q.time_pct >= 1 && q.time_pct <= 50, "time_pct", q.time_pct, "a percentage of time from 1 to 50 %");
+      needP(q.location_pct >= 1 && q.location_pct <= 99, "location_pct", q.location_pct, "a percentage of locations from 1 to 99 %");
+      needP(q.dn > 0 && q.dn < 157, "dn", q.dn, "a lapse rate ΔN above 0 and below 157 N-units/km");
+    }
   }
   for (const k of ["tx_power_dbm", "tx_losses_db", "gain_dbi", "rx_gain_dbi", "rx_losses_db"] as const) need(Number.isFinite(req[k]), k, req[k], "a finite number of dB");
   const t = req.thresholds_dbm;

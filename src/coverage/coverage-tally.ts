@@ -9,6 +9,8 @@ export interface TallyData {
   failed: number;
   min: number;
   max: number;
+  /** Σ location probability × area (m²) per threshold (P.1812 coverages; zeros otherwise): area reliability × area */
+  reliability_m2: number[];
 }
 
 /**
@@ -17,6 +19,7 @@ export interface TallyData {
  */
 export class CoverageTally {
   readonly atLeast: Float64Array;
+  readonly reliability: Float64Array;
   area = 0;
   cells = 0;
   failed = 0;
@@ -25,11 +28,13 @@ export class CoverageTally {
 
   constructor(readonly thresholds: Float64Array) {
     this.atLeast = new Float64Array(thresholds.length);
+    this.reliability = new Float64Array(thresholds.length);
   }
 
   /** Start counting afresh (a new chunk of work). */
   reset(): void {
     this.atLeast.fill(0);
+    this.reliability.fill(0);
     this.area = 0;
     this.cells = 0;
     this.failed = 0;
@@ -59,6 +64,7 @@ export class CoverageTally {
     this.area += s.area_m2;
     this.failed += s.failed;
     for (let j = 0; j < this.atLeast.length; j++) this.atLeast[j] += s.at_least_m2[j];
+    for (let j = 0; j < this.reliability.length; j++) this.reliability[j] += s.reliability_m2?.[j] ?? 0;
     if (s.min < this.min) this.min = s.min;
     if (s.max > this.max) this.max = s.max;
   }
@@ -68,15 +74,16 @@ export class CoverageTally {
   }
 
   data(): TallyData {
-    return { at_least_m2: Array.from(this.atLeast), area_m2: this.area, cells: this.cells, failed: this.failed, min: this.min, max: this.max };
+    return { at_least_m2: Array.from(this.atLeast), area_m2: this.area, cells: this.cells, failed: this.failed, min: this.min, max: this.max, reliability_m2: Array.from(this.reliability) };
   }
 }
 
 /** Sum of tallies over the same thresholds. */
 export function mergeTallies(parts: TallyData[], nThresholds: number): TallyData {
-  const out: TallyData = { at_least_m2: new Array<number>(nThresholds).fill(0), area_m2: 0, cells: 0, failed: 0, min: Infinity, max: -Infinity };
+  const out: TallyData = { at_least_m2: new Array<number>(nThresholds).fill(0), area_m2: 0, cells: 0, failed: 0, min: Infinity, max: -Infinity, reliability_m2: new Array<number>(nThresholds).fill(0) };
   for (const p of parts) {
     for (let j = 0; j < nThresholds; j++) out.at_least_m2[j] += p.at_least_m2[j];
+    for (let j = 0; j < nThresholds; j++) out.reliability_m2[j] += p.reliability_m2?.[j] ?? 0;
     out.area_m2 += p.area_m2;
     out.cells += p.cells;
     out.failed += p.failed;

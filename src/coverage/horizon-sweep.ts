@@ -90,7 +90,7 @@ export function horizonSweep(g: SweepGeometry, dem: Float32Array | Int16Array, r
     faceWavefront(fv, iv, st, dem, out, area, sums);
     const [cells, area_m2, visible, nVisible, failed] = sums;
     const some = cells > 0; // (each comparison below is made on every call, the warm-up's too)
-    tally.addSums({ cells, area_m2, at_least_m2: [visible], failed, min: some ? (nVisible < cells ? 0 : 1) : Infinity, max: some ? (nVisible > 0 ? 1 : 0) : -Infinity });
+    tally.addSums({ cells, area_m2, at_least_m2: [visible], failed, min: some ? (nVisible < cells ? 0 : 1) : Infinity, max: some ? (nVisible > 0 ? 1 : 0) : -Infinity, reliability_m2: [0] });
   }
 }
 
