@@ -262,7 +262,7 @@ export async function analyzeStudy(study: Study, options: AnalyzeOptions = {}): 
     coverageResults = cov.results; // without compute time: no clock in results
     coverageCache = cov.cache;
     warnings.push(...cov.warnings);
-    coverage = { dir, maps: [...cov.items.map((it) => ({ id: it.result.id, svg: it.svg })), ...(cov.composite ? [{ id: "composite", svg: cov.composite.svg }] : [])] };
+    coverage = { dir, maps: [...cov.items.flatMap((it) => [{ id: it.result.id, svg: it.svg }, ...it.extra.map((x) => ({ id: `${it.result.id}-${x.suffix}`, svg: x.svg }))]), ...(cov.composite ? [{ id: "composite", svg: cov.composite.svg }] : [])] };
   }
 
   // --- The study's result ---

@@ -15,6 +15,8 @@ import { CoverageError } from "./coverage-error.ts";
 import { CoveragePool } from "./coverage-pool.ts";
 import type { CoverageRequest, FieldNames } from "./coverage-request.ts";
 import { coverageResult, formatDb, thresholdAreas, type CoverageResult } from "./coverage-result.ts";
+import { mapOverlay, p1812Summary, readServiceArea, serviceAreaSummary } from "./coverage-extras.ts";
+import type { ServiceArea } from "./service-area.ts";
 import { isotropicPowerDbm } from "./field-strength.ts";
 import { studyComposite, type CompositeMember, type CompositeOutputs } from "./study-composite.ts";
 import { coverageRaster, requireOutputStage, type CoverageFigure, type CoverageOutputStage } from "./coverage-output-stage.ts";
@@ -46,6 +48,8 @@ export interface AnalyzedCoverage {
   /** data for the page's coverage map (coverageMapSvg) and the SVG itself */
   figure: CoverageFigure;
   svg: string;
+  /** further maps (the location-probability map of a P.1812 coverage) */
+  extra: { suffix: string; figure: CoverageFigure; svg: string }[];
   computed: ComputedCoverage;
 }
 
@@ -162,11 +166,25 @@ export async function analyzeCoverage(study: Study, entry: CoverageInput, terrai
   const site = study.sites.find((s) => s.id === entry.site)!;
   const labels = entry.threshold_unit === "dBuV/m" ? entry.thresholds.map((e) => `≥ ${formatDb(e)} dBµV/m`) : undefined;
   const areas = thresholdAreas(computed, labels);
+  const rowLabels = areas.map((a) => a.label);
+  let sa: ServiceArea | null = null;
+  const extras: Pick<CoverageResult, "p1812" | "service_area"> = {};
+  try {
+    sa = readServiceArea(study, entry);
+    if (computed.job.p1812) extras.p1812 = p1812Summary(study, entry, computed, rowLabels);
+    if (sa) extras.service_area = serviceAreaSummary(entry, computed, sa, rowLabels);
+  } catch (e) {
+    if (e instanceof CoverageError) throw new InputError([{ file: study.file, ...study.locate(["coverage", i, e.field.split(".")[0]]), field: `coverage[${i}].${e.field} (${entry.id})`, received: e.detail.received ?? "", expected: e.detail.expected ?? e.message }], { cause: e });
+    throw e;
+  }
   const title = `${entry.id}: ${methodName(entry.method)} from ${site.name}, ${entry.frequency_ghz} GHz, radius ${entry.radius_km} km`;
-  const out = await requireOutputStage(options.outputs).write(coverageRaster(computed, title, areas, { name: site.name, lat_deg: site.lat_deg, lon_deg: site.lon_deg }), { dir: options.outDir, stem: entry.id });
-  const result = coverageResult(entry.id, [site.id], computed, out.files, labels);
+  const raster = coverageRaster(computed, title, areas, { name: site.name, lat_deg: site.lat_deg, lon_deg: site.lon_deg });
+  raster.overlay = mapOverlay(study, computed, entry.site, sa);
+  if (computed.job.p1812 && rowLabels.length) raster.probability = { values: new Float32Array(computed.job.p1812.probability), label: rowLabels[0] };
+  const out = await requireOutputStage(options.outputs).write(raster, { dir: options.outDir, stem: entry.id });
+  const result = { ...coverageResult(entry.id, [site.id], computed, out.files, labels), ...extras };
   const files = Object.fromEntries(Object.entries(out.files).map(([k, f]) => [k, join(options.outDir, f)]));
-  return { result, files, figure: out.figure, svg: out.svg, computed };
+  return { result, files, figure: out.figure, svg: out.svg, extra: out.extra ?? [], computed };
 }
 
 /**

@@ -3,6 +3,8 @@ import sharp from "sharp";
 import { toolIdentity } from "../cache/cache-keys.ts";
 import { canonicalJson } from "../cache/canonical-json.ts";
 import { modulesFingerprint } from "../cache/code-fingerprint.ts";
+import { fileDigest } from "../cache/file-digest.ts";
+import { resolve } from "node:path";
 import type { CoverageInput, Study } from "../study/study.ts";
 
 /**
@@ -47,8 +49,19 @@ export function coverageKeyer(study: Study, terrainKey: string): CoverageKeyer {
     const s = study.sites.find((x) => x.id === id);
     return s ? { id: s.id, name: s.name, lat_deg: s.lat_deg, lon_deg: s.lon_deg } : null;
   };
+  // every site and link: the maps draw them and a P.1812 coverage tabulates the sites it serves
+  const layout = sha256(canonicalJson([study.sites.map((s) => siteOf(s.id)), study.links.map((l) => [l.id, l.from.site, l.to.site])]));
+  const digest = (file: string | undefined) => {
+    if (!file) return null;
+    try {
+      return fileDigest(resolve(study.dir, file));
+    } catch {
+      return "unreadable"; // reported when the coverage is computed
+    }
+  };
+  const inputs = (e: CoverageInput) => [digest(e.p1812?.land_cover?.file), digest(e.service_area)];
   return {
-    entry: (entry) => sha256(canonicalJson(["coverage", shared, entry, siteOf(entry.site)])),
+    entry: (entry) => sha256(canonicalJson(["coverage", shared, entry, siteOf(entry.site), layout, inputs(entry)])),
     composite: (memberKeys) => sha256(canonicalJson(["coverage-composite", shared, memberKeys])),
   };
 }

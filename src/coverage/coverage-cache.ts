@@ -34,6 +34,8 @@ export interface StudyCoverageMap {
   files: Record<string, string>;
   figure: CoverageFigure;
   svg: string;
+  /** further maps of the coverage: page id suffix and SVG */
+  extra: { suffix: string; svg: string }[];
 }
 
 /** A study's coverage maps, and how many came from the cache. */
@@ -57,6 +59,7 @@ interface StoredFile {
 interface CoverageEntry {
   result: CoverageResult;
   figure: CoverageFigure;
+  extra?: { suffix: string; figure: CoverageFigure }[];
   files: StoredFile[];
   /** what the composite needs of a level coverage; null for visibility */
   member: Omit<CompositeMember, "result"> | null;
@@ -101,11 +104,11 @@ export async function cachedStudyCoverage(study: Study, o: CachedCoverageOptions
         if (pool === undefined) pool = workers > 0 ? CoveragePool.start(workers) : null; // threads load while the terrain opens
         const a = await analyzeCoverage(study, entry, await o.openTerrain(), { outDir: o.outDir, outputs: o.outputs, pool, index: i, onProgress: o.onProgress });
         const { compute_s: _clock, ...result } = a.result; // no clock in results
-        run.items.push({ result, files: a.files, figure: a.figure, svg: a.svg });
+        run.items.push({ result, files: a.files, figure: a.figure, svg: a.svg, extra: a.extra.map((x) => ({ suffix: x.suffix, svg: x.svg })) });
         const m = compositeMemberOf(a);
         member = m && { ...m, result };
         if (keys[i]) {
-          const stored: CoverageEntry = { result, figure: a.figure, files: readFiles(o.outDir, result.files), member: m && { thresholds_dbm: m.thresholds_dbm, grid: m.grid, values: m.values, dem: m.dem } };
+          const stored: CoverageEntry = { result, figure: a.figure, extra: a.extra.map((x) => ({ suffix: x.suffix, figure: x.figure })), files: readFiles(o.outDir, result.files), member: m && { thresholds_dbm: m.thresholds_dbm, grid: m.grid, values: m.values, dem: m.dem } };
           cache!.put("coverage", keys[i], stored);
         }
         run.cache.misses++;
@@ -118,6 +121,7 @@ export async function cachedStudyCoverage(study: Study, o: CachedCoverageOptions
   } finally {
     await pool?.close();
   }
+  bestServers(run.items.map((it) => it.result));
   run.results.push(...run.items.map((it) => it.result));
   if (members.length >= 2) await addComposite(run, study, members, memberKeys.every((k) => k) ? keyer!.composite(memberKeys as string[]) : null, o);
   return run;
@@ -152,10 +156,23 @@ async function addComposite(run: CachedStudyCoverage, study: Study, members: Com
 }
 
 /** Write a cached map's files into dir; its JSON, absolute file paths, figure and SVG. */
-function restore(e: { result: CoverageResult; figure: CoverageFigure; files: StoredFile[] }, dir: string, outputs: CoverageOutputStage): StudyCoverageMap {
+function restore(e: { result: CoverageResult; figure: CoverageFigure; files: StoredFile[]; extra?: { suffix: string; figure: CoverageFigure }[] }, dir: string, outputs: CoverageOutputStage): StudyCoverageMap {
   for (const f of e.files) writeFileSync(join(dir, f.name), f.bytes);
   const files = Object.fromEntries(Object.entries(e.result.files).map(([k, f]) => [k, join(dir, f)]));
-  return { result: e.result, files, figure: e.figure, svg: outputs.svg(e.figure) };
+  return { result: structuredClone(e.result), files, figure: e.figure, svg: outputs.svg(e.figure), extra: (e.extra ?? []).map((x) => ({ suffix: x.suffix, svg: outputs.svg(x.figure) })) };
+}
+
+/**
+ * Fill the served-sites tables' best server: for each site, the P.1812 coverage of the study
+ * with the strongest median level there (results in place; ties to the first in study order).
+ */
+function bestServers(results: CoverageResult[]): void {
+  const best = new Map<string, { id: string; level: number }>();
+  for (const r of results) for (const s of r.p1812?.served_sites ?? []) {
+    const b = best.get(s.site);
+    if (!b || s.median_dbm > b.level) best.set(s.site, { id: r.id, level: s.median_dbm });
+  }
+  for (const r of results) for (const s of r.p1812?.served_sites ?? []) s.best_server = best.get(s.site)!.id;
 }
 
 /** The bytes of the files a map wrote (names relative to dir). */

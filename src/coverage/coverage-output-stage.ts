@@ -17,6 +17,17 @@ export interface CoverageRaster {
   kind: "level" | "visibility";
   areas: ThresholdArea[];
   sites: { name: string; col: number; row: number; lat_deg: number; lon_deg: number }[];
+  /** drawn over the map, in the grid's pixel-centre coordinates: the study's other sites, its links, the service area */
+  overlay?: MapOverlay;
+  /** P.1812: location probability (0–1, −1 outside) of the threshold named by `label` */
+  probability?: { values: Float32Array; label: string };
+}
+
+/** Other features of the study on a coverage map (grid pixel-centre coordinates). */
+export interface MapOverlay {
+  others: { name: string; col: number; row: number }[];
+  links: [number, number, number, number][];
+  areas: [number, number][][];
 }
 
 export interface WriteOptions {
@@ -42,6 +53,8 @@ export interface WrittenCoverage<F extends CoverageFigure = CoverageFigure> {
   files: Record<string, string>;
   figure: F;
   svg: string;
+  /** further maps of the same coverage (e.g. "probability"), each with its figure and SVG */
+  extra?: { suffix: string; figure: F; svg: string }[];
 }
 
 /**

@@ -1,6 +1,7 @@
 import { crsFromEpsg } from "../geo/crs-from-epsg.ts";
 import type { ComputedCoverage } from "./compute-coverage.ts";
 import { fieldStrengthDbuvM } from "./field-strength.ts";
+import type { ServedSite } from "./served-sites.ts";
 
 /** One row of the area table: a threshold and the ground it covers. */
 export interface ThresholdArea {
@@ -39,12 +40,45 @@ export interface CoverageResult {
   level_max_dbm: number | null;
   /** composite only: the area each coverage serves as best server (at or above the lowest threshold) */
   best_server?: { index: number; coverage: string; site: string; area_km2: number; pct: number }[];
+  /** P.1812 coverages: the statistics, area reliability per threshold and the served-sites table */
+  p1812?: P1812Summary;
+  /** the service area: its coverage share and area reliability */
+  service_area?: ServiceAreaSummary;
   /** output files, relative to the output folder */
   files: Record<string, string>;
   assumptions: string[];
   warnings: string[];
   /** compute time (s): for the one-off command only; a study's results omit it so builds are reproducible */
   compute_s?: number;
+}
+
+/** What a P.1812 coverage adds to its JSON. */
+export interface P1812Summary {
+  recommendation: string;
+  time_pct: number;
+  location_pct: number;
+  dn: number;
+  n0: number;
+  /** area reliability: mean location probability over the computed cells, per threshold (%) */
+  reliability: { label: string; level_dbm: number; area_reliability_pct: number }[];
+  /** the threshold the location-probability map shows */
+  probability_of: string;
+  served_sites: ServedSite[];
+  talk_back?: { tx_power_dbm: number; base_threshold_dbm: number; limiting: "downlink" | "uplink"; by_db: number };
+}
+
+/** A service area's statistics inside a coverage. */
+export interface ServiceAreaSummary {
+  name: string;
+  file: string;
+  area_km2: number;
+  /** computed area of the coverage inside the service area (km²) and the share of the service area it is (%) */
+  computed_km2: number;
+  computed_pct: number;
+  /** share of the computed service area at or above each threshold (at the coverage's location percentage) */
+  thresholds: { label: string; pct: number }[];
+  /** mean location probability of the first threshold inside the service area (%); null when not a P.1812 coverage */
+  area_reliability_pct: number | null;
 }
 
 /**

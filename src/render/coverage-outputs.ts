@@ -9,7 +9,7 @@ import { coverageMapData, coverageMapPng } from "./raster/coverage-map-data.ts";
 import { overlayPng } from "./raster/coverage-overlay.ts";
 import { thresholdColors, VISIBLE_COLOR } from "./raster/coverage-palette.ts";
 import type { CoverageOutputStage, CoverageRaster, WriteOptions } from "../coverage/coverage-output-stage.ts";
-import { LEVEL_NODATA, VISIBILITY_NODATA } from "../coverage/coverage-job.ts";
+import { LEVEL_NODATA, PROBABILITY_NODATA, VISIBILITY_NODATA } from "../coverage/coverage-job.ts";
 
 /**
  * Write a coverage's files: `<stem>.tif` (GeoTIFF: float32 received level in dBm with nodata
@@ -18,7 +18,7 @@ import { LEVEL_NODATA, VISIBILITY_NODATA } from "../coverage/coverage-job.ts";
  * `<stem>.geojson` (regions at or above each threshold, WGS84) and `<stem>.kml`.
  * @returns file names relative to dir, and the map data for the report page
  */
-export async function writeCoverageOutputs(r: CoverageRaster, o: WriteOptions): Promise<{ files: Record<string, string>; figure: CoverageMapData; svg: string }> {
+export async function writeCoverageOutputs(r: CoverageRaster, o: WriteOptions): Promise<{ files: Record<string, string>; figure: CoverageMapData; svg: string; extra?: { suffix: string; figure: CoverageMapData; svg: string }[] }> {
   mkdirSync(o.dir, { recursive: true });
   const files: Record<string, string> = {};
   const isLevel = r.kind === "level";
@@ -52,6 +52,7 @@ export async function writeCoverageOutputs(r: CoverageRaster, o: WriteOptions): 
     style,
     legend,
     sites: r.sites,
+    overlay: r.overlay,
     crs_note: `${crsFromEpsg(r.epsg)?.name ?? `EPSG:${r.epsg}`}, grid north up`,
   });
   const svg = coverageMapSvg(figure);
@@ -74,8 +75,47 @@ export async function writeCoverageOutputs(r: CoverageRaster, o: WriteOptions): 
       points: r.sites.map((s) => ({ name: s.name, lat_deg: s.lat_deg, lon_deg: s.lon_deg })),
     }),
   );
-  return { files, figure, svg };
+  const extra: { suffix: string; figure: CoverageMapData; svg: string }[] = [];
+  if (r.probability) {
+    const prob = r.probability;
+    files.probability_geotiff = `${o.stem}-probability.tif`;
+    writeGeoTiff(join(o.dir, files.probability_geotiff), {
+      width: r.width,
+      height: r.height,
+      data: prob.values,
+      geoTransform: r.geoTransform,
+      epsg: r.epsg,
+      nodata: PROBABILITY_NODATA,
+      description: `location probability (0-1) of ${prob.label}`,
+      unit: "",
+      compression: o.compression ?? "deflate",
+    });
+    const pt = PROBABILITY_BANDS;
+    const pc = thresholdColors(pt.length);
+    const pstyle = { thresholds: pt, colors: pc, nodata: PROBABILITY_NODATA };
+    const pfigure = await coverageMapData({
+      title: `${r.title}: location probability of ${prob.label}`,
+      values: prob.values,
+      dem: r.dem,
+      width: r.width,
+      height: r.height,
+      cell_m: r.cell_m,
+      style: pstyle,
+      legend: pt.map((t, i) => ({ color: pc[i], label: `${prob.label} at ≥ ${Math.round(t * 100)} % of locations` })),
+      sites: r.sites,
+      overlay: r.overlay,
+      crs_note: `${crsFromEpsg(r.epsg)?.name ?? `EPSG:${r.epsg}`}, grid north up`,
+    });
+    const psvg = coverageMapSvg(pfigure);
+    files.probability_map_png = `${o.stem}-probability-map.png`;
+    writeFileSync(join(o.dir, files.probability_map_png), await coverageMapPng(psvg));
+    extra.push({ suffix: "probability", figure: pfigure, svg: psvg });
+  }
+  return { files, figure, svg, ...(extra.length ? { extra } : {}) };
 }
+
+/** Location-probability bands of the probability map (fractions). */
+const PROBABILITY_BANDS = [0.5, 0.7, 0.9, 0.95];
 
 /** The render stage coverage analysis writes through (coverage never imports render). */
 export const coverageOutputStage: CoverageOutputStage = {
