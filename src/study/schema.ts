@@ -65,8 +65,8 @@ const clutterCategory = z.enum(["water", "open", "suburban", "urban", "dense_urb
 
 const p1812Options = z
   .object({
-    time_pct: z.number().min(1).max(50).default(50).describe("percentage of time the level is exceeded (1–50 %)"),
-    location_pct: z.number().min(1).max(99).default(50).describe("percentage of locations the mapped level is exceeded at (1–99 %)"),
+    time_pct: z.number().min(1, "a percentage of time from 1 to 50 %").max(50, "a percentage of time from 1 to 50 %").default(50).describe("percentage of time the level is exceeded (1–50 %)"),
+    location_pct: z.number().min(1, "a percentage of locations from 1 to 99 %").max(99, "a percentage of locations from 1 to 99 %").default(50).describe("percentage of locations the mapped level is exceeded at (1–99 %)"),
     sigma_l_db: z.number().min(0).max(30).optional().describe("location variability σL (dB); default: ITU-R P.1812-6 §4.8 for the frequency, cell size and the receiver's clutter"),
     dn: z.number().gt(0).lt(157).default(45).describe("average radio-refractivity lapse rate ΔN through the lowest 1 km (N-units/km)"),
     n0: z.number().min(250).max(400).default(325).describe("sea-level surface refractivity N0 (N-units)"),
