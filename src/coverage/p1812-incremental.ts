@@ -18,6 +18,8 @@ export interface P1812Constants {
   ae_m: number;
   /** sea-level surface refractivity N0 */
   n0: number;
+  /** true when every clutter height is 0: the clutter profile g is then the terrain h, kept once */
+  clutterFree?: boolean;
 }
 
 /** What one cell's evaluation gives (dB unless named), filled in place. */
@@ -124,10 +126,15 @@ export class P1812Radial {
   private readonly blend: ClearAirBlend = {} as ClearAirBlend;
   private readonly anomalous: AnomalousInput;
   private readonly sphOpts: { omega: number; polarization: "h" | "v"; frequency_ghz: number };
+  /** maxima of the terrain height h over blocks of BLOCK1 and BLOCK2 samples (bounds for hm) */
+  private readonly hMax1: Float64Array;
+  private readonly hMax2: Float64Array;
 
   constructor(capacity: number, private readonly c: P1812Constants) {
+    this.hMax1 = new Float64Array(Math.ceil((capacity + 2) / BLOCK1) + 1);
+    this.hMax2 = new Float64Array(Math.ceil((capacity + 2) / BLOCK2) + 1);
     this.pH = new RadialProfile(capacity);
-    this.pG = new RadialProfile(capacity);
+    this.pG = c.clutterFree ? this.pH : new RadialProfile(capacity);
     this.pGb = new RadialProfile(capacity);
     this.needBeta = c.p_pct < 50;
     this.lambda = 0.2998 / c.f_ghz; // as P.1812-6 and src/physics/p1812.ts take it
@@ -141,7 +148,7 @@ export class P1812Radial {
   /** Start a radial: ground at the site (m amsl), antenna (m amsl), whether the site is at sea. */
   reset(ground_m: number, hts_m: number, txSea: boolean): void {
     this.pH.reset(ground_m, hts_m, this.c.ae_m);
-    this.pG.reset(ground_m, hts_m, this.c.ae_m);
+    if (this.pG !== this.pH) this.pG.reset(ground_m, hts_m, this.c.ae_m);
     if (this.needBeta) this.pGb.reset(ground_m, hts_m, this.aeB_m);
     this.land.reset(!txSea);
     this.sea.reset(txSea);
@@ -150,9 +157,14 @@ export class P1812Radial {
 
   /** Append a sample: distance (m), ground (m amsl), representative clutter height (m), at sea. */
   push(d_m: number, h_m: number, clutter_m: number, atSea: boolean): void {
+    const i = this.pH.n;
+    const b1 = (i / BLOCK1) | 0;
+    if (i % BLOCK1 === 0 || i === 1 || h_m > this.hMax1[b1]) this.hMax1[b1] = h_m;
+    const b2 = (i / BLOCK2) | 0;
+    if (i % BLOCK2 === 0 || i === 1 || h_m > this.hMax2[b2]) this.hMax2[b2] = h_m;
     this.pH.push(d_m, h_m);
     const g = h_m + clutter_m; // P.1812-6 §3.2 (g = h + R at inner points)
-    this.pG.push(d_m, g);
+    if (this.pG !== this.pH) this.pG.push(d_m, g);
     if (this.needBeta) this.pGb.push(d_m, g);
     this.land.push(d_m, !atSea);
     this.sea.push(d_m, atSea);
@@ -241,7 +253,7 @@ export class P1812Radial {
     const hst = hstLs < h0 ? hstLs : h0; // P.1812-6 eq. (90a)
     const hsr = hsrLs < hR_m ? hsrLs : hR_m; // P.1812-6 eq. (90b)
     const m = (hsr - hst) / d; // P.1812-6 eq. (91)
-    const hm = lt >= 0 ? roughness(pH, lt, lr, hst, m) : 0; // P.1812-6 eq. (93)
+    const hm = lt >= 0 ? roughness(pH, this.hMax1, this.hMax2, lt, lr, hst, m) : 0; // P.1812-6 eq. (93)
 
     // --- zones (§3.6, Table 5) ---
     this.land.finish(d, !rxSea);
@@ -311,19 +323,18 @@ function diffraction(p: RadialProfile, d: number, hrs: number, htsP: number, hrs
 
 /**
  * hm = max over lt…lr of h_i − (hst + m·d_i) (P.1812-6 eq. (93)). Blocks of BLOCK1 and BLOCK2
- * samples are skipped when their bound — max z + d_end²/(2ae) for h, and the line at the block's
+ * samples are skipped when their bound — the block's highest h less the line at the block's
  * favourable end — cannot beat the best value found. Exact.
  */
-function roughness(p: RadialProfile, lt: number, lr: number, hst: number, m: number): number {
+function roughness(p: RadialProfile, hMax1: Float64Array, hMax2: Float64Array, lt: number, lr: number, hst: number, m: number): number {
   const H = p.h;
   const D = p.d;
-  const k = p.invTwoAe;
   let best = -Infinity;
   let i = lt;
   while (i <= lr) {
     if (i % BLOCK2 === 0 && i + BLOCK2 - 1 <= lr) {
       const de = D[i + BLOCK2 - 1];
-      const bound = p.blockMax2[i / BLOCK2] + k * de * de - hst - m * (m > 0 ? D[i] : de);
+      const bound = hMax2[i / BLOCK2] - hst - m * (m > 0 ? D[i] : de);
       if (bound <= best) {
         i += BLOCK2;
         continue;
@@ -331,7 +342,7 @@ function roughness(p: RadialProfile, lt: number, lr: number, hst: number, m: num
     }
     if (i % BLOCK1 === 0 && i + BLOCK1 - 1 <= lr) {
       const de = D[i + BLOCK1 - 1];
-      const bound = p.blockMax1[i / BLOCK1] + k * de * de - hst - m * (m > 0 ? D[i] : de);
+      const bound = hMax1[i / BLOCK1] - hst - m * (m > 0 ? D[i] : de);
       if (bound <= best) {
         i += BLOCK1;
         continue;

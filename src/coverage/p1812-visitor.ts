@@ -34,7 +34,7 @@ export class P1812Visitor implements RayVisitor {
 
   constructor(private readonly job: CoverageJob, capacity: number, private readonly tally: CoverageTally) {
     this.q = job.p1812!;
-    this.rad = new P1812Radial(capacity, { f_ghz: job.frequency_ghz, p_pct: this.q.time_pct, polarization: this.q.polarization, ae_m: this.q.ae_m, n0: this.q.n0 });
+    this.rad = new P1812Radial(capacity, { f_ghz: job.frequency_ghz, p_pct: this.q.time_pct, polarization: this.q.polarization, ae_m: this.q.ae_m, n0: this.q.n0, clutterFree: this.q.clutter_m.every((h) => h === 0) });
     this.out = new Float32Array(job.out);
     this.prob = new Float32Array(this.q.probability);
     this.classes = this.q.classes ? new Uint8Array(this.q.classes) : null;

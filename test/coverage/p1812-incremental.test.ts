@@ -23,6 +23,8 @@ interface Case {
   htg_m: number;
   hrg_m: number;
   pol: "h" | "v";
+  /** every clutter height 0 (the evaluator then keeps one profile for h and g) */
+  noClutter?: boolean;
 }
 
 function profile(c: Case) {
@@ -41,7 +43,7 @@ function profile(c: Case) {
     const u = i / (c.n - 1);
     const atSea = c.sea && u > seaFrom && u < seaTo;
     h[i] = atSea ? 0 : Math.max(1, y + c.ridge_m * Math.exp(-(((u - rc) / 0.05) ** 2)));
-    R[i] = atSea ? 0 : [0, 10, 15, 20][Math.floor(rnd() * 4)];
+    R[i] = atSea || c.noClutter ? 0 : [0, 10, 15, 20][Math.floor(rnd() * 4)];
     zone[i] = atSea ? ZONE_SEA : ZONE_INLAND;
   }
   return { d, h, R, zone };
@@ -52,6 +54,7 @@ const cases: Case[] = [
   { seed: 2, n: 400, step_m: 75, roughness_m: 30, ridge_m: 0, sea: false, f_ghz: 0.15, p_pct: 10, htg_m: 20, hrg_m: 10, pol: "h" },
   { seed: 3, n: 500, step_m: 100, roughness_m: 10, ridge_m: 80, sea: true, f_ghz: 0.9, p_pct: 1, htg_m: 40, hrg_m: 2, pol: "v" },
   { seed: 4, n: 250, step_m: 30, roughness_m: 5, ridge_m: -50, sea: false, f_ghz: 2.4, p_pct: 50, htg_m: 15, hrg_m: 3, pol: "h" },
+  { seed: 6, n: 300, step_m: 50, roughness_m: 25, ridge_m: 120, sea: false, f_ghz: 0.6, p_pct: 50, htg_m: 25, hrg_m: 2, pol: "v", noClutter: true },
   { seed: 5, n: 600, step_m: 200, roughness_m: 40, ridge_m: 300, sea: true, f_ghz: 0.07, p_pct: 20, htg_m: 100, hrg_m: 1.5, pol: "v" },
 ];
 
@@ -61,7 +64,7 @@ describe("incremental P.1812-6 along a radial equals p1812Loss on the same profi
       const { d, h, R, zone } = profile(c);
       const dn = 45;
       const ae_m = effectiveEarthRadiusKm(dn) * 1000;
-      const rad = new P1812Radial(c.n, { f_ghz: c.f_ghz, p_pct: c.p_pct, polarization: c.pol, ae_m, n0: 325 });
+      const rad = new P1812Radial(c.n, { f_ghz: c.f_ghz, p_pct: c.p_pct, polarization: c.pol, ae_m, n0: 325, clutterFree: c.noClutter });
       rad.reset(h[0], h[0] + c.htg_m, zone[0] === ZONE_SEA);
       const o = newCellLoss();
       const phi = 50;
