@@ -182,7 +182,7 @@ export async function analyzeCoverage(study: Study, entry: CoverageInput, terrai
   raster.overlay = mapOverlay(study, computed, entry.site, sa);
   if (computed.job.p1812 && rowLabels.length) raster.probability = { values: new Float32Array(computed.job.p1812.probability), label: rowLabels[0] };
   const out = await requireOutputStage(options.outputs).write(raster, { dir: options.outDir, stem: entry.id });
-  const result = { ...coverageResult(entry.id, [site.id], computed, out.files, labels), ...extras };
+  const result = { ...coverageResult(entry.id, [site.id], computed, out.files, labels), ...(entry.note ? { note: entry.note } : {}), ...extras };
   const files = Object.fromEntries(Object.entries(out.files).map(([k, f]) => [k, join(options.outDir, f)]));
   return { result, files, figure: out.figure, svg: out.svg, extra: out.extra ?? [], computed };
 }

@@ -40,6 +40,8 @@ export interface CoverageResult {
   level_max_dbm: number | null;
   /** composite only: the area each coverage serves as best server (at or above the lowest threshold) */
   best_server?: { index: number; coverage: string; site: string; area_km2: number; pct: number }[];
+  /** the study's note for the report, as written */
+  note?: string;
   /** P.1812 coverages: the statistics, area reliability per threshold and the served-sites table */
   p1812?: P1812Summary;
   /** the service area: its coverage share and area reliability */

@@ -135,6 +135,7 @@ const coverageEntry = z
     clearance_f1: z.number().min(0).max(5).default(0).describe("visibility: required clearance as a fraction of the first Fresnel radius (0: geometric line of sight)"),
     polarization: z.enum(["h", "v"]).default("v"),
     p1812: p1812Options.optional().describe("p1812: time and location statistics, clutter, indoor reception"),
+    note: z.string().min(1).optional().describe("a sentence for the report under the coverage's heading (e.g. how the thresholds were chosen)"),
     service_area: z.string().min(1).optional().describe("service-area polygon (GeoJSON or KML file, relative to the study): coverage share and area reliability inside it"),
     talk_back: z
       .object({
