@@ -1,8 +1,8 @@
 import type { LinkResult } from "../analysis/results.ts";
 import { formatNumber as f } from "../site/format.ts";
 
-/** Print one link result as a readable table on stdout. */
-export function printLinkTable(l: LinkResult): void {
+/** Print one link result as a readable table on stdout, with a method's own rows after the targets. */
+export function printLinkTable(l: LinkResult, methodRows: [string, string][] = []): void {
   const rows: [string, string][] = [
     ["Distance", `${f(l.distance_m / 1000, 3)} km`],
     ["Azimuth from / to", `${f(l.azimuth_from_deg, 2)}° / ${f(l.azimuth_to_deg, 2)}° (true)`],
@@ -23,6 +23,7 @@ export function printLinkTable(l: LinkResult): void {
   if (l.fade_margin_db !== undefined) rows.push(["Fade margin", `${f(l.fade_margin_db, 1)} dB`]);
   if (l.availability_pct !== undefined) rows.push(["Availability", `${f(l.availability_pct, 5)} % (target ${f(l.target_availability_pct, 3)} %)`]);
   rows.push(["Targets", l.target_met ? "met" : "MISSED"]);
+  rows.push(...methodRows);
   const w = Math.max(...rows.map((r) => r[0].length));
   process.stdout.write(rows.map(([k, v]) => `${k.padEnd(w)}  ${v}`).join("\n") + "\n");
   for (const warning of l.warnings) process.stdout.write(`warning: ${warning}\n`);

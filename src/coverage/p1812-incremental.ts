@@ -253,7 +253,8 @@ export class P1812Radial {
     const hst = hstLs < h0 ? hstLs : h0; // P.1812-6 eq. (90a)
     const hsr = hsrLs < hR_m ? hsrLs : hR_m; // P.1812-6 eq. (90b)
     const m = (hsr - hst) / d; // P.1812-6 eq. (91)
-    const hm = lt >= 0 ? roughness(pH, this.hMax1, this.hMax2, lt, lr, hst, m) : 0; // P.1812-6 eq. (93)
+    // the span between the horizon points taken in order (as pathGeometry: they can cross)
+    const hm = lt >= 0 ? roughness(pH, this.hMax1, this.hMax2, lt < lr ? lt : lr, lt < lr ? lr : lt, hst, m) : 0; // P.1812-6 eq. (93)
 
     // --- zones (§3.6, Table 5) ---
     this.land.finish(d, !rxSea);

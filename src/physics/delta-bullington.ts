@@ -3,6 +3,7 @@ import { bullingtonFromArrays, type BullingtonResult } from "./bullington.ts";
 import { isComputablePath, pathLambdaM, type DiffractionPath } from "./profile.ts";
 import { smoothEarthHeights } from "./smooth-earth-heights.ts";
 import { sphericalEarthDiffractionLoss, type SphericalEarthResult } from "./spherical-earth-diffraction.ts";
+import type { FirstTermOptions } from "./spherical-earth-first-term.ts";
 
 /** Options of the delta-Bullington method. */
 export interface DeltaBullingtonOptions {
@@ -71,21 +72,20 @@ export function deltaBullingtonLoss(path: DiffractionPath, options: DeltaBulling
   const ok = isComputablePath(path) && lambda > 0 && lambda < Infinity && omega >= 0 && omega <= 1;
   if (!ok) return nanResult();
   const { d_m, h_m, hts_m, hrs_m, ae_m } = path;
-  const n = d_m.length;
-  const Lbulla = bullingtonFromArrays(d_m, h_m, hts_m, hrs_m, lambda, ae_m);
   const sm = smoothEarthHeights(d_m, h_m, hts_m, hrs_m);
   const hts1 = sm.hts_prime_m;
   const hrs1 = sm.hrs_prime_m;
-  const Lbulls = bullingtonFromArrays(d_m, null, hts1, hrs1, lambda, ae_m);
-  const sph = sphericalEarthDiffractionLoss(d_m[n - 1], hts1, hrs1, ae_m, lambda, {
+  const core = deltaBullingtonParts(d_m, h_m, hts_m, hrs_m, sm.hstd_m, sm.hsrd_m, ae_m, lambda, {
     omega,
     polarization: options.polarization,
     epsilon_r: options.epsilon_r,
     sigma_s_m: options.sigma_s_m,
   });
-  const Ld = Lbulla.Lbull + Math.max(sph.Ldsph - Lbulls.Lbull, 0); // P.526-15 §4.5.2 (Ld)
+  const Lbulla = core.actual;
+  const Lbulls = core.smooth;
+  const sph = core.spherical;
   return {
-    Ld: Number.isNaN(sph.Ldsph) ? NaN : Ld,
+    Ld: core.Ld,
     Lbulla: Lbulla.Lbull,
     Lbulls: Lbulls.Lbull,
     Ldsph: sph.Ldsph,
@@ -163,18 +163,38 @@ export function deltaBullingtonOverSurface(
   ae_m: number,
   options: SurfaceDiffractionOptions,
 ): SurfaceDiffractionLoss {
-  const lambda = options.lambda_m;
-  const Lbulla = bullingtonFromArrays(d_m, g_m, hts_m, hrs_m, lambda, ae_m).Lbull; // P.1812-6 eq. (21)
-  const hts1 = hts_m - hstd_m; // P.1812-6 eq. (37a)
-  const hrs1 = hrs_m - hsrd_m; // P.1812-6 eq. (37b)
-  const Lbulls = bullingtonFromArrays(d_m, null, hts1, hrs1, lambda, ae_m).Lbull; // P.1812-6 eq. (21)
-  const sph = sphericalEarthDiffractionLoss(d_m[d_m.length - 1], hts1, hrs1, ae_m, lambda, {
+  const c = deltaBullingtonParts(d_m, g_m, hts_m, hrs_m, hstd_m, hsrd_m, ae_m, options.lambda_m, {
     omega: options.omega,
     polarization: options.polarization,
     frequency_ghz: options.frequency_ghz,
   });
-  const Ld = Lbulla + Math.max(sph.Ldsph - Lbulls, 0); // P.1812-6 eq. (39)
-  return { Ld: Number.isNaN(sph.Ldsph) ? NaN : Ld, Lbulla, Lbulls, Ldsph: sph.Ldsph };
+  return { Ld: c.Ld, Lbulla: c.actual.Lbull, Lbulls: c.smooth.Lbull, Ldsph: c.spherical.Ldsph };
+}
+
+/**
+ * The steps both delta-Bullington entry points share (the one home of the method): the
+ * Bullington loss of the profile, of the zero-height profile with the heights above the
+ * smooth surface, the spherical-Earth loss, and Ld = Lbulla + max(Ldsph − Lbulls, 0)
+ * (P.526-15 §4.5.2; P.1812-6 eq. (37a), (37b), (39)).
+ */
+function deltaBullingtonParts(
+  d_m: ArrayLike<number>,
+  g_m: ArrayLike<number>,
+  hts_m: number,
+  hrs_m: number,
+  hstd_m: number,
+  hsrd_m: number,
+  ae_m: number,
+  lambda_m: number,
+  ground: FirstTermOptions,
+): { Ld: number; actual: BullingtonResult; smooth: BullingtonResult; spherical: SphericalEarthResult } {
+  const actual = bullingtonFromArrays(d_m, g_m, hts_m, hrs_m, lambda_m, ae_m); // P.1812-6 eq. (21)
+  const hts1 = hts_m - hstd_m; // P.1812-6 eq. (37a)
+  const hrs1 = hrs_m - hsrd_m; // P.1812-6 eq. (37b)
+  const smooth = bullingtonFromArrays(d_m, null, hts1, hrs1, lambda_m, ae_m); // P.1812-6 eq. (21)
+  const spherical = sphericalEarthDiffractionLoss(d_m[d_m.length - 1], hts1, hrs1, ae_m, lambda_m, ground);
+  const Ld = actual.Lbull + Math.max(spherical.Ldsph - smooth.Lbull, 0); // P.526-15 §4.5.2 (Ld); P.1812-6 eq. (39)
+  return { Ld: Number.isNaN(spherical.Ldsph) ? NaN : Ld, actual, smooth, spherical };
 }
 
 /**

@@ -18,6 +18,7 @@
  * (the P.1812 codes; P.452 files number them differently — map them before calling).
  * Units follow the Recommendations: km for distances, m for heights, mrad for angles.
  */
+import { newSmoothEarthHeights, smoothSurface, type SmoothEarthHeights } from "./smooth-earth-heights.ts";
 
 /** Radio-climatic zone codes (ITU-R P.1812-6 §3.6 / Table codes): sea, coastal land, inland. */
 export const ZONE_SEA = 1;
@@ -205,6 +206,8 @@ export interface PathGeometry {
   hre_m: number;
   /** terrain roughness hm (m) */
   hm_m: number;
+  /** the smooth-surface fit behind hst/hsr and hstd/hsrd (scratch, reused) */
+  surface: SmoothEarthHeights;
 }
 
 /** A fresh `PathGeometry` filled with NaN (for reuse by `pathGeometry`). */
@@ -212,7 +215,7 @@ export function newPathGeometry(): PathGeometry {
   return {
     d_km: NaN, hts_m: NaN, hrs_m: NaN, transhorizon: false, theta_t_mrad: NaN, theta_r_mrad: NaN, theta_mrad: NaN,
     dlt_km: NaN, dlr_km: NaN, lt: -1, lr: -1, hst_ls_m: NaN, hsr_ls_m: NaN, hstd_m: NaN, hsrd_m: NaN,
-    hst_m: NaN, hsr_m: NaN, hte_m: NaN, hre_m: NaN, hm_m: NaN,
+    hst_m: NaN, hsr_m: NaN, hte_m: NaN, hre_m: NaN, hm_m: NaN, surface: newSmoothEarthHeights(),
   };
 }
 
@@ -267,27 +270,18 @@ export function pathGeometry(
   out.hts_m = hts;
   out.hrs_m = hrs;
 
-  // least-squares smooth surface
-  let v1 = 0;
-  let v2 = 0;
-  for (let i = 1; i < n; i++) {
-    const di = d_km[i];
-    const dp = d_km[i - 1];
-    const dd = di - dp;
-    v1 += dd * (h_m[i] + h_m[i - 1]); // P.1812-6 eq. (85)
-    v2 += dd * (h_m[i] * (2 * di + dp) + h_m[i - 1] * (di + 2 * dp)); // P.1812-6 eq. (86)
-  }
-  const hstLs = (2 * v1 * d - v2) / (d * d); // P.1812-6 eq. (85)
-  const hsrLs = (v2 - v1 * d) / (d * d); // P.1812-6 eq. (86)
+  // smooth surfaces: the least-squares fit and the one for diffraction (one home: smooth-earth-heights.ts)
+  const sm = smoothSurface(d_km, 1, h_m, hts, hrs, out.surface);
+  const hstLs = sm.hst_m; // P.1812-6 eq. (85)
+  const hsrLs = sm.hsr_m; // P.1812-6 eq. (86)
   out.hst_ls_m = hstLs;
   out.hsr_ls_m = hsrLs;
+  out.hstd_m = sm.hstd_m; // P.1812-6 eq. (89)
+  out.hsrd_m = sm.hsrd_m; // P.1812-6 eq. (89)
 
-  // horizons and the diffraction surface in one pass over the inner points
+  // horizons
   let thetaMax = -Infinity;
   let lt = -1;
-  let hobs = -Infinity;
-  let aobt = -Infinity;
-  let aobr = -Infinity;
   for (let i = 1; i < n - 1; i++) {
     const di = d_km[i];
     const th = 1000 * Math.atan((h_m[i] - hts) / (1000 * di) - di / (2 * ae_km)); // P.1812-6 eq. (76)
@@ -295,12 +289,6 @@ export function pathGeometry(
       thetaMax = th;
       lt = i;
     }
-    const HH = h_m[i] - (hts * (d - di) + hrs * di) / d; // P.1812-6 eq. (87d)
-    if (HH > hobs) hobs = HH; // P.1812-6 eq. (87a)
-    const at = HH / di;
-    if (at > aobt) aobt = at; // P.1812-6 eq. (87b)
-    const ar = HH / (d - di);
-    if (ar > aobr) aobr = ar; // P.1812-6 eq. (87c)
   }
   const thetaTd = 1000 * Math.atan((hrs - hts) / (1000 * d) - d / (2 * ae_km)); // P.1812-6 eq. (77)
   const thetaRd = 1000 * Math.atan((hts - hrs) / (1000 * d) - d / (2 * ae_km)); // P.1812-6 eq. (80)
@@ -347,17 +335,6 @@ export function pathGeometry(
   out.lr = lr;
   out.theta_mrad = (1e3 * d) / ae_km + out.theta_t_mrad + thetaR; // P.1812-6 eq. (82)
 
-  let hstp = hstLs;
-  let hsrp = hsrLs;
-  if (hobs > 0) {
-    const gt = aobt / (aobt + aobr); // P.1812-6 eq. (88e)
-    const gr = aobr / (aobt + aobr); // P.1812-6 eq. (88f)
-    hstp = hstLs - hobs * gt; // P.1812-6 eq. (88c)
-    hsrp = hsrLs - hobs * gr; // P.1812-6 eq. (88d)
-  }
-  out.hstd_m = hstp >= h_m[0] ? h_m[0] : hstp; // P.1812-6 eq. (89)
-  out.hsrd_m = hsrp > h_m[n - 1] ? h_m[n - 1] : hsrp; // P.1812-6 eq. (89)
-
   const hst = hstLs < h_m[0] ? hstLs : h_m[0]; // P.1812-6 eq. (90a)
   const hsr = hsrLs < h_m[n - 1] ? hsrLs : h_m[n - 1]; // P.1812-6 eq. (90b)
   out.hst_m = hst;
@@ -366,7 +343,11 @@ export function pathGeometry(
   out.hte_m = htg_m + h_m[0] - hst; // P.1812-6 eq. (92a)
   out.hre_m = hrg_m + h_m[n - 1] - hsr; // P.1812-6 eq. (92b)
   let hm = -Infinity;
-  for (let i = lt; i <= lr; i++) {
+  // lt ≤ lr on every real path; the span is taken in order so that a profile where the two
+  // horizon points cross still gives a roughness
+  const i0 = lt < lr ? lt : lr;
+  const i1 = lt < lr ? lr : lt;
+  for (let i = i0; i <= i1; i++) {
     const r = h_m[i] - (hst + m * d_km[i]); // P.1812-6 eq. (93)
     if (r > hm) hm = r;
   }

@@ -16,17 +16,18 @@
  *     path-centre latitude phi_path_deg, or tx/rx latitude/longitude (deg);
  *     dn (ΔN, N-units/km, default 45), n0 (N0, N-units, default 325);
  *     dct_km, dcr_km (distance to coast, km, default 500, 0 when the terminal point is sea).
- *   For a coverage sweep: `p1812PathLoss(path, geometry, p, pL, σL)` takes a precomputed
- *     `PathGeometry` (src/physics/itu-path-geometry.ts) and the profile arrays, and the scalar
- *     parts (`p1812LineOfSight`, `p1812Troposcatter`, `ductingLayerReflectionLoss`,
- *     `clearAirBlend`, `p1812FieldStrengthDbuvM`) can be called per cell on running values.
+ *   For a coverage sweep: `p1812CellLoss(cell, out)` does everything after the profile
+ *     analysis from scalars (geometry of `pathGeometry` or running horizons, the caller's
+ *     Ld50/Ldβ from `deltaBullingtonOverSurface` or an incremental equivalent) into a reused
+ *     `P1812CellOutput` — no allocation per cell. `p1812Path` + `pathGeometry` +
+ *     `p1812PathLoss` is the same on a whole profile.
  * Terminal clutter in this edition: the representative clutter heights of the profile are
  * added to the terrain for the diffraction calculation at every point but the two
  * terminals (§3.2); the terminal clutter losses of earlier editions are gone (the terminal
  * clutter category only sets σL through the receiver's height relative to its clutter).
  */
 import { clearAirBlend, interpolationFj, interpolationFk, type ClearAirBlend } from "./itu-blend.ts";
-import { ductingLayerReflectionLoss } from "./itu-anomalous.ts";
+import { ductingLayerReflectionLoss, type AnomalousInput } from "./itu-anomalous.ts";
 import { deltaBullingtonOverSurface, diffractionLossForTime } from "./delta-bullington.ts";
 import {
   beta0Pct,
@@ -60,7 +61,9 @@ export const P1812_DEFAULTS = { dn: 45, n0: 325, dct_km: 500, dcr_km: 500, locat
 /**
  * Clutter categories of P.1812-6 Table 2 with their default representative clutter heights
  * (m) — water/sea 0, open/rural 0, suburban 10, urban/trees/forest 15, dense urban 20.
- * Codes 1–5 as in the Recommendation's validation profiles.
+ * Codes 1–5 as in the Recommendation's validation profiles. The heights are Table 2's as
+ * remembered (not re-read for this edition); the published validation profiles use 10 m and
+ * 15 m for suburban and urban points, consistent with them.
  */
 export const P1812_CLUTTER = {
   water: { code: 1, height_m: 0 },
@@ -292,11 +295,123 @@ export function p1812Loss(input: P1812Input): P1812Result {
 }
 
 /**
- * P.1812-6 §4 on a precomputed path and geometry: line of sight (§4.2), diffraction (§4.3),
- * troposcatter (§4.4), ducting/layer reflection (§4.5), blending (§4.6), location
- * variability (§4.8) and field strength (§4.9):
- *   Lb = max(Lb0p, Lbc + Lloc), Lloc = −I(pL/100)·σL (0 for a receiver at sea) (eq. (69));
- *   Ep from eq. (70).
+ * Scalars a coverage sweep has for one cell: the path geometry (running horizons and smooth
+ * surface), the diffraction losses it computed (e.g. incrementally along a radial), and the
+ * per-path constants. Fill one object per worker and pass it to `p1812CellLoss`.
+ */
+export interface P1812CellInput {
+  frequency_ghz: number;
+  time_pct: number;
+  location_pct: number;
+  sigma_l_db: number;
+  d_km: number;
+  hts_m: number;
+  hrs_m: number;
+  theta_t_mrad: number;
+  theta_r_mrad: number;
+  theta_mrad: number;
+  dlt_km: number;
+  dlr_km: number;
+  hte_m: number;
+  hre_m: number;
+  hm_m: number;
+  omega: number;
+  beta0_pct: number;
+  ae_km: number;
+  dlm_km: number;
+  dct_km: number;
+  dcr_km: number;
+  n0: number;
+  rx_at_sea: boolean;
+  /** diffraction loss for ae (50 % of time) and for aβ (β0 % of time) (dB) */
+  Ld50_db: number;
+  Ldbeta_db: number;
+}
+
+/** Reusable scratch and output of `p1812CellLoss` (create once per worker with `newP1812CellOutput`). */
+export interface P1812CellOutput {
+  Lb: number;
+  Ep_1kw_dbuv_m: number;
+  Ldp: number;
+  Lba: number;
+  Lbs: number;
+  Lloc: number;
+  Fj: number;
+  Fk: number;
+  los: LineOfSightLoss;
+  blend: ClearAirBlend;
+  anomalous: AnomalousInput;
+}
+
+/** A fresh `P1812CellOutput`. */
+export function newP1812CellOutput(): P1812CellOutput {
+  return {
+    Lb: NaN, Ep_1kw_dbuv_m: NaN, Ldp: NaN, Lba: NaN, Lbs: NaN, Lloc: NaN, Fj: NaN, Fk: NaN,
+    los: { Lbfs: NaN, Lb0p: NaN, Lb0b: NaN },
+    blend: { Fi: NaN, Lbd50: NaN, Lbd: NaN, Lminb0p: NaN, Lminbap: NaN, Lbda: NaN, Lbam: NaN, Lbc: NaN },
+    anomalous: {
+      d_km: NaN, dlt_km: NaN, dlr_km: NaN, dct_km: NaN, dcr_km: NaN, dlm_km: NaN, hts_m: NaN, hrs_m: NaN, hte_m: NaN, hre_m: NaN, hm_m: NaN,
+      theta_t_mrad: NaN, theta_r_mrad: NaN, f_ghz: NaN, p_pct: NaN, omega: NaN, ae_km: NaN, beta0_pct: NaN, low_frequency_correction: true,
+    },
+  };
+}
+
+/**
+ * P.1812-6 §4.2–4.9 for one cell from scalars (no profile, no allocation): line of sight,
+ * time interpolation of the diffraction loss, ducting/layer reflection, troposcatter,
+ * blending, location variability and field strength for 1 kW e.r.p.:
+ *   Lb = max(Lb0p, Lbc + Lloc), Lloc = −I(pL/100)·σL, 0 for a receiver at sea (eq. (69));
+ *   Ep = 199.36 + 20·log f − Lb (eq. (70)).
+ * @param c the cell's scalars
+ * @param out reusable output (its `los`, `blend`, `anomalous` are filled too)
+ * @returns `out`
+ */
+export function p1812CellLoss(c: P1812CellInput, out: P1812CellOutput): P1812CellOutput {
+  const f = c.frequency_ghz;
+  const p = c.time_pct;
+  const Fj = interpolationFj(c.theta_mrad); // P.1812-6 eq. (57)
+  const Fk = interpolationFk(c.d_km); // P.1812-6 eq. (58)
+  const los = p1812LineOfSight(c.d_km, c.hts_m, c.hrs_m, f, p, c.beta0_pct, c.dlt_km, c.dlr_km, out.los);
+  const Ldp = diffractionLossForTime(p, c.beta0_pct, c.Ld50_db, c.Ldbeta_db); // P.1812-6 eq. (41)
+  const a = out.anomalous;
+  a.d_km = c.d_km;
+  a.dlt_km = c.dlt_km;
+  a.dlr_km = c.dlr_km;
+  a.dct_km = c.dct_km;
+  a.dcr_km = c.dcr_km;
+  a.dlm_km = c.dlm_km;
+  a.hts_m = c.hts_m;
+  a.hrs_m = c.hrs_m;
+  a.hte_m = c.hte_m;
+  a.hre_m = c.hre_m;
+  a.hm_m = c.hm_m;
+  a.theta_t_mrad = c.theta_t_mrad;
+  a.theta_r_mrad = c.theta_r_mrad;
+  a.f_ghz = f;
+  a.p_pct = p;
+  a.omega = c.omega;
+  a.ae_km = c.ae_km;
+  a.beta0_pct = c.beta0_pct;
+  a.low_frequency_correction = true;
+  const Lba = ductingLayerReflectionLoss(a); // P.1812-6 eq. (46)
+  const Lbs = p1812Troposcatter(c.d_km, c.theta_mrad, f, p, c.n0); // P.1812-6 eq. (44)
+  const blend = clearAirBlend(p, c.beta0_pct, c.omega, los.Lbfs, los.Lb0p, los.Lb0b, c.Ld50_db, Ldp, Lba, Lbs, Fj, Fk, out.blend);
+  const Lloc = c.rx_at_sea ? 0 : -inverseComplementaryNormal(c.location_pct / 100) * c.sigma_l_db; // P.1812-6 eq. (69) (location term)
+  const Lb = Math.max(los.Lb0p, blend.Lbc + Lloc); // P.1812-6 eq. (69)
+  out.Lb = Lb;
+  out.Ep_1kw_dbuv_m = 199.36 + 20 * Math.log10(f) - Lb; // P.1812-6 eq. (70)
+  out.Ldp = Ldp;
+  out.Lba = Lba;
+  out.Lbs = Lbs;
+  out.Lloc = Lloc;
+  out.Fj = Fj;
+  out.Fk = Fk;
+  return out;
+}
+
+/**
+ * P.1812-6 §4 on a precomputed path and geometry: the delta-Bullington losses for ae and aβ
+ * on the clutter-augmented profile (§4.3), then `p1812CellLoss`.
  * @param path from `p1812Path`
  * @param geo from `pathGeometry` on the terrain heights
  * @param p_pct time percentage (%)
@@ -306,51 +421,45 @@ export function p1812Loss(input: P1812Input): P1812Result {
  */
 export function p1812PathLoss(path: P1812Path, geo: PathGeometry, p_pct: number, pL_pct: number, sigmaL_db: number): P1812Result {
   const f = path.frequency_ghz;
-  const d = geo.d_km;
   const hts = geo.hts_m;
   const hrs = geo.hrs_m;
-  const b0 = path.beta0_pct;
-  const Fj = interpolationFj(geo.theta_mrad); // P.1812-6 eq. (57)
-  const Fk = interpolationFk(d); // P.1812-6 eq. (58)
-  const los = p1812LineOfSight(d, hts, hrs, f, p_pct, b0, geo.dlt_km, geo.dlr_km);
   const opts = { lambda_m: 0.2998 / f, omega: path.omega, polarization: path.polarization, frequency_ghz: f };
   const d50 = deltaBullingtonOverSurface(path.d_m, path.g_m, hts, hrs, geo.hstd_m, geo.hsrd_m, path.ae_km * 1000, opts);
   const db = deltaBullingtonOverSurface(path.d_m, path.g_m, hts, hrs, geo.hstd_m, geo.hsrd_m, EARTH_RADIUS_BETA_KM * 1000, opts);
-  const Ldp = diffractionLossForTime(p_pct, b0, d50.Ld, db.Ld); // P.1812-6 eq. (41)
-  const Lba = ductingLayerReflectionLoss({
-    d_km: d, dlt_km: geo.dlt_km, dlr_km: geo.dlr_km, dct_km: path.dct_km, dcr_km: path.dcr_km, dlm_km: path.dlm_km,
-    hts_m: hts, hrs_m: hrs, hte_m: geo.hte_m, hre_m: geo.hre_m, hm_m: geo.hm_m,
-    theta_t_mrad: geo.theta_t_mrad, theta_r_mrad: geo.theta_r_mrad, f_ghz: f, p_pct, omega: path.omega,
-    ae_km: path.ae_km, beta0_pct: b0, low_frequency_correction: true,
-  }); // P.1812-6 eq. (46)
-  const Lbs = p1812Troposcatter(d, geo.theta_mrad, f, p_pct, path.n0); // P.1812-6 eq. (44)
-  const blend = clearAirBlend(p_pct, b0, path.omega, los.Lbfs, los.Lb0p, los.Lb0b, d50.Ld, Ldp, Lba, Lbs, Fj, Fk);
-  const Lloc = path.rx_at_sea ? 0 : -inverseComplementaryNormal(pL_pct / 100) * sigmaL_db; // P.1812-6 eq. (69) (location term)
-  const Lb = Math.max(los.Lb0p, blend.Lbc + Lloc); // P.1812-6 eq. (69)
+  const cell = p1812CellLoss(
+    {
+      frequency_ghz: f, time_pct: p_pct, location_pct: pL_pct, sigma_l_db: sigmaL_db, d_km: geo.d_km, hts_m: hts, hrs_m: hrs,
+      theta_t_mrad: geo.theta_t_mrad, theta_r_mrad: geo.theta_r_mrad, theta_mrad: geo.theta_mrad, dlt_km: geo.dlt_km, dlr_km: geo.dlr_km,
+      hte_m: geo.hte_m, hre_m: geo.hre_m, hm_m: geo.hm_m, omega: path.omega, beta0_pct: path.beta0_pct, ae_km: path.ae_km,
+      dlm_km: path.dlm_km, dct_km: path.dct_km, dcr_km: path.dcr_km, n0: path.n0, rx_at_sea: path.rx_at_sea,
+      Ld50_db: d50.Ld, Ldbeta_db: db.Ld,
+    },
+    newP1812CellOutput(),
+  );
   return {
-    Lb,
-    Ep_dbuv_m: p1812FieldStrengthDbuvM(Lb, f, path.ptx_kw), // P.1812-6 eq. (70)
+    Lb: cell.Lb,
+    Ep_dbuv_m: p1812FieldStrengthDbuvM(cell.Lb, f, path.ptx_kw), // P.1812-6 eq. (70)
     geometry: geo,
     phi_path_deg: path.phi_path_deg,
     dtm_km: path.dtm_km,
     dlm_km: path.dlm_km,
     omega: path.omega,
-    beta0_pct: b0,
+    beta0_pct: path.beta0_pct,
     ae_km: path.ae_km,
-    Fj,
-    Fk,
-    Lbfs: los.Lbfs,
-    Lb0p: los.Lb0p,
-    Lb0b: los.Lb0b,
+    Fj: cell.Fj,
+    Fk: cell.Fk,
+    Lbfs: cell.los.Lbfs,
+    Lb0p: cell.los.Lb0p,
+    Lb0b: cell.los.Lb0b,
     Lbulla: d50.Lbulla,
     Lbulls: d50.Lbulls,
     Ldsph: d50.Ldsph,
     Ld50: d50.Ld,
     Ldb: db.Ld,
-    Ldp,
-    Lba,
-    Lbs,
-    blend,
-    Lloc,
+    Ldp: cell.Ldp,
+    Lba: cell.Lba,
+    Lbs: cell.Lbs,
+    blend: cell.blend,
+    Lloc: cell.Lloc,
   };
 }

@@ -44,52 +44,74 @@ export interface SmoothEarthHeights {
  * @returns the surface heights and effective antenna heights (m)
  */
 export function smoothEarthHeights(d_m: ArrayLike<number>, h_m: ArrayLike<number>, hts_m: number, hrs_m: number): SmoothEarthHeights {
-  const n = d_m.length;
-  const d = d_m[n - 1] / 1000;
+  return smoothSurface(d_m, 1 / 1000, h_m, hts_m, hrs_m, newSmoothEarthHeights());
+}
+
+/** A `SmoothEarthHeights` filled with NaN, for reuse by `smoothSurface`. */
+export function newSmoothEarthHeights(): SmoothEarthHeights {
+  return { hst_m: NaN, hsr_m: NaN, hstp_m: NaN, hsrp_m: NaN, hstd_m: NaN, hsrd_m: NaN, hts_prime_m: NaN, hrs_prime_m: NaN, hobs_m: NaN };
+}
+
+/**
+ * The computation of `smoothEarthHeights` for distances in any unit (`d_to_km` converts them
+ * to km), written into `out` without allocating: the one home of the smooth-surface fit,
+ * used by the delta-Bullington method (distances in m) and by the ITU path analysis of
+ * P.1812-6 / P.452-18 (`itu-path-geometry.ts`, distances in km; there the equations are
+ * P.1812-6 eq. (85)–(89)).
+ * @param d distances from Tx, first 0
+ * @param d_to_km factor from the unit of `d` to km (1/1000 for m, 1 for km)
+ * @param h_m heights amsl (m)
+ * @param hts_m Tx antenna height amsl (m)
+ * @param hrs_m Rx antenna height amsl (m)
+ * @param out object to fill
+ * @returns `out`
+ */
+export function smoothSurface(d: ArrayLike<number>, d_to_km: number, h_m: ArrayLike<number>, hts_m: number, hrs_m: number, out: SmoothEarthHeights): SmoothEarthHeights {
+  const n = d.length;
+  const dt = d[n - 1] * d_to_km;
   let v1 = 0;
   let v2 = 0;
   for (let i = 1; i < n; i++) {
-    const di = d_m[i] / 1000;
-    const dp = d_m[i - 1] / 1000;
+    const di = d[i] * d_to_km;
+    const dp = d[i - 1] * d_to_km;
     const hi = h_m[i];
     const hp = h_m[i - 1];
-    v1 += (di - dp) * (hi + hp); // P.526-15 §4.5.2 (v1)
-    v2 += (di - dp) * (hi * (2 * di + dp) + hp * (di + 2 * dp)); // P.526-15 §4.5.2 (v2)
+    v1 += (di - dp) * (hi + hp); // P.526-15 §4.5.2 (v1); P.1812-6 eq. (85)
+    v2 += (di - dp) * (hi * (2 * di + dp) + hp * (di + 2 * dp)); // P.526-15 §4.5.2 (v2); P.1812-6 eq. (86)
   }
-  const hst = (2 * v1 * d - v2) / (d * d); // P.526-15 §4.5.2 (hst)
-  const hsr = (v2 - v1 * d) / (d * d); // P.526-15 §4.5.2 (hsr)
+  const hst = (2 * v1 * dt - v2) / (dt * dt); // P.526-15 §4.5.2 (hst)
+  const hsr = (v2 - v1 * dt) / (dt * dt); // P.526-15 §4.5.2 (hsr)
 
   let hobs = -Infinity;
   let aobt = -Infinity;
   let aobr = -Infinity;
   for (let i = 1; i < n - 1; i++) {
-    const di = d_m[i] / 1000;
-    const HH = h_m[i] - (hts_m * (d - di) + hrs_m * di) / d; // P.526-15 §4.5.2 (HH_i)
+    const di = d[i] * d_to_km;
+    const HH = h_m[i] - (hts_m * (dt - di) + hrs_m * di) / dt; // P.526-15 §4.5.2 (HH_i); P.1812-6 eq. (87d)
     if (HH > hobs) hobs = HH;
     const at = HH / di;
     if (at > aobt) aobt = at;
-    const ar = HH / (d - di);
+    const ar = HH / (dt - di);
     if (ar > aobr) aobr = ar;
   }
   let hstp = hst;
   let hsrp = hsr;
   if (hobs > 0) {
-    const gt = aobt / (aobt + aobr); // P.526-15 §4.5.2 (gt)
-    const gr = aobr / (aobt + aobr); // P.526-15 §4.5.2 (gr)
+    const gt = aobt / (aobt + aobr); // P.526-15 §4.5.2 (gt); P.1812-6 eq. (88e)
+    const gr = aobr / (aobt + aobr); // P.526-15 §4.5.2 (gr); P.1812-6 eq. (88f)
     hstp = hst - hobs * gt; // P.526-15 §4.5.2 (hstp)
     hsrp = hsr - hobs * gr; // P.526-15 §4.5.2 (hsrp)
   }
-  const hstd = hstp > h_m[0] ? h_m[0] : hstp; // P.526-15 §4.5.2 (hstd)
-  const hsrd = hsrp > h_m[n - 1] ? h_m[n - 1] : hsrp; // P.526-15 §4.5.2 (hsrd)
-  return {
-    hst_m: hst,
-    hsr_m: hsr,
-    hstp_m: hstp,
-    hsrp_m: hsrp,
-    hstd_m: hstd,
-    hsrd_m: hsrd,
-    hts_prime_m: hts_m - hstd, // P.452-17 eq. (38a)
-    hrs_prime_m: hrs_m - hsrd, // P.452-17 eq. (38b)
-    hobs_m: hobs,
-  };
+  const hstd = hstp > h_m[0] ? h_m[0] : hstp; // P.526-15 §4.5.2 (hstd); P.1812-6 eq. (89)
+  const hsrd = hsrp > h_m[n - 1] ? h_m[n - 1] : hsrp; // P.526-15 §4.5.2 (hsrd); P.1812-6 eq. (89)
+  out.hst_m = hst;
+  out.hsr_m = hsr;
+  out.hstp_m = hstp;
+  out.hsrp_m = hsrp;
+  out.hstd_m = hstd;
+  out.hsrd_m = hsrd;
+  out.hts_prime_m = hts_m - hstd; // P.452-17 eq. (38a)
+  out.hrs_prime_m = hrs_m - hsrd; // P.452-17 eq. (38b)
+  out.hobs_m = hobs;
+  return out;
 }

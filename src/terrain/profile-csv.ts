@@ -14,17 +14,33 @@ export interface SurveyedProfile {
   obstruction_m: Float64Array;
   /** whether the file had an obstruction_m column */
   hasObstruction: boolean;
+  /** clutter category per point (optional `clutter_class` column), null when absent */
+  clutter_class: ProfileClutterClass[] | null;
+  /** representative clutter height per point (m, ≥ 0; optional `clutter_height_m` column), null when absent */
+  clutter_height_m: Float64Array | null;
+  /** radio-climatic zone per point (optional `zone` column), null when absent */
+  zone: ProfileZone[] | null;
 }
 
+/** Clutter categories of a surveyed profile: the five of ITU-R P.1812-6 Table 2. */
+export const PROFILE_CLUTTER_CLASSES = ["water", "open", "suburban", "urban", "dense_urban"] as const;
+export type ProfileClutterClass = (typeof PROFILE_CLUTTER_CLASSES)[number];
+
+/** Radio-climatic zones of a surveyed profile (ITU-R P.1812-6 §3.6, P.452-18 Table 3). */
+export const PROFILE_ZONES = ["sea", "coastal", "inland"] as const;
+export type ProfileZone = (typeof PROFILE_ZONES)[number];
+
 const REQUIRED = ["distance_m", "elevation_m"] as const;
-const KNOWN = ["distance_m", "elevation_m", "obstruction_m"];
+const KNOWN = ["distance_m", "elevation_m", "obstruction_m", "clutter_class", "clutter_height_m", "zone"];
 const NUMBER = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
 
 /**
- * Parse a surveyed profile CSV: a header `distance_m,elevation_m` with an optional
- * `obstruction_m` column (any order), then one row per point. Blank lines and lines
- * starting with `#` are ignored. Distances start at 0 and strictly increase; at least two
- * rows. Values are decimal numbers in metres.
+ * Parse a surveyed profile CSV: a header `distance_m,elevation_m` with optional
+ * `obstruction_m`, `clutter_class` (water, open, suburban, urban, dense_urban),
+ * `clutter_height_m` (representative clutter height, m ≥ 0) and `zone` (sea, coastal,
+ * inland) columns (any order), then one row per point. Blank lines and lines starting with
+ * `#` are ignored. Distances start at 0 and strictly increase, at any spacing; at least two
+ * rows. Numbers are decimal, in metres.
  * @param text file contents
  * @param path file name used in error messages
  * @throws ProfileCsvError naming the line, column and value at the first problem
@@ -38,7 +54,7 @@ export function parseProfileCsv(text: string, path: string): SurveyedProfile {
   // --- Header ---
   let h = 0;
   while (h < lines.length && isSkipped(lines[h])) h++;
-  if (h === lines.length) fail("the file has no header", 1, 1, "distance_m", "", "a header line distance_m,elevation_m[,obstruction_m]");
+  if (h === lines.length) fail("the file has no header", 1, 1, "distance_m", "", "a header line distance_m,elevation_m[,obstruction_m][,clutter_class][,clutter_height_m][,zone]");
   const header = lines[h].split(",").map((c) => c.trim());
   const col: Record<string, number> = {};
   header.forEach((name, i) => {
@@ -55,6 +71,15 @@ export function parseProfileCsv(text: string, path: string): SurveyedProfile {
   const d: number[] = [];
   const e: number[] = [];
   const o: number[] = [];
+  const cc: ProfileClutterClass[] = [];
+  const ch: number[] = [];
+  const zn: ProfileZone[] = [];
+  const word = <T extends string>(cells: string[], lineNo: number, name: string, allowed: readonly T[]): T => {
+    const c = col[name];
+    const raw = cells[c] ?? "";
+    if (!(allowed as readonly string[]).includes(raw)) fail(raw === "" ? "missing value" : "unknown value", lineNo, c + 1, name, raw, `one of ${allowed.join(", ")}`);
+    return raw as T;
+  };
   let lastLine = h + 1;
   for (let i = h + 1; i < lines.length; i++) {
     if (isSkipped(lines[i])) continue;
@@ -81,6 +106,13 @@ export function parseProfileCsv(text: string, path: string): SurveyedProfile {
       obs = num("obstruction_m");
       if (obs < 0) fail("obstruction height is negative", lineNo, col.obstruction_m + 1, "obstruction_m", cells[col.obstruction_m], "a height ≥ 0 above ground");
     }
+    if (col.clutter_class !== undefined) cc.push(word(cells, lineNo, "clutter_class", PROFILE_CLUTTER_CLASSES));
+    if (col.clutter_height_m !== undefined) {
+      const r = num("clutter_height_m");
+      if (r < 0) fail("clutter height is negative", lineNo, col.clutter_height_m + 1, "clutter_height_m", cells[col.clutter_height_m], "a height ≥ 0 above ground (m)");
+      ch.push(r);
+    }
+    if (col.zone !== undefined) zn.push(word(cells, lineNo, "zone", PROFILE_ZONES));
     d.push(dist);
     e.push(elev);
     o.push(obs);
@@ -88,7 +120,15 @@ export function parseProfileCsv(text: string, path: string): SurveyedProfile {
   if (d.length < 2) {
     fail("too few rows", lastLine, 1, header[0], String(d.length), "at least 2 rows (the two ends of the path)");
   }
-  return { d_m: Float64Array.from(d), h_m: Float64Array.from(e), obstruction_m: Float64Array.from(o), hasObstruction };
+  return {
+    d_m: Float64Array.from(d),
+    h_m: Float64Array.from(e),
+    obstruction_m: Float64Array.from(o),
+    hasObstruction,
+    clutter_class: col.clutter_class !== undefined ? cc : null,
+    clutter_height_m: col.clutter_height_m !== undefined ? Float64Array.from(ch) : null,
+    zone: col.zone !== undefined ? zn : null,
+  };
 }
 
 /**

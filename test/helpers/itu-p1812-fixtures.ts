@@ -7,6 +7,11 @@ export interface P1812Profile {
   clutter_code: Uint8Array;
   clutter_height_m: Float64Array;
   zone: Uint8Array;
+  /** Tx/Rx coordinates from the profile's header (deg; more digits than the results print) */
+  tx_lat_deg: number;
+  tx_lon_deg: number;
+  rx_lat_deg: number;
+  rx_lon_deg: number;
 }
 
 /** One validation case: its profile file and the named values of its results file. */
@@ -30,7 +35,12 @@ export function readP1812Profile(file: string): P1812Profile {
     if (!/^[0-9.]+$/.test(c[0])) continue;
     rows.push(c.slice(0, 5).map(Number));
   }
+  const header = (label: string) => Number(lines.find((l) => l.startsWith(label))?.split(",")[1]);
   return {
+    tx_lat_deg: header("Tx LAT:"),
+    tx_lon_deg: header("Tx LON:"),
+    rx_lat_deg: header("Rx LAT:"),
+    rx_lon_deg: header("Rx LON:"),
     d_km: Float64Array.from(rows, (r) => r[0]),
     h_m: Float64Array.from(rows, (r) => r[1]),
     clutter_code: Uint8Array.from(rows, (r) => r[2]),

@@ -6,9 +6,9 @@ import { readP1812Cases, readP1812Profile, type P1812Case } from "../helpers/itu
 
 // Source: the ITU-R P.1812-6 validation examples published with ITU-R WP 3K's reference
 // implementation (36 cases on 12 profiles, p = 1, 10, 50 %), test/fixtures/itu/p1812/README.md.
-// Tolerances: Lb and Ep 0.01 dB as the issue asks; every intermediate to 1e-6 (relative, or
-// absolute in its unit below 1), i.e. inside the 10 significant digits the results print.
-// Measured maxima (Node 20): Lb 5.0e-8 dB, Ep 5.0e-8 dB, every loss ≤ 5e-8 dB, geometry ≤ 3e-7.
+// Tolerances: Lb and Ep 0.01 dB as the issue asks; every intermediate within its printed
+// precision (one unit in the 10th significant digit, `printedPrecision`).
+// Measured maxima (Node 20): Lb 5.0e-8 dB, Ep 4.8e-9 dB, every loss ≤ 5e-8 dB, geometry ≤ 3e-7 (ae, km).
 const cases = readP1812Cases();
 
 function run(c: P1812Case): P1812Result {
@@ -18,9 +18,20 @@ function run(c: P1812Case): P1812Result {
     frequency_ghz: v("f (GHz)"), time_pct: v("p (%)"), location_pct: v("pL (%)"), sigma_l_db: v("sigmaL (dB)"),
     d_km: p.d_km, h_m: p.h_m, clutter_height_m: p.clutter_height_m, zone: p.zone,
     htg_m: v("htg (m)"), hrg_m: v("hrg (m)"), polarization: v("pol") === 2 ? "v" : "h",
-    tx_lat_deg: v("phi_t (deg)"), tx_lon_deg: v("lam_t (deg)"), rx_lat_deg: v("phi_r (deg)"), rx_lon_deg: v("lam_r (deg)"),
+    // coordinates from the profile header: the results print them to 10 digits, which moves
+    // the path-centre latitude, hence β0, by ~1e-9 (more than β0's printed precision)
+    tx_lat_deg: p.tx_lat_deg, tx_lon_deg: p.tx_lon_deg, rx_lat_deg: p.rx_lat_deg, rx_lon_deg: p.rx_lon_deg,
     dn: v("DN"), n0: v("N0"), dct_km: v("dct (km)"), dcr_km: v("dcr (km)"), ptx_kw: v("Ptx (kW)"),
   });
+}
+
+/**
+ * One unit in the last printed digit: the results print 10 significant digits (`%.10g`),
+ * so 10^(floor(log10 |v|) − 9); values printed near zero (e.g. Fk = 9.8e-15, a rounding
+ * residue of 1 − 0.5·(1 + tanh(…))) get 1e-9 instead.
+ */
+function printedPrecision(v: number): number {
+  return Math.max(Math.pow(10, Math.floor(Math.log10(Math.abs(v))) - 9), 1e-9);
 }
 
 /** [label in the results file (with its equation), value from our result] */
@@ -61,7 +72,15 @@ describe("ITU-R P.1812-6 validation examples (36 cases)", () => {
     for (const [label, get] of INTERMEDIATES) {
       const want = (c as P1812Case).values.get(label);
       expect(want, `${label} missing from ${_n}`).toBeDefined();
-      expectClose(get(r), want!, { abs: 1e-6, rel: 1e-6 }, { case: _n, quantity: label });
+      expectClose(get(r), want!, { abs: printedPrecision(want!) }, { case: _n, quantity: label });
+    }
+  });
+
+  it("the profile headers carry the coordinates the results print", () => {
+    for (const c of cases) {
+      const p = readP1812Profile(c.profile);
+      expectClose(p.tx_lat_deg, c.values.get("phi_t (deg)")!, { abs: 1e-8 }, c.name);
+      expectClose(p.rx_lon_deg, c.values.get("lam_r (deg)")!, { abs: 1e-8 }, c.name);
     }
   });
 

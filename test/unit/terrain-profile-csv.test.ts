@@ -24,6 +24,17 @@ describe("surveyed profile CSV", () => {
     expect(p.hasObstruction).toBe(false);
   });
 
+  it("reads the optional clutter_class, clutter_height_m and zone columns at any spacing", () => {
+    const text = "distance_m,elevation_m,clutter_class,clutter_height_m,zone\n0,5,water,0,sea\n120,6,open,0,coastal\n125.5,9,suburban,10,inland\n900,12,urban,15,inland\n2000,30,dense_urban,22.5,inland\n";
+    const p = parseProfileCsv(text, "p.csv");
+    expect([...p.d_m]).toEqual([0, 120, 125.5, 900, 2000]);
+    expect(p.clutter_class).toEqual(["water", "open", "suburban", "urban", "dense_urban"]);
+    expect([...p.clutter_height_m!]).toEqual([0, 0, 10, 15, 22.5]);
+    expect(p.zone).toEqual(["sea", "coastal", "inland", "inland", "inland"]);
+    const bare = parseProfileCsv("distance_m,elevation_m\n0,1\n5,2\n", "p.csv");
+    expect([bare.clutter_class, bare.clutter_height_m, bare.zone]).toEqual([null, null, null]);
+  });
+
   // Each case: file text, then where the error must point. Lines and columns are 1-based.
   it.each([
     { case: "non-numeric elevation", text: "distance_m,elevation_m\n0,100\n50,abc\n", line: 3, column: 2, field: "elevation_m", value: "abc" },
@@ -41,6 +52,11 @@ describe("surveyed profile CSV", () => {
     { case: "one row only", text: "# c\ndistance_m,elevation_m\n0,1\n\n", line: 3, column: 1, field: "distance_m", value: "1" },
     { case: "header only", text: "distance_m,elevation_m\n", line: 1, column: 1, field: "distance_m", value: "0" },
     { case: "empty file", text: "\n# nothing\n", line: 1, column: 1, field: "distance_m", value: "" },
+    { case: "unknown clutter class", text: "distance_m,elevation_m,clutter_class\n0,1,open\n5,1,forest\n", line: 3, column: 3, field: "clutter_class", value: "forest" },
+    { case: "missing clutter class", text: "distance_m,elevation_m,clutter_class\n0,1,\n5,1,open\n", line: 2, column: 3, field: "clutter_class", value: "" },
+    { case: "negative clutter height", text: "distance_m,clutter_height_m,elevation_m\n0,0,1\n5,-1,1\n", line: 3, column: 2, field: "clutter_height_m", value: "-1" },
+    { case: "non-numeric clutter height", text: "distance_m,elevation_m,clutter_height_m\n0,1,10m\n5,1,0\n", line: 2, column: 3, field: "clutter_height_m", value: "10m" },
+    { case: "unknown zone", text: "distance_m,elevation_m,zone\n0,1,inland\n5,1,land\n", line: 3, column: 3, field: "zone", value: "land" },
   ])("$case → line $line, column $column", (c) => {
     let err: unknown;
     try {

@@ -7,11 +7,13 @@ import { parseTerrainArg } from "../../terrain/open-terrain.ts";
 import { TerrainError } from "../../terrain/terrain-error.ts";
 import { latLonArg, numberArg, parseArgs, UsageError } from "../args.ts";
 import { printLinkTable } from "../link-table.ts";
+import { PATH_METHOD_OPTIONS, PATH_METHOD_USAGE, preparePathMethod } from "./path-methods/index.ts";
 
 export const PATH_USAGE = `Usage: ridgeline path --from LAT,LON --to LAT,LON (--terrain PATH|constant:M | --profile CSV)
          --frequency-ghz F --from-antenna-m H --to-antenna-m H [--k K]... [--polarization h|v]
          [--rain-rate-mm-h R] [--tx-power-dbm P] [--from-gain-dbi G] [--to-gain-dbi G]
-         [--rx-threshold-dbm T] [--availability-pct A] [--json]`;
+         [--rx-threshold-dbm T] [--availability-pct A] [--json]
+${PATH_METHOD_USAGE}`;
 
 const DEFAULTS = { tx_power_dbm: 0, gain_dbi: 0, rx_threshold_dbm: -90, availability_pct: 99.99 };
 
@@ -22,7 +24,7 @@ export async function pathCommand(argv: string[]): Promise<number> {
     return 0;
   }
   const a = parseArgs(argv, {
-    values: ["from", "to", "terrain", "profile", "frequency-ghz", "from-antenna-m", "to-antenna-m", "polarization", "rain-rate-mm-h", "tx-power-dbm", "from-gain-dbi", "to-gain-dbi", "rx-threshold-dbm", "availability-pct"],
+    values: ["from", "to", "terrain", "profile", "frequency-ghz", "from-antenna-m", "to-antenna-m", "polarization", "rain-rate-mm-h", "tx-power-dbm", "from-gain-dbi", "to-gain-dbi", "rx-threshold-dbm", "availability-pct", ...PATH_METHOD_OPTIONS],
     repeat: ["k"],
     flags: ["json"],
   });
@@ -35,6 +37,7 @@ export async function pathCommand(argv: string[]): Promise<number> {
   const from = latLonArg("from", v("from"));
   const to = latLonArg("to", v("to"));
   const f = numberArg("frequency-ghz", v("frequency-ghz"), (x) => x > 0 && x <= 1000, "a frequency in GHz above 0 and up to 1000");
+  const method = preparePathMethod(a.values, f);
   const hA = numberArg("from-antenna-m", v("from-antenna-m"), (x) => x >= 0, "a height above ground ≥ 0 (m)");
   const hB = numberArg("to-antenna-m", v("to-antenna-m"), (x) => x >= 0, "a height above ground ≥ 0 (m)");
   const pol = v("polarization") ?? "v";
@@ -88,12 +91,15 @@ export async function pathCommand(argv: string[]): Promise<number> {
   };
   const terrain = await openStudyTerrain(study);
   if (v("profile") === undefined) checkSitesOnTerrain(study, terrain);
-  const { result } = analyzeLink(study, study.links[0], terrain);
+  const { result, figure } = analyzeLink(study, study.links[0], terrain);
   const warnings = [...result.warnings];
   if (rain === undefined) warnings.push("No --rain-rate-mm-h given: the budget has no rain term.");
-  const link = { ...sanitizeNumbers(result, warnings, "path"), warnings };
+  const l0 = study.links[0];
+  const extra = method?.run({ from, to, profile: figure.profile, profile_csv: v("profile"), from_antenna_m: hA, to_antenna_m: hB, polarization: pol, from_gain_dbi: l0.from.gain_dbi, to_gain_dbi: l0.to.gain_dbi });
+  if (extra) warnings.push(...extra.warnings);
+  const link = { ...sanitizeNumbers({ ...result, ...extra?.fields }, warnings, "path"), warnings };
   if (a.flags.has("json")) process.stdout.write(`${JSON.stringify(link, null, 2)}\n`);
-  else printLinkTable(link);
+  else printLinkTable(link, extra?.lines);
   return 0;
 }
 
