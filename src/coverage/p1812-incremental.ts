@@ -1,8 +1,5 @@
-import { diffractionLossForTime } from "../physics/delta-bullington.ts";
-import { ductingLayerReflectionLoss, type AnomalousInput } from "../physics/itu-anomalous.ts";
-import { clearAirBlend, interpolationFj, interpolationFk, type ClearAirBlend } from "../physics/itu-blend.ts";
 import { beta0Pct, EARTH_RADIUS_BETA_KM } from "../physics/itu-path-geometry.ts";
-import { p1812LineOfSight, p1812Troposcatter, P1812_DEFAULTS, type LineOfSightLoss } from "../physics/p1812.ts";
+import { newP1812CellOutput, p1812CellLoss, P1812_DEFAULTS, type P1812CellInput, type P1812CellOutput } from "../physics/p1812.ts";
 import { sphericalEarthDiffractionLoss } from "../physics/spherical-earth-diffraction.ts";
 import { bullingtonActualIncremental, nuMaxLineOfSight } from "./delta-bullington-incremental.ts";
 import { BLOCK1, BLOCK2, hullHighestAboveSlope, hullTangentFromRight, RadialProfile } from "./radial-profile.ts";
@@ -108,7 +105,7 @@ class ZoneRuns {
  *   Ldβ (only when p < 50 %);
  * - zone runs (sea / land) for ω, dtm and dlm (§3.6, Table 5): only sea (from a land cover's
  *   water class) and inland zones are told apart.
- * The scalar parts (Lb0p, Lbs, Lba, blending) are the physics functions of src/physics/.
+ * The scalar parts (Lb0p, Ldp, Lbs, Lba, blending) are `p1812CellLoss` of src/physics/p1812.ts.
  * Preallocated once per worker; `reset` starts a radial. The result equals `p1812Loss` on the
  * same profile to rounding (test/coverage/p1812-coverage.test.ts).
  */
@@ -122,9 +119,8 @@ export class P1812Radial {
   private readonly lambda: number;
   private readonly aeB_m = EARTH_RADIUS_BETA_KM * 1000;
   private txSea = false;
-  private readonly los: LineOfSightLoss = { Lbfs: NaN, Lb0p: NaN, Lb0b: NaN };
-  private readonly blend: ClearAirBlend = {} as ClearAirBlend;
-  private readonly anomalous: AnomalousInput;
+  private readonly cell: P1812CellInput;
+  private readonly out: P1812CellOutput = newP1812CellOutput();
   private readonly sphOpts: { omega: number; polarization: "h" | "v"; frequency_ghz: number };
   /** maxima of the terrain height h over blocks of BLOCK1 and BLOCK2 samples (bounds for hm) */
   private readonly hMax1: Float64Array;
@@ -138,9 +134,10 @@ export class P1812Radial {
     this.pGb = new RadialProfile(capacity);
     this.needBeta = c.p_pct < 50;
     this.lambda = 0.2998 / c.f_ghz; // as P.1812-6 and src/physics/p1812.ts take it
-    this.anomalous = {
-      d_km: 0, dlt_km: 0, dlr_km: 0, dct_km: 0, dcr_km: 0, dlm_km: 0, hts_m: 0, hrs_m: 0, hte_m: 0, hre_m: 0, hm_m: 0,
-      theta_t_mrad: 0, theta_r_mrad: 0, f_ghz: c.f_ghz, p_pct: c.p_pct, omega: 0, ae_km: c.ae_m / 1000, beta0_pct: 0, low_frequency_correction: true,
+    // the location term is applied by the caller (σ per receiver class): pL = 50 % here
+    this.cell = {
+      frequency_ghz: c.f_ghz, time_pct: c.p_pct, location_pct: 50, sigma_l_db: 0, d_km: 0, hts_m: 0, hrs_m: 0, theta_t_mrad: 0, theta_r_mrad: 0, theta_mrad: 0,
+      dlt_km: 0, dlr_km: 0, hte_m: 0, hre_m: 0, hm_m: 0, omega: 0, beta0_pct: 0, ae_km: c.ae_m / 1000, dlm_km: 0, dct_km: 0, dcr_km: 0, n0: c.n0, rx_at_sea: false, Ld50_db: 0, Ldbeta_db: 0,
     };
     this.sphOpts = { omega: 0, polarization: c.polarization, frequency_ghz: c.f_ghz };
   }
@@ -269,29 +266,33 @@ export class P1812Radial {
     const lambda = this.lambda;
     const Ld50 = diffraction(this.pG, d, hrs, htsP, hrsP, c.ae_m, lambda, this.sphOpts);
     const Ldb = this.needBeta ? diffraction(this.pGb, d, hrs, htsP, hrsP, this.aeB_m, lambda, this.sphOpts) : Ld50;
-    const Ldp = diffractionLossForTime(c.p_pct, b0, Ld50, Ldb); // P.1812-6 eq. (41)
-
-    // --- line of sight, troposcatter, ducting, blend (§4.2, §4.4–§4.6) ---
-    const los = p1812LineOfSight(dkm, hts, hrs, c.f_ghz, c.p_pct, b0, dlt / 1000, dlr / 1000, this.los); // P.1812-6 eq. (8)–(11)
-    const Lbs = p1812Troposcatter(dkm, theta, c.f_ghz, c.p_pct, c.n0); // P.1812-6 eq. (44)
-    const a = this.anomalous;
-    a.d_km = dkm;
-    a.dlt_km = dlt / 1000;
-    a.dlr_km = dlr / 1000;
-    a.dct_km = this.txSea ? 0 : P1812_DEFAULTS.dct_km;
-    a.dcr_km = rxSea ? 0 : P1812_DEFAULTS.dcr_km;
-    a.dlm_km = dlm;
-    a.hts_m = hts;
-    a.hrs_m = hrs;
-    a.hte_m = hts - hst; // P.1812-6 eq. (92a)
-    a.hre_m = hrs - hsr; // P.1812-6 eq. (92b)
-    a.hm_m = hm;
-    a.theta_t_mrad = thetaT;
-    a.theta_r_mrad = thetaR;
-    a.omega = omega;
-    a.beta0_pct = b0;
-    const Lba = ductingLayerReflectionLoss(a); // P.1812-6 eq. (46)
-    const bl = clearAirBlend(c.p_pct, b0, omega, los.Lbfs, los.Lb0p, los.Lb0b, Ld50, Ldp, Lba, Lbs, interpolationFj(theta), interpolationFk(dkm), this.blend); // P.1812-6 eq. (57)–(63)
+    // --- line of sight, time interpolation, troposcatter, ducting, blend (§4.2, §4.4–§4.6) ---
+    const ci = this.cell;
+    ci.d_km = dkm;
+    ci.hts_m = hts;
+    ci.hrs_m = hrs;
+    ci.theta_t_mrad = thetaT;
+    ci.theta_r_mrad = thetaR;
+    ci.theta_mrad = theta;
+    ci.dlt_km = dlt / 1000;
+    ci.dlr_km = dlr / 1000;
+    ci.hte_m = hts - hst; // P.1812-6 eq. (92a)
+    ci.hre_m = hrs - hsr; // P.1812-6 eq. (92b)
+    ci.hm_m = hm;
+    ci.omega = omega;
+    ci.beta0_pct = b0;
+    ci.dlm_km = dlm;
+    ci.dct_km = this.txSea ? 0 : P1812_DEFAULTS.dct_km;
+    ci.dcr_km = rxSea ? 0 : P1812_DEFAULTS.dcr_km;
+    ci.rx_at_sea = rxSea;
+    ci.Ld50_db = Ld50;
+    ci.Ldbeta_db = Ldb;
+    const r = p1812CellLoss(ci, this.out); // P.1812-6 eq. (8)–(11), (41), (44), (46), (57)–(63)
+    const Ldp = r.Ldp;
+    const Lbs = r.Lbs;
+    const Lba = r.Lba;
+    const los = r.los;
+    const bl = r.blend;
 
     o.Lbc = bl.Lbc;
     o.Lb0p = los.Lb0p;
