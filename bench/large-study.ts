@@ -14,12 +14,13 @@ import { fileURLToPath } from "node:url";
 import { analyzeStudies } from "../src/analysis/analyze-study.ts";
 import { ResultCache } from "../src/cache/result-cache.ts";
 import { buildSite } from "../src/cli/build-site.ts";
-import { loadStudies } from "../src/cli/load-all.ts";
+import { loadStudies } from "../src/analysis/load-all.ts";
 import { distributeStudies, type QueueReport } from "../src/queue/coordinator.ts";
 import { parseRedisUrl } from "../src/queue/redis-url.ts";
 import { writeHgtTile } from "../src/terrain/write-hgt.ts";
 import { startRedis } from "../test/queue/redis-server.ts";
 import { benchTerrainM, makeBenchStudy } from "./make-study.ts";
+import { loadCoverageOutputStage } from "../src/render/coverage-output-loader.ts";
 
 const ROOT = fileURLToPath(new URL("..", import.meta.url));
 const BIN = join(ROOT, "bin", "ridgeline.js");
@@ -50,7 +51,7 @@ export async function benchLargeStudy(): Promise<Record<string, unknown>> {
     const cpu = () => { const u = process.cpuUsage(); return (u.user + u.system) / 1e6; };
     const c0 = cpu();
     const w0 = performance.now();
-    const analysed = await analyzeStudies(loadStudies([join(dir, "studies", "large", "study.yaml")]), { cache: null });
+    const analysed = await analyzeStudies(loadStudies([join(dir, "studies", "large", "study.yaml")]), { cache: null, coverageOutputs: loadCoverageOutputStage });
     const c1 = cpu();
     const w1 = performance.now();
     await buildSite(analysed, { outDir: join(dir, "site-in-process") });
@@ -98,7 +99,7 @@ function startWorker(url: string, name: string): Promise<ChildProcess> {
 async function queueRuns(studyDir: string, url: string) {
   const studies = () => loadStudies([join(studyDir, "study.yaml")]);
   const t0 = performance.now();
-  await analyzeStudies(studies(), { cache: new ResultCache(mkdtempSync(join(tmpdir(), "ridgeline-bench-cache-"))) });
+  await analyzeStudies(studies(), { coverageOutputs: loadCoverageOutputStage, cache: new ResultCache(mkdtempSync(join(tmpdir(), "ridgeline-bench-cache-"))) });
   const local_s = (performance.now() - t0) / 1000;
   const out: Record<string, unknown> = { one_process_s: r3(local_s) };
   const workers: ChildProcess[] = [];
@@ -111,7 +112,7 @@ async function queueRuns(studyDir: string, url: string) {
       const q0 = performance.now();
       const report: QueueReport = await distributeStudies(s, cache, parseRedisUrl(url));
       const q1 = performance.now();
-      await analyzeStudies(s, { cache }); // assembly from the cache (the composite, if any, is made here)
+      await analyzeStudies(s, { cache, coverageOutputs: loadCoverageOutputStage }); // assembly from the cache (the composite, if any, is made here)
       const q2 = performance.now();
       rmSync(cacheDir, { recursive: true, force: true });
       const compute = Object.values(report.workers).reduce((a, w) => a + w.compute_s, 0);
@@ -182,7 +183,7 @@ export async function benchLazyTiles(): Promise<Record<string, unknown>> {
     const measure = async (cache: ResultCache | null) => {
       reads.clear();
       const t0 = performance.now();
-      await analyzeStudies(loadStudies([join(study, "study.yaml")]), { cache });
+      await analyzeStudies(loadStudies([join(study, "study.yaml")]), { cache, coverageOutputs: loadCoverageOutputStage });
       return { s: r3((performance.now() - t0) / 1000), tiles_read: reads.size };
     };
     try {

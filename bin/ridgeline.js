@@ -10,7 +10,7 @@
 // back large allocations with transparent huge pages when the kernel leaves them to madvise.
 // A 100 km grid at 30 m touches well over 100 MB of elevations and results, and fresh memory
 // touched 4 kB page by page costs about 3 ms per MB on some virtual machines, a tenth to two
-// thirds of that in 2 MB pages (measured on ours; DEVELOPERS.md, src/analysis/coverage/).
+// thirds of that in 2 MB pages (measured on ours; DEVELOPERS.md, src/coverage/).
 // glibc reads tunables only when a process starts, hence the second process, which costs
 // about 0.12–0.15 s: worth it from a radius of some 2 000 cells (16 M cells in the square), not
 // below. (Setting the variable on the first line, `#!/usr/bin/env -S …`, would cost nothing,

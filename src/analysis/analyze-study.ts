@@ -7,6 +7,7 @@ import { fileDigest } from "../cache/file-digest.ts";
 import { modulesFingerprint } from "../cache/code-fingerprint.ts";
 import { memoGeodesicPath } from "../cache/memo-geodesic.ts";
 import { MemoTerrain, TerrainQueryMiss } from "../cache/memo-terrain.ts";
+import type { CoverageOutputStage } from "../coverage/coverage-output-stage.ts";
 import type { ResultCache } from "../cache/result-cache.ts";
 import { terrainSourceKey } from "../cache/terrain-source-key.ts";
 import { InternalError, RidgelineError } from "../errors.ts";
@@ -58,6 +59,12 @@ export interface AnalyzeOptions {
   cache?: ResultCache | null;
   /** The study's terrain, already open (a queue worker keeps it open from one task to the next). */
   terrain?: Terrain;
+  /**
+   * Loads the stage that writes coverage files and figures (`loadCoverageOutputStage`,
+   * src/render/coverage-output-loader.ts); needed for a study with coverage. Analysis never
+   * imports render: the caller above both hands it in.
+   */
+  coverageOutputs?: () => Promise<CoverageOutputStage>;
 }
 
 /** Coverage maps of a study: the folder their files were written to, and each map's SVG. */
@@ -267,10 +274,10 @@ export async function analyzeStudy(study: Study, options: AnalyzeOptions = {}): 
     const dir = makeTempDir(`ridgeline-coverage-${study.id}-`);
     // loaded only for a study with coverage: it brings the raster encoders (sharp), which the
     // link analysis, `ridgeline path` and `check` of a links-only study do not need
-    const { cachedStudyCoverage } = await import("./coverage/coverage-cache.ts");
+    const { cachedStudyCoverage } = await import("../coverage/coverage-cache.ts");
     let cov: Awaited<ReturnType<typeof cachedStudyCoverage>>;
     try {
-      cov = await cachedStudyCoverage(study, { outDir: dir, cache, terrainKey, openTerrain: open });
+      cov = await cachedStudyCoverage(study, { outDir: dir, outputs: await options.coverageOutputs?.(), cache, terrainKey, openTerrain: open });
     } catch (e) {
       removeTempDir(dir);
       throw e;
@@ -278,7 +285,7 @@ export async function analyzeStudy(study: Study, options: AnalyzeOptions = {}): 
     coverageResults = cov.results; // without compute time: no clock in results
     coverageCache = cov.cache;
     warnings.push(...cov.warnings);
-    coverage = { dir, maps: [...cov.items.map((it) => ({ id: it.result.id, svg: it.svg })), ...(cov.composite ? [{ id: "composite", svg: cov.composite.svg }] : [])] };
+    coverage = { dir, maps: [...cov.items.flatMap((it) => [{ id: it.result.id, svg: it.svg }, ...it.extra.map((x) => ({ id: `${it.result.id}-${x.suffix}`, svg: x.svg }))]), ...(cov.composite ? [{ id: "composite", svg: cov.composite.svg }] : [])] };
   }
 
   // --- The study's result ---
@@ -357,13 +364,13 @@ export async function analyzeStudy(study: Study, options: AnalyzeOptions = {}): 
  */
 export async function analyzeStudies(
   studies: Study[],
-  options: { cache?: ResultCache | null; onProgress?: (study: string, done: number, total: number) => void } = {},
+  options: Omit<AnalyzeOptions, "onProgress"> & { onProgress?: (study: string, done: number, total: number) => void } = {},
 ): Promise<AnalyzedStudy[]> {
   const out: AnalyzedStudy[] = [];
   const problems: InputProblem[] = [];
   for (const s of studies) {
     try {
-      out.push(await analyzeStudy(s, { cache: options.cache, onProgress: (d, t) => options.onProgress?.(s.id, d, t) }));
+      out.push(await analyzeStudy(s, { cache: options.cache, coverageOutputs: options.coverageOutputs, onProgress: (d, t) => options.onProgress?.(s.id, d, t) }));
     } catch (e) {
       if (e instanceof InputError) problems.push(...e.problems);
       else if (e instanceof RidgelineError || e instanceof InternalError) throw e;

@@ -1,5 +1,5 @@
 import type { ChainResult } from "./chains.ts";
-import type { CoverageResult } from "./coverage/coverage-result.ts";
+import type { CoverageResult } from "../coverage/coverage-result.ts";
 import type { LinkPerformance } from "./link-performance.ts";
 import type { InterferenceResult } from "./interference-result.ts";
 import type { ReflectionResult } from "./link-reflection.ts";

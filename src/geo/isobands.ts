@@ -1,5 +1,5 @@
 import { contours } from "d3-contour";
-import { crsFromEpsg } from "../terrain/crs-from-epsg.ts";
+import { crsFromEpsg } from "./crs-from-epsg.ts";
 
 /** A GeoJSON (RFC 7946) feature collection of threshold regions. */
 export interface IsobandCollection {

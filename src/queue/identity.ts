@@ -2,7 +2,7 @@ import { createHash } from "node:crypto";
 import { hostname } from "node:os";
 import sharp from "sharp";
 import { TOOL_VERSION } from "../analysis/provenance.ts";
-import { coverageCodeFingerprint } from "../analysis/coverage/coverage-cache-keys.ts";
+import { coverageCodeFingerprint } from "../coverage/coverage-cache-keys.ts";
 import { codeFingerprint, modulesFingerprint } from "../cache/code-fingerprint.ts";
 
 /**

@@ -1,6 +1,6 @@
 import { createHash } from "node:crypto";
 import { relative, isAbsolute } from "node:path";
-import { coverageKeyer } from "../analysis/coverage/coverage-cache-keys.ts";
+import { coverageKeyer } from "../coverage/coverage-cache-keys.ts";
 import { linkKeyer } from "../cache/cache-keys.ts";
 import type { ResultCache } from "../cache/result-cache.ts";
 import { terrainSourceKey } from "../cache/terrain-source-key.ts";

@@ -1,6 +1,7 @@
 import { makeTempDir, removeTempDir } from "../temp-dirs.ts";
+import { loadCoverageOutputStage } from "../render/coverage-output-loader.ts";
 import { analyzeStudy, openStudyTerrain, type CachedLink } from "../analysis/analyze-study.ts";
-import { coverageKeyer } from "../analysis/coverage/coverage-cache-keys.ts";
+import { coverageKeyer } from "../coverage/coverage-cache-keys.ts";
 import { linkKeyer } from "../cache/cache-keys.ts";
 import { canonicalJson } from "../cache/canonical-json.ts";
 import { encodeEntry } from "../cache/entry-codec.ts";
@@ -91,7 +92,7 @@ export async function runTask(t: TaskData, study: Study): Promise<Map<string, Bu
   const dir = makeTempDir("ridgeline-task-");
   try {
     const cache = new ResultCache(dir);
-    const analysed = await analyzeStudy(sub, { cache, terrain });
+    const analysed = await analyzeStudy(sub, { cache, terrain, coverageOutputs: loadCoverageOutputStage });
     if (analysed.coverage) removeTempDir(analysed.coverage.dir);
     const out = new Map<string, Buffer>();
     for (const { kind, key } of taskEntries(t)) {

@@ -3,7 +3,7 @@ import { createRequire } from "node:module";
 import { dirname, relative } from "node:path";
 import { liveMapData, scriptJson } from "./live-map-data.ts";
 import type { StudyResult } from "../analysis/results.ts";
-import { loadAllStudies } from "../cli/load-all.ts";
+import { loadAllStudies } from "../analysis/load-all.ts";
 import { cssString } from "./css-string.ts";
 import { formatDuration, formatFrequency, formatK, formatNumber, formatPercent, formatRatio, formatSigned, formatSmall } from "../format/quantity.ts";
 import { linksCsv, networkGeoJson, networkKml, sitesCsv } from "./exchange-files.ts";
@@ -14,6 +14,7 @@ import { relativeUrl } from "./relative-url.ts";
 import { analyzedStudy, getAnalyzedStudies, setAnalyzedStudies, siteData } from "./site-data.ts";
 import { studyMapSvg } from "./study-map.ts";
 import { linkWaveFieldSvg, linkWaveHeightGainSvg } from "./wave-figures.ts";
+import { loadCoverageOutputStage } from "../render/coverage-output-loader.ts";
 
 // Eleventy's config object is untyped here; only the calls below are used.
 interface EleventyConfig {
@@ -41,7 +42,7 @@ export default function ridgelineSite(eleventyConfig: EleventyConfig): void {
     let studies = getAnalyzedStudies();
     if (!studies) {
       // Eleventy run on its own (npx @11ty/eleventy): analyse the studies here.
-      studies = await loadAllStudies("content/studies");
+      studies = await loadAllStudies("content/studies", { coverageOutputs: loadCoverageOutputStage });
       setAnalyzedStudies(studies);
     }
     maps.clear();

@@ -1,5 +1,6 @@
 import { resolve } from "node:path";
 import { readEnvelopeCsv } from "./envelope-csv.ts";
+import { inputPathProblem } from "./input-file.ts";
 import { fieldPath, showValue, type InputProblem } from "./input-error.ts";
 import type { StudyInput } from "./schema.ts";
 import type { YamlSource } from "./yaml-source.ts";
@@ -11,7 +12,10 @@ import type { YamlSource } from "./yaml-source.ts";
  * way of giving adjacent-channel protection; references of external transmitters; envelope
  * CSV files that exist and span 0–180°.
  */
-export function interferenceProblems(src: YamlSource, s: StudyInput, dir: string): InputProblem[] {
+/** An envelope table holds a few hundred rows: 4 MiB is far beyond any real one. */
+const ENVELOPE_CSV_MAX_BYTES = 4 * 1024 * 1024;
+
+export function interferenceProblems(src: YamlSource, s: StudyInput, dir: string, roots: string[] = []): InputProblem[] {
   const problems: InputProblem[] = [];
   const add = (path: PropertyKey[], received: unknown, expected: string) => problems.push({ file: src.file, ...src.locate(path), field: fieldPath(path), received: showValue(received), expected });
   const asked = s.interference !== undefined;
@@ -61,7 +65,10 @@ export function interferenceProblems(src: YamlSource, s: StudyInput, dir: string
     if (seen.has(abs)) continue;
     seen.add(abs);
     const path = [...e.path, "envelope_csv"];
-    problems.push(...readEnvelopeCsv(abs, fieldPath(path), { file: src.file, ...src.locate(path) }).problems);
+    // inside the study folder, a regular file of sane size, before anything reads it
+    const bad = inputPathProblem(dir, file, { want: "file", maxBytes: ENVELOPE_CSV_MAX_BYTES, roots, what: "an antenna envelope CSV file" });
+    if (bad) problems.push({ file: src.file, ...src.locate(path), field: fieldPath(path), received: bad.received, expected: bad.expected });
+    else problems.push(...readEnvelopeCsv(abs, fieldPath(path), { file: src.file, ...src.locate(path) }).problems);
   }
   return problems;
 }

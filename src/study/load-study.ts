@@ -20,6 +20,9 @@ import { kFactorFromGradient } from "../physics/k-factor.ts";
  *   files it names may lie in, also through symbolic links: `ridgeline diff` passes the
  *   repository, whose working-tree copies it links into a materialised revision
  */
+/** A service-area polygon file: 16 MiB holds any real boundary. */
+const SERVICE_AREA_MAX_BYTES = 16 * 1024 * 1024;
+
 export function loadStudy(file: string, options: { roots?: string[] } = {}): Study {
   const abs = resolve(file);
   const fail = (received: string, expected: string): never => {
@@ -168,6 +171,16 @@ function crossCheck(src: YamlSource, s: StudyInput, dir: string, roots: string[]
   }
   const coverageIds = new Map<string, number>();
   s.coverage.forEach((c, i) => {
+    // files a coverage names: inside the study folder (land cover also under a terrain root), regular, of sane size
+    const named: [PropertyKey[], string | undefined, Parameters<typeof inputPathProblem>[2]][] = [
+      [["coverage", i, "p1812", "land_cover", "file"], c.p1812?.land_cover?.file, { want: "file", maxBytes: Infinity, roots: [...terrainRoots(), ...roots], what: "a land-cover GeoTIFF" }],
+      [["coverage", i, "service_area"], c.service_area, { want: "file", maxBytes: SERVICE_AREA_MAX_BYTES, roots, what: "a service-area GeoJSON or KML file" }],
+    ];
+    for (const [path, rel, opts] of named) {
+      if (rel === undefined) continue;
+      const problem = inputPathProblem(dir, rel, opts) ?? (path.includes("land_cover") ? terrainFileProblem(resolve(dir, rel), rel) : null);
+      if (problem) problems.push({ file: src.file, ...src.locate(path), field: fieldPath(path), received: problem.received, expected: problem.expected });
+    }
     const first = coverageIds.get(c.id.toLowerCase());
     if (c.id.toLowerCase() === "composite") add(["coverage", i, "id"], c.id, "another id: \"composite\" names the study's combined map");
     else if (first !== undefined) add(["coverage", i, "id"], c.id, `an id not used before in coverage (coverage[${first}] already has it)`);
@@ -178,7 +191,7 @@ function crossCheck(src: YamlSource, s: StudyInput, dir: string, roots: string[]
     if (!(t.north_deg > t.south_deg)) add(["terrain", "synthetic", "north_deg"], t.north_deg, `a latitude north of south_deg (${t.south_deg})`);
     if (!(t.east_deg > t.west_deg)) add(["terrain", "synthetic", "east_deg"], t.east_deg, `a longitude east of west_deg (${t.west_deg})`);
   }
-  problems.push(...interferenceProblems(src, s, dir));
+  problems.push(...interferenceProblems(src, s, dir, roots));
   return problems;
 }
 

@@ -126,12 +126,56 @@ const patternTable = (lo: number, hi: number, what: string) =>
 
 const ascending = (v: number[]) => v.every((x, i) => i === 0 || x > v[i - 1]);
 
+const clutterCategory = z.enum(["water", "open", "suburban", "urban", "dense_urban"]).describe("ITU-R P.1812-6 clutter category");
+
+const p1812Options = z
+  .object({
+    time_pct: z.number().min(1, "a percentage of time from 1 to 50 %").max(50, "a percentage of time from 1 to 50 %").default(50).describe("percentage of time the level is exceeded (1–50 %)"),
+    location_pct: z.number().min(1, "a percentage of locations from 1 to 99 %").max(99, "a percentage of locations from 1 to 99 %").default(50).describe("percentage of locations the mapped level is exceeded at (1–99 %)"),
+    sigma_l_db: z.number().min(0).max(30).optional().describe("location variability σL (dB); default: ITU-R P.1812-6 §4.8 for the frequency, cell size and the receiver's clutter"),
+    dn: z.number().gt(0).lt(157).default(45).describe("average radio-refractivity lapse rate ΔN through the lowest 1 km (N-units/km)"),
+    n0: z.number().min(250).max(400).default(325).describe("sea-level surface refractivity N0 (N-units)"),
+    land_cover: z
+      .object({
+        file: z.string().min(1).describe("land-cover GeoTIFF (class values), relative to the study"),
+        classes: z
+          .array(
+            z
+              .object({
+                value: z.number().int().min(-2147483648).max(4294967295).describe("raster value"),
+                name: oneLine().optional(),
+                category: clutterCategory,
+                height_m: z.number().min(0).max(100).optional().describe("representative clutter height (m); default per category"),
+              })
+              .strict(),
+          )
+          .min(1)
+          .max(256)
+          .describe("every value the raster holds inside the radius, with its category and height"),
+      })
+      .strict()
+      .optional()
+      .describe("clutter from a land-cover raster; without it `clutter` applies everywhere"),
+    clutter: clutterCategory.default("open").describe("one clutter category for the whole area (when no land cover is given)"),
+    clutter_height_m: z.number().min(0).max(100).optional().describe("its representative height (m); default per category"),
+    receiver_clutter_loss: z.enum(["none", "p2108"]).default("none").describe("p2108: add the ITU-R P.2108-1 §3.2 terrestrial clutter loss at the receiver (only without a land cover)"),
+    indoor: z
+      .object({ building: z.enum(["traditional", "thermally-efficient"]).default("traditional").describe("ITU-R P.2109-1 building class") })
+      .strict()
+      .optional()
+      .describe("indoor receivers: building entry loss of ITU-R P.2109-1 (median, and its spread added to the location variability)"),
+  })
+  .strict();
+
 const coverageEntry = z
   .object({
     id,
     site: id.describe("id of a site in `sites`: the transmitter"),
-    method: z.enum(["visibility", "delta-bullington", "hata"]).default("delta-bullington").describe("visibility (radio line of sight), delta-bullington (free space + ITU-R P.526-15 §4.5) or hata (Okumura–Hata / COST-231)"),
-    frequency_ghz: frequencyGhz().describe("carrier frequency (GHz); hata: at most 3 GHz"),
+    method: z
+      .enum(["visibility", "delta-bullington", "hata", "p1812"])
+      .default("delta-bullington")
+      .describe("visibility (radio line of sight), delta-bullington (free space + ITU-R P.526-15 §4.5), hata (Okumura–Hata / COST-231) or p1812 (ITU-R P.1812-6 with clutter, time and location statistics)"),
+    frequency_ghz: frequencyGhz().describe("carrier frequency (GHz); hata: at most 3 GHz; p1812: 0.03–6 GHz"),
     antenna_m: z.number().min(0).max(1000).describe("antenna centre height above ground (m)"),
     gain_dbi: z.number().min(-10).max(40).default(0).describe("antenna gain toward the boresight (dBi)"),
     pattern: z
@@ -156,6 +200,17 @@ const coverageEntry = z
     k: kValue.default("4/3"),
     clearance_f1: z.number().min(0).max(5).default(0).describe("visibility: required clearance as a fraction of the first Fresnel radius (0: geometric line of sight)"),
     polarization: z.enum(["h", "v"]).default("v"),
+    p1812: p1812Options.optional().describe("p1812: time and location statistics, clutter, indoor reception"),
+    note: text(true).pipe(z.string().min(1).max(1000)).optional().describe("a sentence for the report under the coverage's heading (e.g. how the thresholds were chosen)"),
+    service_area: z.string().min(1).optional().describe("service-area polygon (GeoJSON or KML file, relative to the study): coverage share and area reliability inside it"),
+    talk_back: z
+      .object({
+        tx_power_dbm: z.number().min(-30).max(60).describe("outstation / mobile transmitter power (dBm)"),
+        base_threshold_dbm: z.number().min(-160).max(0).describe("receive threshold at the base (dBm)"),
+      })
+      .strict()
+      .optional()
+      .describe("uplink check: the outstation's power and the base's threshold (same antennas and losses as the downlink)"),
     hata: z
       .object({
         environment: z.enum(["urban", "suburban", "open"]).default("urban"),
@@ -166,7 +221,15 @@ const coverageEntry = z
       .describe("hata: area type and city size"),
   })
   .strict()
-  .refine((c) => c.method !== "hata" || c.frequency_ghz <= 3, { message: "a frequency of at most 3 GHz for the hata method (Okumura–Hata and COST-231 stop at 2 GHz)", path: ["frequency_ghz"] });
+  .refine((c) => c.method !== "hata" || c.frequency_ghz <= 3, { message: "a frequency of at most 3 GHz for the hata method (Okumura–Hata and COST-231 stop at 2 GHz)", path: ["frequency_ghz"] })
+  .superRefine((e, ctx) => {
+    if (e.method === "p1812" && !(e.frequency_ghz >= 0.03 && e.frequency_ghz <= 6)) {
+      ctx.addIssue({ code: "custom", path: ["frequency_ghz"], message: `method p1812 (ITU-R P.1812-6) covers 0.03–6 GHz; received ${e.frequency_ghz} GHz: choose a frequency in that range or another method` });
+    }
+    if (e.p1812?.land_cover && e.p1812.receiver_clutter_loss === "p2108") {
+      ctx.addIssue({ code: "custom", path: ["p1812", "receiver_clutter_loss"], message: "p2108 applies only where no land cover is given (the land cover's clutter already enters the P.1812 profile): remove one of them" });
+    }
+  });
 
 const signOff = z
   .object({

@@ -3,7 +3,7 @@ import { closeSync, fstatSync, openSync, readFileSync } from "node:fs";
 import { readFile } from "node:fs/promises";
 import { makeRasterGrid, RasterTerrain, type RasterTerrainOptions } from "./raster-terrain.ts";
 import { bilinearGrid } from "./bilinear-grid.ts";
-import { crsFromEpsg } from "./crs-from-epsg.ts";
+import { crsFromEpsg } from "../geo/crs-from-epsg.ts";
 import { bandLayout, decodeBands, readBandFloat32, readBandInt16, waitForBands, type BandLayout, type PixelWindow, type TiffBandSource } from "./tiff-band-reader.ts";
 import { readTiffDirectory } from "./tiff-directory.ts";
 import type { RasterGrid } from "./terrain.ts";

@@ -1,5 +1,5 @@
 import { bilinearGrid } from "./bilinear-grid.ts";
-import { crsFromEpsg, type Crs } from "./crs-from-epsg.ts";
+import { crsFromEpsg, type Crs } from "../geo/crs-from-epsg.ts";
 import { metresPerDegree } from "./metres-per-degree.ts";
 import type { RasterGrid, Terrain } from "./terrain.ts";
 import { TerrainError } from "./terrain-error.ts";

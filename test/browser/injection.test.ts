@@ -5,10 +5,11 @@ import type { BrowserContext } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { stringify } from "yaml";
 import { buildSite } from "../../src/cli/build-site.ts";
-import { loadAllStudies } from "../../src/cli/load-all.ts";
+import { loadAllStudies } from "../../src/analysis/load-all.ts";
 import { InputError } from "../../src/study/input-error.ts";
 import { launchChromium } from "../../src/render/pdf/chromium.ts";
 import { serveStatic } from "./static-server.ts";
+import { loadCoverageOutputStage } from "../../src/render/coverage-output-loader.ts";
 
 // Injection through study input, judged by a real browser (Debian's chromium through
 // playwright-core), not by a regex over the HTML: a study whose every free-text field holds
@@ -76,7 +77,7 @@ beforeAll(async () => {
   };
   writeFileSync(join(dir, "study.yaml"), stringify(study));
   site = join(work, "site");
-  await buildSite(await loadAllStudies(studies, { cache: null }), { outDir: site });
+  await buildSite(await loadAllStudies(studies, { cache: null, coverageOutputs: loadCoverageOutputStage }), { outDir: site });
   server = await serveStatic(site, "/p/");
   browser = await launchChromium({ viewport: { width: 1100, height: 800 } });
 }, 240_000);
@@ -152,7 +153,7 @@ describe("hostile study text in a real browser", () => {
     const dir = join(studies, `x" onmouseover="alert(1)`);
     mkdirSync(dir, { recursive: true });
     writeFileSync(join(dir, "study.yaml"), "title: t\n");
-    const e = await loadAllStudies(studies, { cache: null }).catch((x: unknown) => x);
+    const e = await loadAllStudies(studies, { cache: null, coverageOutputs: loadCoverageOutputStage }).catch((x: unknown) => x);
     expect(e).toBeInstanceOf(InputError);
     expect((e as InputError).message).toMatch(/a folder name usable as a study id/);
   });

@@ -5,9 +5,10 @@ import { pathToFileURL } from "node:url";
 import type { BrowserContext, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { buildSite } from "../../src/cli/build-site.ts";
-import { loadAllStudies } from "../../src/cli/load-all.ts";
+import { loadAllStudies } from "../../src/analysis/load-all.ts";
 import { launchChromium } from "../../src/render/pdf/chromium.ts";
 import { serveStatic } from "./static-server.ts";
+import { loadCoverageOutputStage } from "../../src/render/coverage-output-loader.ts";
 
 // The study page's interactive map (issue 18 §7) in Debian's chromium: Leaflet bundled with
 // the site, no request leaves it (no CDN, no tiles), it works from file:// and under a path
@@ -27,7 +28,7 @@ beforeAll(async () => {
   mkdirSync(studies);
   cpSync(resolve("content/studies", DEMO), join(studies, DEMO), { recursive: true });
   site = join(work, "site");
-  await buildSite(await loadAllStudies(studies), { outDir: site });
+  await buildSite(await loadAllStudies(studies, { coverageOutputs: loadCoverageOutputStage }), { outDir: site });
   browser = await launchChromium({ viewport: { width: 1280, height: 900 } });
   server = await serveStatic(site, PREFIX);
 }, 240_000);

@@ -5,9 +5,10 @@ import { join, resolve } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { buildSite } from "../../src/cli/build-site.ts";
 import { pdfCommand } from "../../src/cli/commands/pdf.ts";
-import { loadAllStudies } from "../../src/cli/load-all.ts";
+import { loadAllStudies } from "../../src/analysis/load-all.ts";
 import { headingPages } from "../../src/render/pdf/contents-pages.ts";
 import { printRuleFaults } from "../helpers/print-rules.ts";
+import { loadCoverageOutputStage } from "../../src/render/coverage-output-loader.ts";
 
 // The printed report (issue 18 §1, §2): the PDF's first page carries document control and a
 // contents list with page numbers; pagination rules hold on every page, read per page with
@@ -36,7 +37,7 @@ beforeAll(async () => {
   mkdirSync(studies);
   cpSync(resolve("content/studies", DEMO), join(studies, DEMO), { recursive: true });
   site = join(work, "site");
-  await buildSite(await loadAllStudies(studies), { outDir: site });
+  await buildSite(await loadAllStudies(studies, { coverageOutputs: loadCoverageOutputStage }), { outDir: site });
   expect(await pdfCommand([DEMO, "--out", site])).toBe(0);
   pdf = join(site, "studies", DEMO, `${DEMO}.pdf`);
   pages = pageTexts(pdf);

@@ -1,5 +1,5 @@
 import { execFileSync } from "node:child_process";
-import { cpSync, existsSync, mkdirSync, mkdtempSync, readdirSync, rmSync } from "node:fs";
+import { cpSync, existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join, relative, resolve } from "node:path";
 import { pathToFileURL } from "node:url";
@@ -7,11 +7,12 @@ import type { BrowserContext, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { buildSite } from "../../src/cli/build-site.ts";
 import { pdfCommand } from "../../src/cli/commands/pdf.ts";
-import { loadAllStudies } from "../../src/cli/load-all.ts";
+import { loadAllStudies } from "../../src/analysis/load-all.ts";
 import { launchChromium } from "../../src/render/pdf/chromium.ts";
 import { printPdf } from "../../src/render/pdf/print-pdf.ts";
 import { IMG_TEXT, SCRIPT_TEXT, writeHostileStudy } from "./hostile-study.ts";
 import { serveStatic } from "./static-server.ts";
+import { loadCoverageOutputStage } from "../../src/render/coverage-output-loader.ts";
 
 // The whole report site in a real browser (Debian's chromium through playwright-core): the
 // demo study and a study whose names carry markup, built into a temporary folder and served
@@ -84,7 +85,7 @@ beforeAll(async () => {
   cpSync(resolve("content/studies", DEMO), join(studies, DEMO), { recursive: true });
   hostileId = writeHostileStudy(studies);
   site = join(work, "site");
-  const analysed = await loadAllStudies(studies);
+  const analysed = await loadAllStudies(studies, { coverageOutputs: loadCoverageOutputStage });
   await buildSite(analysed, { outDir: site });
   demoLinks = analysed.find((s) => s.study.id === DEMO)!.result.links.map((l) => l.id);
   hostileLinks = analysed.find((s) => s.study.id === hostileId)!.result.links.map((l) => l.id);
@@ -264,6 +265,49 @@ describe("report site in Chromium", () => {
     expect(print.figures["wave-field"]?.length).toBe(demoLinks.length);
   });
 
+  it("the demo's P.1812 coverages show a location-probability map at true scale with sites, links and service area, and the area-reliability and served-sites tables", async () => {
+    const page = await browser.context.newPage();
+    await visit(page, `${server.url}studies/${DEMO}/index.html`);
+    const facts = await page.evaluate(() =>
+      Array.from(document.querySelectorAll("section.coverage")).map((sec) => ({
+        id: sec.id,
+        probability: Array.from(sec.querySelectorAll("figure.probability-map svg")).map((svg) => ({
+          title: svg.querySelector("title")?.textContent ?? "",
+          w: Number(svg.getAttribute("width")),
+          h: Number(svg.getAttribute("height")),
+          areas: svg.querySelectorAll("g.service-area path").length,
+          links: svg.querySelectorAll("g.links path").length,
+          others: svg.querySelectorAll("g.other-site").length,
+        })),
+        reliabilityRows: sec.querySelectorAll("table.area-reliability tbody tr").length,
+        servedRows: Array.from(sec.querySelectorAll("table.served-sites tbody tr")).map((tr) => Array.from(tr.children).map((td) => td.textContent ?? "")),
+        text: (sec as HTMLElement).innerText,
+      })),
+    );
+    await page.close();
+    const results = JSON.parse(readFileSync(join(site, "studies", DEMO, "results.json"), "utf8")) as { coverage: { id: string; method: string; grid: { width: number; height: number; cell_m: [number, number] }; p1812?: { served_sites: unknown[] } }[] };
+    const p1812 = results.coverage.filter((c) => c.method === "p1812");
+    expect(p1812.length).toBeGreaterThanOrEqual(1);
+    for (const c of p1812) {
+      const f = facts.find((x) => x.id === `coverage-${c.id}`)!;
+      expect(f.probability.length, c.id).toBe(1);
+      const m = f.probability[0];
+      expect(m.title).toMatch(/location probability/);
+      // true scale: the map's aspect is the ground's (cells are not square on the demo's geographic grid)
+      const ground = (c.grid.width * c.grid.cell_m[0]) / (c.grid.height * c.grid.cell_m[1]);
+      expect(Math.abs(m.w / m.h / ground - 1), `${c.id} aspect ${m.w}×${m.h} vs ground ${ground}`).toBeLessThan(0.01);
+      expect(m.areas, c.id).toBeGreaterThanOrEqual(1);
+      expect(m.links, c.id).toBeGreaterThanOrEqual(1);
+      expect(m.others, c.id).toBeGreaterThanOrEqual(1);
+      expect(f.reliabilityRows, c.id).toBeGreaterThanOrEqual(1);
+      expect(f.servedRows.length, c.id).toBe(c.p1812!.served_sites.length);
+      expect(f.servedRows.length, c.id).toBeGreaterThanOrEqual(3);
+      for (const row of f.servedRows) expect(row.join(" "), c.id).toMatch(/−?\d+\.\d/);
+      expect(f.text).toMatch(/ITU-R P\.1812-6/);
+      expect(f.text).toMatch(/Talk-back/);
+    }
+  });
+
   it("a study whose names contain markup shows that text and runs nothing", async () => {
     const page = await browser.context.newPage();
     const urls = [
@@ -328,7 +372,11 @@ describe("report site in Chromium", () => {
       expect(text[i], `page ${i + 1}`).toContain("Kestrel Vale telemetry and backhaul network · rev. C");
       expect(text[i], `page ${i + 1}`).toContain(`Page ${i + 1} of ${pages}`);
     }
-    expect(text.join("")).toContain("does not replace licensed frequency coordination");
+    // (compared with white space collapsed: a sentence may wrap across lines)
+    const all = text.join("").replace(/\s+/g, " ");
+    expect(all).toContain("does not replace licensed frequency coordination");
+    // The P.1812 coverage sections are in the PDF: location-probability map, tables.
+    for (const re of [/Location probability of/, /Area reliability/, /Served sites/, /Talk-back/]) expect(all).toMatch(re);
     // The running header of the hostile study is text too.
     const hostilePdf = join(work, "hostile.pdf");
     await printPdf({ html_path: join(site, "studies", hostileId, "print", "index.html"), pdf_path: hostilePdf, context: browser.context });

@@ -6,7 +6,7 @@ import { fileURLToPath } from "node:url";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 
 // bin/ridgeline.js runs a large `ridgeline coverage` again in a second node with glibc's
-// huge-page tunable (DEVELOPERS.md, src/analysis/coverage/) when the kernel leaves transparent
+// huge-page tunable (DEVELOPERS.md, src/coverage/) when the kernel leaves transparent
 // huge pages to madvise; every other command, and small grids, run in the first. A probe module
 // loaded with --import reports, from every node it starts in, its pid and the variable.
 

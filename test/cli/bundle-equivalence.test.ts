@@ -75,7 +75,7 @@ beforeAll(async () => {
   const bundle = await run(["build", "--out", dirs.bundle, "--cache-dir", cache], "bundle");
   const tsx = await run(["build", "--out", dirs.tsx, "--cache-dir", cache], "tsx");
   builds = { bundle, tsx, dirs };
-}, 240_000);
+}, 600_000); // the demo's P.1812 coverages are computed once per build with a fresh cache
 afterAll(() => rmSync(tmp, { recursive: true, force: true }));
 
 const srcModule = (u: string) => u.startsWith("file:") && fileURLToPath(u).startsWith(join(PROJECT_ROOT, "src")) && u.endsWith(".ts");

@@ -4,7 +4,7 @@ import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { parse as parseYaml } from "yaml";
-import { analyzeCoverage } from "../../src/analysis/coverage/analyze-coverage.ts";
+import { analyzeCoverage } from "../../src/coverage/analyze-coverage.ts";
 import { InputError } from "../../src/study/input-error.ts";
 import { studyHead } from "../helpers/tiny-study.ts";
 import { loadStudy } from "../../src/study/load-study.ts";

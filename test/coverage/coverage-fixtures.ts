@@ -1,6 +1,6 @@
-import type { CoverageRequest } from "../../src/analysis/coverage/coverage-request.ts";
+import type { CoverageRequest } from "../../src/coverage/coverage-request.ts";
 import { writeGeoTiff } from "../../src/geo/geotiff-writer.ts";
-import { crsFromEpsg } from "../../src/terrain/crs-from-epsg.ts";
+import { crsFromEpsg } from "../../src/geo/crs-from-epsg.ts";
 import { mulberry32 } from "../../src/terrain/mulberry32.ts";
 import { FractalNoise } from "../../src/terrain/value-noise.ts";
 

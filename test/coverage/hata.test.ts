@@ -1,9 +1,9 @@
 import geographiclib from "geographiclib-geodesic";
 import { describe, expect, it } from "vitest";
-import { computeCoverage } from "../../src/analysis/coverage/compute-coverage.ts";
+import { computeCoverage } from "../../src/coverage/compute-coverage.ts";
 import { hataLoss } from "../../src/physics/hata.ts";
 import { ConstantTerrain } from "../../src/terrain/constant.ts";
-import { crsFromEpsg } from "../../src/terrain/crs-from-epsg.ts";
+import { crsFromEpsg } from "../../src/geo/crs-from-epsg.ts";
 import { expectClose } from "../helpers/expect-close.ts";
 import { request } from "./coverage-fixtures.ts";
 

@@ -1,8 +1,8 @@
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
-import { deltaBullingtonIncremental, type DeltaBullingtonParts } from "../../src/analysis/coverage/delta-bullington-incremental.ts";
-import { RadialProfile } from "../../src/analysis/coverage/radial-profile.ts";
-import { sphericalEarthLossScalar } from "../../src/analysis/coverage/spherical-earth-scalar.ts";
+import { deltaBullingtonIncremental, type DeltaBullingtonParts } from "../../src/coverage/delta-bullington-incremental.ts";
+import { RadialProfile } from "../../src/coverage/radial-profile.ts";
+import { sphericalEarthLossScalar } from "../../src/coverage/spherical-earth-scalar.ts";
 import { EARTH_RADIUS_M, wavelengthM } from "../../src/physics/constants.ts";
 import { deltaBullingtonLoss } from "../../src/physics/delta-bullington.ts";
 import { sphericalEarthDiffractionLoss } from "../../src/physics/spherical-earth-diffraction.ts";

@@ -5,8 +5,8 @@ import { geoArea } from "d3-geo";
 import sharp from "sharp";
 import { parse as parseYaml } from "yaml";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { analyzeStudyCoverage } from "../../src/analysis/coverage/analyze-coverage.ts";
-import { fieldStrengthDbuvM, isotropicPowerDbm } from "../../src/analysis/coverage/field-strength.ts";
+import { analyzeStudyCoverage } from "../../src/coverage/analyze-coverage.ts";
+import { fieldStrengthDbuvM, isotropicPowerDbm } from "../../src/coverage/field-strength.ts";
 import { loadStudy } from "../../src/study/load-study.ts";
 import { studySchema } from "../../src/study/schema.ts";
 import type { Study } from "../../src/study/study.ts";
@@ -14,6 +14,7 @@ import { openGeoTiff } from "../../src/terrain/geotiff.ts";
 import { expectClose } from "../helpers/expect-close.ts";
 import { studyHead } from "../helpers/tiny-study.ts";
 import { cellLatLon, roughTerrain, writeUtmDem } from "./coverage-fixtures.ts";
+import { coverageOutputStage } from "../../src/render/coverage-outputs.ts";
 
 // A study with three coverages (delta-Bullington with a sector antenna, Hata, visibility) on
 // one GeoTIFF: files written, areas consistent between raster, GeoJSON and the table, the
@@ -68,7 +69,7 @@ coverage:
   study = loadStudy(join(dir, "study.yaml"));
   study.coverage = studySchema.parse(parseYaml(yaml)).coverage;
   const terrain = await openGeoTiff(join(dir, "dem.tif"));
-  run = await analyzeStudyCoverage(study, terrain, { outDir: out, workers: 2 });
+  run = await analyzeStudyCoverage(study, terrain, { outDir: out, outputs: coverageOutputStage, workers: 2 });
 });
 
 afterAll(() => rmSync(dir, { recursive: true, force: true }));

@@ -1,9 +1,10 @@
 import { existsSync, readdirSync, statSync } from "node:fs";
 import { join, relative } from "node:path";
 import { analyzeStudies, type AnalyzedStudy } from "../../src/analysis/analyze-study.ts";
-import { findStudies, loadStudies } from "../../src/cli/load-all.ts";
+import { findStudies, loadStudies } from "../../src/analysis/load-all.ts";
 import { RidgelineError } from "../../src/errors.ts";
 import { removeTempDirs } from "../../src/temp-dirs.ts";
+import { loadCoverageOutputStage } from "../../src/render/coverage-output-loader.ts";
 
 /**
  * One fuzz case run in-process, as `ridgeline check` (analysis) or `ridgeline build` (analysis
@@ -28,7 +29,7 @@ const cut = (s: string) => s.split("\n").slice(0, 3).join(" | ").slice(0, 1000);
 /** Run the study `id` under `studiesDir`; with `outDir`, build the site there too. */
 export async function runCase(studiesDir: string, id: string, outDir: string | null): Promise<CaseResult> {
   try {
-    const studies = await analyzeStudies(loadStudies(findStudies(studiesDir, [id])), { cache: null });
+    const studies = await analyzeStudies(loadStudies(findStudies(studiesDir, [id])), { cache: null, coverageOutputs: loadCoverageOutputStage });
     const problem = impossibleInResults(studies);
     if (problem) return { outcome: "impossible", detail: problem };
     if (outDir) {

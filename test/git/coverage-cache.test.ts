@@ -7,6 +7,7 @@ import { ResultCache } from "../../src/cache/result-cache.ts";
 import { buildSummary, type BuildReport } from "../../src/cli/commands/build.ts";
 import { loadStudy } from "../../src/study/load-study.ts";
 import { smallStudyYaml, writeSmallStudy, writeSmallTile } from "./small-study.ts";
+import { loadCoverageOutputStage } from "../../src/render/coverage-output-loader.ts";
 
 // Issue 6, acceptance for coverage maps: a content-addressed cache of per-coverage results,
 // keyed by everything they depend on. The checks are the project's own invariants (common
@@ -27,7 +28,7 @@ let dir: string;
 let cache: ResultCache;
 const made: AnalyzedStudy[] = [];
 const analyze = async (withCache = true, c: ResultCache = cache) => {
-  const a = await analyzeStudy(loadStudy(join(dir, "study.yaml")), { cache: withCache ? c : null });
+  const a = await analyzeStudy(loadStudy(join(dir, "study.yaml")), { cache: withCache ? c : null, coverageOutputs: loadCoverageOutputStage });
   made.push(a);
   return a;
 };

@@ -5,6 +5,7 @@ import { linkPerformanceReport } from "../../src/site/link-performance-report.ts
 import { capacityCurveSvg, diversityCurveSvg } from "../../src/site/performance-figures.ts";
 import { studyReport } from "../../src/site/study-report.ts";
 import { PROJECT_ROOT, runCli } from "../helpers/run-cli.ts";
+import { loadCoverageOutputStage } from "../../src/render/coverage-output-loader.ts";
 
 // The demo study's microwave-performance hops (issue 13 acceptance): an adaptive-modulation
 // hop with signatures, a space-diversity hop and a co-channel dual-polarised pair at one node.
@@ -13,7 +14,7 @@ let a: AnalyzedStudy;
 beforeAll(async () => {
   const s = loadStudy(`${PROJECT_ROOT}content/studies/kestrel-vale/study.yaml`);
   s.coverage = []; // links only
-  a = await analyzeStudy(s);
+  a = await analyzeStudy(s, { coverageOutputs: loadCoverageOutputStage });
 }, 120_000);
 const link = (id: string) => a.result.links.find((l) => l.id === id)!;
 

@@ -3,12 +3,13 @@ import { analyzeStudy } from "../../src/analysis/analyze-study.ts";
 import { loadStudy } from "../../src/study/load-study.ts";
 import { PROJECT_ROOT } from "../helpers/run-cli.ts";
 import { join } from "node:path";
+import { loadCoverageOutputStage } from "../../src/render/coverage-output-loader.ts";
 
 // The demo study end to end (foundation issue §6, §8): results carry the keys of
 // DESIGN.md, no NaN, and the scenario has ≥ 6 sites, ≥ 6 links and a missed target.
 
 describe("demo study results", async () => {
-  const { result } = await analyzeStudy(loadStudy(join(PROJECT_ROOT, "content/studies/kestrel-vale/study.yaml")));
+  const { result } = await analyzeStudy(loadStudy(join(PROJECT_ROOT, "content/studies/kestrel-vale/study.yaml")), { coverageOutputs: loadCoverageOutputStage });
 
   it("has the results.json keys of the design contract", () => {
     expect(result.sites.length).toBeGreaterThanOrEqual(6);
@@ -48,8 +49,8 @@ describe("demo study results", async () => {
   it("is reciprocal: the blocked hop's diffraction is the same from either end (P.526 §4.5 symmetry)", async () => {
     const study = loadStudy(join(PROJECT_ROOT, "content/studies/kestrel-vale/study.yaml"));
     const l = study.links.find((x) => x.id === "mill-aldr")!;
-    const swapped = { ...study, links: [{ ...l, from: l.to, to: l.from }] };
-    const back = (await analyzeStudy(swapped)).result.links[0];
+    const swapped = { ...study, links: [{ ...l, from: l.to, to: l.from }], coverage: [] }; // the link alone
+    const back = (await analyzeStudy(swapped, { coverageOutputs: loadCoverageOutputStage })).result.links[0];
     const fwd = result.links.find((x) => x.id === "mill-aldr")!;
     expect(Math.abs(back.losses_db.diffraction! - fwd.losses_db.diffraction!)).toBeLessThan(0.05);
   });

@@ -11,6 +11,7 @@ import { relativeUrl } from "../../src/site/relative-url.ts";
 import { runCase, type CaseResult } from "../fuzz/run-case.ts";
 import { PROJECT_ROOT } from "../helpers/run-cli.ts";
 import { studyHead, TINY_STUDY } from "../helpers/tiny-study.ts";
+import { loadCoverageOutputStage } from "../../src/render/coverage-output-loader.ts";
 
 // Regression tests for the crashes, hangs, impossible results, injections, leaks and poor
 // messages found by feeding Ridgeline hostile studies (issue: hardening). Each case runs the
@@ -91,8 +92,8 @@ ${COVERAGE("A", "ca")}${COVERAGE("B", "cb").replace("coverage:\n", "")}`.replace
     mkdirSync(join(studies, "far"), { recursive: true });
     writeFileSync(join(studies, "far", "study.yaml"), yaml);
     const { analyzeStudies } = await import("../../src/analysis/analyze-study.ts");
-    const { loadStudies, findStudies } = await import("../../src/cli/load-all.ts");
-    const [s] = await analyzeStudies(loadStudies(findStudies(studies, ["far"])), { cache: null });
+    const { loadStudies, findStudies } = await import("../../src/analysis/load-all.ts");
+    const [s] = await analyzeStudies(loadStudies(findStudies(studies, ["far"])), { cache: null, coverageOutputs: loadCoverageOutputStage });
     expect(s.result.coverage.map((c) => c.id)).toEqual(["ca", "cb"]);
     expect(s.result.warnings.join(" ")).toMatch(/No multi-site composite: the composite would need \d+ × \d+ = [\d.]+ M cells, more than the limit of 200 M/);
     expect((await runCase(studies, "far", null)).outcome).toBe("success");
@@ -135,8 +136,8 @@ describe("silent nonsense becomes an error or a warning", () => {
     mkdirSync(join(studies, "mp"), { recursive: true });
     writeFileSync(join(studies, "mp", "study.yaml"), yaml);
     const { analyzeStudies } = await import("../../src/analysis/analyze-study.ts");
-    const { loadStudies, findStudies } = await import("../../src/cli/load-all.ts");
-    const [s] = await analyzeStudies(loadStudies(findStudies(studies, ["mp"])), { cache: null });
+    const { loadStudies, findStudies } = await import("../../src/analysis/load-all.ts");
+    const [s] = await analyzeStudies(loadStudies(findStudies(studies, ["mp"])), { cache: null, coverageOutputs: loadCoverageOutputStage });
     const l = s.result.links[0];
     expect(l.availability?.multipath_worst_month_pct).toBe(100);
     expect(l.availability_pct).toBe(0);
@@ -158,8 +159,8 @@ describe("silent nonsense becomes an error or a warning", () => {
     writeGeoTiff(join(dir, "dem.tif"), { width: 1, height: 1, data: new Float32Array([100]), geoTransform: [-71, 1, 0, -33, 0, -1], epsg: 4326, nodata: -9999 });
     writeFileSync(join(dir, "study.yaml"), sub("constant_m: 50", "file: dem.tif"));
     const { analyzeStudies } = await import("../../src/analysis/analyze-study.ts");
-    const { loadStudies, findStudies } = await import("../../src/cli/load-all.ts");
-    const [s] = await analyzeStudies(loadStudies(findStudies(studies, ["coarse"])), { cache: null });
+    const { loadStudies, findStudies } = await import("../../src/analysis/load-all.ts");
+    const [s] = await analyzeStudies(loadStudies(findStudies(studies, ["coarse"])), { cache: null, coverageOutputs: loadCoverageOutputStage });
     const link = s.result.links[0];
     expect(link.clearance_reliable).toBe(false);
     expect(link.warnings.join(" ")).toMatch(/Clearance verdict unreliable: the terrain's spacing \(\d+ m\) is coarser than a 10th of the path/);
@@ -223,7 +224,7 @@ describe("messages", () => {
   });
 
   it("--studies-dir naming a file is bad input (was ENOTDIR, an internal error)", async () => {
-    const { findStudies } = await import("../../src/cli/load-all.ts");
+    const { findStudies } = await import("../../src/analysis/load-all.ts");
     expect(() => findStudies("/etc/passwd")).toThrow(/received a file, not a folder/);
   });
 

@@ -3,7 +3,7 @@ import { mkdirSync, mkdtempSync, rmSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { crsFromEpsg } from "../../src/terrain/crs-from-epsg.ts";
+import { crsFromEpsg } from "../../src/geo/crs-from-epsg.ts";
 import { openGeoTiff } from "../../src/terrain/geotiff.ts";
 import { openHgt } from "../../src/terrain/hgt.ts";
 import { mulberry32 } from "../../src/terrain/mulberry32.ts";

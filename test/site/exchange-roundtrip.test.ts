@@ -8,6 +8,7 @@ import { linksCsv, networkGeoJson, networkKml, sitesCsv } from "../../src/site/e
 import { importNetwork } from "../../src/study/import-network.ts";
 import { loadStudy } from "../../src/study/load-study.ts";
 import { PROJECT_ROOT, runCli } from "../helpers/run-cli.ts";
+import { loadCoverageOutputStage } from "../../src/render/coverage-output-loader.ts";
 
 // Files in and out (issue 18 §8): the demo's sites and links exported as CSV, imported into a
 // new study with `ridgeline import`, analysed again: the same link results, number for number.
@@ -18,7 +19,7 @@ let demo: StudyResult;
 
 beforeAll(async () => {
   work = mkdtempSync(join(tmpdir(), "ridgeline-exchange-"));
-  demo = (await analyzeStudy(loadStudy(DEMO))).result;
+  demo = (await analyzeStudy(loadStudy(DEMO), { coverageOutputs: loadCoverageOutputStage })).result;
 }, 120_000);
 afterAll(() => rmSync(work, { recursive: true, force: true }));
 
@@ -30,7 +31,7 @@ describe("export → import → analyse", () => {
     expect(r.status, r.stderr).toBe(0);
     const text = readFileSync(join(work, "studies/round-trip/study.yaml"), "utf8");
     expect(text).toMatch(/# Links imported by `ridgeline import` from sites\.csv, links\.csv/);
-    const again = (await analyzeStudy(loadStudy(join(work, "studies/round-trip/study.yaml")))).result;
+    const again = (await analyzeStudy(loadStudy(join(work, "studies/round-trip/study.yaml")), { coverageOutputs: loadCoverageOutputStage })).result;
     expect(again.links.map((l) => l.id)).toEqual(demo.links.map((l) => l.id));
     for (const [i, l] of again.links.entries()) expect(l, l.id).toEqual(demo.links[i]);
   }, 120_000);

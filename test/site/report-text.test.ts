@@ -3,9 +3,10 @@ import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { buildSite } from "../../src/cli/build-site.ts";
-import { loadAllStudies } from "../../src/cli/load-all.ts";
+import { loadAllStudies } from "../../src/analysis/load-all.ts";
 import { htmlFiles, runningText, textFaults } from "../helpers/page-text.ts";
 import { PROJECT_ROOT } from "../helpers/run-cli.ts";
+import { loadCoverageOutputStage } from "../../src/render/coverage-output-loader.ts";
 
 // Every page of the demo read as a client would (issue 18 §3): no exponent notation, no NaN,
 // no ASCII hyphen for a minus sign, no doubled words — and each fault quoted in the issue is
@@ -19,7 +20,7 @@ const text = (rel: string) => runningText(pages.get(rel)!).join("\n");
 beforeAll(async () => {
   work = mkdtempSync(join(tmpdir(), "ridgeline-text-"));
   site = join(work, "_site");
-  await buildSite(await loadAllStudies(join(PROJECT_ROOT, "content/studies")), { outDir: site });
+  await buildSite(await loadAllStudies(join(PROJECT_ROOT, "content/studies"), { coverageOutputs: loadCoverageOutputStage }), { outDir: site });
   for (const f of htmlFiles(site)) pages.set(f.slice(site.length + 1), readFileSync(f, "utf8"));
 }, 120_000);
 afterAll(() => rmSync(work, { recursive: true, force: true }));

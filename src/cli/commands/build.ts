@@ -2,9 +2,10 @@ import { analyzeStudies, type AnalyzedStudy } from "../../analysis/analyze-study
 import { DEFAULT_CACHE_DIR, ResultCache } from "../../cache/result-cache.ts";
 import { parseArgs } from "../args.ts";
 import { buildSite } from "../build-site.ts";
-import { findStudies, loadStudies } from "../load-all.ts";
+import { findStudies, loadStudies } from "../../analysis/load-all.ts";
 import { progressReporter } from "../progress.ts";
 import { makeTempDir, removeTempDir } from "../../temp-dirs.ts";
+import { loadCoverageOutputStage } from "../../render/coverage-output-loader.ts";
 
 export interface BuildOptions {
   /** Study ids to build (default: every study under studiesDir). */
@@ -53,7 +54,7 @@ export async function runBuild(options: BuildOptions = {}): Promise<BuildReport>
       const { distributeStudies } = await import("../../queue/coordinator.ts");
       queue = await distributeStudies(loaded, cache!, target, { log: options.log });
     }
-    studies = await analyzeStudies(loaded, { cache, onProgress: (_s, d, t) => progress.update(d, t) });
+    studies = await analyzeStudies(loaded, { cache, coverageOutputs: loadCoverageOutputStage, onProgress: (_s, d, t) => progress.update(d, t) });
   } catch (e) {
     if (scratch) removeTempDir(scratch);
     throw e;

@@ -1,8 +1,9 @@
 import type { AnalyzedStudy } from "../../analysis/analyze-study.ts";
 import { formatNumber } from "../../format/quantity.ts";
 import { parseArgs } from "../args.ts";
-import { loadAllStudies } from "../load-all.ts";
+import { loadAllStudies } from "../../analysis/load-all.ts";
 import { progressReporter } from "../progress.ts";
+import { loadCoverageOutputStage } from "../../render/coverage-output-loader.ts";
 
 /** One row of the check table. */
 export interface CheckRow {
@@ -96,7 +97,7 @@ function interferenceTable(rows: InterferenceCheckRow[]): string {
 export async function checkCommand(argv: string[]): Promise<number> {
   const args = parseArgs(argv, { values: ["studies-dir"], flags: ["json"] });
   const progress = progressReporter("links");
-  const studies = await loadAllStudies(args.values.get("studies-dir")?.[0] ?? "content/studies", { ids: args.positional, onProgress: (_s, d, t) => progress.update(d, t) });
+  const studies = await loadAllStudies(args.values.get("studies-dir")?.[0] ?? "content/studies", { ids: args.positional, coverageOutputs: loadCoverageOutputStage, onProgress: (_s, d, t) => progress.update(d, t) });
   progress.stop();
   const rows = checkRows(studies);
   const counted = rows.filter((r) => !r.design_status);

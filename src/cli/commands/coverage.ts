@@ -8,16 +8,20 @@ import type { Terrain } from "../../terrain/terrain.ts";
 import { latLonArg, numberArg, parseArgs, UsageError } from "../args.ts";
 
 export const COVERAGE_USAGE = `Usage: ridgeline coverage --site LAT,LON --antenna-m H --receiver-m H --terrain PATH|constant:M
-         --radius-km R --resolution-m X --frequency-ghz F --method visibility|delta-bullington|hata
+         --radius-km R --resolution-m X --frequency-ghz F --method visibility|delta-bullington|hata|p1812
          [--clearance-f1 F] [--k K] [--tx-power-dbm P] [--gain-dbi G] [--thresholds-dbm A,B,…]
+         [--time-pct P] [--location-pct PL] [--clutter open|suburban|urban|dense_urban|water] [--dn N] [--n0 N]
          [--pattern CSV] [--azimuth-deg A] [--threads N] [--json] --out FILE.tif
   Writes one GeoTIFF on the terrain raster's own grid (a single GeoTIFF/.hgt/synthetic DEM, cropped
   to the radius) or on a UTM grid of X m: float32 received level (dBm, nodata −9999) or, for
   visibility, uint8 1 = visible, 0 = not (nodata 255).
   --pattern: CSV "azimuth_deg,attenuation_db" from 0 to 360 (relative to --azimuth-deg).
-  --threads: worker threads (default: all cores; 0 computes in the main thread).`;
+  --threads: worker threads (default: all cores; 0 computes in the main thread).
+  p1812 (ITU-R P.1812-6, 0.03–6 GHz): --time-pct 1–50 (default 50), --location-pct 1–99 (default 50),
+  one clutter category for the area (default open), ΔN (default 45) and N0 (default 325).`;
 
-const METHODS = ["visibility", "delta-bullington", "hata"] as const;
+const METHODS = ["visibility", "delta-bullington", "hata", "p1812"] as const;
+const CLUTTER = ["water", "open", "suburban", "urban", "dense_urban"] as const;
 
 /** `ridgeline coverage …`: one coverage raster without a study file. Exit 0 on success, 2 on bad input. */
 export async function coverageCommand(argv: string[]): Promise<number> {
@@ -27,7 +31,7 @@ export async function coverageCommand(argv: string[]): Promise<number> {
     return 0;
   }
   const a = parseArgs(argv, {
-    values: ["site", "antenna-m", "receiver-m", "terrain", "radius-km", "resolution-m", "frequency-ghz", "method", "clearance-f1", "k", "tx-power-dbm", "gain-dbi", "thresholds-dbm", "pattern", "azimuth-deg", "threads", "out"],
+    values: ["site", "antenna-m", "receiver-m", "terrain", "radius-km", "resolution-m", "frequency-ghz", "method", "clearance-f1", "k", "tx-power-dbm", "gain-dbi", "thresholds-dbm", "pattern", "azimuth-deg", "threads", "out", "time-pct", "location-pct", "clutter", "dn", "n0"],
     flags: ["json"],
   });
   const v = (n: string) => a.values.get(n)?.[0];
@@ -57,19 +61,19 @@ export async function coverageCommand(argv: string[]): Promise<number> {
   // requests stay in this thread.
   const estimate = ((2 * radius_km * 1000) / resolution_m) ** 2;
   const nThreads = threads ?? (estimate < 2e6 ? 0 : availableParallelism());
-  const [{ CoveragePool }, { lineOfSightOnly }] = await Promise.all([import("../../analysis/coverage/coverage-pool.ts"), import("../../analysis/coverage/horizon-sweep.ts")]);
+  const [{ CoveragePool }, { lineOfSightOnly }] = await Promise.all([import("../../coverage/coverage-pool.ts"), import("../../coverage/horizon-sweep.ts")]);
   const clearance_f1 = num("clearance-f1", 0, (x) => x >= 0 && x <= 5, "a fraction of the first Fresnel radius from 0 to 5");
   const pool = nThreads > 0 ? CoveragePool.start(nThreads, lineOfSightOnly(method, clearance_f1) ? { warmUp: "line-of-sight" } : {}) : null;
   if (TIMINGS) void pool?.whenReady().then(() => mark("threads ready"));
   // Heavy modules load only for this command (nothing below may throw before the try that closes the pool, but a failing import).
   const [{ prepareCoverage, runCoverage }, { CoverageError }, { parseTerrainArg, openTerrain }, { TerrainError }, { writeGeoTiff }, { coverageResult }, { crsFromEpsg }] = await Promise.all([
-    import("../../analysis/coverage/compute-coverage.ts"),
-    import("../../analysis/coverage/coverage-error.ts"),
+    import("../../coverage/compute-coverage.ts"),
+    import("../../coverage/coverage-error.ts"),
     import("../../terrain/open-terrain.ts"),
     import("../../terrain/terrain-error.ts"),
     import("../../geo/geotiff-writer.ts"),
-    import("../../analysis/coverage/coverage-result.ts"),
-    import("../../terrain/crs-from-epsg.ts"),
+    import("../../coverage/coverage-result.ts"),
+    import("../../geo/crs-from-epsg.ts"),
   ]).catch(async (e) => {
     await pool?.close();
     throw e;
@@ -101,7 +105,26 @@ export async function coverageCommand(argv: string[]): Promise<number> {
     atmosphere: { pressure_hpa: 1013.25, temperature_c: 15, water_vapour_g_m3: 7.5 },
     hata: { environment: "urban" as const, city_size: "small-medium" as const },
   };
+  if (method === "p1812") {
+    const clutter = (v("clutter") ?? "open") as (typeof CLUTTER)[number];
+    if (!CLUTTER.includes(clutter)) throw new UsageError(`--clutter: received "${v("clutter")}"; expected one of ${CLUTTER.join(", ")}.`);
+    const { clutterHeightM } = await import("../../coverage/p1812-setup.ts");
+    (request as typeof request & { p1812?: unknown }).p1812 = {
+      time_pct: num("time-pct", 50, Number.isFinite, "a percentage of time from 1 to 50 %"),
+      location_pct: num("location-pct", 50, Number.isFinite, "a percentage of locations from 1 to 99 %"),
+      sigma_l_db: null,
+      dn: num("dn", 45, Number.isFinite, "a lapse rate ΔN above 0 and below 157 N-units/km"),
+      n0: num("n0", 325, (x) => x >= 250 && x <= 400, "a surface refractivity N0 from 250 to 400 N-units"),
+      classes: [{ value: null, name: clutter.replace("_", " "), category: clutter, height_m: clutterHeightM(clutter) }],
+      land_cover: null,
+      receiver_clutter_loss: "none",
+      indoor: null,
+    };
+  }
   const names = {
+    time_pct: "--time-pct",
+    location_pct: "--location-pct",
+    dn: "--dn",
     radius_m: "--radius-km",
     resolution_m: "--resolution-m",
     frequency_ghz: "--frequency-ghz",

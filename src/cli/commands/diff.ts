@@ -12,7 +12,8 @@ import { DEFAULT_THRESHOLDS, type DiffThresholds, type StudiesDiff } from "../..
 import { changesPageHtml } from "../../render/html/changes-page.ts";
 import { InputError } from "../../study/input-error.ts";
 import { numberArg, parseArgs, UsageError } from "../args.ts";
-import { findStudies, loadStudies } from "../load-all.ts";
+import { findStudies, loadStudies } from "../../analysis/load-all.ts";
+import { loadCoverageOutputStage } from "../../render/coverage-output-loader.ts";
 
 export const DIFF_USAGE = `Usage: ridgeline diff <rev> [<rev>] [--studies-dir DIR] [--out DIR] [--json]
          [--fade-margin-db X] [--availability-pct X] [--clearance-f1 X] [--cache-dir DIR] [--no-cache]
@@ -30,14 +31,14 @@ export interface DiffOptions {
 
 /** Load and analyse the studies of one side; input problems name files as `<commit>:<path>`. */
 async function analyzeSide(loc: StudiesLocation, rev: Revision, tmp: string, cache: ResultCache | null, notes: string[]): Promise<AnalyzedStudy[]> {
-  if (rev.commit === null) return analyzeStudies(loadStudies(findStudies(loc.studiesDir)), { cache });
+  if (rev.commit === null) return analyzeStudies(loadStudies(findStudies(loc.studiesDir)), { cache, coverageOutputs: loadCoverageOutputStage });
   const short = rev.label.split(" ")[0];
   const into = mkdtempSync(join(tmp, `${short}-`));
   const side = await materializeRevision(loc, rev.commit, short, into);
   notes.push(...side.notes);
   try {
     // the revision as materialised (its own repository) and the working-tree copies linked into it for files git does not hold
-    return await analyzeStudies(loadStudies(findStudies(side.studiesDir), { roots: [loc.root, into] }), { cache });
+    return await analyzeStudies(loadStudies(findStudies(side.studiesDir), { roots: [loc.root, into] }), { cache, coverageOutputs: loadCoverageOutputStage });
   } catch (e) {
     if (!(e instanceof InputError)) throw e;
     const rename = (f: string) => (f.startsWith(into + sep) ? `${short}:${relative(into, f).split(sep).join("/")}` : f);

@@ -4,7 +4,8 @@ import { launchChromium } from "../../render/pdf/chromium.ts";
 import { printPdf } from "../../render/pdf/print-pdf.ts";
 import { parseArgs, UsageError } from "../args.ts";
 import { buildSite } from "../build-site.ts";
-import { findStudies, loadAllStudies } from "../load-all.ts";
+import { findStudies, loadAllStudies } from "../../analysis/load-all.ts";
+import { loadCoverageOutputStage } from "../../render/coverage-output-loader.ts";
 
 /**
  * `ridgeline pdf <study-id> [--out DIR] [--studies-dir DIR] [--paper a4|letter]`: print the
@@ -23,7 +24,7 @@ export async function pdfCommand(argv: string[]): Promise<number> {
   if (!existsSync(printPage)) {
     findStudies(studiesDir, [id]); // an unknown id is an input error (exit 2), before any work
     process.stderr.write(`No built report for ${id} in ${outDir}; building the site first.\n`);
-    await buildSite(await loadAllStudies(studiesDir), { outDir });
+    await buildSite(await loadAllStudies(studiesDir, { coverageOutputs: loadCoverageOutputStage }), { outDir });
   }
   const pdfPath = join(outDir, "studies", id, `${id}.pdf`);
   const browser = await launchChromium();

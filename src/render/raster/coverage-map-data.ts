@@ -18,6 +18,8 @@ export interface CoverageMapInput {
   /** site positions in pixel-centre coordinates of the grid */
   sites: { name: string; col: number; row: number }[];
   crs_note: string;
+  /** the study's other sites, links and service area, grid pixel-centre coordinates */
+  overlay?: { others: { name: string; col: number; row: number }[]; links: [number, number, number, number][]; areas: [number, number][][] };
   /** longest side of the map (px): at most maxSide (default 900), at least 640 */
   maxSide?: number;
 }
@@ -30,7 +32,14 @@ export interface CoverageMapInput {
  */
 export async function coverageMapData(m: CoverageMapInput): Promise<CoverageMapData> {
   const maxSide = m.maxSide ?? 900;
-  const over = overlayRgba(m.values, m.width, m.height, m.style, maxSide, Math.min(640, maxSide));
+  // True scale: map pixels cover the same ground distance across and down (cells need not be
+  // square: a geographic grid's cells are narrower than tall away from the equator).
+  const groundW = m.width * m.cell_m[0];
+  const groundH = m.height * m.cell_m[1];
+  const long = Math.max(groundW, groundH);
+  const side = Math.min(maxSide, Math.max(640, Math.max(m.width, m.height)));
+  const size = { width: Math.max(1, Math.round((side * groundW) / long)), height: Math.max(1, Math.round((side * groundH) / long)) };
+  const over = overlayRgba(m.values, m.width, m.height, { ...m.style, alpha: m.style.alpha ?? 150 }, maxSide, Math.min(640, maxSide), size);
   const w = over.width;
   const h = over.height;
   const sx = m.width / w;
@@ -64,6 +73,13 @@ export async function coverageMapData(m: CoverageMapInput): Promise<CoverageMapD
     height_px: h,
     image_href: `data:image/png;base64,${png.toString("base64")}`,
     sites: m.sites.map((s) => ({ name: s.name, x_px: (s.col + 0.5) / sx, y_px: (s.row + 0.5) / sy })),
+    ...(m.overlay
+      ? {
+          others: m.overlay.others.map((s) => ({ name: s.name, x_px: (s.col + 0.5) / sx, y_px: (s.row + 0.5) / sy })),
+          links: m.overlay.links.map(([a, b, c, d]) => [(a + 0.5) / sx, (b + 0.5) / sy, (c + 0.5) / sx, (d + 0.5) / sy] as [number, number, number, number]),
+          areas: m.overlay.areas.map((ring) => ring.map(([c, r]) => [(c + 0.5) / sx, (r + 0.5) / sy] as [number, number])),
+        }
+      : {}),
     legend: m.legend,
     scale_bar: { length_px: nice / mPerPx, label: nice >= 1000 ? `${nice / 1000} km` : `${nice} m` },
     crs_note: m.crs_note,

@@ -17,11 +17,11 @@ export interface OverlayStyle {
  * (nearest cell) so that the longer side has at most `maxSide` and at least `minSide` pixels;
  * cells below the lowest threshold and nodata are transparent.
  */
-export function overlayRgba(values: ArrayLike<number>, width: number, height: number, style: OverlayStyle, maxSide = 1200, minSide = 1): { rgba: Uint8Array; width: number; height: number } {
+export function overlayRgba(values: ArrayLike<number>, width: number, height: number, style: OverlayStyle, maxSide = 1200, minSide = 1, size?: { width: number; height: number }): { rgba: Uint8Array; width: number; height: number } {
   const long = Math.max(width, height);
   const s = long > maxSide ? long / maxSide : long < minSide ? long / minSide : 1;
-  const w = Math.max(1, Math.round(width / s));
-  const h = Math.max(1, Math.round(height / s));
+  const w = size ? size.width : Math.max(1, Math.round(width / s));
+  const h = size ? size.height : Math.max(1, Math.round(height / s));
   const rgba = new Uint8Array(w * h * 4);
   const cols = style.colors.map(hexRgb);
   const t = style.thresholds;

@@ -1,0 +1,59 @@
+import type { CoverageJob } from "./coverage-job.ts";
+import type { Elevations } from "./elevation-window.ts";
+import { rayCount, sweepRays, type RayVisitor } from "./radial-sweep.ts";
+
+/** The profile a coverage sweep gives one cell: samples of its radial before it, and the cell. */
+export interface CellProfile {
+  /** sample distances from the site (m), heights (m amsl), nearest grid cell of each sample */
+  d_m: number[];
+  h_m: number[];
+  nearest: number[];
+  /** the cell as the receiver */
+  cell: { index: number; d_m: number; h_m: number; east_m: number; north_m: number };
+}
+
+class Recorder implements RayVisitor {
+  d: number[] = [];
+  h: number[] = [];
+  near: number[] = [];
+  found: CellProfile | null = null;
+  constructor(private readonly target: number) {}
+  startRay(): void {
+    this.d = [];
+    this.h = [];
+    this.near = [];
+  }
+  sample(d_m: number, h_m: number, nearest_index: number): void {
+    this.d.push(d_m);
+    this.h.push(h_m);
+    this.near.push(nearest_index);
+  }
+  cell(index: number, _row: number, d_m: number, h_m: number, east_m: number, north_m: number): void {
+    if (index === this.target && this.found === null) this.found = { d_m: [...this.d], h_m: [...this.h], nearest: [...this.near], cell: { index, d_m, h_m, east_m, north_m } };
+  }
+}
+
+/**
+ * The radial profile the sweep (radial-sweep.ts) uses for the cell at (col, row): found by
+ * sweeping the radials that can own it (the one its direction points at and its neighbours;
+ * all radials if none does). For checks and per-site tables, which evaluate the full-profile
+ * method on exactly the geometry of the raster.
+ * @returns null when the cell is outside the radius or never visited
+ */
+export function cellProfile(job: CoverageJob, dem: Elevations, col: number, row: number): CellProfile | null {
+  const rec = new Recorder(row * job.width + col);
+  const rc = job.rc;
+  const per = 2 * rc + 1;
+  const dx = col - job.site_col;
+  const dy = row - job.site_row;
+  const xMajor = Math.abs(dy) <= Math.abs(dx);
+  const face = xMajor ? (dx > 0 ? 0 : 1) : dy > 0 ? 2 : 3;
+  const da = Math.abs(xMajor ? dx : dy);
+  const t = da > 0 ? Math.round(((xMajor ? dy : dx) * rc) / da) : 0;
+  const q = face * per + t + rc;
+  const lo = Math.max(face * per, q - 1);
+  const hi = Math.min(face * per + per, q + 2);
+  sweepRays(job, dem, rc, lo === face * per && face === 0 ? 0 : lo, hi, rec);
+  if (rec.found === null) sweepRays(job, dem, rc, 0, rayCount(rc), rec);
+  return rec.found;
+}

@@ -1,0 +1,243 @@
+import { INT16_NODATA } from "../terrain/tiff-band-reader.ts";
+import { CoverageTally } from "./coverage-tally.ts";
+import { faceAxes, radialSample, siteMetric, uniformMetric, type SweepGeometry } from "./radial-sweep.ts";
+
+/** What the geometric line-of-sight sweep needs beyond the grid. */
+export interface HorizonParams {
+  /** antenna height (m amsl) */
+  hts_m: number;
+  /** receiver height above ground (m) */
+  receiver_m: number;
+  /** 1/(2·ae) (1/m), 0 for k = ∞ */
+  k2: number;
+}
+
+/**
+ * Whether a coverage is pure geometric line of sight (visibility with no Fresnel clearance
+ * asked for): what horizonSweep computes, on grids where horizonSweepApplies.
+ */
+export function lineOfSightOnly(method: string, clearance_f1: number): boolean {
+  return method === "visibility" && !(clearance_f1 > 0);
+}
+
+/**
+ * Whether horizonSweep computes this grid (every row with the same metric: projected grids);
+ * otherwise sweepRays with a HorizonVisitor does.
+ */
+export function horizonSweepApplies(g: SweepGeometry): boolean {
+  return uniformMetric(g);
+}
+
+/**
+ * Radio line of sight over radials q0…q1−1: the radials, samples, cell ownership and
+ * arithmetic of sweepRays (radial-sweep.ts) with HorizonVisitor (level-visitors.ts), so every
+ * cell gets the same value, computed in another order: all the radials of a face advance
+ * together one column at a time (a wavefront), keeping each radial's running horizon in an
+ * array. Each column first visits its cells — the cell's owning radial found from the cell
+ * (t = round(Δminor·rc/Δmajor), then the exact ownership test of sweepRays) with that radial's
+ * horizon over the columns before — then adds each radial's sample to its horizon. The
+ * general sweep instead tests, at every sample of every radial, whether the radial owns a cell
+ * there: about 2.5 samples per cell on a 100 km grid, and a branch that cannot be predicted.
+ * Radials end where sweepRays ends them (leaving the grid or the radius, nodata), and their
+ * cells beyond are left unvisited as there. The tally adds the same cells in column order,
+ * so its area sums can differ from the general sweep's in the last bits. The tally's
+ * thresholds must be [1] (visible).
+ * Only for grids where horizonSweepApplies.
+ * @param out visibility raster (1 visible, 0 not), written for the cells these radials own
+ * @param area ground area of a cell per row (m²)
+ */
+export function horizonSweep(g: SweepGeometry, dem: Float32Array | Int16Array, rc: number, q0: number, q1: number, p: HorizonParams, out: Uint8Array, area: Float64Array, tally: CoverageTally): void {
+  const xs = g.site_col;
+  const ys = g.site_row;
+  const W = g.width;
+  const H = g.height;
+  const perFace = 2 * rc + 1;
+  const metric = siteMetric(g);
+  const dMin = metric.dMin;
+  if (q0 === 0 && Number.isInteger(xs) && Number.isInteger(ys) && xs >= 0 && xs < W && ys >= 0 && ys < H) {
+    // the cell holding the site, with no samples before it (as sweepRays)
+    const hc = dem[ys * W + xs];
+    if (hc === INT16_NODATA || hc !== hc) tally.fail();
+    else {
+      const v = hc + p.receiver_m - dMin * dMin * p.k2 - p.hts_m > -Infinity * dMin ? 1 : 0;
+      out[ys * W + xs] = v;
+      tally.add(v, area[ys]);
+    }
+  }
+  for (let face = Math.floor(q0 / perFace); face * perFace < q1; face++) {
+    const from = Math.max(q0, face * perFace) - face * perFace - rc;
+    const to = Math.min(q1, (face + 1) * perFace) - face * perFace - rc;
+    if (to <= from) continue;
+    // Every number the loops use goes in through typed arrays: the optimising compiler then
+    // holds them as raw doubles and integers, instead of checking a boxed number at each use,
+    // and the loops never read an object whose shape could differ from the warm-up's (a job
+    // from another thread, say), which would send them back to the interpreter.
+    const axes = faceAxes(g, face);
+    const xMajor = axes.xMajor;
+    const fv = Float64Array.of(g.radius_m, metric.margin, metric.dMin, p.hts_m, p.receiver_m, p.k2, axes.as, axes.bs, xMajor ? metric.ex : metric.ny, xMajor ? metric.ny : metric.ex, rc);
+    const iv = Int32Array.of(xMajor ? 1 : 0, axes.sgn, axes.bmax, axes.aStride, axes.bStride, axes.bNext, axes.aStart, axes.mMax, from, to);
+    // per radial i (ray from + i), three numbers: its slope (minor per major step), its ground
+    // length per column (m) and its horizon — the steepest (z − hts)/d of its samples so far,
+    // z = h − d²·k2 — or NaN once it has ended (left the grid or the radius, or met nodata)
+    const st = new Float64Array(3 * (to - from));
+    for (let i = 0; i < to - from; i++) {
+      const s = (from + i) / rc;
+      st[3 * i] = s;
+      st[3 * i + 1] = xMajor ? Math.hypot(metric.ex, s * metric.ny) : Math.hypot(s * metric.ex, metric.ny);
+      st[3 * i + 2] = -Infinity;
+    }
+    const sums = new Float64Array(5);
+    faceWavefront(fv, iv, st, dem, out, area, sums);
+    const [cells, area_m2, visible, nVisible, failed] = sums;
+    const some = cells > 0; // (each comparison below is made on every call, the warm-up's too)
+    tally.addSums({ cells, area_m2, at_least_m2: [visible], failed, min: some ? (nVisible < cells ? 0 : 1) : Infinity, max: some ? (nVisible > 0 ? 1 : 0) : -Infinity, reliability_m2: [0] });
+  }
+}
+
+/**
+ * The radials of one face (0 east, 1 west, 2 south, 3 north in grid terms) from horizonSweep,
+ * as one wavefront.
+ * @param fv radius, sampling margin, least distance (m), antenna height (m amsl), receiver
+ *   height (m), 1/(2·ae) (1/m), site on the major and minor axes (cells), metres per major and
+ *   per minor step, rc
+ * @param iv 1 when x is the major axis, direction along it (±1), last minor index, index steps
+ *   along the major and minor axes, step to the next cell across, first column, columns to the
+ *   grid's edge, first ray t0, ray past the last t1
+ * @param st per radial: slope, step length, horizon (updated)
+ * @param sums receives cells, their area, the visible area, visible cells, failed cells
+ */
+function faceWavefront(fv: Float64Array, iv: Int32Array, st: Float64Array, dem: Float32Array | Int16Array, out: Uint8Array, area: Float64Array, sums: Float64Array): void {
+  const R = fv[0], margin = fv[1], dMin = fv[2], hts = fv[3], hr = fv[4], k2 = fv[5], as = fv[6], bs = fv[7], eMajor = fv[8], eMinor = fv[9], rcf = fv[10];
+  const xMajor = iv[0] === 1, sgn = iv[1], bmax = iv[2], aStride = iv[3], bStride = iv[4], bNext = iv[5], aStart = iv[6], mMax = iv[7], T0 = iv[8], T1 = iv[9];
+  const n = T1 - T0;
+  let alive = n;
+  // radials below iLo and from iHi on have ended (the outermost end first, as they leave the grid or the radius first)
+  let iLo = 0;
+  let iHi = n;
+  let sum = 0; // tallied locally, added to the tally in the same order at the end
+  let visible = 0;
+  let cells = 0;
+  let nVisible = 0;
+  let failed = 0;
+
+  for (let m = 1; m <= mMax && alive > 0; m++) {
+    const a = aStart + sgn * m;
+    const da = (a - as) * sgn;
+    const aOffset = a * aStride;
+    const major = (a - as) * eMajor; // ground offset of this column from the site (m)
+    const major2 = major * major;
+    // --- the cells of this column the radials own: k with t − ½ ≤ (k − bs)·rc/da < t + ½,
+    // visited when the owning radial reaches this column (as sweepRays: it has not ended
+    // before), against its horizon over the columns before ---
+    const invDa = 1 / da;
+    let kFrom = Math.floor(bs + ((T0 - 0.5) * da) / rcf) - 1;
+    let kTo = Math.ceil(bs + ((T1 - 0.5) * da) / rcf) + 1;
+    if (kFrom < 0) kFrom = 0;
+    if (kTo > bmax) kTo = bmax;
+    for (let k = kFrom; k <= kTo; k++) {
+      const db = k - bs;
+      const adb = db < 0 ? -db : db;
+      if (xMajor ? adb > da : adb >= da) continue;
+      const x = db * rcf;
+      // a guess, moved by one when the exact test says so (written without a branch that the
+      // warm-up might never take: its first use would send the loop back to the interpreter)
+      let t = Math.round(x * invDa);
+      t += (x >= (t + 0.5) * da ? 1 : 0) - (x < (t - 0.5) * da ? 1 : 0);
+      if (t < T0 || t >= T1 || !(x >= (t - 0.5) * da && x < (t + 0.5) * da)) continue;
+      // (the radial's sample here is inside the grid, as the cell it owns is within half a
+      // cell of it, and inside the radius plus margin when the cell is inside the radius)
+      const horizon = st[3 * (t - T0) + 2];
+      if (horizon !== horizon) continue; // the radial ended before this column
+      const minor = db * eMinor;
+      const dc0 = Math.sqrt(major2 + minor * minor); // east² + north², summed in either order: the same bits as sweepRays
+      if (dc0 > R) continue;
+      const d = dc0 < dMin ? dMin : dc0;
+      const idx = aOffset + k * bStride;
+      const hc = dem[idx];
+      if (hc === -32768 || hc !== hc) {
+        // nodata (INT16_NODATA, or NaN in Float32 elevations)
+        failed++;
+        continue;
+      }
+      const v = hc + hr - d * d * k2 - hts > horizon * d ? 1 : 0; // as HorizonVisitor.cell
+      out[idx] = v;
+      cells++;
+      const cellArea = area[xMajor ? k : a];
+      sum += cellArea;
+      if (v === 1) {
+        visible += cellArea;
+        nVisible++;
+      }
+    }
+    // --- each radial's sample in this column (as sweepRays) joins its horizon; leaving the
+    // grid or the radius, or a nodata sample, ends the radial ---
+    for (let i = iLo; i < iHi; i++) {
+      const j = 3 * i;
+      const horizon = st[j + 2];
+      if (horizon !== horizon) continue;
+      const b = bs + da * st[j];
+      const ds = da * st[j + 1];
+      if (b < -0.5 || b > bmax + 0.5 || ds - margin > R) {
+        st[j + 2] = NaN;
+        alive--;
+        continue;
+      }
+      // radialSample, with its common case — between two cells inside the grid, neither of
+      // them nodata — written out here: the same arithmetic, so the same bits
+      let hs: number;
+      if (b >= 0 && b < bmax) {
+        const bf = b | 0; // = Math.floor(b) for b ≥ 0
+        const i0 = aOffset + bf * bStride;
+        const v0 = dem[i0];
+        const v1 = dem[i0 + bStride];
+        hs = v0 + (v1 - v0) * (b - bf);
+        if (v0 === -32768 || v1 === -32768 || hs !== hs) hs = radialSample(dem, aOffset, b, bmax, bStride, bNext);
+      } else hs = radialSample(dem, aOffset, b, bmax, bStride, bNext);
+      if (hs !== hs) {
+        st[j + 2] = NaN;
+        alive--;
+        continue;
+      }
+      const z = hs - ds * ds * k2 - hts;
+      if (z > horizon * ds) st[j + 2] = z / ds; // as HorizonVisitor.sample
+    }
+    while (iLo < iHi && st[3 * iLo + 2] !== st[3 * iLo + 2]) iLo++;
+    while (iHi > iLo && st[3 * iHi - 1] !== st[3 * iHi - 1]) iHi--;
+  }
+  sums[0] = cells;
+  sums[1] = sum;
+  sums[2] = visible;
+  sums[3] = nVisible;
+  sums[4] = failed;
+}
+
+/**
+ * Run the sweep on a small made-up grid until the engine has optimised it for every face, so
+ * that a thread about to sweep a large grid does not spend its first chunks in unoptimised
+ * code and deoptimise at each new face (about 0.1 s per thread on a 100 km grid). For a pool
+ * thread that would otherwise wait while the terrain is read. Int16 elevations, as read from
+ * an Int16 GeoTIFF. Returns the visible share, so the work cannot be optimised away.
+ */
+export function warmUpHorizonSweep(passes = 10): number {
+  const n = 81;
+  const c = (n - 1) / 2;
+  const dem = new Int16Array(n * n);
+  for (let i = 0; i < dem.length; i++) dem[i] = 100 + ((i * 7919) % 61); // rough made-up relief
+  // and a hole inside the radius, so that the nodata branches (a cell that fails, a sample
+  // that ends its radial) are known too
+  for (const [c0, r0] of [[52, 47], [30, 25]]) for (let r = r0; r < r0 + 2; r++) for (let c = c0; c < c0 + 3; c++) dem[r * n + c] = INT16_NODATA;
+  const cell = 30;
+  const g: SweepGeometry = { width: n, height: n, site_col: c, site_row: c, radius_m: c * cell, east_per_col_m: new Float64Array(n).fill(cell), north_per_row_m: new Float64Array(n).fill(-cell) };
+  const rc = c + 1;
+  const out = new Uint8Array(n * n);
+  const area = new Float64Array(n).fill(cell * cell);
+  const tally = new CoverageTally(Float64Array.of(1));
+  const rays = 4 * (2 * rc + 1);
+  const p: HorizonParams = { hts_m: 160, receiver_m: 2, k2: 1 / (2 * 8_494_666) };
+  for (let k = 0; k < passes; k++) {
+    // chunks of a few radials, as the pool hands them out, some straddling faces
+    for (let q = 0; q < rays; q += 37) horizonSweep(g, dem, rc, q, Math.min(rays, q + 37), p, out, area, tally);
+  }
+  const t = tally.data();
+  return t.area_m2 > 0 ? t.at_least_m2[0] / t.area_m2 : 0;
+}
