@@ -11,6 +11,10 @@
     d.textContent = s;
     return d.innerHTML;
   }
+  // the same for an attribute value quoted with "
+  function attr(s) {
+    return text(s).replace(/"/g, "&quot;");
+  }
   function init(el) {
     if (typeof L === "undefined") return;
     var dataEl = document.getElementById(el.getAttribute("data-map"));
@@ -31,7 +35,7 @@
     var links = L.layerGroup().addTo(map);
     data.links.forEach(function (l) {
       var line = L.polyline([l.from, l.to], { color: COLOURS[l.verdict] || "#333", weight: 4, dashArray: l.verdict === "met" ? null : "8 6", className: "map-link map-link-" + l.verdict });
-      line.bindPopup('<strong class="link-id">' + text(l.id) + "</strong><br>" + text(l.label) + "<br>" + text(LABELS[l.verdict] || l.verdict) + '<br><a href="' + text(base + l.href) + '">Link page</a>');
+      line.bindPopup('<strong class="link-id">' + text(l.id) + "</strong><br>" + text(l.label) + "<br>" + text(LABELS[l.verdict] || l.verdict) + '<br><a href="' + attr(base + l.href) + '">Link page</a>');
       line.addTo(links);
     });
     var sites = L.layerGroup().addTo(map);

@@ -1,5 +1,6 @@
 import { rainAttenuationAtPercent } from "../physics/rain-path-attenuation.ts";
 import type { LinkPerformance } from "./link-performance.ts";
+import { formatNumber, formatSmall } from "../format/quantity.ts";
 
 /** One thing wrong with a link and what would fix it. */
 export interface Remedy {
@@ -35,7 +36,7 @@ export function linkRemedies(r: {
     );
   }
   if (!(r.fade_margin_db > 0)) {
-    out.push({ issue: `median level ${(-r.fade_margin_db).toFixed(1)} dB below threshold plus allowance`, fix: `find at least ${(-r.fade_margin_db).toFixed(1)} dB plus the fade margin the objectives need: larger antennas, more power, a more sensitive mode, or a clear path` });
+    out.push({ issue: `median level ${formatNumber(-r.fade_margin_db, 1)} dB below threshold plus allowance`, fix: `find at least ${formatNumber(-r.fade_margin_db, 1)} dB plus the fade margin the objectives need: larger antennas, more power, a more sensitive mode, or a clear path` });
     return out;
   }
   const { performance, availability } = r.perf.objectives;
@@ -43,8 +44,8 @@ export function linkRemedies(r: {
     const allowed = 100 - performance.target_pct;
     const extra = 10 * Math.log10(performance.outage_pct / allowed);
     out.push({
-      issue: `short-fade outage ${performance.outage_pct.toPrecision(3)} % of the worst month against ${allowed.toPrecision(3)} % allowed`,
-      fix: `about ${extra.toFixed(1)} dB more flat fade margin (deep fades fall tenfold per 10 dB)${r.perf.diversity ? "" : ", or space diversity"}${r.perf.dispersive ? ", or a radio with a narrower, deeper signature" : ""}`,
+      issue: `short-fade outage ${formatSmall(performance.outage_pct, 3)} % of the worst month against ${formatSmall(allowed, 3)} % allowed`,
+      fix: `about ${formatNumber(extra, 1)} dB more flat fade margin (deep fades fall tenfold per 10 dB)${r.perf.diversity ? "" : ", or space diversity"}${r.perf.dispersive ? ", or a radio with a narrower, deeper signature" : ""}`,
     });
   }
   if (!availability.met) {
@@ -52,8 +53,8 @@ export function linkRemedies(r: {
     const A001 = r.perf.rain_0_01pct_db;
     const need = A001 === null ? NaN : rainAttenuationAtPercent(A001, allowed, r.frequency_ghz) - r.rain_margin_db;
     out.push({
-      issue: `long outage ${availability.outage_pct.toPrecision(3)} % of the year against ${allowed.toPrecision(3)} % allowed`,
-      fix: Number.isFinite(need) && need > 0 ? `about ${need.toFixed(1)} dB more rain fade margin (ITU-R P.530-16 §2.4.1 at ${allowed.toPrecision(3)} %), a shorter hop, or a lower band` : "more rain fade margin, a shorter hop or a lower band",
+      issue: `long outage ${formatSmall(availability.outage_pct, 3)} % of the year against ${formatSmall(allowed, 3)} % allowed`,
+      fix: Number.isFinite(need) && need > 0 ? `about ${formatNumber(need, 1)} dB more rain fade margin (ITU-R P.530-16 §2.4.1 at ${formatSmall(allowed, 3)} %), a shorter hop, or a lower band` : "more rain fade margin, a shorter hop or a lower band",
     });
   }
   const t = r.perf.adaptive_modulation?.target;

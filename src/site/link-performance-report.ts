@@ -1,4 +1,5 @@
 import type { LinkResult } from "../analysis/results.ts";
+import { formatSmall } from "../format/quantity.ts";
 
 /** One line of an objective's table: a mechanism, its outage and where it comes from. */
 export interface OutageRow {
@@ -61,7 +62,7 @@ export function linkPerformanceReport(l: LinkResult): LinkPerformanceReport {
         : { mechanism: "Dispersive (selective) fading", reference: "ITU-R P.530-16 §2.3.6 (signature method)", pct: disp, seconds: month(disp) },
     ];
     if (l.diversity) {
-      rows.push({ mechanism: `Flat + dispersive with ${l.diversity.kind} diversity (improvement ${l.diversity.improvement.toPrecision(3)})`, reference: "ITU-R P.530-16 §6.2.2", pct: l.diversity.outage_with_pct, seconds: month(l.diversity.outage_with_pct) });
+      rows.push({ mechanism: `Flat + dispersive with ${l.diversity.kind} diversity (improvement ${formatSmall(l.diversity.improvement, 3)})`, reference: "ITU-R P.530-16 §6.2.2", pct: l.diversity.outage_with_pct, seconds: month(l.diversity.outage_with_pct) });
     }
     if (l.xpd) rows.push({ mechanism: "Cross-polar discrimination, clear air", reference: "ITU-R P.530-16 §4.1", pct: l.xpd.clear_air_worst_month_pct, seconds: month(l.xpd.clear_air_worst_month_pct) });
     rows.push({ mechanism: l.diversity ? "Total (with diversity)" : "Total", reference: l.diversity ? "diversity outage + XPD" : "sum of the above", pct: o.performance.outage_pct, seconds: month(o.performance.outage_pct), total: true });

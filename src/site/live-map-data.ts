@@ -3,12 +3,13 @@ import { shadedRelief } from "../render/raster/elevation-tint.ts";
 import { hillshade } from "../render/raster/hillshade.ts";
 import { rgbaPngDataUri } from "../render/raster/rgba-png.ts";
 import { metresPerDegree } from "../terrain/metres-per-degree.ts";
+import { urlPathSegment } from "../render/svg/escape.ts";
 import { linkVerdict } from "./exchange-files.ts";
 
 /** [[south, west], [north, east]] in degrees, as Leaflet takes bounds. */
 type Bounds = [[number, number], [number, number]];
 
-/** What the study page's interactive map draws; paths are relative to the study's folder. */
+/** What the study page's interactive map draws; paths are relative to the study's folder, each segment percent-encoded. */
 export interface LiveMapData {
   bounds: Bounds;
   hillshade: { href: string; bounds: Bounds; label: string } | null;
@@ -51,7 +52,7 @@ async function build(s: AnalyzedStudy): Promise<LiveMapData> {
     const north = Math.max(y0, y0 + c.grid.height * dy);
     const west = Math.min(x0, x0 + c.grid.width * dx);
     const east = Math.max(x0, x0 + c.grid.width * dx);
-    coverage.push({ id: c.id, label: `Coverage ${c.id} (${c.method})`, href: `coverage/${png}`, bounds: [[south, west], [north, east]] });
+    coverage.push({ id: c.id, label: `Coverage ${c.id} (${c.method})`, href: `coverage/${urlPathSegment(png)}`, bounds: [[south, west], [north, east]] });
     lats.push(south, north);
     lons.push(west, east);
   }
@@ -66,7 +67,7 @@ async function build(s: AnalyzedStudy): Promise<LiveMapData> {
     const a = byId.get(l.from)!;
     const b = byId.get(l.to)!;
     const v = linkVerdict(l);
-    return { id: l.id, from: [a.lat_deg, a.lon_deg] as [number, number], to: [b.lat_deg, b.lon_deg] as [number, number], verdict: v, label: `${a.name} → ${b.name}`, href: `links/${l.id}/index.html` };
+    return { id: l.id, from: [a.lat_deg, a.lon_deg] as [number, number], to: [b.lat_deg, b.lon_deg] as [number, number], verdict: v, label: `${a.name} → ${b.name}`, href: `links/${urlPathSegment(l.id)}/index.html` };
   });
   return {
     bounds,

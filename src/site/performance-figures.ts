@@ -1,9 +1,10 @@
 import type { AnalyzedStudy } from "../analysis/analyze-study.ts";
 import { seriesChartSvg } from "../render/svg/series-chart.ts";
+import { formatNumber, formatSmall, powerOfTen } from "../format/quantity.ts";
 
 const sup = (v: number) => {
   const e = Math.round(Math.log10(v));
-  return Math.abs(Math.log10(v) - e) < 1e-9 ? (e >= 0 && e <= 3 ? String(10 ** e) : `10${String(e).replace(/./g, (c) => ({ "-": "⁻", "0": "⁰", "1": "¹", "2": "²", "3": "³", "4": "⁴", "5": "⁵", "6": "⁶", "7": "⁷", "8": "⁸", "9": "⁹" })[c] ?? c)}`) : "";
+  return Math.abs(Math.log10(v) - e) < 1e-9 ? (e >= 0 && e <= 3 ? String(10 ** e) : powerOfTen(e)) : "";
 };
 
 function linkOf(s: AnalyzedStudy, linkId: string) {
@@ -22,13 +23,13 @@ export function diversityCurveSvg(s: AnalyzedStudy, linkId: string): string {
   return seriesChartSvg({
     id: `diversity-${linkId}`,
     title: `Space-diversity improvement, ${l.ends.from.name} – ${l.ends.to.name}`,
-    desc: `Improvement factor from ${points[0].y.toPrecision(3)} at ${points[0].x} m to ${points[points.length - 1].y.toPrecision(3)} at ${points[points.length - 1].x} m spacing; ${dv.improvement.toPrecision(3)} at the study's ${dv.spacing} m${inRange ? "" : " (outside the method's range)"}.`,
+    desc: `Improvement factor from ${formatSmall(points[0].y, 3)} at ${points[0].x} m to ${formatSmall(points[points.length - 1].y, 3)} at ${points[points.length - 1].x} m spacing; ${formatSmall(dv.improvement, 3)} at the study's ${dv.spacing} m${inRange ? "" : " (outside the method's range)"}.`,
     xLabel: "Vertical spacing of the receive antennas (m)",
     yLabel: "Improvement factor I_ns",
     points,
     logY: true,
     yFormat: sup,
-    marker: inRange ? { x: dv.spacing, y: dv.improvement, label: `study: ${dv.spacing} m, I = ${dv.improvement.toPrecision(3)}` } : null,
+    marker: inRange ? { x: dv.spacing, y: dv.improvement, label: `study: ${dv.spacing} m, I = ${formatSmall(dv.improvement, 3)}` } : null,
   });
 }
 
@@ -44,7 +45,7 @@ export function capacityCurveSvg(s: AnalyzedStudy, linkId: string): string {
   return seriesChartSvg({
     id: `capacity-${linkId}`,
     title: `Capacity against time, ${l.ends.from.name} – ${l.ends.to.name}`,
-    desc: am.modes.map((m) => `${m.name} (${m.capacity_mbps} Mbit/s) or better for ${m.available_pct.toFixed(5)} % of the year.`).join(" "),
+    desc: am.modes.map((m) => `${m.name} (${m.capacity_mbps} Mbit/s) or better for ${formatNumber(m.available_pct, 5)} % of the year.`).join(" "),
     xLabel: "Percentage of the year allowed below this capacity (%)",
     yLabel: "Capacity available (Mbit/s)",
     points: pts,

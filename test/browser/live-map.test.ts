@@ -58,9 +58,9 @@ describe("the interactive map", () => {
     expect(problems).toEqual([]);
     expect(requests.filter((u) => !u.startsWith("file:") && !u.startsWith("data:"))).toEqual([]);
     expect(requests.some((u) => u.endsWith("/assets/leaflet/leaflet.js"))).toBe(true);
-    expect(await page.locator(".live-map path.map-link-met").count()).toBe(7);
+    expect(await page.locator(".live-map path.map-link-met").count()).toBe(11);
     expect(await page.locator(".live-map path.map-link-rejected").count()).toBe(1);
-    expect(await page.locator(".live-map path.map-site").count()).toBe(7);
+    expect(await page.locator(".live-map path.map-site").count()).toBe(10);
     // the static figure stays in the page for print, hidden on screen while the map runs
     expect(await page.locator("figure.map-static svg.overview-map").count()).toBe(1);
     expect(await page.locator("figure.map-static").isVisible()).toBe(false);
