@@ -1,5 +1,6 @@
 import FFT from "fft.js";
 import { wavelengthM } from "../constants.ts";
+import { bandLimitedSample } from "./band-limited-sample.ts";
 import { gaussianAxisAmplitude, gaussianSourceSigmaM } from "./aperture-source.ts";
 import { impedanceAlpha, type PeGround } from "./ground-impedance.ts";
 import { effectiveRadiusFromRefractivity, modifiedRefractivity, type RefractivityModel } from "./modified-refractivity.ts";
@@ -196,7 +197,17 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
       ? { x_m: new Float64Array(cols), ground_m: new Float64Array(cols), z0_m: grid.z_low_m, dz_m: (grid.z_high_m - grid.z_low_m) / (rows - 1), rows, f_db: new Float32Array(cols * rows) }
       : null;
   let nextCol = 0;
-  /** F (dB) at height zRel above the frame's floor, distance x. */
+  const evenBelow = !alpha && input.polarization === "v";
+  /** F (dB) at height zRel above the frame's floor, distance x, from the complex field between cells (band-limited-sample.ts): for the receiver and its height-gain curve. */
+  const relDbExact = (zRel: number, x: number): number => {
+    if (zRel < 0) return NaN;
+    const t = zRel / dz - q;
+    if (t < 0 || t > N) return NaN;
+    const [re, im] = bandLimitedSample(ur, ui, t, evenBelow);
+    const r = Math.hypot(x, b + zRel - zT);
+    return 20 * Math.log10(Math.hypot(re, im) / gaussianAxisAmplitude(r, sigma, k)); // F relative to free space on the beam axis
+  };
+  /** F (dB) at height zRel above the frame's floor, distance x; amplitude interpolated linearly (the figure only: its rows are far coarser than Δz). */
   const relDb = (zRel: number, x: number): number => {
     if (zRel < 0) return NaN;
     const t = zRel / dz - q;
@@ -278,7 +289,7 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
       nextCol++;
     }
   }
-  const excess_loss_db = -relDb(zR - b, D);
+  const excess_loss_db = -relDbExact(zR - b, D);
   let height_gain: ParabolicEquationResult["height_gain"] = null;
   if (input.height_gain && input.height_gain.step_m > 0) {
     const { half_range_m: h, step_m } = input.height_gain;
@@ -288,7 +299,7 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
     for (let c = 0; c < count; c++) {
       const z = lo + c * step_m;
       height_gain.rx_antenna_m[c] = z;
-      height_gain.relative_db[c] = relDb(g[np - 1] + z - b, D);
+      height_gain.relative_db[c] = relDbExact(g[np - 1] + z - b, D);
     }
   }
   return { status: "ok", reason: "", excess_loss_db, ...common, field, height_gain };
