@@ -9,9 +9,10 @@
  * (β = 8) reproduces it: the window's transition (about ±0.06 of the sampling rate for 24
  * taps each side) ends before the field's content begins to be cut (common practice for
  * resampling band-limited signals; J. F. Kaiser's window, from memory).
- * Below the first cell the field is continued as an odd function (a ground that reflects with
- * about −1 at grazing: a perfect conductor in horizontal polarisation, real ground at grazing
- * in both) or, for a Neumann ground, as an even one.
+ * Below the first cell a perfectly conducting ground continues the field exactly: as an odd
+ * function (Dirichlet, horizontal polarisation) or an even one (Neumann, vertical). An
+ * impedance ground continues it as neither (vertical polarisation near the Brewster angle), so
+ * there the window is narrowed to the cells above the ground (at least 2 each side).
  */
 export const HALF_TAPS = 24;
 const BETA = 8;
@@ -31,26 +32,28 @@ const I0_BETA = besselI0(BETA);
 
 /**
  * Complex field at fractional cell t (0 ≤ t ≤ n) from cells ur/ui[0..n] (zero above n).
- * @param even continue the field below cell 0 as even (Neumann ground) instead of odd
+ * @param below how the field continues below cell 0: "odd" (Dirichlet), "even" (Neumann) or
+ *   "none" (impedance ground: the window is narrowed instead)
  * @returns [re, im]; NaN for t outside [0, n]
  */
-export function bandLimitedSample(ur: ArrayLike<number>, ui: ArrayLike<number>, t: number, even: boolean): [number, number] {
+export function bandLimitedSample(ur: ArrayLike<number>, ui: ArrayLike<number>, t: number, below: "odd" | "even" | "none"): [number, number] {
   const n = ur.length - 1;
   if (!(t >= 0 && t <= n)) return [NaN, NaN];
   const j0 = Math.floor(t);
   if (t === j0) return [ur[j0], ui[j0]];
+  const half = below === "none" ? Math.max(2, Math.min(HALF_TAPS, j0 + 1)) : HALF_TAPS;
   let re = 0;
   let im = 0;
-  for (let j = j0 - HALF_TAPS + 1; j <= j0 + HALF_TAPS; j++) {
+  for (let j = j0 - half + 1; j <= j0 + half; j++) {
     const x = t - j;
-    const r = x / HALF_TAPS;
+    const r = x / half;
     if (r <= -1 || r >= 1) continue;
     const w = (besselI0(BETA * Math.sqrt(1 - r * r)) / I0_BETA) * (Math.sin(Math.PI * x) / (Math.PI * x)); // Kaiser-windowed sinc
     let a = j;
     let sign = 1;
     if (a < 0) {
       a = -a;
-      sign = even ? 1 : -1;
+      sign = below === "even" ? 1 : below === "odd" ? -1 : 0;
     }
     if (a > n) continue;
     re += sign * w * ur[a];

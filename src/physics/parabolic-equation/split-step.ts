@@ -197,13 +197,13 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
       ? { x_m: new Float64Array(cols), ground_m: new Float64Array(cols), z0_m: grid.z_low_m, dz_m: (grid.z_high_m - grid.z_low_m) / (rows - 1), rows, f_db: new Float32Array(cols * rows) }
       : null;
   let nextCol = 0;
-  const evenBelow = !alpha && input.polarization === "v";
+  const below = alpha ? "none" : input.polarization === "v" ? "even" : "odd";
   /** F (dB) at height zRel above the frame's floor, distance x, from the complex field between cells (band-limited-sample.ts): for the receiver and its height-gain curve. */
   const relDbExact = (zRel: number, x: number): number => {
     if (zRel < 0) return NaN;
     const t = zRel / dz - q;
     if (t < 0 || t > N) return NaN;
-    const [re, im] = bandLimitedSample(ur, ui, t, evenBelow);
+    const [re, im] = bandLimitedSample(ur, ui, t, below);
     const r = Math.hypot(x, b + zRel - zT);
     return 20 * Math.log10(Math.hypot(re, im) / gaussianAxisAmplitude(r, sigma, k)); // F relative to free space on the beam axis
   };
@@ -239,12 +239,23 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
     const s = (bNext - b) / dx;
     if (s !== slope) {
       const c = -k * (s - slope) * dz;
+      // exp(ic·(j + q)) by recurrence (one rotation per cell instead of a cos and a sin;
+      // rounding drift about N·1e-16, re-seeded every 1024 cells)
+      const er = Math.cos(c);
+      const ei = Math.sin(c);
+      let cr = 0;
+      let ci = 0;
       for (let j = 0; j <= N; j++) {
-        const cr = Math.cos(c * (j + q));
-        const ci = Math.sin(c * (j + q));
+        if ((j & 1023) === 0) {
+          cr = Math.cos(c * (j + q));
+          ci = Math.sin(c * (j + q));
+        }
         const re = ur[j];
         ur[j] = re * cr - ui[j] * ci;
         ui[j] = re * ci + ui[j] * cr;
+        const nr = cr * er - ci * ei;
+        ci = cr * ei + ci * er;
+        cr = nr;
       }
       slope = s;
     }
