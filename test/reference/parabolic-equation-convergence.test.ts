@@ -9,9 +9,12 @@ import { loadStudy } from "../../src/study/load-study.ts";
 // The goal is 0.2 dB. It is NOT met on every demo link: where the ground rises more steeply
 // than the terrain-following frame may tilt (pe-grid.ts, max_frame_slope), the rest of the
 // slope is a staircase of screens, one per range step, whose reflection depends on the step
-// (measured 2026-12-04: mill-cobb 2.77 dB, grey-lowf 1.10 dB, mill-harr 0.96 dB, harr-kvtw
-// 0.95 dB, the other four within 0.27 dB). This test holds the measured state (3 dB) so that a regression shows; the
-// 0.2 dB target stays open.
+// (measured 2026-12-04 after the receiver was read from the complex field between cells,
+// band-limited-sample.ts: mill-cobb 2.81 dB, grey-lowf 1.78 dB, mill-harr 0.74 dB, the other
+// five within 0.25 dB; with Δz alone halved mill-cobb 2.51 dB and grey-lowf 2.78 dB, with Δx
+// alone −0.96 dB and −1.97 dB: the staircase's cell-rounded heights and its tall steps per
+// range step, DEVELOPERS.md). This test holds the measured state (3 dB) so that a regression
+// shows; the 0.2 dB target stays open.
 const study = loadStudy("content/studies/kestrel-vale/study.yaml");
 study.design.wave_solution = false;
 const terrain = await openStudyTerrain(study);

@@ -1,5 +1,6 @@
 import FFT from "fft.js";
 import { wavelengthM } from "../constants.ts";
+import { bandLimitedSample } from "./band-limited-sample.ts";
 import { gaussianAxisAmplitude, gaussianSourceSigmaM } from "./aperture-source.ts";
 import { impedanceAlpha, type PeGround } from "./ground-impedance.ts";
 import { effectiveRadiusFromRefractivity, modifiedRefractivity, type RefractivityModel } from "./modified-refractivity.ts";
@@ -196,7 +197,17 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
       ? { x_m: new Float64Array(cols), ground_m: new Float64Array(cols), z0_m: grid.z_low_m, dz_m: (grid.z_high_m - grid.z_low_m) / (rows - 1), rows, f_db: new Float32Array(cols * rows) }
       : null;
   let nextCol = 0;
-  /** F (dB) at height zRel above the frame's floor, distance x. */
+  const below = alpha ? "none" : input.polarization === "v" ? "even" : "odd";
+  /** F (dB) at height zRel above the frame's floor, distance x, from the complex field between cells (band-limited-sample.ts): for the receiver and its height-gain curve. */
+  const relDbExact = (zRel: number, x: number): number => {
+    if (zRel < 0) return NaN;
+    const t = zRel / dz - q;
+    if (t < 0 || t > N) return NaN;
+    const [re, im] = bandLimitedSample(ur, ui, t, below);
+    const r = Math.hypot(x, b + zRel - zT);
+    return 20 * Math.log10(Math.hypot(re, im) / gaussianAxisAmplitude(r, sigma, k)); // F relative to free space on the beam axis
+  };
+  /** F (dB) at height zRel above the frame's floor, distance x; amplitude interpolated linearly (the figure only: its rows are far coarser than Δz). */
   const relDb = (zRel: number, x: number): number => {
     if (zRel < 0) return NaN;
     const t = zRel / dz - q;
@@ -228,12 +239,23 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
     const s = (bNext - b) / dx;
     if (s !== slope) {
       const c = -k * (s - slope) * dz;
+      // exp(ic·(j + q)) by recurrence (one rotation per cell instead of a cos and a sin;
+      // rounding drift about N·1e-16, re-seeded every 1024 cells)
+      const er = Math.cos(c);
+      const ei = Math.sin(c);
+      let cr = 0;
+      let ci = 0;
       for (let j = 0; j <= N; j++) {
-        const cr = Math.cos(c * (j + q));
-        const ci = Math.sin(c * (j + q));
+        if ((j & 1023) === 0) {
+          cr = Math.cos(c * (j + q));
+          ci = Math.sin(c * (j + q));
+        }
         const re = ur[j];
         ur[j] = re * cr - ui[j] * ci;
         ui[j] = re * ci + ui[j] * cr;
+        const nr = cr * er - ci * ei;
+        ci = cr * ei + ci * er;
+        cr = nr;
       }
       slope = s;
     }
@@ -278,7 +300,7 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
       nextCol++;
     }
   }
-  const excess_loss_db = -relDb(zR - b, D);
+  const excess_loss_db = -relDbExact(zR - b, D);
   let height_gain: ParabolicEquationResult["height_gain"] = null;
   if (input.height_gain && input.height_gain.step_m > 0) {
     const { half_range_m: h, step_m } = input.height_gain;
@@ -288,7 +310,7 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
     for (let c = 0; c < count; c++) {
       const z = lo + c * step_m;
       height_gain.rx_antenna_m[c] = z;
-      height_gain.relative_db[c] = relDb(g[np - 1] + z - b, D);
+      height_gain.relative_db[c] = relDbExact(g[np - 1] + z - b, D);
     }
   }
   return { status: "ok", reason: "", excess_loss_db, ...common, field, height_gain };
