@@ -141,3 +141,22 @@ describe("parabolic equation: reciprocity on a terrain profile", () => {
     expectClose(ba.excess_loss_db, ab.excess_loss_db, { abs: 0.5 }, { ha, hb, grid: ab.grid });
   });
 });
+
+describe("parabolic equation: regression, a transmitter high above the lowest ground of the path", () => {
+  // Symptom: the field of a link from a quarry rim down towards a valley was lost at the first
+  // step (excess loss Infinity on the demo's pell-kvtw): the slope-limited floor of the
+  // terrain-following frame lay hundreds of metres below the transmitter's ground and the cells
+  // in between pushed the source out of the domain. Here the ground falls evenly from 400 m to
+  // 0 m over 5 km, 8 % (steeper than the frame's slope limit), and the line of sight runs 60 m
+  // above it: the ground reflection arrives 2.7° off the 0.5° beam's axis (below −100 dB), so
+  // the answer is free space (ITU-R P.525-4) and the beam's own pattern on its axis.
+  const D = 5000;
+  const n = 501;
+  const d_m = Float64Array.from({ length: n }, (_, i) => (i * D) / (n - 1));
+  const ground_m = Float64Array.from(d_m, (x) => 400 * (1 - x / D));
+  it("keeps its field: finite, within 0.5 dB of free space", () => {
+    const r = parabolicEquationField({ d_m, ground_m, frequency_ghz: 3, tx_antenna_m: 60, rx_antenna_m: 60, polarization: "h", ground: { kind: "pec" }, refractivity: flatEarth, beamwidth_deg: 0.5 });
+    expect(r.status).toBe("ok");
+    expectClose(r.excess_loss_db, 0, { abs: 0.5 });
+  });
+});

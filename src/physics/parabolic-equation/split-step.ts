@@ -185,8 +185,14 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
   const sigma = gaussianSourceSigmaM(beam, k);
   const p0 = k * Math.sin(aim);
   const zs = zT - b;
+  // The array starts at the ground, not at the floor: where the slope-limited floor lies far
+  // below the transmitter's ground (a valley further along), the cells between them hold no
+  // field, and counting them would push the source out of the domain (the field of a link
+  // from a quarry rim above a valley was lost entirely at the first step).
+  const above0 = (g[0] - b) / dz;
+  const q0 = above0 < 0.5 ? 0 : Math.round(above0 + 0.5) - 1;
   for (let j = 0; j < N; j++) {
-    const z = j * dz;
+    const z = (j + q0) * dz;
     const amp = Math.exp(-((z - zs) ** 2) / (2 * sigma * sigma)); // Levy 2000 §8: Gaussian aperture
     ur[j] = amp * Math.cos(p0 * (z - zs));
     ui[j] = amp * Math.sin(p0 * (z - zs));
@@ -224,7 +230,7 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
   let slope = 0;
   // q: cells between the floor and the array's first cell, dropped because the ground covers
   // them (they hold no field); array cell j is (j + q)·Δz above the floor
-  let q = 0;
+  let q = q0;
   const cellsAbove = (x: number, floor: number) => {
     const above = (groundAt(x) - floor) / dz;
     return above < 0.5 ? 0 : Math.round(above + 0.5);
