@@ -1,6 +1,7 @@
 import { resolve } from "node:path";
 import { readEnvelopeCsv } from "./envelope-csv.ts";
 import { fieldPath, showValue, type InputProblem } from "./input-error.ts";
+import { ENVELOPE_CSV_MAX_BYTES, inputPathProblem } from "./input-file.ts";
 import type { StudyInput } from "./schema.ts";
 import type { YamlSource } from "./yaml-source.ts";
 
@@ -9,9 +10,10 @@ import type { YamlSource } from "./yaml-source.ts";
  * overlapping go and return channels on one link; with an `interference` section, a
  * frequency_plan on every link and a protection requirement on every radio a link uses; one
  * way of giving adjacent-channel protection; references of external transmitters; envelope
- * CSV files that exist and span 0–180°.
+ * CSV files that exist and span 0–180°: regular files inside the study folder (or `roots`),
+ * checked before they are read (a named pipe would block for ever, /dev/zero never ends).
  */
-export function interferenceProblems(src: YamlSource, s: StudyInput, dir: string): InputProblem[] {
+export function interferenceProblems(src: YamlSource, s: StudyInput, dir: string, roots: string[] = []): InputProblem[] {
   const problems: InputProblem[] = [];
   const add = (path: PropertyKey[], received: unknown, expected: string) => problems.push({ file: src.file, ...src.locate(path), field: fieldPath(path), received: showValue(received), expected });
   const asked = s.interference !== undefined;
@@ -61,6 +63,11 @@ export function interferenceProblems(src: YamlSource, s: StudyInput, dir: string
     if (seen.has(abs)) continue;
     seen.add(abs);
     const path = [...e.path, "envelope_csv"];
+    const bad = inputPathProblem(dir, file, { want: "file", maxBytes: ENVELOPE_CSV_MAX_BYTES, roots, what: "an antenna envelope CSV file" });
+    if (bad) {
+      problems.push({ file: src.file, ...src.locate(path), field: fieldPath(path), received: bad.received, expected: bad.expected });
+      continue;
+    }
     problems.push(...readEnvelopeCsv(abs, fieldPath(path), { file: src.file, ...src.locate(path) }).problems);
   }
   return problems;

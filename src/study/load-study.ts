@@ -177,7 +177,7 @@ function crossCheck(src: YamlSource, s: StudyInput, dir: string, roots: string[]
     if (!(t.north_deg > t.south_deg)) add(["terrain", "synthetic", "north_deg"], t.north_deg, `a latitude north of south_deg (${t.south_deg})`);
     if (!(t.east_deg > t.west_deg)) add(["terrain", "synthetic", "east_deg"], t.east_deg, `a longitude east of west_deg (${t.west_deg})`);
   }
-  problems.push(...interferenceProblems(src, s, dir));
+  problems.push(...interferenceProblems(src, s, dir, roots));
   return problems;
 }
 

@@ -93,7 +93,7 @@ const signature = z
 
 const modulationMode = z
   .object({
-    name: z.string().min(1).describe("mode name, e.g. 1024-QAM"),
+    name: oneLine().describe("mode name, e.g. 1024-QAM"),
     capacity_mbps: z.number().positive().max(100_000).describe("payload capacity in this mode (Mbit/s)"),
     rx_threshold_dbm: z.number().min(-150).max(0).describe("receiver threshold of this mode at the radio's threshold bit-error ratio (dBm)"),
     signature: signature.optional(),
@@ -240,6 +240,7 @@ export const studySchema = z
               .array(modulationMode)
               .min(1)
               .refine(modesInOrder, "modes listed in order of rising threshold and rising capacity (the lowest, most robust mode first)")
+              .refine((m) => new Set(m.map((x) => x.name)).size === m.length, "modes with different names (a capacity target names its mode)")
               .optional()
               .describe("adaptive modulation: the radio's modes, most robust first; rx_threshold_dbm above is then the lowest mode's"),
             xpd_db: z.number().min(0).max(60).optional().describe("antennas' guaranteed minimum cross-polar discrimination XPD_g at boresight (dB), for co-channel dual-polarised links"),
@@ -290,7 +291,7 @@ export const studySchema = z
             capacity_target: z
               .object({
                 capacity_mbps: z.number().positive().optional().describe("capacity that must be available"),
-                mode: z.string().optional().describe("or a mode of the radio that must be available"),
+                mode: oneLine().optional().describe("or a mode of the radio that must be available"),
                 availability_pct: z.number().gt(0).lt(100).describe("for this percentage of the year (%)"),
               })
               .strict()
