@@ -4,11 +4,13 @@ import { join } from "node:path";
 import { stringify } from "yaml";
 import { writeGeoTiff } from "../../src/geo/geotiff-writer.ts";
 import { mulberry32 } from "../../src/terrain/mulberry32.ts";
+import { addFeatures, FEATURE_MUTATIONS } from "./generate-features.ts";
 
 /**
  * Hostile and degenerate studies for the fuzzer. A case starts from a valid study drawn from
  * the grammar of the schema (sites, radios, links, chains, sometimes coverage; constant,
- * synthetic or GeoTIFF terrain) and gets one to three mutations: wrong types, numbers out of
+ * synthetic or GeoTIFF terrain; in half the cases the link-performance and interference
+ * fields of generate-features.ts) and gets one to three mutations: wrong types, numbers out of
  * range or at the edges of the floating-point range, degenerate geometry (coincident sites,
  * the antimeridian, the poles), broken references, hostile strings (markup, quotes, NUL,
  * huge texts, reserved file names), broken files (pipes, devices, symbolic links, junk
@@ -348,6 +350,7 @@ const MUTATIONS: Record<string, (d: Draft, r: Rng) => void> = {
     const links = d.doc.links as Doc[];
     for (let i = 0; i < int(r, 10, 60); i++) links.push({ ...links[0], id: `M${i}` });
   },
+  ...FEATURE_MUTATIONS,
 };
 
 const MUTATION_NAMES = Object.keys(MUTATIONS);
@@ -365,6 +368,8 @@ export function fuzzCase(seed: number, index: number, buildEvery = 100): FuzzCas
     const s = doc.sites as Doc[];
     draft.files.set(...terrainTiff(60, 60, (s[0].lat_deg as number) + 0.1, (s[0].lon_deg as number) - 0.05, 0.004, (i) => 50 + (i % 37)));
   }
+  // link-performance and interference fields (generate-features.ts) in about half the cases
+  if (r() < 0.5) addFeatures(draft, r);
   const n = r() < 0.25 ? 0 : int(r, 1, 2);
   const mutations: string[] = [];
   for (let i = 0; i < n; i++) {
