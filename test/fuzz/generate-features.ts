@@ -81,7 +81,11 @@ export function addFeatures(d: FeatureDraft, r: Rng): void {
       if (r() < 0.2) end.xpd_db = int(r, 20, 40);
     }
     if (r() < 0.2) l.diversity = r() < 0.5 ? { space: { spacing_m: int(r, 3, 20), ...(r() < 0.5 ? { gain_dbi: int(r, 10, 40) } : {}) } } : { frequency: { spacing_mhz: pick(r, [28, 56, 500]) } };
-    if (r() < 0.15) l.co_channel_dual_polarised = true;
+    if (r() < 0.15) {
+      l.co_channel_dual_polarised = true;
+      radio.xpd_db ??= int(r, 20, 40);
+      radio.co_channel_ci_db ??= int(r, 15, 30);
+    }
     if (radio.modes && r() < 0.5) {
       const m = radio.modes as FeatureDoc[];
       l.capacity_target = r() < 0.5 ? { capacity_mbps: m[m.length - 1].capacity_mbps, availability_pct: 99.9 } : { mode: m[0].name, availability_pct: 99.99 };
@@ -105,6 +109,25 @@ export function addFeatures(d: FeatureDraft, r: Rng): void {
 }
 
 const EXTREME = [0, -0, 1e-9, 1e-6, -1, 1e308, -1e308, 5e-324, 1e6, 0.5, 100, Number.NaN, Infinity, -Infinity, 9007199254740993];
+const EDGE = [0, 1e-9, 0.001, 0.1, 1, 5, 20, 40, 50, 60, 70, 80, 100, 1000, 5000, 10_000, 100_000, 1e6, 99.9999999, 99.000001, 0.0010001];
+/** Schema ranges of the feature numbers by key: [low, high, low exclusive, high exclusive]. */
+const RANGES: Record<string, [number, number, boolean?, boolean?]> = {
+  width_mhz: [0, 1000, true], depth_minimum_phase_db: [0, 80], depth_non_minimum_phase_db: [0, 80], reference_delay_ns: [0, 100, true],
+  capacity_mbps: [0, 100_000, true], rx_threshold_dbm: [-150, 0], xpd_db: [0, 60], xpif_db: [0, 40], atpc_range_db: [0, 60],
+  spacing_m: [0, 100, true], gain_dbi: [-10, 70], spacing_mhz: [0, 5000, true], availability_pct: [0, 100, true, true], performance_pct: [0, 100, true, true],
+  go_mhz: [0, 1e6, true], return_mhz: [0, 1e6, true], bandwidth_mhz: [0, 10_000, true], frequency_mhz: [0, 1e6, true],
+  radome_loss_db: [0, 10], wet_radome_loss_db: [0, 20], connector_loss_db: [0, 10], waveguide_m: [0, 1000], waveguide_loss_db_per_100m: [0, 200],
+  min_f1: [-1, 1], design_allowance_db: [0, 30], ci_db: [-100, 100], nfd_db: [0, 150], threshold_degradation_db: [0, 10, true], noise_figure_db: [0, 30],
+  long_term_pct: [0.001, 50], short_term_pct: [0.001, 50], antenna_m: [0, 1000], elevation_deg: [-90, 90], azimuth_deg: [0, 360, false, true],
+  tx_power_dbm: [-30, 80], feeder_loss_db: [0, 50], co_channel_ci_db: [0, 60],
+};
+
+/** Values at the edges of a range, inside it. */
+function edges([lo, hi, loOpen, hiOpen]: [number, number, boolean?, boolean?]): number[] {
+  const span = hi - lo;
+  return [loOpen ? (lo === 0 ? 5e-324 : lo + span * 1e-12) : lo, lo + span * 1e-6, lo + span / 2, hi - span * 1e-6, hiOpen ? hi - span * 1e-12 : hi];
+}
+
 const HOSTILE_TEXT = ["<script>alert(1)</script>", "a\u0000b", "\ud800", "x".repeat(300), "line\nbreak", "", " ", "../../etc/passwd", "\u202Eevil"];
 
 /** Number fields of the features, as paths; the mutation gives one an extreme value. */
@@ -167,6 +190,16 @@ export const FEATURE_MUTATIONS: Record<string, (d: FeatureDraft, r: Rng) => void
     const paths = featureNumberPaths(d.doc);
     if (!paths.length) throw new Error("no feature numbers");
     setAt(d.doc, pick(r, paths), pick(r, EXTREME));
+  },
+  "feature-edge"(d, r) {
+    // values at or near the edges of the schema's ranges, so that more cases reach the analysis
+    const paths = featureNumberPaths(d.doc);
+    if (!paths.length) throw new Error("no feature numbers");
+    for (let i = int(r, 1, 3); i > 0; i--) {
+      const path = pick(r, paths);
+      const range = RANGES[String(path[path.length - 1])];
+      setAt(d.doc, path, range ? pick(r, edges(range)) : pick(r, EDGE));
+    }
   },
   envelope(d, r) {
     const links = d.doc.links as FeatureDoc[];

@@ -366,7 +366,10 @@ export function fuzzCase(seed: number, index: number, buildEvery = 100): FuzzCas
   const draft: Draft = { doc, files: new Map(), id: "s", coverage: false };
   if (terrainKind === "geotiff") {
     const s = doc.sites as Doc[];
-    draft.files.set(...terrainTiff(60, 60, (s[0].lat_deg as number) + 0.1, (s[0].lon_deg as number) - 0.05, 0.004, (i) => 50 + (i % 37)));
+    // the raster covers every site (they lie within 0.08° of each other)
+    const north = Math.max(...s.map((x) => x.lat_deg as number)) + 0.1;
+    const west = Math.min(...s.map((x) => x.lon_deg as number)) - 0.05;
+    draft.files.set(...terrainTiff(60, 60, north, west, 0.004, (i) => 50 + (i % 37)));
   }
   // link-performance and interference fields (generate-features.ts) in about half the cases
   if (r() < 0.5) addFeatures(draft, r);
