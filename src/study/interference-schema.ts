@@ -15,9 +15,9 @@ const id = () => z.string().max(ID_MAX_LENGTH, ID_RULE).regex(ID_PATTERN, ID_RUL
 /** A link's channel: centre frequency each way, bandwidth, polarisation each way. */
 export const frequencyPlan = z
   .object({
-    go_mhz: z.number().positive().max(1e6).describe("centre frequency from → to (MHz)"),
-    return_mhz: z.number().positive().max(1e6).describe("centre frequency to → from (MHz)"),
-    bandwidth_mhz: z.number().positive().max(10_000).describe("occupied (channel) bandwidth of each direction (MHz)"),
+    go_mhz: z.number().min(30).max(1e6).describe("centre frequency from → to (MHz)"),
+    return_mhz: z.number().min(30).max(1e6).describe("centre frequency to → from (MHz)"),
+    bandwidth_mhz: z.number().min(0.001).max(10_000).describe("occupied (channel) bandwidth of each direction (MHz)"),
     go_polarization: polarization.optional().describe("polarisation from → to; default: the link's polarization"),
     return_polarization: polarization.optional().describe("polarisation to → from; default: the link's polarization"),
   })
@@ -62,8 +62,8 @@ const externalTransmitter = z
     toward_site: id().optional().describe("id of the site the antenna points at"),
     azimuth_deg: z.number().min(0).lt(360).optional().describe("boresight azimuth (deg), when it points at no site"),
     elevation_deg: z.number().min(-90).max(90).optional().describe("boresight elevation (deg); default: toward toward_site at the same height above its ground, else 0 (level)"),
-    frequency_mhz: z.number().positive().max(1e6),
-    bandwidth_mhz: z.number().positive().max(10_000),
+    frequency_mhz: z.number().min(30).max(1e6).describe("centre frequency (MHz)"),
+    bandwidth_mhz: z.number().min(0.001).max(10_000).describe("occupied bandwidth (MHz)"),
     polarization,
     tx_power_dbm: z.number().min(-30).max(80),
     feeder_loss_db: z.number().min(0).max(50).default(0),

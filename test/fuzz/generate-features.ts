@@ -112,10 +112,10 @@ const EXTREME = [0, -0, 1e-9, 1e-6, -1, 1e308, -1e308, 5e-324, 1e6, 0.5, 100, Nu
 const EDGE = [0, 1e-9, 0.001, 0.1, 1, 5, 20, 40, 50, 60, 70, 80, 100, 1000, 5000, 10_000, 100_000, 1e6, 99.9999999, 99.000001, 0.0010001];
 /** Schema ranges of the feature numbers by key: [low, high, low exclusive, high exclusive]. */
 const RANGES: Record<string, [number, number, boolean?, boolean?]> = {
-  width_mhz: [0, 1000, true], depth_minimum_phase_db: [0, 80], depth_non_minimum_phase_db: [0, 80], reference_delay_ns: [0, 100, true],
-  capacity_mbps: [0, 100_000, true], rx_threshold_dbm: [-150, 0], xpd_db: [0, 60], xpif_db: [0, 40], atpc_range_db: [0, 60],
-  spacing_m: [0, 100, true], gain_dbi: [-10, 70], spacing_mhz: [0, 5000, true], availability_pct: [0, 100, true, true], performance_pct: [0, 100, true, true],
-  go_mhz: [0, 1e6, true], return_mhz: [0, 1e6, true], bandwidth_mhz: [0, 10_000, true], frequency_mhz: [0, 1e6, true],
+  width_mhz: [0.01, 1000], depth_minimum_phase_db: [0, 80], depth_non_minimum_phase_db: [0, 80], reference_delay_ns: [0.01, 100],
+  capacity_mbps: [0.001, 100_000], rx_threshold_dbm: [-150, 0], xpd_db: [0, 60], xpif_db: [0, 40], atpc_range_db: [0, 60],
+  spacing_m: [0.1, 100], gain_dbi: [-10, 70], spacing_mhz: [0.001, 5000], availability_pct: [0, 100, true, true], performance_pct: [0, 100, true, true],
+  go_mhz: [30, 1e6], return_mhz: [30, 1e6], bandwidth_mhz: [0.001, 10_000], frequency_mhz: [30, 1e6],
   radome_loss_db: [0, 10], wet_radome_loss_db: [0, 20], connector_loss_db: [0, 10], waveguide_m: [0, 1000], waveguide_loss_db_per_100m: [0, 200],
   min_f1: [-1, 1], design_allowance_db: [0, 30], ci_db: [-100, 100], nfd_db: [0, 150], threshold_degradation_db: [0, 10, true], noise_figure_db: [0, 30],
   long_term_pct: [0.001, 50], short_term_pct: [0.001, 50], antenna_m: [0, 1000], elevation_deg: [-90, 90], azimuth_deg: [0, 360, false, true],

@@ -116,3 +116,15 @@ describe("free texts and ids of the new fields follow the name rules", () => {
     expectClean(await run(yaml), /interference\.external\[0\]\.id[\s\S]*1–64 characters/);
   });
 });
+
+describe("numbers too small to compute with are out of range", () => {
+  const link = (extra: string) => sub("    radio: r1\n", `    radio: r1\n${extra}`);
+  it.each([
+    ["a frequency-diversity spacing of 5e-324 MHz (was a NaN performance outage: Δf/1000 underflowed to 0)", link("    diversity: { frequency: { spacing_mhz: 5.0e-324 } }\n"), /links\[0\]\.diversity\.frequency\.spacing_mhz/],
+    ["a space-diversity spacing of 1e-9 m", link("    diversity: { space: { spacing_m: 1.0e-9 } }\n"), /links\[0\]\.diversity\.space\.spacing_m/],
+    ["a signature width of 5e-324 MHz", sub("    rx_threshold_dbm: -75\n", "    rx_threshold_dbm: -75\n    signature: { width_mhz: 5.0e-324, depth_minimum_phase_db: 10, depth_non_minimum_phase_db: 10 }\n"), /radios\[0\]\.signature\.width_mhz/],
+    ["a go channel at 5e-324 MHz", link("    frequency_plan: { go_mhz: 5.0e-324, return_mhz: 6500, bandwidth_mhz: 28 }\n"), /links\[0\]\.frequency_plan\.go_mhz/],
+  ])("%s", async (_name, yaml, message) => {
+    expectClean(await run(yaml), message);
+  });
+});
