@@ -44,7 +44,12 @@ export function interferenceProblems(src: YamlSource, s: StudyInput, dir: string
   });
   if (asked) {
     const sites = new Set(s.sites.map((x) => x.id));
+    const externalIds = new Map<string, number>();
     s.interference!.external.forEach((e, i) => {
+      // ids name the transmitter in tables and results; file systems and readers ignore case
+      const first = externalIds.get(e.id.toLowerCase());
+      if (first !== undefined) add(["interference", "external", i, "id"], e.id, `an id not used before in interference.external (external[${first}] already has it, perhaps in other letter case)`);
+      else externalIds.set(e.id.toLowerCase(), i);
       if (!sites.has(e.site)) add(["interference", "external", i, "site"], e.site, "the id of a site in sites");
       if (e.toward_site !== undefined && !sites.has(e.toward_site)) add(["interference", "external", i, "toward_site"], e.toward_site, "the id of a site in sites");
       if (e.toward_site === undefined && e.azimuth_deg === undefined) add(["interference", "external", i], `external transmitter ${e.id} with no pointing`, "toward_site (a site id) or azimuth_deg");

@@ -111,6 +111,12 @@ describe("free texts and ids of the new fields follow the name rules", () => {
     expectClean(await run(yaml), /modes with different names/);
   });
 
+  it("two external transmitters with one id (in other letter case) are rejected (the tables and results name a transmitter by its id)", async () => {
+    const ext = (id: string) => `    - { id: ${id}, site: B, toward_site: A, antenna_m: 30, gain_dbi: 35, frequency_mhz: 6000, bandwidth_mhz: 28, polarization: v, tx_power_dbm: 20 }\n`;
+    const yaml = interferenceStudy(6, 6000, "f699").replace("interference: {}\n", `interference:\n  external:\n${ext("ext")}${ext("EXT")}`);
+    expectClean(await run(yaml), /interference\.external\[1\]\.id[\s\S]*an id not used before/);
+  });
+
   it.each([`x" onmouseover="alert(1)`, "CON", "e".repeat(300)])("an external transmitter id %j is rejected with the id rule", async (ext) => {
     const yaml = interferenceStudy(6, 6000, "f699").replace("interference: {}\n", `interference:\n  external:\n    - { id: ${JSON.stringify(ext)}, site: B, toward_site: A, antenna_m: 30, gain_dbi: 35, frequency_mhz: 6000, bandwidth_mhz: 28, polarization: v, tx_power_dbm: 20 }\n`);
     expectClean(await run(yaml), /interference\.external\[0\]\.id[\s\S]*1–64 characters/);
