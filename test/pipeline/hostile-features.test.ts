@@ -5,6 +5,8 @@ import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { annualFadeExceedancePercent } from "../../src/physics/worst-month-to-annual.ts";
 import { fadeDepthExceedancePercent } from "../../src/physics/multipath-fading.ts";
+import { multipathActivityFactor } from "../../src/physics/dispersive-fading.ts";
+import { diversityOutageProbability } from "../../src/physics/diversity.ts";
 import { runCase, type CaseResult } from "../fuzz/run-case.ts";
 import { expectClose } from "../helpers/expect-close.ts";
 import { TINY_STUDY } from "../helpers/tiny-study.ts";
@@ -93,6 +95,19 @@ describe("P.530 interpolation with a tiny multipath occurrence factor", () => {
     expectClose(fadeDepthExceedancePercent(7.76e-13, 0).pw_pct, 63.212, { abs: 0.01 }, "worst month");
     expectClose(annualFadeExceedancePercent(7.76e-13, 0, 10.8).p_pct, 63.212, { abs: 0.01 }, "year");
     expect(Number.isFinite(annualFadeExceedancePercent(1e-20, 3, 10.8).p_pct)).toBe(true);
+  });
+});
+
+describe("P.530 diversity with a tiny multipath occurrence factor", () => {
+  // P.530-16 §2.3.6 Step 2: η = 1 − exp(−0.2·P0^0.75) ≈ 0.2·P0^0.75 for small P0. On a 1.1 m
+  // link with frequency diversity p0 was 1.2e-19 %, exp(−x) rounded to 1, η to 0, and the
+  // performance outage was NaN (fuzzer, seed 1, case 8609 of 10 000).
+  it("η is positive and the diversity outage finite for p0 = 1.2e-19 % (performance outage was NaN)", () => {
+    const p0 = 1.183681316096215e-19;
+    expectClose(multipathActivityFactor(p0), 0.2 * (p0 / 100) ** 0.75, { rel: 1e-9 }, "η, small-x limit");
+    const d = diversityOutageProbability(1e-29, 0, p0, 3);
+    expect(Number.isFinite(d.Pd), JSON.stringify(d)).toBe(true);
+    expectClose(multipathActivityFactor(50), 1 - Math.exp(-0.2 * 0.5 ** 0.75), { rel: 1e-12 }, "η unchanged for an ordinary p0");
   });
 });
 
