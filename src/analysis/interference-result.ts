@@ -68,8 +68,9 @@ export interface InterferenceReceiver {
   /** aggregate interference after the receiver filter, co-channel equivalent (dBm); null without interferers */
   interference_long_term_dbm: number | null;
   interference_short_term_dbm: number | null;
-  threshold_degradation_long_term_db: number;
-  threshold_degradation_short_term_db: number;
+  /** threshold degradation by the aggregate (dB); null when an interferer could not be computed */
+  threshold_degradation_long_term_db: number | null;
+  threshold_degradation_short_term_db: number | null;
   /** fade margin less the long-term (short-term) threshold degradation (dB) */
   fade_margin_left_db: number | null;
   fade_margin_left_short_term_db: number | null;

@@ -364,13 +364,18 @@ export async function analyzeInterference(study: Study, links: LinkResult[], opt
   const entries: InterferenceEntry[] = [];
   const byReceiver = new Map<string, InterferenceEntry[]>();
   const effective = new Map<string, { lt: number[]; st: number[] }>();
+  /** interferers whose level could not be computed, by receiver */
+  const uncomputed = new Map<string, number>();
   for (const p of pending) {
     const { rx, tx } = p;
     const required_ci_db = rx.protection.co_channel_ci_db - p.nfd;
     const [lt, st] = p.path ? losses.get(p.key)! : [NaN, NaN];
     const base = tx.power_dbm - tx.station.feeder_loss_db + p.coupling - rx.station.feeder_loss_db;
-    const Ilt = p.sameSite ? null : base - lt;
-    const Ist = p.sameSite ? null : base - st;
+    // outside a pattern's or P.452's range (warned above) a level is NaN: not available, and
+    // the receiver cannot be shown to meet its limits
+    const Ilt = p.sameSite ? null : finiteOrNull(base - lt);
+    const Ist = p.sameSite ? null : finiteOrNull(base - st);
+    if (!p.sameSite && (Ilt === null || Ist === null)) uncomputed.set(rx.id, (uncomputed.get(rx.id) ?? 0) + 1);
     const ciThr = Ilt === null ? null : rx.threshold_dbm - Ilt;
     const e: InterferenceEntry = {
       receiver: rx.id,
@@ -389,12 +394,12 @@ export async function analyzeInterference(study: Study, links: LinkResult[], opt
       rx_off_axis_deg: p.offRx?.theta_deg ?? null,
       rx_off_axis_azimuth_deg: p.offRx?.azimuth_deg ?? null,
       rx_off_axis_elevation_deg: p.offRx?.elevation_deg ?? null,
-      tx_discrimination_db: p.txAtt?.co_db ?? null,
-      rx_discrimination_db: p.rxAtt?.co_db ?? null,
-      polarization_discrimination_db: p.txAtt && p.rxAtt ? tx.station.gain_dbi - p.txAtt.co_db + rx.station.gain_dbi - p.rxAtt.co_db - p.coupling : null,
+      tx_discrimination_db: finiteOrNull(p.txAtt?.co_db),
+      rx_discrimination_db: finiteOrNull(p.rxAtt?.co_db),
+      polarization_discrimination_db: p.txAtt && p.rxAtt ? finiteOrNull(tx.station.gain_dbi - p.txAtt.co_db + rx.station.gain_dbi - p.rxAtt.co_db - p.coupling) : null,
       filter_discrimination_db: p.nfd,
-      path_loss_long_term_db: p.sameSite ? null : lt,
-      path_loss_short_term_db: p.sameSite ? null : st,
+      path_loss_long_term_db: p.sameSite ? null : finiteOrNull(lt),
+      path_loss_short_term_db: p.sameSite ? null : finiteOrNull(st),
       interference_long_term_dbm: Ilt,
       interference_short_term_dbm: Ist,
       ci_median_db: Ilt === null || rx.carrier_dbm === null ? null : rx.carrier_dbm - Ilt,
@@ -418,25 +423,28 @@ export async function analyzeInterference(study: Study, links: LinkResult[], opt
     const list = byReceiver.get(rx.id) ?? [];
     const eff = effective.get(rx.id);
     const noise = thermalNoiseDbm(rx.bandwidth_mhz * 1e6, rx.protection.noise_figure_db);
-    const Ilt = eff ? powerSumDbm(eff.lt) : null;
-    const Ist = eff ? powerSumDbm(eff.st) : null;
-    const tdLt = Ilt === null ? 0 : thresholdDegradationDb(Ilt, noise);
-    const tdSt = Ist === null ? 0 : thresholdDegradationDb(Ist, noise);
+    const unknown = uncomputed.get(rx.id) ?? 0;
+    // with an interferer not computed, the sums (and what follows from them) are not available
+    const Ilt = eff && !unknown ? finiteOrNull(powerSumDbm(eff.lt)) : null;
+    const Ist = eff && !unknown ? finiteOrNull(powerSumDbm(eff.st)) : null;
+    const tdLt = unknown ? null : Ilt === null ? 0 : finiteOrNull(thresholdDegradationDb(Ilt, noise));
+    const tdSt = unknown ? null : Ist === null ? 0 : finiteOrNull(thresholdDegradationDb(Ist, noise));
     const allowed = rx.protection.threshold_degradation_db;
-    const fmLeft = rx.fade_margin_db === null ? null : rx.fade_margin_db - tdLt;
-    const fmLeftSt = rx.fade_margin_db === null ? null : rx.fade_margin_db - tdSt;
+    const fmLeft = rx.fade_margin_db === null || tdLt === null ? null : rx.fade_margin_db - tdLt;
+    const fmLeftSt = rx.fade_margin_db === null || tdSt === null ? null : rx.fade_margin_db - tdSt;
     const reasons: string[] = [];
+    if (unknown) reasons.push(`The interference from ${unknown} interferer${unknown > 1 ? "s" : ""} is not available (a frequency outside an antenna pattern's or the path-loss method's range; see the warnings): the receiver cannot be shown to meet its limits.`);
     const missed = list.filter((e) => !e.met);
     for (const e of missed.filter((x) => x.same_site)) reasons.push(`${e.transmitter} transmits at ${e.receiver_site} ${Math.abs(e.frequency_offset_mhz)} MHz from this receiver's channel: a site's transmit and receive channels must be apart (high/low plan); coupling between antennas on one site is not computed.`);
-    const ciMissed = missed.filter((x) => !x.same_site);
+    const ciMissed = missed.filter((x) => !x.same_site && x.ci_margin_db !== null);
     if (ciMissed.length) {
       const worst = ciMissed.reduce((a, b) => ((b.ci_margin_db ?? Infinity) < (a.ci_margin_db ?? Infinity) ? b : a));
       reasons.push(`C/I at the threshold below the requirement from ${ciMissed.length} interferer${ciMissed.length > 1 ? "s" : ""} (worst: ${worst.transmitter}, ${Math.abs(worst.ci_margin_db!).toFixed(1)} dB short).`);
     }
-    if (tdLt > allowed) reasons.push(`Long-term threshold degradation ${tdLt.toFixed(2)} dB exceeds the ${allowed} dB allowed.`);
+    if (tdLt !== null && tdLt > allowed) reasons.push(`Long-term threshold degradation ${tdLt.toFixed(2)} dB exceeds the ${allowed} dB allowed.`);
     // a link that does not close without interference fails on its own (its link verdict)
-    if (rx.fade_margin_db !== null && rx.fade_margin_db > 0 && fmLeftSt !== null && fmLeftSt <= 0) reasons.push(`Short-term interference (${rx.short_term_pct} % of time) degrades the threshold by ${tdSt.toFixed(1)} dB, more than the ${rx.fade_margin_db!.toFixed(1)} dB fade margin.`);
-    const margins = list.map((e) => e.ci_margin_db).filter((m): m is number => m !== null);
+    if (rx.fade_margin_db !== null && rx.fade_margin_db > 0 && fmLeftSt !== null && fmLeftSt <= 0) reasons.push(`Short-term interference (${rx.short_term_pct} % of time) degrades the threshold by ${tdSt!.toFixed(1)} dB, more than the ${rx.fade_margin_db!.toFixed(1)} dB fade margin.`);
+    const margins = list.map((e) => e.ci_margin_db).filter((m): m is number => m !== null && Number.isFinite(m));
     return {
       id: rx.id,
       link: rx.link,
@@ -467,7 +475,7 @@ export async function analyzeInterference(study: Study, links: LinkResult[], opt
   });
   const worstFirst = (a: number | null, b: number | null) => (a ?? -Infinity) - (b ?? -Infinity);
   entries.sort((a, b) => Number(a.met) - Number(b.met) || worstFirst(a.ci_margin_db, b.ci_margin_db) || a.receiver.localeCompare(b.receiver) || a.transmitter.localeCompare(b.transmitter));
-  receiverResults.sort((a, b) => Number(a.met) - Number(b.met) || b.threshold_degradation_long_term_db - a.threshold_degradation_long_term_db || a.id.localeCompare(b.id));
+  receiverResults.sort((a, b) => Number(a.met) - Number(b.met) || (b.threshold_degradation_long_term_db ?? Infinity) - (a.threshold_degradation_long_term_db ?? Infinity) || a.id.localeCompare(b.id));
   const receivers_met = receiverResults.filter((r) => r.met).length;
   return {
     long_term_pct: section.long_term_pct,
@@ -481,4 +489,9 @@ export async function analyzeInterference(study: Study, links: LinkResult[], opt
     met: receivers_met === receiverResults.length,
     warnings,
   };
+}
+
+/** A finite number, else null (shown as not available). */
+function finiteOrNull(x: number | null | undefined): number | null {
+  return typeof x === "number" && Number.isFinite(x) ? x : null;
 }

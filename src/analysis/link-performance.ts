@@ -124,8 +124,10 @@ export function linkPerformance(
   if (saturated) warn(`${MULTIPATH_P530_VALIDITY.method}: the multipath occurrence factor p0 = ${occ.p0_pct.toExponential(2)} % is beyond the method's interpolation; the worst-month multipath outage is taken as 100 %.`);
   const pw = saturated ? { ...pwRaw, pw_pct: 100 } : pwRaw;
   const dG = worstMonthToAnnualDeltaGDb(p.mid_lat_deg, d_km, occ.epsilon_p_mrad);
-  const flatYear = annualFadeExceedancePercent(occ.p0_pct, A, dG).p_pct;
   const toYear = (worstMonthPct: number) => Math.min(worstMonthPct, annualPercentFromWorstMonth(worstMonthPct, Math.max(0, dG)));
+  // saturated: the annual figure follows the worst month's 100 % through §2.3.4 (eq. 15 has no value either)
+  const flatYearRaw = annualFadeExceedancePercent(occ.p0_pct, A, dG).p_pct;
+  const flatYear = saturated && Number.isNaN(flatYearRaw) ? toYear(pw.pw_pct) : flatYearRaw;
   const V = MULTIPATH_P530_VALIDITY;
   warn(rangeWarning(V.method, "frequency", f, [Math.max(V.frequency_ghz[0], V.frequency_min_ghz_km / d_km), V.frequency_ghz[1]], "GHz"));
   warn(rangeWarning(V.method, "path length", d_km, V.distance_km, "km"));

@@ -40,7 +40,9 @@ export function meanTimeDelayNs(distance_km: number): number {
  */
 export function multipathActivityFactor(p0_pct: number): number {
   if (!(p0_pct >= 0)) return NaN;
-  return 1 - Math.exp(-0.2 * (p0_pct / 100) ** 0.75); // P.530-16 §2.3.6 Step 2 (η)
+  // 1 − exp(−x) as −expm1(−x): for a tiny p0 (a 1 m path) exp(−x) rounds to 1 and η to 0, which
+  // made the diversity outage NaN
+  return -Math.expm1(-0.2 * (p0_pct / 100) ** 0.75); // P.530-16 §2.3.6 Step 2 (η)
 }
 
 /**

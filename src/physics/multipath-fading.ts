@@ -126,7 +126,8 @@ export function fadeDepthExceedancePercent(p0_pct: number, A_db: number): { pw_p
   const At = 25 + 1.2 * Math.log10(p0_pct); // P.530-16 eq. (12)
   if (A_db >= At) return { pw_pct: p0_pct * 10 ** (-A_db / 10), At_db: At }; // P.530-16 eq. (13)
   const pt = p0_pct * 10 ** (-At / 10); // P.530-16 eq. (14)
-  const qaPrime = (-20 * Math.log10(-Math.log((100 - pt) / 100))) / At; // P.530-16 eq. (15)
+  // ln((100 − pt)/100) as log1p(−pt/100): a tiny pt must not round to ln 1 = 0 (then qa·A = ∞·0)
+  const qaPrime = (-20 * Math.log10(-Math.log1p(-pt / 100))) / At; // P.530-16 eq. (15)
   const qt =
     (qaPrime - 2) / ((1 + 0.3 * 10 ** (-At / 20)) * 10 ** (-0.016 * At)) - 4.3 * (10 ** (-At / 20) + At / 800); // P.530-16 eq. (16)
   const qa = 2 + (1 + 0.3 * 10 ** (-A_db / 20)) * 10 ** (-0.016 * A_db) * (qt + 4.3 * (10 ** (-A_db / 20) + A_db / 800)); // P.530-16 eq. (17)

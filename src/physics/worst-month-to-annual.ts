@@ -60,7 +60,8 @@ export function annualFadeExceedancePercent(p0_pct: number, A_db: number, deltaG
     p = annualPercentFromWorstMonth(pw_pct, deltaG_db); // P.530-16 §2.3.4 Step 3
   } else {
     const pt = annualPercentFromWorstMonth(p0_pct * 10 ** (-At_db / 10), deltaG_db); // P.530-16 §2.3.4 Step 4, eq. (14) converted
-    const qaPrime = (-20 * Math.log10(-Math.log((100 - pt) / 100))) / At_db; // P.530-16 eq. (15)
+    // ln((100 − pt)/100) as log1p(−pt/100): a tiny pt must not round to ln 1 = 0 (then qa·A = ∞·0)
+    const qaPrime = (-20 * Math.log10(-Math.log1p(-pt / 100))) / At_db; // P.530-16 eq. (15)
     const qt = (qaPrime - 2) / ((1 + 0.3 * 10 ** (-At_db / 20)) * 10 ** (-0.016 * At_db)) - 4.3 * (10 ** (-At_db / 20) + At_db / 800); // P.530-16 eq. (16)
     const qa = 2 + (1 + 0.3 * 10 ** (-A_db / 20)) * 10 ** (-0.016 * A_db) * (qt + 4.3 * (10 ** (-A_db / 20) + A_db / 800)); // P.530-16 eq. (17)
     p = 100 * (1 - Math.exp(-(10 ** ((-qa * A_db) / 20)))); // P.530-16 eq. (18)

@@ -13,6 +13,8 @@ import { delimiter, isAbsolute, join, relative, resolve, sep } from "node:path";
 export const STUDY_FILE_MAX_BYTES = 8 * 1024 * 1024;
 /** Largest surveyed profile CSV read (bytes). */
 export const PROFILE_CSV_MAX_BYTES = 64 * 1024 * 1024;
+/** Largest antenna envelope CSV read (bytes): 0–180° every 0.01° is under 1 MB. */
+export const ENVELOPE_CSV_MAX_BYTES = 4 * 1024 * 1024;
 /** Largest GeoTIFF read (bytes). */
 export const GEOTIFF_MAX_BYTES = 2 * 1024 * 1024 * 1024;
 /** The two sizes an SRTM-style .hgt tile has: 3″ (1201²) and 1″ (3601²) big-endian int16. */

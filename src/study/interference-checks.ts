@@ -1,7 +1,7 @@
 import { resolve } from "node:path";
 import { readEnvelopeCsv } from "./envelope-csv.ts";
-import { inputPathProblem } from "./input-file.ts";
 import { fieldPath, showValue, type InputProblem } from "./input-error.ts";
+import { ENVELOPE_CSV_MAX_BYTES, inputPathProblem } from "./input-file.ts";
 import type { StudyInput } from "./schema.ts";
 import type { YamlSource } from "./yaml-source.ts";
 
@@ -10,11 +10,9 @@ import type { YamlSource } from "./yaml-source.ts";
  * overlapping go and return channels on one link; with an `interference` section, a
  * frequency_plan on every link and a protection requirement on every radio a link uses; one
  * way of giving adjacent-channel protection; references of external transmitters; envelope
- * CSV files that exist and span 0–180°.
+ * CSV files that exist and span 0–180°: regular files inside the study folder (or `roots`),
+ * checked before they are read (a named pipe would block for ever, /dev/zero never ends).
  */
-/** An envelope table holds a few hundred rows: 4 MiB is far beyond any real one. */
-const ENVELOPE_CSV_MAX_BYTES = 4 * 1024 * 1024;
-
 export function interferenceProblems(src: YamlSource, s: StudyInput, dir: string, roots: string[] = []): InputProblem[] {
   const problems: InputProblem[] = [];
   const add = (path: PropertyKey[], received: unknown, expected: string) => problems.push({ file: src.file, ...src.locate(path), field: fieldPath(path), received: showValue(received), expected });
@@ -46,7 +44,12 @@ export function interferenceProblems(src: YamlSource, s: StudyInput, dir: string
   });
   if (asked) {
     const sites = new Set(s.sites.map((x) => x.id));
+    const externalIds = new Map<string, number>();
     s.interference!.external.forEach((e, i) => {
+      // ids name the transmitter in tables and results; file systems and readers ignore case
+      const first = externalIds.get(e.id.toLowerCase());
+      if (first !== undefined) add(["interference", "external", i, "id"], e.id, `an id not used before in interference.external (external[${first}] already has it, perhaps in other letter case)`);
+      else externalIds.set(e.id.toLowerCase(), i);
       if (!sites.has(e.site)) add(["interference", "external", i, "site"], e.site, "the id of a site in sites");
       if (e.toward_site !== undefined && !sites.has(e.toward_site)) add(["interference", "external", i, "toward_site"], e.toward_site, "the id of a site in sites");
       if (e.toward_site === undefined && e.azimuth_deg === undefined) add(["interference", "external", i], `external transmitter ${e.id} with no pointing`, "toward_site (a site id) or azimuth_deg");
@@ -65,10 +68,12 @@ export function interferenceProblems(src: YamlSource, s: StudyInput, dir: string
     if (seen.has(abs)) continue;
     seen.add(abs);
     const path = [...e.path, "envelope_csv"];
-    // inside the study folder, a regular file of sane size, before anything reads it
     const bad = inputPathProblem(dir, file, { want: "file", maxBytes: ENVELOPE_CSV_MAX_BYTES, roots, what: "an antenna envelope CSV file" });
-    if (bad) problems.push({ file: src.file, ...src.locate(path), field: fieldPath(path), received: bad.received, expected: bad.expected });
-    else problems.push(...readEnvelopeCsv(abs, fieldPath(path), { file: src.file, ...src.locate(path) }).problems);
+    if (bad) {
+      problems.push({ file: src.file, ...src.locate(path), field: fieldPath(path), received: bad.received, expected: bad.expected });
+      continue;
+    }
+    problems.push(...readEnvelopeCsv(abs, fieldPath(path), { file: src.file, ...src.locate(path) }).problems);
   }
   return problems;
 }

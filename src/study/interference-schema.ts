@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { ID_MAX_LENGTH, ID_PATTERN, ID_RULE, idProblem } from "./name-rules.ts";
 
 /**
  * Study fields of the frequency plan and the interference analysis (used by schema.ts).
@@ -8,12 +9,15 @@ import { z } from "zod";
 
 const polarization = z.enum(["h", "v"]);
 
+/** Ids by the study's id rule (name-rules.ts): they name entries in pages and results. */
+const id = () => z.string().max(ID_MAX_LENGTH, ID_RULE).regex(ID_PATTERN, ID_RULE).refine((s) => idProblem(s) === null, ID_RULE);
+
 /** A link's channel: centre frequency each way, bandwidth, polarisation each way. */
 export const frequencyPlan = z
   .object({
-    go_mhz: z.number().positive().max(1e6).describe("centre frequency from → to (MHz)"),
-    return_mhz: z.number().positive().max(1e6).describe("centre frequency to → from (MHz)"),
-    bandwidth_mhz: z.number().positive().max(10_000).describe("occupied (channel) bandwidth of each direction (MHz)"),
+    go_mhz: z.number().min(30).max(1e6).describe("centre frequency from → to (MHz)"),
+    return_mhz: z.number().min(30).max(1e6).describe("centre frequency to → from (MHz)"),
+    bandwidth_mhz: z.number().min(0.001).max(10_000).describe("occupied (channel) bandwidth of each direction (MHz)"),
     go_polarization: polarization.optional().describe("polarisation from → to; default: the link's polarization"),
     return_polarization: polarization.optional().describe("polarisation to → from; default: the link's polarization"),
   })
@@ -42,24 +46,24 @@ export const receiverProtection = z
 export const antennaPattern = z
   .union([
     z.enum(["f699", "f1245"]).describe("ITU-R F.699-8 reference (peak) envelope or ITU-R F.1245-3 average pattern, from the gain and frequency"),
-    z.object({ envelope_csv: z.string().min(1).describe("tabulated envelope (angle_deg,h_copolar_db,h_crosspolar_db,v_copolar_db,v_crosspolar_db), relative to the study folder") }).strict(),
+    z.object({ envelope_csv: z.string().min(1).max(1024).describe("tabulated envelope (angle_deg,h_copolar_db,h_crosspolar_db,v_copolar_db,v_crosspolar_db), relative to the study folder") }).strict(),
   ])
   .describe("radiation pattern envelope for interference: f699, f1245 or {envelope_csv}");
 
 /** A transmitter outside the study's links (another operator's station, a planned link). */
 const externalTransmitter = z
   .object({
-    id: z.string().regex(/^[A-Za-z0-9][A-Za-z0-9_.-]*$/, "letters, digits, '-', '_' or '.'"),
-    site: z.string().describe("id of a site in `sites`"),
+    id: id(),
+    site: id().describe("id of a site in `sites`"),
     antenna_m: z.number().min(0).max(1000).describe("antenna centre height above ground (m)"),
     gain_dbi: z.number().min(-10).max(70),
     pattern: antennaPattern.default("f699"),
     xpd_db: z.number().min(0).max(60).default(30).describe("cross-polar discrimination on the boresight (dB), for reference patterns"),
-    toward_site: z.string().optional().describe("id of the site the antenna points at"),
+    toward_site: id().optional().describe("id of the site the antenna points at"),
     azimuth_deg: z.number().min(0).lt(360).optional().describe("boresight azimuth (deg), when it points at no site"),
     elevation_deg: z.number().min(-90).max(90).optional().describe("boresight elevation (deg); default: toward toward_site at the same height above its ground, else 0 (level)"),
-    frequency_mhz: z.number().positive().max(1e6),
-    bandwidth_mhz: z.number().positive().max(10_000),
+    frequency_mhz: z.number().min(30).max(1e6).describe("centre frequency (MHz)"),
+    bandwidth_mhz: z.number().min(0.001).max(10_000).describe("occupied bandwidth (MHz)"),
     polarization,
     tx_power_dbm: z.number().min(-30).max(80),
     feeder_loss_db: z.number().min(0).max(50).default(0),

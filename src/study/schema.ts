@@ -83,18 +83,18 @@ const linkEndDetails = {
 /** A radio's signature for the dispersive-fading outage (ITU-R P.530-16 §2.3.6). */
 const signature = z
   .object({
-    width_mhz: z.number().positive().max(1000).describe("signature width W (MHz)"),
+    width_mhz: z.number().min(0.01).max(1000).describe("signature width W (MHz)"),
     depth_minimum_phase_db: z.number().min(0).max(80).describe("signature depth B_M for minimum-phase fades (dB)"),
     depth_non_minimum_phase_db: z.number().min(0).max(80).describe("signature depth B_NM for non-minimum-phase fades (dB)"),
-    reference_delay_ns: z.number().positive().max(100).default(6.3).describe("echo delay τ_r at which the signature was measured (ns)"),
+    reference_delay_ns: z.number().min(0.01).max(100).default(6.3).describe("echo delay τ_r at which the signature was measured (ns)"),
   })
   .strict()
   .describe("radio signature: width and depths of the notch a two-ray echo must make to cause errors at the threshold bit-error ratio");
 
 const modulationMode = z
   .object({
-    name: z.string().min(1).describe("mode name, e.g. 1024-QAM"),
-    capacity_mbps: z.number().positive().max(100_000).describe("payload capacity in this mode (Mbit/s)"),
+    name: oneLine().describe("mode name, e.g. 1024-QAM"),
+    capacity_mbps: z.number().min(0.001).max(100_000).describe("payload capacity in this mode (Mbit/s)"),
     rx_threshold_dbm: z.number().min(-150).max(0).describe("receiver threshold of this mode at the radio's threshold bit-error ratio (dBm)"),
     signature: signature.optional(),
   })
@@ -339,6 +339,7 @@ export const studySchema = z
               .array(modulationMode)
               .min(1)
               .refine(modesInOrder, "modes listed in order of rising threshold and rising capacity (the lowest, most robust mode first)")
+              .refine((m) => new Set(m.map((x) => x.name)).size === m.length, "modes with different names (a capacity target names its mode)")
               .optional()
               .describe("adaptive modulation: the radio's modes, most robust first; rx_threshold_dbm above is then the lowest mode's"),
             xpd_db: z.number().min(0).max(60).optional().describe("antennas' guaranteed minimum cross-polar discrimination XPD_g at boresight (dB), for co-channel dual-polarised links"),
@@ -380,8 +381,8 @@ export const studySchema = z
             performance_pct: z.number().gt(0).lt(100).optional().describe("overrides design.performance_pct for this link"),
             diversity: z
               .union([
-                z.object({ space: z.object({ spacing_m: z.number().positive().max(100).describe("vertical spacing of the two receive antennas, centre to centre (m)"), gain_dbi: z.number().min(-10).max(70).optional().describe("the second antenna's gain (dBi); default the main antenna's") }).strict() }).strict(),
-                z.object({ frequency: z.object({ spacing_mhz: z.number().positive().max(5000).describe("separation of the two channels (MHz)") }).strict() }).strict(),
+                z.object({ space: z.object({ spacing_m: z.number().min(0.1).max(100).describe("vertical spacing of the two receive antennas, centre to centre (m)"), gain_dbi: z.number().min(-10).max(70).optional().describe("the second antenna's gain (dBi); default the main antenna's") }).strict() }).strict(),
+                z.object({ frequency: z.object({ spacing_mhz: z.number().min(0.001).max(5000).describe("separation of the two channels (MHz)") }).strict() }).strict(),
               ])
               .optional()
               .describe("diversity reception at the link's receiving end: {space: {spacing_m, gain_dbi}} or {frequency: {spacing_mhz}}"),

@@ -4,11 +4,13 @@ import { join } from "node:path";
 import { stringify } from "yaml";
 import { writeGeoTiff } from "../../src/geo/geotiff-writer.ts";
 import { mulberry32 } from "../../src/terrain/mulberry32.ts";
+import { addFeatures, FEATURE_MUTATIONS } from "./generate-features.ts";
 
 /**
  * Hostile and degenerate studies for the fuzzer. A case starts from a valid study drawn from
  * the grammar of the schema (sites, radios, links, chains, sometimes coverage; constant,
- * synthetic or GeoTIFF terrain) and gets one to three mutations: wrong types, numbers out of
+ * synthetic or GeoTIFF terrain; in half the cases the link-performance and interference
+ * fields of generate-features.ts) and gets one to three mutations: wrong types, numbers out of
  * range or at the edges of the floating-point range, degenerate geometry (coincident sites,
  * the antimeridian, the poles), broken references, hostile strings (markup, quotes, NUL,
  * huge texts, reserved file names), broken files (pipes, devices, symbolic links, junk
@@ -348,6 +350,7 @@ const MUTATIONS: Record<string, (d: Draft, r: Rng) => void> = {
     const links = d.doc.links as Doc[];
     for (let i = 0; i < int(r, 10, 60); i++) links.push({ ...links[0], id: `M${i}` });
   },
+  ...FEATURE_MUTATIONS,
 };
 
 const MUTATION_NAMES = Object.keys(MUTATIONS);
@@ -363,8 +366,13 @@ export function fuzzCase(seed: number, index: number, buildEvery = 100): FuzzCas
   const draft: Draft = { doc, files: new Map(), id: "s", coverage: false };
   if (terrainKind === "geotiff") {
     const s = doc.sites as Doc[];
-    draft.files.set(...terrainTiff(60, 60, (s[0].lat_deg as number) + 0.1, (s[0].lon_deg as number) - 0.05, 0.004, (i) => 50 + (i % 37)));
+    // the raster covers every site (they lie within 0.08° of each other)
+    const north = Math.max(...s.map((x) => x.lat_deg as number)) + 0.1;
+    const west = Math.min(...s.map((x) => x.lon_deg as number)) - 0.05;
+    draft.files.set(...terrainTiff(60, 60, north, west, 0.004, (i) => 50 + (i % 37)));
   }
+  // link-performance and interference fields (generate-features.ts) in about half the cases
+  if (r() < 0.5) addFeatures(draft, r);
   const n = r() < 0.25 ? 0 : int(r, 1, 2);
   const mutations: string[] = [];
   for (let i = 0; i < n; i++) {
@@ -376,6 +384,12 @@ export function fuzzCase(seed: number, index: number, buildEvery = 100): FuzzCas
       mutations.push(`${name} (not applicable)`); // e.g. geometry after sites were removed
     }
   }
+  // The wave solution (0.1–2 s a link) in one case in twenty, so that 1000 cases stay within
+  // the test's budget; its own reference tests cover it, and the schema bounds its inputs.
+  const design = draft.doc.design;
+  const waveOn = r() < 0.05;
+  if (design === undefined) draft.doc.design = { wave_solution: waveOn };
+  else if (typeof design === "object" && design !== null && !Array.isArray(design) && !("wave_solution" in design)) (design as Doc).wave_solution = waveOn;
   const build = buildEvery > 0 && index % buildEvery === buildEvery - 1;
   return {
     index,

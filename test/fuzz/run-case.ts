@@ -62,6 +62,11 @@ export function impossibleInResults(studies: AnalyzedStudy[]): string | null {
     const text = JSON.stringify(r);
     const word = /\b(NaN|Infinity|undefined)\b/.exec(text);
     if (word) return `study ${r.id}: the text "${word[0]}" in results: …${text.slice(Math.max(0, word.index - 80), word.index + 40)}…`;
+    const pct = percentOutOfRange(r, "");
+    if (pct) return `study ${r.id}: ${pct}`;
+    for (const e of (r as { interference?: { entries: { receiver: string; transmitter: string; path_loss_long_term_db: number | null; path_loss_short_term_db: number | null }[] } | null }).interference?.entries ?? []) {
+      for (const v of [e.path_loss_long_term_db, e.path_loss_short_term_db]) if (typeof v === "number" && v < 0) return `interference ${e.transmitter} → ${e.receiver}: negative path loss ${v} dB`;
+    }
     for (const l of r.links) {
       for (const [k, v] of Object.entries(l.losses_db)) if (typeof v === "number" && v < 0) return `link ${l.id}: negative ${k} loss ${v} dB`;
       const eirp = l.ends.from.eirp_dbm;
@@ -82,6 +87,25 @@ export function impossibleInResults(studies: AnalyzedStudy[]): string | null {
       const eirp = (c as { eirp_dbm?: number | null }).eirp_dbm;
       const max = (c as { level_max_dbm?: number | null }).level_max_dbm;
       if (typeof eirp === "number" && typeof max === "number" && max > eirp + 40 + 1e-9) return `coverage ${c.id}: level ${max} dBm above EIRP ${eirp} dBm + the largest receive gain`;
+    }
+  }
+  return null;
+}
+
+/** Percentages of time or of a target (keys ending in _pct) outside 0–100 %; p0, an occurrence factor, may exceed 100. */
+function percentOutOfRange(v: unknown, key: string): string | null {
+  if (typeof v === "number") return /_pct$/.test(key) && key !== "multipath_occurrence_p0_pct" && (v < 0 || v > 100 + 1e-9) ? `${key} = ${v} %, outside 0–100 %` : null;
+  if (Array.isArray(v)) {
+    for (const x of v) {
+      const p = percentOutOfRange(x, key);
+      if (p) return p;
+    }
+    return null;
+  }
+  if (v && typeof v === "object" && !ArrayBuffer.isView(v)) {
+    for (const [k, x] of Object.entries(v)) {
+      const p = percentOutOfRange(x, k);
+      if (p) return p;
     }
   }
   return null;

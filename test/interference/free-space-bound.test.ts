@@ -23,8 +23,8 @@ describe("free-space bound of the interference matrix", () => {
     for (const r of pruned.receivers) {
       const full = byId.get(r.id)!;
       expect(full.met, r.id).toBe(r.met);
-      expectClose(r.threshold_degradation_long_term_db, full.threshold_degradation_long_term_db, { abs: 0.005 }, `${r.id} long term`);
-      expectClose(r.threshold_degradation_short_term_db, full.threshold_degradation_short_term_db, { abs: 0.005 }, `${r.id} short term`);
+      expectClose(r.threshold_degradation_long_term_db!, full.threshold_degradation_long_term_db!, { abs: 0.005 }, `${r.id} long term`);
+      expectClose(r.threshold_degradation_short_term_db!, full.threshold_degradation_short_term_db!, { abs: 0.005 }, `${r.id} short term`);
     }
     const kept = new Set(pruned.entries.map((e) => `${e.receiver}|${e.transmitter}`));
     const noise = new Map(all.receivers.map((r) => [r.id, r.noise_dbm]));

@@ -49,7 +49,7 @@ describe("bad microwave-performance input", () => {
     const p = problemsOf("neg-width", withRadio("    signature: { width_mhz: -20, depth_minimum_phase_db: 20, depth_non_minimum_phase_db: 18 }\n"));
     expect(p.map((x) => x.field)).toEqual(["radios[0].signature.width_mhz"]);
     expect(p[0].received).toContain("-20");
-    expect(p[0].expected).toMatch(/> 0/);
+    expect(p[0].expected).toMatch(/≥ 0\.01/);
   });
 
   it("modes not ordered by threshold are an error saying how to order them", () => {

@@ -53,7 +53,7 @@ export interface InterferenceCheckRow {
   study: string;
   receiver: string;
   link: string;
-  threshold_degradation_long_term_db: number;
+  threshold_degradation_long_term_db: number | null;
   allowed_degradation_db: number;
   worst_ci_margin_db: number | null;
   fade_margin_left_db: number | null;
