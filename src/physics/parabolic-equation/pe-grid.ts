@@ -27,6 +27,13 @@ export const PE_MAX_ANGLE_DEG = 15;
 export const PE_MIN_GRID_ANGLE_DEG = 2;
 /** Default memory limit of one solution (bytes): 256 MiB. */
 export const PE_DEFAULT_MEMORY_LIMIT_BYTES = 256 * 1024 * 1024;
+/**
+ * Work limit: transform points × range steps a solution may take by default (250 million:
+ * about 30 s on one core of the project's machine, the 50 km, 18 GHz path over mountains).
+ * Long paths at high frequencies need far more (227 km at 80 GHz: billions, 10 min or more),
+ * and a study computes every link, so such a grid is refused with the reason instead.
+ */
+export const PE_DEFAULT_WORK_LIMIT_CELL_STEPS = 250e6;
 
 export interface PeGridChoice {
   /** vertical step (m) */

@@ -4,7 +4,7 @@ import { bandLimitedSample } from "./band-limited-sample.ts";
 import { gaussianAxisAmplitude, gaussianSourceSigmaM } from "./aperture-source.ts";
 import { impedanceAlpha, type PeGround } from "./ground-impedance.ts";
 import { effectiveRadiusFromRefractivity, modifiedRefractivity, type RefractivityModel } from "./modified-refractivity.ts";
-import { choosePeGrid, PE_DEFAULT_MEMORY_LIMIT_BYTES, PE_MAX_ANGLE_DEG, type PeGridChoice } from "./pe-grid.ts";
+import { choosePeGrid, PE_DEFAULT_MEMORY_LIMIT_BYTES, PE_DEFAULT_WORK_LIMIT_CELL_STEPS, PE_MAX_ANGLE_DEG, type PeGridChoice } from "./pe-grid.ts";
 import { makeVerticalPropagator } from "./vertical-propagator.ts";
 
 export interface ParabolicEquationInput {
@@ -29,6 +29,8 @@ export interface ParabolicEquationInput {
   grid?: { dz_m?: number; dx_m?: number; max_angle_deg?: number };
   /** refuse grids needing more bytes than this (default PE_DEFAULT_MEMORY_LIMIT_BYTES) */
   memory_limit_bytes?: number;
+  /** refuse grids needing more transform points × range steps than this (default PE_DEFAULT_WORK_LIMIT_CELL_STEPS) */
+  work_limit_cell_steps?: number;
 }
 
 /** The field over the height–distance plane, dB relative to free space on the beam axis. */
@@ -143,6 +145,18 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
     return {
       status: "refused",
       reason: `the grid (${2 * grid.n} heights of ${(grid.dz_m * 1000).toFixed(1)} mm, ${grid.steps} range steps of ${grid.dx_m.toFixed(1)} m) needs ${mib(grid.memory_bytes)} MiB, above the limit of ${mib(limit)} MiB`,
+      excess_loss_db: NaN,
+      ...common,
+      field: null,
+      height_gain: null,
+    };
+  }
+  const work = 2 * grid.n * grid.steps;
+  const workLimit = input.work_limit_cell_steps ?? PE_DEFAULT_WORK_LIMIT_CELL_STEPS;
+  if (!(work <= workLimit)) {
+    return {
+      status: "refused",
+      reason: `the grid (${2 * grid.n} heights of ${(grid.dz_m * 1000).toFixed(1)} mm, ${grid.steps} range steps of ${grid.dx_m.toFixed(1)} m) needs ${(work / 1e6).toFixed(0)} million cell-steps, above the limit of ${(workLimit / 1e6).toFixed(0)} million (the path is too long for its frequency to be solved in reasonable time)`,
       excess_loss_db: NaN,
       ...common,
       field: null,
