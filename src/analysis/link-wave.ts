@@ -17,11 +17,11 @@ export interface WaveResult {
   /** why the solution was not computed; "" when it was */
   reason: string;
   k_label: string;
-  /** loss at the receiving antenna relative to free space (dB) */
-  excess_loss_db: number;
-  /** free-space loss plus excess_loss_db (dB); gases and rain not included */
-  basic_transmission_loss_db: number;
-  /** each diffraction method's loss minus the wave solution's excess loss (dB) */
+  /** loss at the receiving antenna relative to free space (dB); null when not computed */
+  excess_loss_db: number | null;
+  /** free-space loss plus excess_loss_db (dB); gases and rain not included; null when not computed */
+  basic_transmission_loss_db: number | null;
+  /** each diffraction method's loss minus the wave solution's excess loss (dB); empty when not computed */
   difference_db_by_method: Record<string, number>;
   /** transmitting antenna's 3 dB beamwidth as used (°), its aim above the horizontal (°) */
   beamwidth_deg: number;
@@ -97,15 +97,17 @@ export function linkWave(
     warnings.push(`Wave solution: the path needs propagation angles up to ${r.grid.geometry_angle_deg.toFixed(1)}°, beyond the ${PE_MAX_ANGLE_DEG}° limit of the wide-angle parabolic approximation; its result there is indicative only.`);
   }
   const difference: Record<string, number> = {};
-  for (const [m, v] of Object.entries(byMethod)) difference[m] = ok ? v - r.excess_loss_db : NaN;
+  // a refused solution has no values: null and no differences, never NaN (which results would
+  // turn into "could not be computed" warnings on top of the refusal's own warning)
+  if (ok) for (const [m, v] of Object.entries(byMethod)) difference[m] = v - r.excess_loss_db;
   const grid = r.grid;
   const wave: WaveResult = {
     method: "split-step parabolic equation (wide-angle, impedance ground, staircase terrain)",
     status: ok ? "ok" : "refused",
     reason: r.reason,
     k_label: options.refractivity ? "profile" : k0.label,
-    excess_loss_db: r.excess_loss_db,
-    basic_transmission_loss_db: fsl + r.excess_loss_db,
+    excess_loss_db: ok ? r.excess_loss_db : null,
+    basic_transmission_loss_db: ok ? fsl + r.excess_loss_db : null,
     difference_db_by_method: difference,
     beamwidth_deg: r.beamwidth_used_deg,
     aim_deg: r.aim_deg,

@@ -31,6 +31,11 @@ export const LINK_INPUT_COLUMNS = [
   "availability_pct",
   "design_status",
   "design_reason",
+  "go_mhz",
+  "return_mhz",
+  "bandwidth_mhz",
+  "go_polarization",
+  "return_polarization",
 ] as const;
 
 /** Result columns of links.csv (ignored on import). */
@@ -53,6 +58,12 @@ export function sitesCsv(r: StudyResult): string {
 /** links.csv of a study: the inputs `ridgeline import` reads, then the results. */
 export function linksCsv(r: StudyResult): string {
   const defaultTarget = (r.assumptions as { availability_pct?: number }).availability_pct;
+  // the frequency plan, as the interference analysis read it (one receiver per direction)
+  const rx = (l: LinkResult, d: "go" | "return") => r.interference?.receivers.find((x) => x.link === l.id && x.direction === d);
+  const pol = (l: LinkResult, d: "go" | "return") => {
+    const p = rx(l, d)?.polarization;
+    return p && p !== l.polarization ? p : "";
+  };
   const line = (l: LinkResult) =>
     row([
       l.id,
@@ -74,6 +85,11 @@ export function linksCsv(r: StudyResult): string {
       l.target_availability_pct !== defaultTarget ? l.target_availability_pct : "",
       l.design_status ?? "",
       l.design_reason ?? "",
+      rx(l, "go")?.frequency_mhz,
+      rx(l, "return")?.frequency_mhz,
+      rx(l, "go")?.bandwidth_mhz,
+      pol(l, "go"),
+      pol(l, "return"),
       l.distance_m,
       l.received_dbm,
       l.fade_margin_db,

@@ -8,7 +8,7 @@ import { waveHeightGainSvg } from "../render/svg/wave-height-gain.ts";
 export async function linkWaveFieldSvg(s: AnalyzedStudy, linkId: string): Promise<string> {
   const link = s.result.links.find((l) => l.id === linkId);
   const fig = s.figures.get(linkId);
-  if (!link || !fig?.wave || link.wave?.status !== "ok") return "";
+  if (!link || !fig?.wave || link.wave?.status !== "ok" || link.wave.excess_loss_db === null) return "";
   const w = fig.wave;
   const n = fig.profile.d_m.length;
   const ground = new Float64Array(n);

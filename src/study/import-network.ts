@@ -7,7 +7,8 @@ import { parseCsvTable } from "./csv-table.ts";
  * - links CSV: `id,from_site,to_site,frequency_ghz,tx_power_dbm,rx_threshold_dbm,from_antenna_m,
  *   from_gain_dbi,to_antenna_m,to_gain_dbi` and optionally `radio,radio_name,threshold_ber,
  *   polarization,from_feeder_loss_db,to_feeder_loss_db,availability_pct,design_status,design_reason`
- *   (the links.csv a build writes; its result columns are ignored)
+ *   and the frequency plan `go_mhz,return_mhz,bandwidth_mhz[,go_polarization,return_polarization]`
+ *   (all three or none in a row) (the links.csv a build writes; its result columns are ignored)
  * - GeoJSON (RFC 7946) Point features and KML 2.2 Point placemarks: sites, id from the
  *   `id` property or the name.
  * Every problem names the file, line, column name, value received and the fix.
@@ -24,6 +25,7 @@ export interface ImportedNetwork {
     availability_pct?: number;
     design_status?: "alternative" | "rejected";
     design_reason?: string;
+    frequency_plan?: { go_mhz: number; return_mhz: number; bandwidth_mhz: number; go_polarization?: "h" | "v"; return_polarization?: "h" | "v" };
   }[];
   /** Where each part came from, for comments in the written study. */
   sources: string[];
@@ -102,6 +104,15 @@ export function importNetwork(files: { file: string; text: string }[]): Imported
         if (pol !== "h" && pol !== "v") bad(file, line, "polarization", showCell(cells.polarization), "h or v");
         const status = cells.design_status;
         if (status && status !== "alternative" && status !== "rejected") bad(file, line, "design_status", showCell(status), "alternative, rejected or empty");
+        const planCols = ["go_mhz", "return_mhz", "bandwidth_mhz"] as const;
+        const given = planCols.filter((c) => cells[c]);
+        if (given.length && given.length < 3) bad(file, line, planCols.find((c) => !cells[c])!, "an empty cell", `a number: give go_mhz, return_mhz and bandwidth_mhz together, or none of them`);
+        const planPol = (c: "go_polarization" | "return_polarization") => {
+          const v = (cells[c] ?? "").toLowerCase();
+          if (v && v !== "h" && v !== "v") bad(file, line, c, showCell(cells[c]), "h, v or empty (the link's polarization)");
+          return v === "h" || v === "v" ? { [c]: v as "h" | "v" } : {};
+        };
+        const plan = given.length === 3 ? { frequency_plan: { go_mhz: num("go_mhz")!, return_mhz: num("return_mhz")!, bandwidth_mhz: num("bandwidth_mhz")!, ...planPol("go_polarization"), ...planPol("return_polarization") } } : {};
         out.links.push({
           id: cells.id,
           from: { site: cells.from_site, antenna_m: num("from_antenna_m")!, gain_dbi: num("from_gain_dbi")!, feeder_loss_db: num("from_feeder_loss_db", true) ?? 0 },
@@ -110,6 +121,7 @@ export function importNetwork(files: { file: string; text: string }[]): Imported
           polarization: pol === "h" ? "h" : "v",
           ...(cells.availability_pct ? { availability_pct: num("availability_pct", true) } : {}),
           ...(status ? { design_status: status as "alternative" | "rejected", ...(cells.design_reason ? { design_reason: cells.design_reason } : {}) } : {}),
+          ...plan,
         });
       }
     }

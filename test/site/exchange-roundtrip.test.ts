@@ -36,6 +36,19 @@ describe("export → import → analyse", () => {
     for (const [i, l] of again.links.entries()) expect(l, l.id).toEqual(demo.links[i]);
   }, 120_000);
 
+  it("links.csv carries each link's frequency plan (go_mhz, return_mhz, bandwidth_mhz, polarisations) without --like", () => {
+    const net = importNetwork([{ file: "sites.csv", text: sitesCsv(demo) }, { file: "links.csv", text: linksCsv(demo) }]);
+    const study = loadStudy(DEMO);
+    const plan = (p: { go_mhz: number; return_mhz: number; bandwidth_mhz: number; go_polarization?: string; return_polarization?: string } | undefined, pol: string) =>
+      p && { go_mhz: p.go_mhz, return_mhz: p.return_mhz, bandwidth_mhz: p.bandwidth_mhz, go: p.go_polarization ?? pol, ret: p.return_polarization ?? pol };
+    expect(study.links.some((l) => l.frequency_plan)).toBe(true);
+    expect(net.links.map((l) => plan(l.frequency_plan, l.polarization))).toEqual(study.links.map((l) => plan(l.frequency_plan, l.polarization)));
+  });
+
+  it("a row with only part of the frequency plan is an error naming the missing column", () => {
+    expect(() => importNetwork([{ file: "l.csv", text: "id,from_site,to_site,frequency_ghz,tx_power_dbm,rx_threshold_dbm,from_antenna_m,from_gain_dbi,to_antenna_m,to_gain_dbi,go_mhz,return_mhz\nx,A,B,18,20,-70,10,30,10,30,18000,19000\n" }])).toThrow(/bandwidth_mhz/);
+  });
+
   it("reads the exported GeoJSON and KML points back as the same sites", () => {
     for (const [file, text] of [["network.geojson", networkGeoJson(demo)], ["network.kml", networkKml(demo)]]) {
       const net = importNetwork([{ file, text }]);

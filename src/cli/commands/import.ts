@@ -13,12 +13,15 @@ Reads sites and links from the files practitioners exchange and writes a new stu
   sites CSV   id,name,lat_deg,lon_deg[,ground_m][,notes]
   links CSV   id,from_site,to_site,frequency_ghz,tx_power_dbm,rx_threshold_dbm,from_antenna_m,
               from_gain_dbi,to_antenna_m,to_gain_dbi [,radio,radio_name,threshold_ber,polarization,
-              from_feeder_loss_db,to_feeder_loss_db,availability_pct,design_status,design_reason]
+              from_feeder_loss_db,to_feeder_loss_db,availability_pct,design_status,design_reason,
+              go_mhz,return_mhz,bandwidth_mhz,go_polarization,return_polarization]
   GeoJSON     Point features (sites; id and name from the properties)
   KML         Point placemarks (sites; name, and id from ExtendedData when present)
 A build writes sites.csv, links.csv, network.geojson and network.kml beside results.json in
 these formats. Everything else (title, terrain, design, climate, document control) comes from
---like (an existing study.yaml) or from the commented template of \`ridgeline new\`.`;
+--like (an existing study.yaml) or from the commented template of \`ridgeline new\`; with
+--like, radios and links whose ids match keep the keys the files lack (interference
+requirements, modes, diversity, capacity target, antenna patterns, per-end losses …).`;
 
 /** `ridgeline import …`: see IMPORT_USAGE. Exit 0 on success, 2 on bad input (nothing written over). */
 export async function importCommand(argv: string[]): Promise<number> {
@@ -63,7 +66,8 @@ export async function importCommand(argv: string[]): Promise<number> {
  */
 export function studyDocument(base: string, net: ImportedNetwork, o: { likeDir: string | null; newDir: string }): Document {
   const doc = parseDocument(base);
-  const from = net.sources.map((s) => s.split(/[\\/]/).pop()).join(", ");
+  if (o.likeDir) net = withLikeKeys(net, doc.toJS() as Record<string, unknown>, o.likeDir, o.newDir);
+  const from = net.sources.map((s) => s.split(/[\\/]/).pop()).join(", ") + (o.likeDir ? "; keys the files lack from the --like study, where radio and link ids match" : "");
   const put = (key: string, value: unknown, what: string) => {
     doc.set(key, doc.createNode(value));
     const node = doc.get(key, true) as { commentBefore?: string } | undefined;
@@ -84,4 +88,46 @@ export function studyDocument(base: string, net: ImportedNetwork, o: { likeDir: 
   const file = doc.getIn(["terrain", "file"]);
   if (o.likeDir && typeof file === "string" && !isAbsolute(file)) doc.setIn(["terrain", "file"], relative(o.newDir, resolve(o.likeDir, file)) || ".");
   return doc;
+}
+
+type Obj = Record<string, unknown>;
+const isObj = (v: unknown): v is Obj => typeof v === "object" && v !== null && !Array.isArray(v);
+
+/** Link and radio keys the exchange files carry; everything else comes from --like. */
+const LINK_CSV_KEYS = new Set(["id", "from", "to", "radio", "polarization", "availability_pct", "design_status", "design_reason"]);
+const RADIO_CSV_KEYS = new Set(["id", "name", "frequency_ghz", "tx_power_dbm", "rx_threshold_dbm", "threshold_ber"]);
+
+/**
+ * The imported radios and links completed from the --like study where their ids match: a
+ * radio keeps the like study's interference requirements, modes, signature …; a link its
+ * frequency_plan (unless the CSV gave one), diversity, capacity target, dual-polarised flag,
+ * performance target and profile; an end whose site is unchanged its pattern, XPD and
+ * per-end losses. What the files say wins. Relative file paths are rebased to the new folder.
+ */
+function withLikeKeys(net: ImportedNetwork, like: Obj, likeDir: string, newDir: string): ImportedNetwork {
+  const byId = (key: string) => new Map((Array.isArray(like[key]) ? (like[key] as unknown[]) : []).filter(isObj).map((x) => [String(x.id), x]));
+  const likeRadios = byId("radios");
+  const likeLinks = byId("links");
+  const rebase = (f: unknown) => (typeof f === "string" && !isAbsolute(f) ? relative(newDir, resolve(likeDir, f)) : f);
+  const rest = (o: Obj, skip: Set<string>) => Object.fromEntries(Object.entries(o).filter(([k]) => !skip.has(k)));
+  const end = (mine: ImportedNetwork["links"][number]["from"], theirs: unknown) => {
+    if (!isObj(theirs) || theirs.site !== mine.site) return mine;
+    const extra = rest(theirs, new Set(["site", "antenna_m", "gain_dbi", "feeder_loss_db"]));
+    if (isObj(extra.pattern) && "envelope_csv" in extra.pattern) extra.pattern = { ...extra.pattern, envelope_csv: rebase(extra.pattern.envelope_csv) };
+    return { ...extra, ...mine };
+  };
+  return {
+    ...net,
+    radios: net.radios.map((r) => {
+      const l = likeRadios.get(r.id);
+      return l ? { ...rest(l, RADIO_CSV_KEYS), ...r } : r;
+    }),
+    links: net.links.map((k) => {
+      const l = likeLinks.get(k.id);
+      if (!l) return k;
+      const extra = rest(l, LINK_CSV_KEYS);
+      if ("profile_csv" in extra) extra.profile_csv = rebase(extra.profile_csv);
+      return { ...extra, ...k, from: end(k.from, l.from), to: end(k.to, l.to) };
+    }),
+  };
 }

@@ -31,7 +31,9 @@ export async function pathWave(study: Study, result: LinkResult, figure: LinkFig
   const limitMib = o.memoryMib === undefined ? PE_DEFAULT_MEMORY_LIMIT_BYTES / 1048576 : numberArg("wave-memory-mib", o.memoryMib, (x) => x > 0 && x <= 65536, "a memory limit in MiB, above 0 and up to 65536");
   const link = study.links[0];
   const w = linkWave(study, figure.profile, result.ends, result.frequency_ghz, link.polarization, result.diffraction_db_by_method ?? {}, { memory_limit_bytes: limitMib * 1048576 });
-  if (w.wave.status !== "ok") {
+  const excess_db = w.wave.excess_loss_db;
+  const basic_db = w.wave.basic_transmission_loss_db;
+  if (w.wave.status !== "ok" || excess_db === null || basic_db === null) {
     throw new UsageError(`the wave solution was refused: ${w.wave.reason}. Raise the limit with --wave-memory-mib (now ${limitMib}), or shorten the path or lower the frequency.`);
   }
   if (o.field !== undefined && w.figure) {
@@ -46,7 +48,7 @@ export async function pathWave(study: Study, result: LinkResult, figure: LinkFig
       ae_m: w.figure.ae_m,
       k_label: w.wave.k_label,
       top_m: w.figure.field.z0_m + (w.figure.field.rows - 1) * w.figure.field.dz_m,
-      excess_loss_db: w.wave.excess_loss_db,
+      excess_loss_db: excess_db,
       methods: result.diffraction_db_by_method ?? {},
     };
     const layout = waveFieldLayout(input);
@@ -60,5 +62,5 @@ export async function pathWave(study: Study, result: LinkResult, figure: LinkFig
     }
   }
   const warnings = [...result.warnings, ...w.warnings];
-  return { ...result, warnings, wave: w.wave, basic_transmission_loss_db: w.wave.basic_transmission_loss_db, excess_loss_db: w.wave.excess_loss_db };
+  return { ...result, warnings, wave: w.wave, basic_transmission_loss_db: basic_db, excess_loss_db: excess_db };
 }
