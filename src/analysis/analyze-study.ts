@@ -65,6 +65,11 @@ export interface AnalyzeOptions {
    * imports render: the caller above both hands it in.
    */
   coverageOutputs?: () => Promise<CoverageOutputStage>;
+  /**
+   * Compute no link (a queue worker's coverage task: the links are tasks of their own). The
+   * study keeps its links, which the coverage maps draw and their cache keys cover.
+   */
+  skipLinks?: boolean;
 }
 
 /** Coverage maps of a study: the folder their files were written to, and each map's SVG. */
@@ -211,7 +216,7 @@ export async function analyzeStudy(study: Study, options: AnalyzeOptions = {}): 
   const lookups = keys.map((key) => (!key ? undefined : (pack.get(key) ?? (outside <= 8 ? cache!.getBytes("link", key) : cache!.getBytesAsync("link", key)))));
   const packed: [string, Buffer][] = []; // this build's result entries, in study order, for the next build's pack
   const computedFigures = new Map<string, Buffer>(); // figure entries stored by this build, by key
-  for (const [i, link] of study.links.entries()) {
+  for (const [i, link] of (options.skipLinks ? [] : study.links).entries()) {
     const key = keys[i];
     const lookup = lookups[i];
     const bytes = lookup instanceof Promise ? await lookup : lookup; // a pack hit is at hand: no turn of the event loop

@@ -65,12 +65,12 @@ export async function runTask(t: TaskData, study: Study): Promise<Map<string, Bu
       if (keyOf(link, null) !== t.keys[i]) throw new Error(`link ${id}: the cache key computed here differs from the coordinator's`);
       return link;
     });
-    sub = { ...study, links, chains: [], coverage: undefined };
+    sub = { ...study, links, chains: [], coverage: undefined, interference: undefined }; // interference is the coordinator's, over all links
   } else {
     const entry = study.coverage?.find((c) => c.id === t.ids[0]);
     if (!entry) throw new Error(`coverage ${t.ids[0]} is not in study ${study.id}`);
     if (coverageKeyer(study, terrainKey).entry(entry) !== t.keys[0]) throw new Error(`coverage ${entry.id}: the cache key computed here differs from the coordinator's`);
-    sub = { ...study, links: [], chains: [], coverage: [entry] };
+    sub = { ...study, chains: [], coverage: [entry], interference: undefined }; // links kept: the map draws them and its key covers them
   }
   const terrain = await openTerrainOnce(study, terrainKey);
   if (t.kind === "links") {
@@ -92,7 +92,7 @@ export async function runTask(t: TaskData, study: Study): Promise<Map<string, Bu
   const dir = makeTempDir("ridgeline-task-");
   try {
     const cache = new ResultCache(dir);
-    const analysed = await analyzeStudy(sub, { cache, terrain, coverageOutputs: loadCoverageOutputStage });
+    const analysed = await analyzeStudy(sub, { cache, terrain, coverageOutputs: loadCoverageOutputStage, skipLinks: true });
     if (analysed.coverage) removeTempDir(analysed.coverage.dir);
     const out = new Map<string, Buffer>();
     for (const { kind, key } of taskEntries(t)) {

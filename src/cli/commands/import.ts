@@ -1,4 +1,4 @@
-import { existsSync, mkdirSync, readFileSync, renameSync, writeFileSync } from "node:fs";
+import { copyFileSync, existsSync, mkdirSync, readFileSync, renameSync, writeFileSync } from "node:fs";
 import { dirname, isAbsolute, join, relative, resolve } from "node:path";
 import { isMap, isSeq, parseDocument, type Document } from "yaml";
 import { importNetwork, type ImportedNetwork } from "../../study/import-network.ts";
@@ -44,8 +44,16 @@ export async function importCommand(argv: string[]): Promise<number> {
   if (existsSync(target) && !a.flags.has("force")) throw new UsageError(`${target} already exists; give --force to replace it, or another --study id.`);
   const like = a.values.get("like")?.[0];
   const base = like ? readFileSync(like, "utf8") : studyTemplate({ id, date: new Date().toISOString().slice(0, 10) });
-  const doc = studyDocument(base, net, { likeDir: like ? dirname(resolve(like)) : null, newDir: dir });
+  const likeDir = like ? dirname(resolve(like)) : null;
+  const copies = new Set<string>();
+  const doc = studyDocument(base, net, { likeDir, newDir: dir, copies });
   mkdirSync(dir, { recursive: true });
+  // a study reads its inputs from its own folder: the files the --like study names inside its
+  // folder (antenna envelopes, profiles, land cover, service areas) are copied beside the new one
+  for (const rel of copies) {
+    mkdirSync(dirname(join(dir, rel)), { recursive: true });
+    copyFileSync(resolve(likeDir!, rel), join(dir, rel));
+  }
   const tmp = `${target}.importing`;
   writeFileSync(tmp, doc.toString({ lineWidth: 0 }));
   try {
@@ -64,9 +72,10 @@ export async function importCommand(argv: string[]): Promise<number> {
  * imported ones; chains and coverage entries that name a missing link or site are dropped, and
  * a relative terrain file is made relative to the new study's folder.
  */
-export function studyDocument(base: string, net: ImportedNetwork, o: { likeDir: string | null; newDir: string }): Document {
+export function studyDocument(base: string, net: ImportedNetwork, o: { likeDir: string | null; newDir: string; copies?: Set<string> }): Document {
   const doc = parseDocument(base);
-  if (o.likeDir) net = withLikeKeys(net, doc.toJS() as Record<string, unknown>, o.likeDir, o.newDir);
+  const copies = o.copies ?? new Set<string>();
+  if (o.likeDir) net = withLikeKeys(net, doc.toJS() as Record<string, unknown>, o.likeDir, o.newDir, copies);
   const from = net.sources.map((s) => s.split(/[\\/]/).pop()).join(", ") + (o.likeDir ? "; keys the files lack from the --like study, where radio and link ids match" : "");
   const put = (key: string, value: unknown, what: string) => {
     doc.set(key, doc.createNode(value));
@@ -85,12 +94,41 @@ export function studyDocument(base: string, net: ImportedNetwork, o: { likeDir: 
   };
   keep("chains", (c) => Array.isArray(c.links) && c.links.every((l) => linkIds.has(String(l))));
   keep("coverage", (c) => siteIds.has(String(c.site)));
+  if (o.likeDir) {
+    const likeDir = o.likeDir;
+    const coverage = doc.get("coverage", true);
+    if (isSeq(coverage))
+      coverage.items.forEach((_it, i) => {
+        for (const path of [["coverage", i, "p1812", "land_cover", "file"], ["coverage", i, "service_area"]]) {
+          const f = doc.getIn(path);
+          if (typeof f !== "string") continue;
+          const moved = keepOrRebase(f, likeDir, o.newDir, copies);
+          if (moved !== f) doc.setIn(path, moved);
+        }
+      });
+  }
   const file = doc.getIn(["terrain", "file"]);
   if (o.likeDir && typeof file === "string" && !isAbsolute(file)) doc.setIn(["terrain", "file"], relative(o.newDir, resolve(o.likeDir, file)) || ".");
   return doc;
 }
 
 type Obj = Record<string, unknown>;
+
+/**
+ * A relative input path of the --like study: kept as written, and recorded in `copies`, when it
+ * lies inside that study's folder (the command copies it beside the new study, where the loader
+ * looks for inputs); otherwise made relative to the new folder (the loader then says whether it
+ * may be read from there).
+ */
+function keepOrRebase(f: string, likeDir: string, newDir: string, copies: Set<string>): string {
+  if (isAbsolute(f)) return f;
+  const rel = relative(likeDir, resolve(likeDir, f));
+  if (rel && !rel.startsWith("..") && !isAbsolute(rel)) {
+    copies.add(rel);
+    return f;
+  }
+  return relative(newDir, resolve(likeDir, f));
+}
 const isObj = (v: unknown): v is Obj => typeof v === "object" && v !== null && !Array.isArray(v);
 
 /** Link and radio keys the exchange files carry; everything else comes from --like. */
@@ -102,13 +140,14 @@ const RADIO_CSV_KEYS = new Set(["id", "name", "frequency_ghz", "tx_power_dbm", "
  * radio keeps the like study's interference requirements, modes, signature …; a link its
  * frequency_plan (unless the CSV gave one), diversity, capacity target, dual-polarised flag,
  * performance target and profile; an end whose site is unchanged its pattern, XPD and
- * per-end losses. What the files say wins. Relative file paths are rebased to the new folder.
+ * per-end losses. What the files say wins. Files inside the --like study's folder are copied
+ * beside the new study (keepOrRebase); others are named relative to the new folder.
  */
-function withLikeKeys(net: ImportedNetwork, like: Obj, likeDir: string, newDir: string): ImportedNetwork {
+function withLikeKeys(net: ImportedNetwork, like: Obj, likeDir: string, newDir: string, copies: Set<string>): ImportedNetwork {
   const byId = (key: string) => new Map((Array.isArray(like[key]) ? (like[key] as unknown[]) : []).filter(isObj).map((x) => [String(x.id), x]));
   const likeRadios = byId("radios");
   const likeLinks = byId("links");
-  const rebase = (f: unknown) => (typeof f === "string" && !isAbsolute(f) ? relative(newDir, resolve(likeDir, f)) : f);
+  const rebase = (f: unknown) => (typeof f === "string" ? keepOrRebase(f, likeDir, newDir, copies) : f);
   const rest = (o: Obj, skip: Set<string>) => Object.fromEntries(Object.entries(o).filter(([k]) => !skip.has(k)));
   const end = (mine: ImportedNetwork["links"][number]["from"], theirs: unknown) => {
     if (!isObj(theirs) || theirs.site !== mine.site) return mine;
