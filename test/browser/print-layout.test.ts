@@ -81,7 +81,8 @@ describe("pagination rules", () => {
     for (const [i, t] of pages.entries()) {
       const body = t.split("\n").filter((l) => l.trim()).length;
       if (/Scope of this study/.test(t)) expect(body, `page ${i + 1}`).toBeGreaterThan(10);
-      if (/Antennas at the two ends/.test(t)) expect(t, `page ${i + 1}`).toMatch(/Height gain|Reflection|obstructed|Specular/);
+      // the Terminals table now opens each link, beside its summary (it was left alone on a link's last page)
+      if (/Antennas at the two ends/.test(t)) expect(body, `page ${i + 1}`).toBeGreaterThan(10);
     }
   });
 
