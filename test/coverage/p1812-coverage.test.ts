@@ -1,7 +1,7 @@
-import { mkdtempSync } from "node:fs";
+import { mkdtempSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
-import { describe, expect, it } from "vitest";
+import { afterAll, describe, expect, it } from "vitest";
 import { computeCoverage } from "../../src/coverage/compute-coverage.ts";
 import { PROBABILITY_NODATA } from "../../src/coverage/coverage-job.ts";
 import { servedSites } from "../../src/coverage/served-sites.ts";
@@ -15,6 +15,7 @@ import { expectClose } from "../helpers/expect-close.ts";
 // within 0.1 dB. servedSites evaluates p1812Loss on the radial profile the sweep used for a
 // cell (cell-profile.ts); the raster holds the incremental evaluation.
 const dir = mkdtempSync(join(tmpdir(), "ridgeline-p1812-cov-"));
+afterAll(() => rmSync(dir, { recursive: true, force: true }));
 const N = 240;
 const CELL = 50;
 const terrainFn = roughTerrain(12);

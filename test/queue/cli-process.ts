@@ -18,8 +18,8 @@ export interface CliProcess {
 }
 
 /** Start `node <bin> …args` (default: this checkout's bin) from the project root. */
-export function startCli(args: string[], bin = BIN, cwd = PROJECT_ROOT): CliProcess {
-  const proc = spawn(process.execPath, [bin, ...args], { cwd, env: { ...process.env, FORCE_COLOR: "0" }, stdio: ["ignore", "pipe", "pipe"] });
+export function startCli(args: string[], bin = BIN, cwd = PROJECT_ROOT, env: NodeJS.ProcessEnv = {}): CliProcess {
+  const proc = spawn(process.execPath, [bin, ...args], { cwd, env: { ...process.env, FORCE_COLOR: "0", ...env }, stdio: ["ignore", "pipe", "pipe"] });
   let out = "";
   const watchers: { re: RegExp; done: () => void }[] = [];
   const onData = (d: Buffer) => {

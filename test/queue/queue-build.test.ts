@@ -17,7 +17,8 @@ let localSite: Map<string, Buffer>;
 const workers: CliProcess[] = [];
 
 const worker = (name: string, extra: string[] = [], bin?: string): CliProcess => {
-  const w = startCli(["worker", "--queue", redis.url, "--name", name, ...extra], bin);
+  // a worker's temporary folders inside the test's own: one killed with -9 cannot remove its own
+  const w = startCli(["worker", "--queue", redis.url, "--name", name, ...extra], bin, undefined, { TMPDIR: join(tmp, "worker-tmp") });
   workers.push(w);
   return w;
 };
@@ -32,6 +33,7 @@ function siteDifferences(a: Map<string, Buffer>, b: Map<string, Buffer>): string
 beforeAll(async () => {
   redis = await startRedis();
   tmp = mkdtempSync(join(tmpdir(), "ridgeline-queue-test-"));
+  mkdirSync(join(tmp, "worker-tmp"));
   studies = join(tmp, "studies");
   writeQueueStudy(studies);
   const local = runCli(["build", "--studies-dir", studies, "--out", join(tmp, "site-local"), "--no-cache"]);
