@@ -6,8 +6,18 @@ import type { StudyInput } from "./schema.ts";
 import type { YamlSource } from "./yaml-source.ts";
 
 /**
+ * How far a frequency-plan channel centre may lie from the radio's carrier (fraction): the go
+ * and return channels of one band sit within a few per cent of its centre (common practice:
+ * duplex spacings are a few per cent of the carrier); 20 % leaves room for a nominal carrier
+ * at one edge of a wide band and still catches MHz typed for GHz or a channel of another band.
+ */
+export const CHANNEL_CARRIER_TOLERANCE = 0.2;
+
+const fmtMhz = (mhz: number) => String(Number(mhz.toPrecision(4)));
+
+/**
  * Checks of the frequency plan and interference inputs that the schema cannot express:
- * overlapping go and return channels on one link; with an `interference` section, a
+ * overlapping go and return channels on one link; channels far from the radio's carrier; with an `interference` section, a
  * frequency_plan on every link and a protection requirement on every radio a link uses; one
  * way of giving adjacent-channel protection; references of external transmitters; envelope
  * CSV files that exist and span 0–180°: regular files inside the study folder (or `roots`),
@@ -23,6 +33,18 @@ export function interferenceProblems(src: YamlSource, s: StudyInput, dir: string
       const gap = Math.abs(fp.go_mhz - fp.return_mhz);
       if (gap < fp.bandwidth_mhz) {
         add(["links", i, "frequency_plan", "return_mhz"], fp.return_mhz, `a return channel that does not overlap the go channel (${fp.go_mhz} MHz, ${fp.bandwidth_mhz} MHz wide): centres at least ${fp.bandwidth_mhz} MHz apart (they are ${gap} MHz apart)`);
+      }
+      // The link's losses (gases, rain, diffraction) are computed at the radio's carrier; a
+      // channel far from it is a typing slip in one of the two (MHz for GHz, another band).
+      const carrierMhz = s.radios.find((r) => r.id === l.radio)?.frequency_ghz;
+      if (carrierMhz !== undefined) {
+        for (const key of ["go_mhz", "return_mhz"] as const) {
+          const f = fp[key];
+          const carrier = carrierMhz * 1000;
+          if (Math.abs(f - carrier) > CHANNEL_CARRIER_TOLERANCE * carrier) {
+            add(["links", i, "frequency_plan", key], f, `a channel centre within ${CHANNEL_CARRIER_TOLERANCE * 100} % of radio ${l.radio}'s carrier (frequency_ghz ${carrierMhz} GHz, so ${fmtMhz(carrier * (1 - CHANNEL_CARRIER_TOLERANCE))}–${fmtMhz(carrier * (1 + CHANNEL_CARRIER_TOLERANCE))} MHz): the link's losses are computed at the radio's frequency, so correct the channel or give the link a radio of its band`);
+          }
+        }
       }
     } else if (asked) {
       add(["links", i], `link ${l.id} without frequency_plan`, "a frequency_plan {go_mhz, return_mhz, bandwidth_mhz}: the interference analysis needs every link's channels");

@@ -55,6 +55,16 @@ function modes(r: Rng, threshold: number): FeatureDoc[] {
 }
 
 /** Adds the link-performance and interference fields to a valid study (kept valid). */
+/**
+ * A go/return channel pair for link `i` in the band of a carrier of `fMhz`: channels a few
+ * per cent from the carrier (the loader refuses one more than 20 % away), go and return apart
+ * by at least the bandwidth.
+ */
+function bandPlan(fMhz: number, i: number, bw: number): FeatureDoc {
+  const go = fMhz + (i % 5) * Math.min(bw, 0.01 * fMhz);
+  return { go_mhz: go, return_mhz: go + Math.max(bw, 0.06 * fMhz), bandwidth_mhz: bw };
+}
+
 export function addFeatures(d: FeatureDraft, r: Rng): void {
   const doc = d.doc;
   const radios = doc.radios as FeatureDoc[];
@@ -92,7 +102,7 @@ export function addFeatures(d: FeatureDraft, r: Rng): void {
     }
     if (r() < 0.2) l.performance_pct = 99.995;
     const bw = pick(r, [7, 14, 28, 56]);
-    l.frequency_plan = { go_mhz: fMhz + i * bw, return_mhz: fMhz + 500 + i * bw, bandwidth_mhz: bw, ...(r() < 0.3 ? { go_polarization: pick(r, ["h", "v"]) } : {}) };
+    l.frequency_plan = { ...bandPlan(fMhz, i, bw), ...(r() < 0.3 ? { go_polarization: pick(r, ["h", "v"]) } : {}) };
   });
   if (r() < 0.6) {
     radio.interference = {
@@ -213,7 +223,8 @@ export const FEATURE_MUTATIONS: Record<string, (d: FeatureDraft, r: Rng) => void
       // ask for interference so the envelope is used, not only checked
       const radios = d.doc.radios as FeatureDoc[];
       for (const rd of radios) rd.interference = { co_channel_ci_db: 30, noise_figure_db: 5 };
-      links.forEach((l, i) => (l.frequency_plan ??= { go_mhz: 6000 + 30 * i, return_mhz: 6500 + 30 * i, bandwidth_mhz: 28 }));
+      const carrierMhz = (l: FeatureDoc) => ((radios.find((rd) => rd.id === l.radio)?.frequency_ghz as number) || 6) * 1000;
+      links.forEach((l, i) => (l.frequency_plan ??= bandPlan(carrierMhz(l), i, 28)));
       d.doc.interference = {};
     }
   },
@@ -244,19 +255,19 @@ export const FEATURE_MUTATIONS: Record<string, (d: FeatureDraft, r: Rng) => void
     const kind = pick(r, ["overlap", "far-from-radio", "tiny-bandwidth", "huge-bandwidth", "same-channel-all", "missing-with-interference", "radio-without-protection", "both-adjacent-and-nfd", "offsets-not-rising"]);
     const radio = (d.doc.radios as FeatureDoc[])[0];
     const fMhz = (radio.frequency_ghz as number) * 1000 || 6000;
-    const plan = () => (links[0].frequency_plan ??= { go_mhz: fMhz, return_mhz: fMhz + 500, bandwidth_mhz: 28 }) as FeatureDoc;
+    const plan = () => (links[0].frequency_plan ??= bandPlan(fMhz, 0, 28)) as FeatureDoc;
     if (kind === "overlap") Object.assign(plan(), { return_mhz: (plan().go_mhz as number) + 1 });
     if (kind === "far-from-radio") Object.assign(plan(), { go_mhz: pick(r, [1e-6, 1, 1e6]), return_mhz: pick(r, [2, 999_999]) });
     if (kind === "tiny-bandwidth") Object.assign(plan(), { bandwidth_mhz: pick(r, [1e-12, 5e-324, 1e-6]) });
     if (kind === "huge-bandwidth") Object.assign(plan(), { bandwidth_mhz: 10_000, go_mhz: fMhz, return_mhz: fMhz + 20_000 });
-    if (kind === "same-channel-all") links.forEach((l) => (l.frequency_plan = { go_mhz: fMhz, return_mhz: fMhz + 500, bandwidth_mhz: 28 }));
+    if (kind === "same-channel-all") links.forEach((l) => (l.frequency_plan = bandPlan(fMhz, 0, 28)));
     if (kind === "missing-with-interference") {
       d.doc.interference ??= {};
       delete links[0].frequency_plan;
     }
     if (kind === "radio-without-protection") {
       d.doc.interference ??= {};
-      links.forEach((l, i) => (l.frequency_plan ??= { go_mhz: fMhz + 30 * i, return_mhz: fMhz + 500 + 30 * i, bandwidth_mhz: 28 }));
+      links.forEach((l, i) => (l.frequency_plan ??= bandPlan(fMhz, i, 28)));
       delete radio.interference;
     }
     if (kind === "both-adjacent-and-nfd") radio.interference = { co_channel_ci_db: 30, noise_figure_db: 5, adjacent_ci_db: [{ offset_mhz: 28, ci_db: 0 }], nfd_db: [{ offset_mhz: 28, nfd_db: 30 }] };
@@ -268,7 +279,7 @@ export const FEATURE_MUTATIONS: Record<string, (d: FeatureDraft, r: Rng) => void
     const sites = d.doc.sites as FeatureDoc[];
     const fMhz = (radio.frequency_ghz as number) * 1000 || 6000;
     radio.interference ??= { co_channel_ci_db: 30, noise_figure_db: 5 };
-    links.forEach((l, i) => (l.frequency_plan ??= { go_mhz: fMhz + 30 * i, return_mhz: fMhz + 500 + 30 * i, bandwidth_mhz: 28 }));
+    links.forEach((l, i) => (l.frequency_plan ??= bandPlan(fMhz, i, 28)));
     const base: FeatureDoc = { id: "ext", site: sites[0].id, antenna_m: 30, gain_dbi: 35, toward_site: sites[1]?.id, frequency_mhz: fMhz, bandwidth_mhz: 28, polarization: "v", tx_power_dbm: 30 };
     const kind = pick(r, ["missing-site", "toward-self", "no-pointing", "hostile-id", "long-id", "duplicate-id", "co-sited", "far-site", "many", "zenith", "extreme-power", "toward-missing", "both-pointings"]);
     const ext: FeatureDoc[] = [base];

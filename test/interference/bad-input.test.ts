@@ -33,6 +33,13 @@ const cases: { name: string; yaml: string; extra?: Record<string, string>; expec
     line: 22,
   },
   {
+    // the 6 GHz radio r1 with a channel typed in another band: losses would be computed at 6 GHz
+    name: "a go channel far from the carrier",
+    yaml: study({ plan: "{ go_mhz: 18175, return_mhz: 6427, bandwidth_mhz: 28 }", asked: false }),
+    expect: ["links[0].frequency_plan.go_mhz", "18175", "within 20 % of radio r1's carrier", "4800–7200 MHz"],
+    line: 22,
+  },
+  {
     name: "an envelope CSV that does not span 0–180°",
     yaml: study({ pattern: "{ envelope_csv: short.csv }" }),
     extra: { "short.csv": `${HEADER}\n0,0,30,0,30\n10,20,40,20,40\n90,50,60,50,60\n` },

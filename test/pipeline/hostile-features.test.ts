@@ -50,7 +50,7 @@ const WITH_ENVELOPE = sub("from: { site: A, antenna_m: 30, gain_dbi: 34, feeder_
 const interferenceStudy = (frequencyGhz: number, goMhz: number, pattern: string) =>
   sub(
     "    radio: r1\n",
-    `    radio: r1\n    frequency_plan: { go_mhz: ${goMhz}, return_mhz: ${goMhz + 500}, bandwidth_mhz: 28 }\n  - id: a-c\n    from: { site: A, antenna_m: 30, gain_dbi: 34, pattern: ${pattern} }\n    to: { site: C, antenna_m: 30, gain_dbi: 34, pattern: ${pattern} }\n    radio: r1\n    frequency_plan: { go_mhz: ${goMhz}, return_mhz: ${goMhz + 500}, bandwidth_mhz: 28 }\ninterference: {}\n`,
+    `    radio: r1\n    frequency_plan: { go_mhz: ${goMhz}, return_mhz: ${goMhz + Math.max(56, 0.08 * goMhz)}, bandwidth_mhz: 28 }\n  - id: a-c\n    from: { site: A, antenna_m: 30, gain_dbi: 34, pattern: ${pattern} }\n    to: { site: C, antenna_m: 30, gain_dbi: 34, pattern: ${pattern} }\n    radio: r1\n    frequency_plan: { go_mhz: ${goMhz}, return_mhz: ${goMhz + Math.max(56, 0.08 * goMhz)}, bandwidth_mhz: 28 }\ninterference: {}\n`,
     sub(
       "links:\n",
       "  - id: C\n    name: Charlie\n    lat_deg: -33.4000\n    lon_deg: -70.6000\nlinks:\n",
