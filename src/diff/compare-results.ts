@@ -5,6 +5,7 @@ import type { DiffThresholds, LinkResultDiff, ResultChange, ResultQuantity } fro
 const LABELS: Record<ResultQuantity, [name: string, unit: string, digits: number]> = {
   fade_margin_db: ["fade margin", "dB", 2],
   availability_pct: ["availability", "%", 5],
+  performance_pct: ["performance (worst month)", "%", 5],
   min_clearance_f1: ["least clearance", "F1", 3],
   clearance_met: ["clearance", "", 0],
   target_met: ["targets", "", 0],
@@ -33,6 +34,8 @@ function compareLink(b: LinkResult | null, a: LinkResult | null, t: DiffThreshol
     compareValue("target_met", null, b?.target_met, a?.target_met, 0),
     compareValue("fade_margin_db", null, b?.fade_margin_db, a?.fade_margin_db, t.fade_margin_db),
     compareValue("availability_pct", null, b?.availability_pct, a?.availability_pct, t.availability_pct),
+    // the performance objective (short fades, worst month) has its own target beside availability
+    compareValue("performance_pct", null, b?.performance_pct, a?.performance_pct, t.availability_pct),
     compareValue("clearance_met", null, b?.clearance_met, a?.clearance_met, 0),
   ];
   const ks = [...new Set([...(a?.clearance ?? []), ...(b?.clearance ?? [])].map((c) => c.k_label))];
@@ -45,7 +48,8 @@ function compareLink(b: LinkResult | null, a: LinkResult | null, t: DiffThreshol
 }
 
 /**
- * Result changes per link between two revisions of a study: fade margin, availability and the
+ * Result changes per link between two revisions of a study: fade margin, availability (year),
+ * performance (worst month) and the
  * least clearance at each k when they moved by more than the thresholds, and every flip of the
  * clearance or target verdict. Added and removed links are listed with their values. Links
  * whose results did not move beyond the thresholds are left out.

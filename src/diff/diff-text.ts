@@ -3,9 +3,9 @@ import type { StudiesDiff } from "./study-diff.ts";
 
 const plural = (n: number, one: string, many = `${one}s`) => `${n} ${n === 1 ? one : many}`;
 
-/** The thresholds as a sentence: "fade margin 0.5 dB, availability 0.001 %, clearance 0.05 F1". */
+/** The thresholds as a sentence: "fade margin 0.5 dB, availability and performance 0.001 %, clearance 0.05 F1". */
 export function thresholdsText(t: StudiesDiff["thresholds"]): string {
-  return `fade margin ${showNumber(t.fade_margin_db)} dB, availability ${showNumber(t.availability_pct)} %, least clearance ${showNumber(t.clearance_f1)} F1`;
+  return `fade margin ${showNumber(t.fade_margin_db)} dB, availability and performance ${showNumber(t.availability_pct)} %, least clearance ${showNumber(t.clearance_f1)} F1`;
 }
 
 /** The terminal summary of a diff: per study its input changes, then the links whose results moved. */

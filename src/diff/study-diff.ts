@@ -28,7 +28,7 @@ export interface InputChange {
 }
 
 /** Result quantities compared per link. */
-export type ResultQuantity = "fade_margin_db" | "availability_pct" | "min_clearance_f1" | "clearance_met" | "target_met";
+export type ResultQuantity = "fade_margin_db" | "availability_pct" | "performance_pct" | "min_clearance_f1" | "clearance_met" | "target_met";
 
 /** One result of a link that moved beyond its threshold (or changed verdict). */
 export interface ResultChange {
@@ -63,7 +63,7 @@ export interface StudyDiff {
 export interface DiffThresholds {
   /** fade margin (dB) */
   fade_margin_db: number;
-  /** availability (percentage points) */
+  /** availability (year) and performance (worst month), percentage points */
   availability_pct: number;
   /** least clearance at each k (fraction of F1) */
   clearance_f1: number;

@@ -73,6 +73,9 @@ describe("ridgeline diff between two commits", () => {
     expect(change("fade_margin_db").before).toBe(b.fade_margin_db);
     expect(change("fade_margin_db").after).toBe(a.fade_margin_db);
     expectClose(change("availability_pct").delta!, a.availability_pct! - b.availability_pct!, { abs: 1e-9 }, "availability delta (%)");
+    // the performance objective (worst month) is compared beside availability (year)
+    expect(Math.abs(a.performance_pct! - b.performance_pct!)).toBeGreaterThan(d.thresholds.availability_pct);
+    expectClose(change("performance_pct").delta!, a.performance_pct! - b.performance_pct!, { abs: 1e-9 }, "performance delta (%)");
     for (const k of ["4/3", "2/3"]) {
       const cb = b.clearance.find((c) => c.k_label === k)!;
       const ca = a.clearance.find((c) => c.k_label === k)!;
@@ -97,6 +100,7 @@ describe("ridgeline diff between two commits", () => {
     expect(html).toContain("from.antenna_m");
     expect(html).toContain('href="../studies/ridge/links/a-b/index.html"');
     expect(html).not.toMatch(/<script|https?:\/\//);
+    expect(html).toContain("Performance, worst month (%)");
   });
 
   it("exits 2 with a clear message for an unknown revision", () => {

@@ -19,7 +19,7 @@ export const DIFF_USAGE = `Usage: ridgeline diff <rev> [<rev>] [--studies-dir DI
          [--fade-margin-db X] [--availability-pct X] [--clearance-f1 X] [--cache-dir DIR] [--no-cache]
 Compares the studies at two git revisions (the second defaults to the working tree).
 Result changes are shown when they exceed the thresholds (defaults: fade margin ${DEFAULT_THRESHOLDS.fade_margin_db} dB,
-availability ${DEFAULT_THRESHOLDS.availability_pct} percentage points, least clearance ${DEFAULT_THRESHOLDS.clearance_f1} F1); verdict changes always.
+availability (year) and performance (worst month) ${DEFAULT_THRESHOLDS.availability_pct} percentage points, least clearance ${DEFAULT_THRESHOLDS.clearance_f1} F1); verdict changes always.
 Writes the changes page to <out>/changes/index.html (default out: _site).`;
 
 export interface DiffOptions {

@@ -66,11 +66,11 @@ function resultsTable(s: StudyDiff, linkHref: (id: string) => string | null): st
     const q = (quantity: ResultChange["quantity"], k: string | null = null) => r.changes.find((c) => c.quantity === quantity && c.k_label === k);
     const href = linkHref(r.link);
     const name = href ? `<a href="${esc(href)}">${esc(r.link)}</a>` : esc(r.link);
-    return `<tr><th scope="row">${name}${r.status === "changed" ? "" : ` (${r.status})`}</th>${resultCell(q("target_met"), 0)}${resultCell(q("fade_margin_db"), 2)}${resultCell(q("availability_pct"), 5)}${resultCell(q("clearance_met"), 0)}${ks.map((k) => resultCell(q("min_clearance_f1", k), 3)).join("")}</tr>`;
+    return `<tr><th scope="row">${name}${r.status === "changed" ? "" : ` (${r.status})`}</th>${resultCell(q("target_met"), 0)}${resultCell(q("fade_margin_db"), 2)}${resultCell(q("performance_pct"), 5)}${resultCell(q("availability_pct"), 5)}${resultCell(q("clearance_met"), 0)}${ks.map((k) => resultCell(q("min_clearance_f1", k), 3)).join("")}</tr>`;
   };
   return `<table class="data">
 <caption>Links of ${esc(s.id)} whose results moved (· = within the threshold)</caption>
-<thead><tr><th scope="col">Link</th><th scope="col">Targets</th><th scope="col">Fade margin (dB)</th><th scope="col">Availability (%)</th><th scope="col">Clearance</th>${ks.map((k) => `<th scope="col">Least clearance at k = ${esc(k)} (F1)</th>`).join("")}</tr></thead>
+<thead><tr><th scope="col">Link</th><th scope="col">Targets</th><th scope="col">Fade margin (dB)</th><th scope="col">Performance, worst month (%)</th><th scope="col">Availability, year (%)</th><th scope="col">Clearance</th>${ks.map((k) => `<th scope="col">Least clearance at k = ${esc(k)} (F1)</th>`).join("")}</tr></thead>
 <tbody>
 ${s.results.map(row).join("\n")}
 </tbody>
