@@ -27,7 +27,7 @@ export const frequencyPlan = z
 /** A radio's protection requirement as a receiver. */
 export const receiverProtection = z
   .object({
-    co_channel_ci_db: z.number().min(-20).max(100).describe("C/I the receiver needs co-channel, at its threshold, for the allowed threshold degradation (dB)"),
+    co_channel_ci_db: z.number().min(-20).max(100).describe("C/I the receiver needs co-channel, at its threshold, for the allowed threshold degradation (dB); not the C0/I of the XPD outage (radios[].co_channel_ci_db), which gives the threshold bit-error ratio by itself"),
     adjacent_ci_db: z
       .array(z.object({ offset_mhz: z.number().positive(), ci_db: z.number().min(-100).max(100) }).strict())
       .optional()

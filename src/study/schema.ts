@@ -344,7 +344,7 @@ export const studySchema = z
               .describe("adaptive modulation: the radio's modes, most robust first; rx_threshold_dbm above is then the lowest mode's"),
             xpd_db: z.number().min(0).max(60).optional().describe("antennas' guaranteed minimum cross-polar discrimination XPD_g at boresight (dB), for co-channel dual-polarised links"),
             xpif_db: z.number().min(0).max(40).optional().describe("cross-polar improvement factor of the canceller (XPIC); default 0, without one (dB)"),
-            co_channel_ci_db: z.number().min(0).max(60).optional().describe("carrier-to-interference ratio C0/I at the threshold bit-error ratio (dB)"),
+            co_channel_ci_db: z.number().min(0).max(60).optional().describe("C0/I of ITU-R P.530 §4: the C/I at which co-channel interference alone gives the threshold bit-error ratio, for the XPD outage (dB); not the C/I for a threshold degradation, which is interference.co_channel_ci_db (typically about 6 dB higher for 1 dB)"),
             atpc_range_db: z.number().min(0).max(60).optional().describe("automatic transmit power control range (dB); informational"),
             interference: receiverProtection.optional(),
           })
