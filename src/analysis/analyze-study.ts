@@ -9,7 +9,7 @@ import { memoGeodesicPath } from "../cache/memo-geodesic.ts";
 import { MemoTerrain, TerrainQueryMiss } from "../cache/memo-terrain.ts";
 import type { CoverageOutputStage } from "../coverage/coverage-output-stage.ts";
 import type { ResultCache } from "../cache/result-cache.ts";
-import { studyTerrainExtent, studyTerrainKey, terrainSourceKey } from "../cache/terrain-source-key.ts";
+import { studyTerrainExtent, studyTerrainKey, studyTerrainTiles, terrainSourceKey } from "../cache/terrain-source-key.ts";
 import type { LatLonBox } from "../cache/terrain-extent.ts";
 import { InternalError, RidgelineError } from "../errors.ts";
 import { InputError, type InputProblem } from "../study/input-error.ts";
@@ -141,6 +141,12 @@ export function checkSitesOnTerrain(study: Study, terrain: Terrain): void {
     if (why) problems.push({ file: study.file, ...study.locate(["sites", i, "lat_deg"]), field: `sites[${i}] (${s.id})`, received: `${s.lat_deg}, ${s.lon_deg}`, expected: `a position on the study's terrain: ${why}` });
   });
   if (problems.length) throw new InputError(problems);
+}
+
+/** `{ tiles_used }` for a terrain folder of HGT tiles (the tiles the study's key covers), else nothing. */
+function tilesUsed(study: Study): { tiles_used?: string[] } {
+  const tiles = studyTerrainTiles(study);
+  return tiles ? { tiles_used: tiles } : {};
 }
 
 const sha256 = (b: Buffer | string): string => createHash("sha256").update(b).digest("hex");
@@ -330,7 +336,7 @@ export async function analyzeStudy(study: Study, options: AnalyzeOptions = {}): 
     date: study.meta.date,
     ...(study.meta.summary ? { summary: study.meta.summary } : {}),
     ...(study.document ? { document: study.document } : {}),
-    terrain: { description: facts.description, synthetic: facts.synthetic },
+    terrain: { description: facts.description, synthetic: facts.synthetic, ...tilesUsed(study) },
     assumptions: {
       k_factors: study.design.k_factors.map((k) => k.label),
       clearance_criteria: study.design.clearance_criteria.map((c) => ({ k: c.k.label, min_f1: c.min_f1 })),

@@ -62,3 +62,24 @@ export function studyTerrainExtent(study: Pick<Study, "sites" | "coverage">): La
 export function studyTerrainKey(study: Pick<Study, "terrain" | "dir" | "sites" | "coverage">, cache: ResultCache | null = null): string | null {
   return terrainSourceKey(study.terrain, study.dir, cache, studyTerrainExtent(study));
 }
+
+/**
+ * The HGT tiles of a terrain folder that the study's key covers by their bytes (the tiles its
+ * extent meets that the folder holds), by name; null when the terrain is not a folder.
+ */
+export function studyTerrainTiles(study: Pick<Study, "terrain" | "dir" | "sites" | "coverage">): string[] | null {
+  if (!("file" in study.terrain)) return null;
+  const path = isAbsolute(study.terrain.file) ? study.terrain.file : resolve(study.dir, study.terrain.file);
+  try {
+    if (!statSync(path).isDirectory()) return null;
+    const touched = tilesInExtent(studyTerrainExtent(study));
+    return readdirSync(path)
+      .sort()
+      .filter((name) => {
+        const c = parseHgtTileName(name);
+        return c !== null && touched.has(`${c.lat_deg},${c.lon_deg}`);
+      });
+  } catch {
+    return null;
+  }
+}

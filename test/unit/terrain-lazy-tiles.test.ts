@@ -58,6 +58,8 @@ describe("a folder of 100 HGT tiles, a 200-link study between 2 of them", () => 
       const [s] = await analyzeStudies(loadStudies([studyFile]), { cache });
       expect(s.result.links).toHaveLength(200);
       expect(tileNames(reads)).toEqual(["N46E007.hgt", "N46E008.hgt"]);
+      // results.json names the tiles its inputs hash covers
+      expect(s.result.terrain.tiles_used).toEqual(["N46E007.hgt", "N46E008.hgt"]);
     }
   });
 
