@@ -161,7 +161,7 @@ export async function benchQueue(): Promise<Record<string, unknown>> {
   }
 }
 
-/** A study touching 2 of 100 one-degree 3″ HGT tiles: tiles read for the computation, and for the cache key. */
+/** A study touching 2 of 100 one-degree 3″ HGT tiles: tiles read (by the cache key and the computation), and with the site rendered. */
 export async function benchLazyTiles(): Promise<Record<string, unknown>> {
   const dir = mkdtempSync(join(tmpdir(), "ridgeline-bench-tiles-"));
   try {
@@ -189,19 +189,22 @@ export async function benchLazyTiles(): Promise<Record<string, unknown>> {
     try {
       const noCache = await measure(null);
       const coldCache = await measure(new ResultCache(join(dir, "cache")));
-      // Keep only the remembered file digests: the computation's own tile reads, without the key's.
-      for (const kind of fs.readdirSync(join(dir, "cache"))) if (kind !== "file-digest") rmSync(join(dir, "cache", kind), { recursive: true, force: true });
-      const digestsKnown = await measure(new ResultCache(join(dir, "cache")));
+      // The site: the overview and live maps shade the relief of their whole frame, which
+      // reaches beyond the sites (and so into more tiles than the links); no cache.
+      reads.clear();
+      const analysed = await analyzeStudies(loadStudies([join(study, "study.yaml")]), { cache: null, coverageOutputs: loadCoverageOutputStage });
+      const afterAnalysis = reads.size;
+      await buildSite(analysed, { outDir: join(dir, "site") });
       return {
         tiles_in_folder: 100,
         tile: "3″ (1201 × 1201), one degree",
         links_between_tiles: "N46E007, N46E008",
-        /** the terrain's content key (in every link and coverage key and the provenance) reads every tile of the folder */
+        /** the terrain's content key (in every link and coverage key and the provenance) hashes only the tiles the study's extent meets; the computation reads the same */
         no_cache: noCache,
-        /** the same with a cache: the key's tile digests are then remembered by file identity */
+        /** the same with an empty cache */
         cold_cache: coldCache,
-        /** digests remembered, results not: the tiles the computation itself reads (links, ground under sites; the overview map, drawn when the site is rendered, is not part of this) */
-        digests_remembered: digestsKnown,
+        /** analysis and then the site (no cache): tiles read in all, the maps' relief included */
+        with_site: { tiles_read_analysis: afterAnalysis, tiles_read_in_all: reads.size, tiles: [...reads.keys()].map((p) => p.slice(p.lastIndexOf("/") + 1)).sort() },
       };
     } finally {
       fsModule.readFileSync = original;

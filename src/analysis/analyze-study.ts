@@ -9,7 +9,8 @@ import { memoGeodesicPath } from "../cache/memo-geodesic.ts";
 import { MemoTerrain, TerrainQueryMiss } from "../cache/memo-terrain.ts";
 import type { CoverageOutputStage } from "../coverage/coverage-output-stage.ts";
 import type { ResultCache } from "../cache/result-cache.ts";
-import { terrainSourceKey } from "../cache/terrain-source-key.ts";
+import { studyTerrainExtent, studyTerrainKey, studyTerrainTiles, terrainSourceKey } from "../cache/terrain-source-key.ts";
+import type { LatLonBox } from "../cache/terrain-extent.ts";
 import { InternalError, RidgelineError } from "../errors.ts";
 import { InputError, type InputProblem } from "../study/input-error.ts";
 import type { Study } from "../study/study.ts";
@@ -48,8 +49,10 @@ export interface AnalyzedStudy {
    * terrain. `modules` are the modules whose code computes it (pass `import.meta.url`; their
    * project imports are followed), so changing that code computes it again. The value must be
    * plain data (objects, arrays, strings, numbers, typed arrays). Without a cache: computed.
+   * `extent`: where the computation reads terrain, when that reaches beyond the study's own
+   * extent (a map's frame): the key then covers the tiles there (terrain-source-key.ts).
    */
-  remember<T>(name: string, inputs: unknown, modules: string[], compute: (terrain: Terrain) => T | Promise<T>): Promise<T>;
+  remember<T>(name: string, inputs: unknown, modules: string[], compute: (terrain: Terrain) => T | Promise<T>, extent?: LatLonBox[]): Promise<T>;
 }
 
 export interface AnalyzeOptions {
@@ -70,6 +73,11 @@ export interface AnalyzeOptions {
    * study keeps its links, which the coverage maps draw and their cache keys cover.
    */
   skipLinks?: boolean;
+  /**
+   * The whole study's terrain key (studyTerrainKey), for a part of it cut down to a task's
+   * links or one coverage: the key covers the tiles the whole study can reach.
+   */
+  terrainKey?: string;
 }
 
 /** Coverage maps of a study: the folder their files were written to, and each map's SVG. */
@@ -135,6 +143,12 @@ export function checkSitesOnTerrain(study: Study, terrain: Terrain): void {
   if (problems.length) throw new InputError(problems);
 }
 
+/** `{ tiles_used }` for a terrain folder of HGT tiles (the tiles the study's key covers), else nothing. */
+function tilesUsed(study: Study): { tiles_used?: string[] } {
+  const tiles = studyTerrainTiles(study);
+  return tiles ? { tiles_used: tiles } : {};
+}
+
 const sha256 = (b: Buffer | string): string => createHash("sha256").update(b).digest("hex");
 
 /**
@@ -148,8 +162,9 @@ export async function analyzeStudy(study: Study, options: AnalyzeOptions = {}): 
   const git = gitStateAsync(study.dir); // runs while the links are read or computed
   let terrain: Terrain | null = options.terrain ?? null;
   const open = async (): Promise<Terrain> => (terrain ??= await openStudyTerrain(study));
-  // The terrain's content key, without opening it; an unreadable file is reported by opening.
-  const terrainKey = terrainSourceKey(study.terrain, study.dir, cache) ?? (await open()).fingerprint();
+  // The terrain's content key, without opening it, over the tiles the study can reach; an
+  // unreadable file is reported by opening.
+  const terrainKey = options.terrainKey ?? studyTerrainKey(study, cache) ?? (await open()).fingerprint();
   const csvSha = new Map<string, string | null>();
   for (const l of study.links) {
     if (!l.profile_csv) continue;
@@ -321,7 +336,7 @@ export async function analyzeStudy(study: Study, options: AnalyzeOptions = {}): 
     date: study.meta.date,
     ...(study.meta.summary ? { summary: study.meta.summary } : {}),
     ...(study.document ? { document: study.document } : {}),
-    terrain: { description: facts.description, synthetic: facts.synthetic },
+    terrain: { description: facts.description, synthetic: facts.synthetic, ...tilesUsed(study) },
     assumptions: {
       k_factors: study.design.k_factors.map((k) => k.label),
       clearance_criteria: study.design.clearance_criteria.map((c) => ({ k: c.k.label, min_f1: c.min_f1 })),
@@ -351,9 +366,10 @@ export async function analyzeStudy(study: Study, options: AnalyzeOptions = {}): 
     openTerrain: open,
     cache: { hits, misses: study.links.length - hits, coverage: coverageCache },
     coverage,
-    async remember<T>(name: string, inputs: unknown, modules: string[], compute: (terrain: Terrain) => T | Promise<T>): Promise<T> {
+    async remember<T>(name: string, inputs: unknown, modules: string[], compute: (terrain: Terrain) => T | Promise<T>, extent?: LatLonBox[]): Promise<T> {
       if (!cache) return compute(await open());
-      const key = sha256(canonicalJson(["study-value", toolIdentity(), modulesFingerprint(modules), terrainKey, name, inputs]));
+      const valueTerrainKey = extent ? (terrainSourceKey(study.terrain, study.dir, cache, [...studyTerrainExtent(study), ...extent]) ?? terrainKey) : terrainKey;
+      const key = sha256(canonicalJson(["study-value", toolIdentity(), modulesFingerprint(modules), valueTerrainKey, name, inputs]));
       const hit = cache.get<{ v: T }>("study-value", key);
       if (hit !== undefined && "v" in hit) return hit.v;
       const v = await compute(await open());

@@ -133,7 +133,8 @@ export interface StudyResult {
   summary?: string;
   /** Document control as the study gives it (number, paper, revisions, sign-off). */
   document?: StudyDocument;
-  terrain: { description: string; synthetic: boolean };
+  /** tiles_used: for a folder of HGT tiles, the tiles the study can reach (by name), which its inputs hash covers by their bytes. */
+  terrain: { description: string; synthetic: boolean; tiles_used?: string[] };
   assumptions: Record<string, unknown>;
   sites: SiteResult[];
   links: LinkResult[];

@@ -3,7 +3,7 @@ import { readFileSync } from "node:fs";
 import { resolve } from "node:path";
 import geographiclib from "geographiclib-geodesic";
 import { canonicalJson } from "../cache/canonical-json.ts";
-import { terrainSourceKey } from "../cache/terrain-source-key.ts";
+import { studyTerrainExtent, terrainSourceKey } from "../cache/terrain-source-key.ts";
 import type { Study } from "../study/study.ts";
 import { showBeforeAfter, showNumber, unitOf } from "./diff-format.ts";
 import type { DiffValue, InputChange, InputChangeKind } from "./study-diff.ts";
@@ -82,8 +82,10 @@ export function compareStudyInputs(before: Study | null, after: Study | null): I
   if (canonicalJson(before.terrain) !== canonicalJson(after.terrain)) {
     add("terrain", "terrain", "", before.terrain, after.terrain, terrainLinks, "");
   } else {
-    const kb = terrainSourceKey(before.terrain, before.dir);
-    const ka = terrainSourceKey(after.terrain, after.dir);
+    // both over the tiles either revision can reach (a moved site alone changes no tile)
+    const extent = [...studyTerrainExtent(before), ...studyTerrainExtent(after)];
+    const kb = terrainSourceKey(before.terrain, before.dir, null, extent);
+    const ka = terrainSourceKey(after.terrain, after.dir, null, extent);
     if (kb !== ka) out.push({ kind: "terrain", subject: "terrain", field: "contents", before: kb?.slice(0, 12) ?? null, after: ka?.slice(0, 12) ?? null, delta: null, unit: "", links: terrainLinks, text: `terrain: the contents of ${"file" in after.terrain ? after.terrain.file : "the terrain"} changed (sha256 ${kb?.slice(0, 12) ?? "—"} → ${ka?.slice(0, 12) ?? "—"})` });
   }
 

@@ -3,7 +3,7 @@ import { relative, isAbsolute } from "node:path";
 import { coverageKeyer } from "../coverage/coverage-cache-keys.ts";
 import { linkKeyer } from "../cache/cache-keys.ts";
 import type { ResultCache } from "../cache/result-cache.ts";
-import { terrainSourceKey } from "../cache/terrain-source-key.ts";
+import { studyTerrainKey } from "../cache/terrain-source-key.ts";
 import type { Study } from "../study/study.ts";
 import type { QueueIdentity } from "./identity.ts";
 import { encodeStudy, type TaskData } from "./task.ts";
@@ -34,7 +34,7 @@ export function planStudy(study: Study, cache: ResultCache, identity: QueueIdent
   const bytes = encodeStudy(study);
   const sha = createHash("sha256").update(bytes).digest("hex");
   const plan: StudyPlan = { study, bytes, sha, tasks: [] };
-  const terrainKey = terrainSourceKey(study.terrain, study.dir, cache);
+  const terrainKey = studyTerrainKey(study, cache);
   if (terrainKey === null) return plan;
   const rel = relative(cwd, study.dir);
   const base = { studySha: sha, studyDir: study.dir, studyDirRel: rel.startsWith("..") || isAbsolute(rel) ? null : rel, terrainKey, identity };

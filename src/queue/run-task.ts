@@ -6,7 +6,7 @@ import { linkKeyer } from "../cache/cache-keys.ts";
 import { canonicalJson } from "../cache/canonical-json.ts";
 import { encodeEntry } from "../cache/entry-codec.ts";
 import { ResultCache } from "../cache/result-cache.ts";
-import { terrainSourceKey } from "../cache/terrain-source-key.ts";
+import { studyTerrainKey } from "../cache/terrain-source-key.ts";
 import type { Study } from "../study/study.ts";
 import type { Terrain } from "../terrain/terrain.ts";
 import { taskEntries, type TaskData } from "./task.ts";
@@ -34,8 +34,8 @@ function openTerrainOnce(study: Study, terrainKey: string): Promise<Terrain> {
  * running worker.
  */
 function workerTerrainKey(study: Study): string | null {
-  const id = `${study.dir}\0${canonicalJson(study.terrain)}`;
-  if (!terrainKeys.has(id)) terrainKeys.set(id, terrainSourceKey(study.terrain, study.dir, null));
+  const id = `${study.dir}\0${canonicalJson([study.terrain, study.sites, study.coverage ?? []])}`;
+  if (!terrainKeys.has(id)) terrainKeys.set(id, studyTerrainKey(study, null));
   return terrainKeys.get(id)!;
 }
 
@@ -77,7 +77,7 @@ export async function runTask(t: TaskData, study: Study): Promise<Map<string, Bu
     // Without a cache: a cache would only remember this task's terrain queries and geodesics
     // (many small files, which made a batch 3–8 times slower), and the entries are the same
     // encodeEntry bytes of the same values a local build stores ("link": { result }, "link-figure").
-    const analysed = await analyzeStudy(sub, { cache: null, terrain });
+    const analysed = await analyzeStudy(sub, { cache: null, terrain, terrainKey });
     const out = new Map<string, Buffer>();
     for (const [i, link] of analysed.result.links.entries()) {
       const figure = analysed.figures.get(link.id);
@@ -92,7 +92,7 @@ export async function runTask(t: TaskData, study: Study): Promise<Map<string, Bu
   const dir = makeTempDir("ridgeline-task-");
   try {
     const cache = new ResultCache(dir);
-    const analysed = await analyzeStudy(sub, { cache, terrain, coverageOutputs: loadCoverageOutputStage, skipLinks: true });
+    const analysed = await analyzeStudy(sub, { cache, terrain, terrainKey, coverageOutputs: loadCoverageOutputStage, skipLinks: true });
     if (analysed.coverage) removeTempDir(analysed.coverage.dir);
     const out = new Map<string, Buffer>();
     for (const { kind, key } of taskEntries(t)) {

@@ -2,6 +2,7 @@ import { capacityCurveSvg, diversityCurveSvg } from "./performance-figures.ts";
 import { createRequire } from "node:module";
 import { dirname, relative } from "node:path";
 import { liveMapData, scriptJson } from "./live-map-data.ts";
+import type { AnalyzedStudy } from "../analysis/analyze-study.ts";
 import type { StudyResult } from "../analysis/results.ts";
 import { loadAllStudies } from "../analysis/load-all.ts";
 import { cssString } from "./css-string.ts";
@@ -32,6 +33,23 @@ const maps = new Map<string, string>();
 const liveMaps = new Map<string, string>();
 /** Wave-solution field figures drawn for this build (sharp again), by "study/link". */
 const waveFields = new Map<string, string>();
+/**
+ * A link's figures drawn once per analysis: the link page and the study's print page show the
+ * same SVG (same ids, same input), and drawing the path profile is most of a link page's cost.
+ * Keyed by the analysed study object, so a new analysis (serve's rebuild) draws afresh.
+ */
+const drawn = new WeakMap<object, Map<string, string>>();
+function linkFigure(draw: (s: AnalyzedStudy, linkId: string) => string, name: string) {
+  return (studyId: string, linkId: string): string => {
+    const s = analyzedStudy(studyId);
+    let figs = drawn.get(s);
+    if (!figs) drawn.set(s, (figs = new Map()));
+    const key = `${name}\u0000${linkId}`;
+    let svg = figs.get(key);
+    if (svg === undefined) figs.set(key, (svg = draw(s, linkId)));
+    return svg;
+  };
+}
 
 /**
  * The Eleventy side of Ridgeline: global data `ridgeline` (the analysed studies), filters for
@@ -78,18 +96,18 @@ export default function ridgelineSite(eleventyConfig: EleventyConfig): void {
   eleventyConfig.addFilter("networkGeojson", (r: StudyResult) => networkGeoJson(r));
   eleventyConfig.addFilter("networkKml", (r: StudyResult) => networkKml(r));
   eleventyConfig.addFilter("json", (v: unknown) => JSON.stringify(v, null, 2));
-  eleventyConfig.addShortcode("profilePlot", (studyId: string, linkId: string) => linkProfileSvg(analyzedStudy(studyId), linkId));
-  eleventyConfig.addShortcode("fresnelSection", (studyId: string, linkId: string) => linkFresnelSvg(analyzedStudy(studyId), linkId));
-  eleventyConfig.addShortcode("heightGain", (studyId: string, linkId: string) => linkHeightGainSvg(analyzedStudy(studyId), linkId));
-  eleventyConfig.addShortcode("diversityCurve", (studyId: string, linkId: string) => diversityCurveSvg(analyzedStudy(studyId), linkId));
-  eleventyConfig.addShortcode("capacityCurve", (studyId: string, linkId: string) => capacityCurveSvg(analyzedStudy(studyId), linkId));
+  eleventyConfig.addShortcode("profilePlot", linkFigure(linkProfileSvg, "profilePlot"));
+  eleventyConfig.addShortcode("fresnelSection", linkFigure(linkFresnelSvg, "fresnelSection"));
+  eleventyConfig.addShortcode("heightGain", linkFigure(linkHeightGainSvg, "heightGain"));
+  eleventyConfig.addShortcode("diversityCurve", linkFigure(diversityCurveSvg, "diversityCurve"));
+  eleventyConfig.addShortcode("capacityCurve", linkFigure(capacityCurveSvg, "capacityCurve"));
   eleventyConfig.addShortcode("liveMapData", (studyId: string) => {
     const data = liveMaps.get(studyId);
     if (data === undefined) throw new Error(`No interactive map data was made for study ${studyId}.`);
     return data;
   });
   eleventyConfig.addShortcode("waveField", (studyId: string, linkId: string) => waveFields.get(`${studyId}/${linkId}`) ?? "");
-  eleventyConfig.addShortcode("waveHeightGain", (studyId: string, linkId: string) => linkWaveHeightGainSvg(analyzedStudy(studyId), linkId));
+  eleventyConfig.addShortcode("waveHeightGain", linkFigure(linkWaveHeightGainSvg, "waveHeightGain"));
   eleventyConfig.addShortcode("overviewMap", (studyId: string) => {
     const svg = maps.get(studyId);
     if (svg === undefined) throw new Error(`No overview map was drawn for study ${studyId}.`);

@@ -5,6 +5,7 @@ import { rgbaPngDataUri } from "../render/raster/rgba-png.ts";
 import { metresPerDegree } from "../terrain/metres-per-degree.ts";
 import { urlPathSegment } from "../render/svg/escape.ts";
 import { linkVerdict } from "./exchange-files.ts";
+import { widened } from "../cache/terrain-extent.ts";
 
 /** [[south, west], [north, east]] in degrees, as Leaflet takes bounds. */
 type Bounds = [[number, number], [number, number]];
@@ -92,7 +93,7 @@ async function shadeImage(s: AnalyzedStudy, b: Bounds): Promise<LiveMapData["hil
         z.push(Number.isFinite(v) ? v : null);
       }
     return z;
-  });
+  }, [widened({ lat_min: south, lat_max: north, lon_min: west, lon_max: east })]); // the relief reads the whole box, beyond the sites
   const z = Float64Array.from(stored, (v) => (v === null ? NaN : v));
   const { shade, valid } = hillshade(z, width, height, { dx_m: ((east - west) * ew) / width, dy_m: ((north - south) * ns) / height, azimuth_deg: 315, altitude_deg: 45 });
   let lo = Infinity;

@@ -1,4 +1,6 @@
+import type { GeoProjection } from "d3-geo";
 import type { AnalyzedStudy } from "../analysis/analyze-study.ts";
+import { widened, type LatLonBox } from "../cache/terrain-extent.ts";
 import { shadedRelief, TINT_STOPS } from "../render/raster/elevation-tint.ts";
 import { hillshade } from "../render/raster/hillshade.ts";
 import { projectedElevationGrid } from "../render/raster/projected-grid.ts";
@@ -37,10 +39,16 @@ async function drawMap(s: AnalyzedStudy): Promise<string> {
     // The relief grid only depends on the terrain and the map frame: keep it in the result
     // cache so that a rebuild with unchanged sites does not open the terrain at all.
     const modules = [import.meta.url, new URL("../render/raster/projected-grid.ts", import.meta.url).href, new URL("../render/svg/map-projection.ts", import.meta.url).href];
-    const stored = await s.remember("study-map-relief", { sites, MAP_W, MAP_H, SHADE_STEP_PX }, modules, (terrain) => {
-      const g = projectedElevationGrid((lat, lon) => terrain.elevation(lat, lon), projection, MAP_W, MAP_H, SHADE_STEP_PX);
-      return { ...g, z: Array.from(g.z, (v) => (Number.isFinite(v) ? v : null)) };
-    });
+    const stored = await s.remember(
+      "study-map-relief",
+      { sites, MAP_W, MAP_H, SHADE_STEP_PX },
+      modules,
+      (terrain) => {
+        const g = projectedElevationGrid((lat, lon) => terrain.elevation(lat, lon), projection, MAP_W, MAP_H, SHADE_STEP_PX);
+        return { ...g, z: Array.from(g.z, (v) => (Number.isFinite(v) ? v : null)) };
+      },
+      [frameExtent(projection, MAP_W, MAP_H)], // the relief reads the whole frame, beyond the sites
+    );
     const grid = { ...stored, z: Float64Array.from(stored.z, (v) => (v === null ? NaN : v)) };
     const { shade, valid } = hillshade(grid.z, grid.width, grid.height, { dx_m: grid.dx_m, dy_m: grid.dy_m, azimuth_deg: 315, altitude_deg: 45 });
     let lo = Infinity;
@@ -75,4 +83,20 @@ async function drawMap(s: AnalyzedStudy): Promise<string> {
         }))
       : undefined,
   });
+}
+
+/**
+ * The latitude/longitude box of the map's frame: the inverse projection along its border
+ * (16 points a side; a transverse Mercator frame's extremes lie on its border), widened by
+ * terrain-extent.ts's margin.
+ */
+function frameExtent(projection: GeoProjection, width: number, height: number): LatLonBox {
+  const pts: [number, number][] = [];
+  for (let i = 0; i <= 16; i++) {
+    const fx = (width * i) / 16;
+    const fy = (height * i) / 16;
+    pts.push([fx, 0], [fx, height], [0, fy], [width, fy]);
+  }
+  const ll = pts.map((p) => projection.invert!(p) as [number, number]);
+  return widened({ lat_min: Math.min(...ll.map((q) => q[1])), lat_max: Math.max(...ll.map((q) => q[1])), lon_min: Math.min(...ll.map((q) => q[0])), lon_max: Math.max(...ll.map((q) => q[0])) });
 }

@@ -22,20 +22,41 @@ export type Polyline = readonly (readonly [number, number])[];
 /**
  * True when the polyline passes through the box: its y range over the box's x interval
  * (vertices inside it and the line interpolated at both edges) meets the box's y range.
+ * The x values never decrease along a polyline, so only the vertices from the first at or
+ * right of the box's left edge to the first right of its right edge can count: a binary
+ * search finds the first (a profile has hundreds of vertices, a label box spans a few tens).
  */
 export function crossesPolyline(b: Box, line: Polyline): boolean {
   const x0 = b.x;
   const x1 = b.x + b.w;
   let lo = Infinity;
   let hi = -Infinity;
-  const take = (y: number) => ((lo = Math.min(lo, y)), (hi = Math.max(hi, y)));
-  for (let i = 0; i < line.length; i++) {
-    const [x, y] = line[i];
-    if (x >= x0 && x <= x1) take(y);
+  const n = line.length;
+  // first vertex with x ≥ x0: every earlier vertex and edge lies left of the box
+  let a = 0;
+  let z = n;
+  while (a < z) {
+    const mid = (a + z) >> 1;
+    if (line[mid][0] < x0) a = mid + 1;
+    else z = mid;
+  }
+  for (let i = a; i < n; i++) {
+    const x = line[i][0];
+    const y = line[i][1];
+    if (x >= x0 && x <= x1) ((lo = Math.min(lo, y)), (hi = Math.max(hi, y)));
     if (i > 0) {
-      const [xa, ya] = line[i - 1];
-      for (const xe of [x0, x1]) if (xa < xe && x > xe) take(ya + ((y - ya) * (xe - xa)) / (x - xa));
+      const xa = line[i - 1][0];
+      const ya = line[i - 1][1];
+      if (xa < x0 && x > x0) {
+        const ye = ya + ((y - ya) * (x0 - xa)) / (x - xa);
+        ((lo = Math.min(lo, ye)), (hi = Math.max(hi, ye)));
+      }
+      if (xa < x1 && x > x1) {
+        const ye = ya + ((y - ya) * (x1 - xa)) / (x - xa);
+        ((lo = Math.min(lo, ye)), (hi = Math.max(hi, ye)));
+      }
     }
+    if (x > x1) break; // later edges start right of the box
   }
   return lo <= b.y + b.h && hi >= b.y;
 }

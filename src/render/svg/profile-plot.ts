@@ -1,5 +1,6 @@
 import { scaleLinear } from "d3-scale";
 import { area, line } from "d3-shape";
+import { polylinePath } from "./polyline-path.ts";
 import { earthBulgeM } from "../../physics/earth-bulge.ts";
 import { fresnelRadiusM } from "../../physics/fresnel-radius.ts";
 import { bottomAxis, leftAxis } from "./axes.ts";
@@ -74,7 +75,9 @@ export function profilePlotSvg(p: ProfilePlotInput): string {
   const x = scaleLinear().domain([0, D]).range([m.left, W - m.right]);
   const y = scaleLinear().domain([lo - pad, hi + pad]).nice().range([H - m.bottom, m.top]);
   const yBase = y.range()[0];
-  const pts = (f: (i: number) => number) => line<number>().x((i) => x(p.d_m[i])).y((i) => y(f(i))).digits(1)(idx) ?? "";
+  // each sample's x in pixels, once: every path and polyline below reads it
+  const xs = Float64Array.from(idx, (i) => x(p.d_m[i]));
+  const pts = (f: (i: number) => number) => polylinePath(xs, Float64Array.from(idx, (i) => y(f(i)))) ?? "";
   const out: string[] = [];
   const pid = svgId(p.id);
   const titleId = `${pid}-title`;
@@ -91,9 +94,9 @@ export function profilePlotSvg(p: ProfilePlotInput): string {
   );
   // Terrain at the first k, filled; obstructions on top of it.
   const b0 = bulged[0];
-  out.push(`<path class="terrain ${K_STYLES[0]}" d="${area<number>().x((i) => x(p.d_m[i])).y0(yBase).y1((i) => y(b0[i])).digits(1)(idx)}" />`);
+  out.push(`<path class="terrain ${K_STYLES[0]}" d="${area<number>().x((i) => xs[i]).y0(yBase).y1((i) => y(b0[i])).digits(1)(idx)}" />`);
   if (Array.from(p.obstruction_m).some((o) => o > 0)) {
-    out.push(`<path class="obstruction" d="${area<number>().defined((i) => p.obstruction_m[i] > 0).x((i) => x(p.d_m[i])).y0((i) => y(b0[i])).y1((i) => y(b0[i] + p.obstruction_m[i])).digits(1)(idx)}" />`);
+    out.push(`<path class="obstruction" d="${area<number>().defined((i) => p.obstruction_m[i] > 0).x((i) => xs[i]).y0((i) => y(b0[i])).y1((i) => y(b0[i] + p.obstruction_m[i])).digits(1)(idx)}" />`);
   }
   for (let j = 1; j < bulged.length; j++) out.push(`<path class="terrain-line ${K_STYLES[j % K_STYLES.length]}" d="${pts((i) => bulged[j][i])}" />`);
   // Fresnel envelopes and the ray.
@@ -128,7 +131,7 @@ export function profilePlotSvg(p: ProfilePlotInput): string {
   const above = idx.map((i) => b0[i] + p.obstruction_m[i] > ray(p.d_m[i]));
   if (above.some(Boolean)) {
     out.push(
-      `<path class="blocked" d="${area<number>().defined((i) => above[i]).x((i) => x(p.d_m[i])).y0((i) => y(ray(p.d_m[i]))).y1((i) => y(b0[i] + p.obstruction_m[i])).digits(1)(idx)}" />`,
+      `<path class="blocked" d="${area<number>().defined((i) => above[i]).x((i) => xs[i]).y0((i) => y(ray(p.d_m[i]))).y1((i) => y(b0[i] + p.obstruction_m[i])).digits(1)(idx)}" />`,
     );
     for (const [a, b] of runs(above)) {
       const xa = x(p.d_m[a]);
@@ -150,7 +153,7 @@ export function profilePlotSvg(p: ProfilePlotInput): string {
     const f1px = Math.abs(y(ray(p.d_m[iw]) + r1[iw]) - y(ray(p.d_m[iw])));
     if (f1px < 10) detail = detailPanel(p, { iw, D, ray, r1, b0, x, y, plotBox, labelBoxes });
   }
-  const poly = (f: (i: number) => number): Polyline => idx.map((i) => [x(p.d_m[i]), y(f(i))] as const);
+  const poly = (f: (i: number) => number): Polyline => idx.map((i) => [xs[i], y(f(i))] as const);
   const drawn: Polyline[] = [
     poly((i) => ray(p.d_m[i])),
     poly((i) => ray(p.d_m[i]) + r1[i]),
