@@ -3,6 +3,7 @@ import { createRequire } from "node:module";
 import { dirname, relative } from "node:path";
 import { liveMapData, scriptJson } from "./live-map-data.ts";
 import type { StudyResult } from "../analysis/results.ts";
+import type { CoverageResult } from "../coverage/coverage-result.ts";
 import { loadAllStudies } from "../analysis/load-all.ts";
 import { cssString } from "./css-string.ts";
 import { formatDuration, formatFrequency, formatK, formatNumber, formatPercent, formatRatio, formatSigned, formatSmall } from "../format/quantity.ts";
@@ -14,6 +15,7 @@ import { relativeUrl } from "./relative-url.ts";
 import { analyzedStudy, getAnalyzedStudies, setAnalyzedStudies, siteData } from "./site-data.ts";
 import { studyMapSvg } from "./study-map.ts";
 import { linkWaveFieldSvg, linkWaveHeightGainSvg } from "./wave-figures.ts";
+import { coverageWaveCheckSvg } from "./wave-check-figures.ts";
 import { loadCoverageOutputStage } from "../render/coverage-output-loader.ts";
 
 // Eleventy's config object is untyped here; only the calls below are used.
@@ -95,6 +97,7 @@ export default function ridgelineSite(eleventyConfig: EleventyConfig): void {
     if (svg === undefined) throw new Error(`No overview map was drawn for study ${studyId}.`);
     return svg;
   });
+  eleventyConfig.addShortcode("waveCheckFigure", (c: CoverageResult) => coverageWaveCheckSvg(c));
   eleventyConfig.addShortcode("coverageMap", (studyId: string, coverageId: string) => {
     const map = analyzedStudy(studyId).coverage?.maps.find((m) => m.id === coverageId);
     if (!map) throw new Error(`No coverage map ${coverageId} was drawn for study ${studyId}.`);
