@@ -20,6 +20,13 @@ export const WAVE_CHECK_DEFAULT_RADIALS = 8;
  */
 export const WAVE_CHECK_GRID = { beamwidth_deg: 30, max_angle_deg: 10, columns: 40, rows: 2048 } as const;
 
+/**
+ * Work limit of one radial (transform points × range steps): 25 million, a few seconds on one
+ * core — a tenth of a link's limit, since a coverage has several radials; a 150 km radial at
+ * UHF needs about half of it. A radial above it is refused with the reason in its row.
+ */
+export const WAVE_CHECK_WORK_LIMIT_CELL_STEPS = 25e6;
+
 /** One radial of the check. Losses are basic transmission losses (dB); differences are method − wave. */
 export interface WaveCheckRadial {
   /** true azimuth of the radial (°, clockwise from north) */
@@ -220,6 +227,7 @@ function checkRadial(job: CoverageJob, dem: Elevations, az: number, k: number, m
     beamwidth_deg: WAVE_CHECK_GRID.beamwidth_deg,
     figure: { columns: WAVE_CHECK_GRID.columns, rows: WAVE_CHECK_GRID.rows },
     grid: { max_angle_deg: WAVE_CHECK_GRID.max_angle_deg },
+    work_limit_cell_steps: WAVE_CHECK_WORK_LIMIT_CELL_STEPS,
   });
   if (pe.status !== "ok" || !pe.field) return { ...out, status: "refused", reason: pe.reason || "the wave solution gave no field" };
   const f = pe.field;
