@@ -57,8 +57,22 @@ export interface WaveCheck {
   solver: string;
   radials: WaveCheckRadial[];
   /** over every compared point of every radial (dB; null when none) */
-  overall: { points: number; mean_db: number | null; rms_db: number | null; max_abs_db: number | null };
+  overall: WaveCheckStats;
+  /** the same, split where the method's loss is within CLEAR_PATH_DB of free space (a clear path) and where it is not (diffraction) */
+  clear: WaveCheckStats;
+  diffraction: WaveCheckStats;
 }
+
+/** Statistics of method − wave differences over a set of points (dB; null when there are none). */
+export interface WaveCheckStats {
+  points: number;
+  mean_db: number | null;
+  rms_db: number | null;
+  max_abs_db: number | null;
+}
+
+/** A point counts as a clear path when the method's loss is within this of free space (dB). */
+export const CLEAR_PATH_DB = 1;
 
 /** The method's comparable loss for a receiver at sample i of a radial (dB), NaN where it has none. */
 type MethodLoss = (ray: RayProfile, i: number) => number;
@@ -98,13 +112,19 @@ export function coverageWaveCheck(job: CoverageJob, dem: Elevations, values: Flo
   const rows: WaveCheckRadial[] = [];
   for (let j = 0; j < radials; j++) rows.push(checkRadial(job, dem, (360 * j) / radials, k, methodLoss));
   const diffs = rows.flatMap((r) => r.method_db.map((m, i) => m - r.wave_db[i]));
-  const stats = differenceStats(diffs);
+  const clearAt = rows.flatMap((r) => r.method_db.map((m, i) => m - freeSpaceLossDb(r.d_km[i] * 1000, job.frequency_ghz) < CLEAR_PATH_DB));
+  const statsOf = (d: number[]): WaveCheckStats => {
+    const s = differenceStats(d);
+    return { points: d.length, mean_db: s.mean, rms_db: s.rms, max_abs_db: s.maxAbs };
+  };
   const polar = (job.p1812 ? job.p1812.polarization : job.ground.vertical ? "v" : "h") === "v" ? "vertical" : "horizontal";
   return {
     compared,
     solver: `Split-step parabolic equation marched along each radial over the coverage's own terrain samples: ${polar} polarisation, ground εr = ${round(job.ground.epsilon_r, 1)}, σ = ${round(job.ground.sigma_s_m, 4)} S/m, effective Earth radius ${round(ae_m / 1000, 0)} km, grid up to ${WAVE_CHECK_GRID.max_angle_deg}°, read at ${round(job.receiver_m, 1)} m above the ground from a tenth of the radius out; the source's pattern at each point's angle is taken out.`,
     radials: rows,
-    overall: { points: diffs.length, mean_db: stats.mean, rms_db: stats.rms, max_abs_db: stats.maxAbs },
+    overall: statsOf(diffs),
+    clear: statsOf(diffs.filter((_, i) => clearAt[i])),
+    diffraction: statsOf(diffs.filter((_, i) => !clearAt[i])),
   };
 }
 

@@ -311,13 +311,13 @@ describe("report site in Chromium", () => {
       expect(f.text).toMatch(/ITU-R P\.1812-6/);
       expect(f.text).toMatch(/Talk-back/);
       // the check along radials: the figure (a panel per radial, a size, a text alternative) and
-      // the table (a row per radial and the total), its numbers through the formatter
+      // the table (a row per radial, clear-path and diffraction rows, the total), its numbers through the formatter
       expect(f.waveCheck.length, c.id).toBe(1);
       const w = f.waveCheck[0];
       expect(w.w > 300 && w.h > 150 && w.role === "img", `${c.id} ${JSON.stringify(w)}`).toBe(true);
       expect(w.desc, c.id).toMatch(/radials .* wave solution .* method's loss minus the wave solution's/);
       expect(w.panels, c.id).toBe(8);
-      expect(f.waveCheckRows.length, c.id).toBe(9);
+      expect(f.waveCheckRows.length, c.id).toBe(11);
       for (const row of f.waveCheckRows) expect(row.join(" "), c.id).toMatch(/\d+\.\d/);
       expect(f.text).toMatch(/Method − wave solution along each radial/);
     }
