@@ -110,7 +110,12 @@ export function coverageWaveCheck(job: CoverageJob, dem: Elevations, values: Flo
   const k = ae_m / EARTH_RADIUS_M;
   const { methodLoss, compared } = methodOf(job, dem, values as Float32Array);
   const rows: WaveCheckRadial[] = [];
-  for (let j = 0; j < radials; j++) rows.push(checkRadial(job, dem, (360 * j) / radials, k, methodLoss));
+  let frameSlope = 0;
+  for (let j = 0; j < radials; j++) {
+    const r = checkRadial(job, dem, (360 * j) / radials, k, methodLoss);
+    rows.push(r.row);
+    if (r.frameSlope > 0 && !(frameSlope > 0)) frameSlope = r.frameSlope;
+  }
   const diffs = rows.flatMap((r) => r.method_db.map((m, i) => m - r.wave_db[i]));
   const clearAt = rows.flatMap((r) => r.method_db.map((m, i) => m - freeSpaceLossDb(r.d_km[i] * 1000, job.frequency_ghz) < CLEAR_PATH_DB));
   const statsOf = (d: number[]): WaveCheckStats => {
@@ -120,7 +125,7 @@ export function coverageWaveCheck(job: CoverageJob, dem: Elevations, values: Flo
   const polar = (job.p1812 ? job.p1812.polarization : job.ground.vertical ? "v" : "h") === "v" ? "vertical" : "horizontal";
   return {
     compared,
-    solver: `Split-step parabolic equation marched along each radial over the coverage's own terrain samples: ${polar} polarisation, ground εr = ${round(job.ground.epsilon_r, 1)}, σ = ${round(job.ground.sigma_s_m, 4)} S/m, effective Earth radius ${round(ae_m / 1000, 0)} km, grid up to ${WAVE_CHECK_GRID.max_angle_deg}°, read at ${round(job.receiver_m, 1)} m above the ground from a tenth of the radius out; the source's pattern at each point's angle is taken out.`,
+    solver: `Split-step parabolic equation marched along each radial over the coverage's own terrain samples: ${polar} polarisation, ground εr = ${round(job.ground.epsilon_r, 1)}, σ = ${round(job.ground.sigma_s_m, 4)} S/m, effective Earth radius ${round(ae_m / 1000, 0)} km, grid up to ${WAVE_CHECK_GRID.max_angle_deg}°, read at ${round(job.receiver_m, 1)} m above the ground from a tenth of the radius out; the source's pattern at each point's angle is taken out. Where the terrain is steeper than the solver's terrain-following frame (slopes above ${frameSlope > 0 ? round(frameSlope * 100, 1) : "a few"} %), it is a staircase whose result converges slowly with the grid: deep behind such terrain the wave solution's loss can be tens of dB too high, so large differences in the diffraction rows are a flag to look at that radial, not a verdict on the map.`,
     radials: rows,
     overall: statsOf(diffs),
     clear: statsOf(diffs.filter((_, i) => clearAt[i])),
@@ -220,7 +225,8 @@ function cellToward(job: CoverageJob, az_deg: number, r_m: number): [number, num
   return null;
 }
 
-function checkRadial(job: CoverageJob, dem: Elevations, az: number, k: number, methodLoss: MethodLoss): WaveCheckRadial {
+/** One radial of the check, and the largest slope the solver's terrain-following frame took (0 when not computed). */
+function checkRadial(job: CoverageJob, dem: Elevations, az: number, k: number, methodLoss: MethodLoss): { row: WaveCheckRadial; frameSlope: number } {
   const out: WaveCheckRadial = { azimuth_deg: az, length_km: 0, status: "ok", reason: "", points: 0, mean_db: null, rms_db: null, max_abs_db: null, max_at_km: null, d_km: [], wave_db: [], method_db: [] };
   const cellM = Math.max(Math.abs(job.east_per_col_m[0]), Math.abs(job.north_per_row_m[0]));
   const target = cellToward(job, az, job.radius_m - 0.5 * cellM);
@@ -230,7 +236,7 @@ function checkRadial(job: CoverageJob, dem: Elevations, az: number, k: number, m
   const ground_m: number[] = [job.site_ground_m];
   let last = -1;
   if (ray) while (last + 1 < ray.d_m.length && ray.d_m[last + 1] <= job.radius_m) last++;
-  if (!ray || last < 2) return { ...out, status: "refused", reason: "no terrain along this radial" };
+  if (!ray || last < 2) return { row: { ...out, status: "refused", reason: "no terrain along this radial" }, frameSlope: 0 };
   for (let i = 0; i <= last; i++) if (ray.d_m[i] > d_m[d_m.length - 1]) d_m.push(ray.d_m[i]), ground_m.push(ray.h_m[i]);
   const end = d_m[d_m.length - 1];
   const spacing = end / last;
@@ -249,7 +255,7 @@ function checkRadial(job: CoverageJob, dem: Elevations, az: number, k: number, m
     grid: { max_angle_deg: WAVE_CHECK_GRID.max_angle_deg },
     work_limit_cell_steps: WAVE_CHECK_WORK_LIMIT_CELL_STEPS,
   });
-  if (pe.status !== "ok" || !pe.field) return { ...out, status: "refused", reason: pe.reason || "the wave solution gave no field" };
+  if (pe.status !== "ok" || !pe.field) return { row: { ...out, status: "refused", reason: pe.reason || "the wave solution gave no field" }, frameSlope: 0 };
   const f = pe.field;
   const zT = job.site_ground_m + job.antenna_m;
   const ae = k * EARTH_RADIUS_M;
@@ -293,7 +299,7 @@ function checkRadial(job: CoverageJob, dem: Elevations, az: number, k: number, m
   if (pe.angle_limit_exceeded) notes.push(`the radial needs angles up to ${round(pe.grid.geometry_angle_deg, 1)}°, beyond the parabolic approximation's limit`);
   if (offBeam) notes.push(`${offBeam} point${offBeam > 1 ? "s" : ""} steeper than the source's beam left out`);
   if (underCell) notes.push(`${underCell} point${underCell > 1 ? "s" : ""} below the solver's first cell above the ground left out`);
-  return { ...out, reason: notes.join("; "), points: diffs.length, mean_db: s.mean, rms_db: s.rms, max_abs_db: s.maxAbs, max_at_km: s.at >= 0 ? out.d_km[s.at] : null };
+  return { row: { ...out, reason: notes.join("; "), points: diffs.length, mean_db: s.mean, rms_db: s.rms, max_abs_db: s.maxAbs, max_at_km: s.at >= 0 ? out.d_km[s.at] : null }, frameSlope: pe.grid.max_frame_slope };
 }
 
 function differenceStats(d: number[]): { mean: number | null; rms: number | null; maxAbs: number | null; at: number } {
