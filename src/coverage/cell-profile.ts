@@ -104,12 +104,14 @@ class RayRecorder implements RayVisitor {
  * The whole radial of the sweep (radial-sweep.ts) that owns the cell at (col, row), with every
  * cell it owns: the profiles the coverage method used along one line from the site, for checks
  * that follow a radial (coverage-wave-check.ts).
+ * @param options.searchAll sweep every radial when none of the cell's candidates owns it (default true;
+ *   false returns null at once, for a caller that will try a nearer cell: a cell beyond nodata is never visited)
  * @returns null when the cell is outside the radius or never visited
  */
-export function rayProfile(job: CoverageJob, dem: Elevations, col: number, row: number): RayProfile | null {
+export function rayProfile(job: CoverageJob, dem: Elevations, col: number, row: number, options: { searchAll?: boolean } = {}): RayProfile | null {
   const rec = new RayRecorder(row * job.width + col);
   const [lo, hi] = candidateRays(job, col, row);
   sweepRays(job, dem, job.rc, lo, hi, rec);
-  if (rec.found === null) sweepRays(job, dem, job.rc, 0, rayCount(job.rc), rec);
+  if (rec.found === null && options.searchAll !== false) sweepRays(job, dem, job.rc, 0, rayCount(job.rc), rec);
   return rec.found;
 }

@@ -208,19 +208,28 @@ function methodOf(job: CoverageJob, dem: Elevations, level: Float32Array): { met
   };
 }
 
-/** The cell at (about) distance r_m along true azimuth az_deg, inside the grid and the radius. */
-function cellToward(job: CoverageJob, az_deg: number, r_m: number): [number, number] | null {
+/**
+ * The sweep's radial along true azimuth az_deg: the one that owns the farthest cell in that
+ * direction which the sweep visits (inside the grid and the radius, not beyond nodata), searched
+ * inwards from the radius in steps of a cell, then of a fiftieth of the radius.
+ */
+function radialToward(job: CoverageJob, dem: Elevations, az_deg: number): RayProfile | null {
   const rs = Math.min(job.height - 1, Math.max(0, Math.round(job.site_row)));
   const EX = job.east_per_col_m[rs];
   const NY = job.north_per_row_m[rs];
+  const cell = Math.max(Math.abs(EX), Math.abs(NY));
   const a = ((az_deg - job.azimuth_offset_deg) * Math.PI) / 180;
-  for (let r = r_m; r > 0; r -= Math.max(Math.abs(EX), Math.abs(NY))) {
+  let tries = 0;
+  for (let r = job.radius_m - 0.5 * cell; r > cell; r -= tries < 3 ? cell : job.radius_m / 50) {
     const col = Math.round(job.site_col + (r * Math.sin(a)) / EX);
     const row = Math.round(job.site_row + (r * Math.cos(a)) / NY);
     if (col < 0 || row < 0 || col >= job.width || row >= job.height) continue;
     const e = (col - job.site_col) * job.east_per_col_m[row];
     const n = (row - job.site_row) * job.north_per_row_m[row];
-    if (Math.hypot(e, n) <= job.radius_m) return [col, row];
+    if (Math.hypot(e, n) > job.radius_m) continue;
+    tries++;
+    const ray = rayProfile(job, dem, col, row, { searchAll: false });
+    if (ray) return ray;
   }
   return null;
 }
@@ -229,8 +238,7 @@ function cellToward(job: CoverageJob, az_deg: number, r_m: number): [number, num
 function checkRadial(job: CoverageJob, dem: Elevations, az: number, k: number, methodLoss: MethodLoss): { row: WaveCheckRadial; frameSlope: number } {
   const out: WaveCheckRadial = { azimuth_deg: az, length_km: 0, status: "ok", reason: "", points: 0, mean_db: null, rms_db: null, max_abs_db: null, max_at_km: null, d_km: [], wave_db: [], method_db: [] };
   const cellM = Math.max(Math.abs(job.east_per_col_m[0]), Math.abs(job.north_per_row_m[0]));
-  const target = cellToward(job, az, job.radius_m - 0.5 * cellM);
-  const ray = target ? rayProfile(job, dem, target[0], target[1]) : null;
+  const ray = radialToward(job, dem, az);
   // the radial as the method saw it: the site's ground and the samples out to the radius
   const d_m: number[] = [0];
   const ground_m: number[] = [job.site_ground_m];
