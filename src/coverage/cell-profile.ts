@@ -105,7 +105,7 @@ class RayRecorder implements RayVisitor {
  * cell it owns: the profiles the coverage method used along one line from the site, for checks
  * that follow a radial (coverage-wave-check.ts).
  * @param options.searchAll sweep every radial when none of the cell's candidates owns it (default true;
- *   false returns null at once, for a caller that will try a nearer cell: a cell beyond nodata is never visited)
+ *   false returns null at once, for a caller that will try a nearer cell: a cell beyond nodata or the grid's edge is never visited)
  * @returns null when the cell is outside the radius or never visited
  */
 export function rayProfile(job: CoverageJob, dem: Elevations, col: number, row: number, options: { searchAll?: boolean } = {}): RayProfile | null {

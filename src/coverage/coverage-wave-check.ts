@@ -304,7 +304,7 @@ function checkRadial(job: CoverageJob, dem: Elevations, az: number, k: number, m
   const diffs = out.method_db.map((m, i) => m - out.wave_db[i]);
   const s = differenceStats(diffs);
   const notes: string[] = [];
-  if (end < 0.95 * job.radius_m - 1.5 * cellM) notes.push(`the terrain has no data beyond ${round(end / 1000, 1)} km, where the coverage's radial ends too`);
+  if (end < 0.95 * job.radius_m - 1.5 * cellM) notes.push(`the coverage's radial ends at ${round(end / 1000, 1)} km (edge of the terrain, or no data beyond)`);
   if (pe.angle_limit_exceeded) notes.push(`the radial needs angles up to ${round(pe.grid.geometry_angle_deg, 1)}°, beyond the parabolic approximation's limit`);
   if (offBeam) notes.push(`${offBeam} point${offBeam > 1 ? "s" : ""} steeper than the source's beam left out`);
   if (underCell) notes.push(`${underCell} point${underCell > 1 ? "s" : ""} below the solver's first cell above the ground left out`);
