@@ -6,6 +6,7 @@ import { spawnSync } from "node:child_process";
 import { cpus, totalmem } from "node:os";
 import { fileURLToPath } from "node:url";
 import { benchCoverage } from "./coverage.ts";
+import { benchCoverageWaveCheck } from "./coverage-wave-check.ts";
 import { benchInterference } from "./interference.ts";
 import { benchLargeStudy, benchLazyTiles, benchQueue } from "./large-study.ts";
 import { benchLinks } from "./links.ts";
@@ -18,6 +19,7 @@ const parts: Record<string, () => Promise<unknown>> = {
   coverage: () => benchCoverage(),
   interference_200: benchInterference,
   wave: () => benchWave(),
+  coverage_wave_check: benchCoverageWaveCheck,
   large_study: benchLargeStudy,
   queue: benchQueue,
   lazy_tiles: benchLazyTiles,

@@ -18,6 +18,7 @@ import { coverageResult, formatDb, thresholdAreas, type CoverageResult } from ".
 import { mapOverlay, p1812Summary, readServiceArea, serviceAreaSummary } from "./coverage-extras.ts";
 import type { ServiceArea } from "./service-area.ts";
 import { isotropicPowerDbm } from "./field-strength.ts";
+import { coverageWaveCheck, WAVE_CHECK_DEFAULT_RADIALS } from "./coverage-wave-check.ts";
 import { studyComposite, type CompositeMember, type CompositeOutputs } from "./study-composite.ts";
 import { coverageRaster, requireOutputStage, type CoverageFigure, type CoverageOutputStage } from "./coverage-output-stage.ts";
 
@@ -182,7 +183,8 @@ export async function analyzeCoverage(study: Study, entry: CoverageInput, terrai
   raster.overlay = mapOverlay(study, computed, entry.site, sa);
   if (computed.job.p1812 && rowLabels.length) raster.probability = { values: new Float32Array(computed.job.p1812.probability), label: rowLabels[0] };
   const out = await requireOutputStage(options.outputs).write(raster, { dir: options.outDir, stem: entry.id });
-  const result = { ...coverageResult(entry.id, [site.id], computed, out.files, labels), ...(entry.note ? { note: entry.note } : {}), ...extras };
+  const check = coverageWaveCheck(computed.job, computed.dem, computed.values, entry.wave_check_radials ?? WAVE_CHECK_DEFAULT_RADIALS);
+  const result = { ...coverageResult(entry.id, [site.id], computed, out.files, labels), ...(entry.note ? { note: entry.note } : {}), ...extras, ...(check ? { wave_check: check } : {}) };
   const files = Object.fromEntries(Object.entries(out.files).map(([k, f]) => [k, join(options.outDir, f)]));
   return { result, files, figure: out.figure, svg: out.svg, extra: out.extra ?? [], computed };
 }

@@ -2,6 +2,7 @@ import { crsFromEpsg } from "../geo/crs-from-epsg.ts";
 import type { ComputedCoverage } from "./compute-coverage.ts";
 import { fieldStrengthDbuvM } from "./field-strength.ts";
 import type { ServedSite } from "./served-sites.ts";
+import type { WaveCheck } from "./coverage-wave-check.ts";
 
 /** One row of the area table: a threshold and the ground it covers. */
 export interface ThresholdArea {
@@ -46,6 +47,8 @@ export interface CoverageResult {
   p1812?: P1812Summary;
   /** the service area: its coverage share and area reliability */
   service_area?: ServiceAreaSummary;
+  /** level coverages: the wave solution along radials beside the method (coverage-wave-check.ts) */
+  wave_check?: WaveCheck;
   /** output files, relative to the output folder */
   files: Record<string, string>;
   assumptions: string[];

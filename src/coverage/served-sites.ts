@@ -135,6 +135,6 @@ export function servedSites(
 }
 
 /** ΔN back from ae = 6371·157/(157 − ΔN) km (P.1812-6 eq. (6), (7a)). */
-function dnOf(ae_m: number): number {
+export function dnOf(ae_m: number): number {
   return 157 - (157 * 6371e3) / ae_m;
 }

@@ -4,6 +4,7 @@ import { dirname, relative } from "node:path";
 import { liveMapData, scriptJson } from "./live-map-data.ts";
 import type { AnalyzedStudy } from "../analysis/analyze-study.ts";
 import type { StudyResult } from "../analysis/results.ts";
+import type { CoverageResult } from "../coverage/coverage-result.ts";
 import { loadAllStudies } from "../analysis/load-all.ts";
 import { cssString } from "./css-string.ts";
 import { formatDuration, formatFrequency, formatK, formatNumber, formatPercent, formatRatio, formatSigned, formatSmall } from "../format/quantity.ts";
@@ -15,6 +16,7 @@ import { relativeUrl } from "./relative-url.ts";
 import { analyzedStudy, getAnalyzedStudies, setAnalyzedStudies, siteData } from "./site-data.ts";
 import { studyMapSvg } from "./study-map.ts";
 import { linkWaveFieldSvg, linkWaveHeightGainSvg } from "./wave-figures.ts";
+import { coverageWaveCheckSvg } from "./wave-check-figures.ts";
 import { loadCoverageOutputStage } from "../render/coverage-output-loader.ts";
 
 // Eleventy's config object is untyped here; only the calls below are used.
@@ -113,6 +115,7 @@ export default function ridgelineSite(eleventyConfig: EleventyConfig): void {
     if (svg === undefined) throw new Error(`No overview map was drawn for study ${studyId}.`);
     return svg;
   });
+  eleventyConfig.addShortcode("waveCheckFigure", (c: CoverageResult) => coverageWaveCheckSvg(c));
   eleventyConfig.addShortcode("coverageMap", (studyId: string, coverageId: string) => {
     const map = analyzedStudy(studyId).coverage?.maps.find((m) => m.id === coverageId);
     if (!map) throw new Error(`No coverage map ${coverageId} was drawn for study ${studyId}.`);

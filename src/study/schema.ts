@@ -203,6 +203,7 @@ const coverageEntry = z
     p1812: p1812Options.optional().describe("p1812: time and location statistics, clutter, indoor reception"),
     note: text(true).pipe(z.string().min(1).max(1000)).optional().describe("a sentence for the report under the coverage's heading (e.g. how the thresholds were chosen)"),
     service_area: z.string().min(1).optional().describe("service-area polygon (GeoJSON or KML file, relative to the study): coverage share and area reliability inside it"),
+    wave_check_radials: z.number().int().min(0).max(72).default(8).describe("radials (equally spaced from north) along which the wave solution checks a level coverage's method; 0 turns the check off"),
     talk_back: z
       .object({
         tx_power_dbm: z.number().min(-30).max(60).describe("outstation / mobile transmitter power (dBm)"),

@@ -39,6 +39,7 @@ function expectedText(issue: z.core.$ZodIssue, received: unknown): string {
   switch (issue.code) {
     case "invalid_type":
       if (received === undefined) return `this required field (${issue.expected})`;
+      if (issue.expected === "int") return "a whole number";
       return `a ${issue.expected}${issue.expected === "number" ? " (without units or quotes; the unit is in the key name)" : ""}`;
     case "too_small":
       if (issue.origin === "array") return `at least ${issue.minimum} entr${Number(issue.minimum) === 1 ? "y" : "ies"}`;

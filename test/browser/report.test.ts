@@ -281,6 +281,11 @@ describe("report site in Chromium", () => {
         })),
         reliabilityRows: sec.querySelectorAll("table.area-reliability tbody tr").length,
         servedRows: Array.from(sec.querySelectorAll("table.served-sites tbody tr")).map((tr) => Array.from(tr.children).map((td) => td.textContent ?? "")),
+        waveCheck: Array.from(sec.querySelectorAll("figure.wave-check-figure svg")).map((svg) => {
+          const r = svg.getBoundingClientRect();
+          return { w: r.width, h: r.height, role: svg.getAttribute("role"), desc: svg.querySelector(":scope > desc")?.textContent ?? "", panels: svg.querySelectorAll("g.wc-panel").length };
+        }),
+        waveCheckRows: Array.from(sec.querySelectorAll("table.wave-check-table tbody tr")).map((tr) => Array.from(tr.children).map((td) => td.textContent ?? "")),
         text: (sec as HTMLElement).innerText,
       })),
     );
@@ -305,7 +310,20 @@ describe("report site in Chromium", () => {
       for (const row of f.servedRows) expect(row.join(" "), c.id).toMatch(/−?\d+\.\d/);
       expect(f.text).toMatch(/ITU-R P\.1812-6/);
       expect(f.text).toMatch(/Talk-back/);
+      // the check along radials: the figure (a panel per radial, a size, a text alternative) and
+      // the table (a row per radial, clear-path and diffraction rows, the total), its numbers through the formatter
+      expect(f.waveCheck.length, c.id).toBe(1);
+      const w = f.waveCheck[0];
+      expect(w.w > 300 && w.h > 150 && w.role === "img", `${c.id} ${JSON.stringify(w)}`).toBe(true);
+      expect(w.desc, c.id).toMatch(/radials .* wave solution .* method's loss minus the wave solution's/);
+      expect(w.panels, c.id).toBe(8);
+      expect(f.waveCheckRows.length, c.id).toBe(11);
+      for (const row of f.waveCheckRows) expect(row.join(" "), c.id).toMatch(/\d+\.\d/);
+      expect(f.text).toMatch(/Method − wave solution along each radial/);
     }
+    // a line-of-sight coverage says why it has no check
+    const visibility = results.coverage.filter((c) => c.method === "visibility");
+    for (const c of visibility) expect(facts.find((x) => x.id === `coverage-${c.id}`)!.text, c.id).toMatch(/no level to compare/);
   });
 
   it("a study whose names contain markup shows that text and runs nothing", async () => {
@@ -376,7 +394,7 @@ describe("report site in Chromium", () => {
     const all = text.join("").replace(/\s+/g, " ");
     expect(all).toContain("does not replace licensed frequency coordination");
     // The P.1812 coverage sections are in the PDF: location-probability map, tables.
-    for (const re of [/Location probability of/, /Area reliability/, /Served sites/, /Talk-back/]) expect(all).toMatch(re);
+    for (const re of [/Location probability of/, /Area reliability/, /Served sites/, /Talk-back/, /Method − wave solution along each radial/]) expect(all).toMatch(re);
     // The running header of the hostile study is text too.
     const hostilePdf = join(work, "hostile.pdf");
     await printPdf({ html_path: join(site, "studies", hostileId, "print", "index.html"), pdf_path: hostilePdf, context: browser.context });

@@ -118,6 +118,8 @@ describe("study coverage entries: bad input → exit 2 naming file, line and fie
       "    pattern:\n      azimuth_deg: 90\n      horizontal: [[0, 0], [180, 20], [300, 5]]\n",
       /coverage\[0\]\.pattern\.horizontal\n {4}received .*; expected a table covering 0° to 360°: its first angle must be 0° and its last 360° \(received 0° to 300°\)/,
     ],
+    ["check radials out of range", "    wave_check_radials: 100\n", /study\.yaml:\d+:\d+ {2}coverage\[0\]\.wave_check_radials\n {4}received 100; expected a number ≤ 72/],
+    ["check radials not a whole number", "    wave_check_radials: 2.5\n", /study\.yaml:\d+:\d+ {2}coverage\[0\]\.wave_check_radials\n {4}received 2\.5; expected a whole number/],
     ["a vertical pattern with falling angles", "    pattern:\n      vertical: [[-90, 20], [10, 0], [0, 3], [90, 20]]\n", /coverage\[0\]\.pattern\.vertical\n .*expected angles strictly rising \(entry 2, 0°, follows 10°\)/],
   ])("%s", async (_name, yaml, message) => {
     const root = join(dir, `studies-${Math.random().toString(36).slice(2)}`);
