@@ -1,6 +1,6 @@
-import { beta0Pct, EARTH_RADIUS_BETA_KM } from "../physics/itu-path-geometry.ts";
-import { newP1812CellOutput, p1812CellLoss, P1812_DEFAULTS, type P1812CellInput, type P1812CellOutput } from "../physics/p1812.ts";
-import { sphericalEarthDiffractionLoss } from "../physics/spherical-earth-diffraction.ts";
+import { beta0PctWithTau, EARTH_RADIUS_BETA_KM, inlandTau } from "../physics/itu-path-geometry.ts";
+import { newP1812CellOutput, p1812CellConstants, p1812CellLoss, P1812_DEFAULTS, type P1812CellConstants, type P1812CellInput, type P1812CellOutput } from "../physics/p1812.ts";
+import { sphericalEarthDiffractionLoss, type SphericalEarthResult } from "../physics/spherical-earth-diffraction.ts";
 import { bullingtonActualIncremental, nuMaxLineOfSight } from "./delta-bullington-incremental.ts";
 import { BLOCK1, BLOCK2, hullHighestAboveSlope, hullTangentFromRight, RadialProfile } from "./radial-profile.ts";
 import { smoothBullington } from "./smooth-bullington.ts";
@@ -121,6 +121,7 @@ export class P1812Radial {
   private txSea = false;
   private readonly cell: P1812CellInput;
   private readonly out: P1812CellOutput = newP1812CellOutput();
+  private readonly k: P1812CellConstants;
   private readonly sphOpts: { omega: number; polarization: "h" | "v"; frequency_ghz: number };
   /** maxima of the terrain height h over blocks of BLOCK1 and BLOCK2 samples (bounds for hm) */
   private readonly hMax1: Float64Array;
@@ -140,6 +141,7 @@ export class P1812Radial {
       dlt_km: 0, dlr_km: 0, hte_m: 0, hre_m: 0, hm_m: 0, omega: 0, beta0_pct: 0, ae_km: c.ae_m / 1000, dlm_km: 0, dct_km: 0, dcr_km: 0, n0: c.n0, rx_at_sea: false, Ld50_db: 0, Ldbeta_db: 0,
     };
     this.sphOpts = { omega: 0, polarization: c.polarization, frequency_ghz: c.f_ghz };
+    this.k = p1812CellConstants(c.f_ghz, c.p_pct, c.n0, c.ae_m / 1000);
   }
 
   /** Start a radial: ground at the site (m amsl), antenna (m amsl), whether the site is at sea. */
@@ -259,7 +261,8 @@ export class P1812Radial {
     const dtm = this.land.best / 1000;
     const dlm = dtm; // only sea and inland zones: every land section is inland
     const omega = this.sea.total / d;
-    const b0 = beta0Pct(phi_deg, dtm, dlm); // P.1812-6 eq. (2)–(5)
+    const tau = inlandTau(dlm); // P.1812-6 eq. (3)
+    const b0 = beta0PctWithTau(phi_deg, dtm, tau); // P.1812-6 eq. (2)–(5)
 
     // --- diffraction (§4.3): Ld50 in ae, Ldβ in aβ ---
     this.sphOpts.omega = omega;
@@ -287,7 +290,7 @@ export class P1812Radial {
     ci.rx_at_sea = rxSea;
     ci.Ld50_db = Ld50;
     ci.Ldbeta_db = Ldb;
-    const r = p1812CellLoss(ci, this.out); // P.1812-6 eq. (8)–(11), (41), (44), (46), (57)–(63)
+    const r = p1812CellLoss(ci, this.out, this.k, tau); // P.1812-6 eq. (8)–(11), (41), (44), (46), (57)–(63)
     const Ldp = r.Ldp;
     const Lbs = r.Lbs;
     const Lba = r.Lba;
@@ -311,6 +314,9 @@ export class P1812Radial {
   }
 }
 
+/** Reused result of the spherical-Earth loss (one per thread: this module's code runs in one thread). */
+const SPH_OUT: SphericalEarthResult = { Ldsph: NaN, dlos_m: NaN, transhorizon: false, hse_m: NaN, hreq_m: NaN, aem_m: NaN, Ldft: NaN };
+
 /**
  * Delta-Bullington Ld (dB) of P.1812-6 §4.3.4 for the receiver: Bullington on the clutter
  * profile `p` (eq. (21)), the zero-height profile with hts', hrs' (eq. (21)), the spherical-Earth
@@ -319,7 +325,7 @@ export class P1812Radial {
 function diffraction(p: RadialProfile, d: number, hrs: number, htsP: number, hrsP: number, ae_m: number, lambda: number, sph: { omega: number; polarization: "h" | "v"; frequency_ghz: number }): number {
   const Lbulla = bullingtonActualIncremental(p, d, hrs, lambda); // P.1812-6 eq. (21)
   const Lbulls = smoothBullington(p.d, p.n, d, htsP, hrsP, lambda, p.invTwoAe); // P.1812-6 eq. (21), zero heights
-  const Ldsph = sphericalEarthDiffractionLoss(d, htsP, hrsP, ae_m, lambda, sph).Ldsph; // P.1812-6 eq. (22)–(27)
+  const Ldsph = sphericalEarthDiffractionLoss(d, htsP, hrsP, ae_m, lambda, sph, SPH_OUT).Ldsph; // P.1812-6 eq. (22)–(27)
   return Ldsph !== Ldsph ? NaN : Lbulla + Math.max(Ldsph - Lbulls, 0); // P.1812-6 eq. (39)
 }
 

@@ -72,11 +72,10 @@ export function clearAirBlend(
     Fi = inverseComplementaryNormal(p_pct / 100) / inverseComplementaryNormal(beta0_pct / 100); // P.1812-6 eq. (40)
     Lminb0p = Lbd50 + (Lb0b + (1 - omega) * Ldp - Lbd50) * Fi; // P.1812-6 eq. (59)
   }
-  const eta = 2.5;
-  const Lminbap = eta * Math.log(Math.exp(Lba / eta) + Math.exp(Lb0p / eta)); // P.1812-6 eq. (60)
+  const Lminbap = minimumLoss(Lba, Lb0p); // P.1812-6 eq. (60)
   const Lbda = Lminbap <= Lbd ? Lminbap + (Lbd - Lminbap) * Fk : Lbd; // P.1812-6 eq. (61)
   const Lbam = Lbda + (Lminb0p - Lbda) * Fj; // P.1812-6 eq. (62)
-  const Lbc = -5 * Math.log10(Math.pow(10, -0.2 * Lbs) + Math.pow(10, -0.2 * Lbam)); // P.1812-6 eq. (63)
+  const Lbc = powerSumLoss(Lbs, Lbam); // P.1812-6 eq. (63)
   o.Fi = Fi;
   o.Lbd50 = Lbd50;
   o.Lbd = Lbd;
@@ -86,4 +85,27 @@ export function clearAirBlend(
   o.Lbam = Lbam;
   o.Lbc = Lbc;
   return o;
+}
+
+/**
+ * η·ln(exp(a/η) + exp(b/η)), η = 2.5 (P.1812-6 eq. (60), P.452-18 eq. (61)), written as
+ * max + η·ln(1 + exp(−|a − b|/η)): the same value, without overflow, two transcendental calls.
+ */
+function minimumLoss(a: number, b: number): number {
+  const eta = 2.5;
+  const hi = a > b ? a : b;
+  const lo = a > b ? b : a;
+  if (hi === Infinity || lo === -Infinity) return lo !== lo || hi !== hi ? NaN : hi; // an infinite term decides
+  return hi + eta * Math.log1p(Math.exp((lo - hi) / eta)); // P.1812-6 eq. (60)
+}
+
+/**
+ * −5·log(10^(−0.2a) + 10^(−0.2b)) (P.1812-6 eq. (63), P.452-18 eq. (64)), written as
+ * min − 5·log(1 + 10^(−0.2|a − b|)): the same value, two transcendental calls.
+ */
+function powerSumLoss(a: number, b: number): number {
+  const hi = a > b ? a : b;
+  const lo = a > b ? b : a;
+  if (hi === Infinity || lo === -Infinity) return lo !== lo || hi !== hi ? NaN : lo; // an infinite term decides
+  return lo - (5 / Math.LN10) * Math.log1p(Math.exp(-0.2 * Math.LN10 * (hi - lo))); // P.1812-6 eq. (63)
 }
