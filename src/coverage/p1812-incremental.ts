@@ -1,5 +1,16 @@
 import { beta0PctWithTau, EARTH_RADIUS_BETA_KM, inlandTau } from "../physics/itu-path-geometry.ts";
-import { newP1812CellOutput, p1812CellConstants, p1812CellLoss, P1812_DEFAULTS, type P1812CellConstants, type P1812CellInput, type P1812CellOutput } from "../physics/p1812.ts";
+import {
+  newP1812CellOutput,
+  p1812CellConstants,
+  p1812CellLoss,
+  p1812DuctingLowerBound,
+  p1812LineOfSight,
+  P1812_DEFAULTS,
+  type P1812CellConstants,
+  type P1812CellInput,
+  type P1812CellOutput,
+} from "../physics/p1812.ts";
+import { diffractionLossForTime } from "../physics/delta-bullington.ts";
 import { sphericalEarthDiffractionLoss, type SphericalEarthResult } from "../physics/spherical-earth-diffraction.ts";
 import { bullingtonActualIncremental, nuMaxLineOfSight } from "./delta-bullington-incremental.ts";
 import { BLOCK1, BLOCK2, hullHighestAboveSlope, hullTangentFromRight, RadialProfile } from "./radial-profile.ts";
@@ -17,6 +28,12 @@ export interface P1812Constants {
   n0: number;
   /** true when every clutter height is 0: the clutter profile g is then the terrain h, kept once */
   clutterFree?: boolean;
+  /**
+   * true: always compute the ducting loss Lba and hm. Default false: where a lower bound of Lba
+   * is at least Lbd = Lb0p + Ldp, Lba cannot change Lbc (p1812DuctingLowerBound in p1812.ts):
+   * Lba is then that bound and hm is NaN; Lbc and Lb are the same.
+   */
+  exact?: boolean;
 }
 
 /** What one cell's evaluation gives (dB unless named), filled in place. */
@@ -29,10 +46,12 @@ export interface P1812CellLoss {
   Ld50: number;
   Ldp: number;
   Lbs: number;
+  /** ducting loss, or a lower bound of it ≥ Lbd where it cannot change Lbc (see P1812Constants.exact) */
   Lba: number;
   theta_mrad: number;
   dlt_km: number;
   dlr_km: number;
+  /** terrain roughness hm (m); NaN where the ducting loss was left out */
   hm_m: number;
   beta0_pct: number;
   omega: number;
@@ -252,8 +271,7 @@ export class P1812Radial {
     const hst = hstLs < h0 ? hstLs : h0; // P.1812-6 eq. (90a)
     const hsr = hsrLs < hR_m ? hsrLs : hR_m; // P.1812-6 eq. (90b)
     const m = (hsr - hst) / d; // P.1812-6 eq. (91)
-    // the span between the horizon points taken in order (as pathGeometry: they can cross)
-    const hm = lt >= 0 ? roughness(pH, this.hMax1, this.hMax2, lt < lr ? lt : lr, lt < lr ? lr : lt, hst, m) : 0; // P.1812-6 eq. (93)
+    // hm (eq. (93)) enters only the ducting loss: computed below unless Lba is negligible
 
     // --- zones (§3.6, Table 5) ---
     this.land.finish(d, !rxSea);
@@ -281,7 +299,6 @@ export class P1812Radial {
     ci.dlr_km = dlr / 1000;
     ci.hte_m = hts - hst; // P.1812-6 eq. (92a)
     ci.hre_m = hrs - hsr; // P.1812-6 eq. (92b)
-    ci.hm_m = hm;
     ci.omega = omega;
     ci.beta0_pct = b0;
     ci.dlm_km = dlm;
@@ -290,7 +307,16 @@ export class P1812Radial {
     ci.rx_at_sea = rxSea;
     ci.Ld50_db = Ld50;
     ci.Ldbeta_db = Ldb;
-    const r = p1812CellLoss(ci, this.out, this.k, tau); // P.1812-6 eq. (8)–(11), (41), (44), (46), (57)–(63)
+    // Lba has no effect where a lower bound of it (without hm) is at least Lbd = Lb0p + Ldp
+    // (eq. (60), (61); see p1812DuctingLowerBound): the roughness search is then skipped, hm left NaN.
+    const kc = this.k;
+    const bound = c.exact ? NaN : p1812DuctingLowerBound(ci, this.out, kc);
+    const Lb0p = p1812LineOfSight(dkm, hts, hrs, c.f_ghz, c.p_pct, b0, ci.dlt_km, ci.dlr_km, this.out.los, kc).Lb0p;
+    const skipDucting = bound >= Lb0p + diffractionLossForTime(c.p_pct, b0, Ld50, Ldb); // P.1812-6 eq. (41), (43)
+    // the span between the horizon points taken in order (as pathGeometry: they can cross)
+    const hm = skipDucting ? NaN : lt >= 0 ? roughness(pH, this.hMax1, this.hMax2, lt < lr ? lt : lr, lt < lr ? lr : lt, hst, m) : 0; // P.1812-6 eq. (93)
+    ci.hm_m = hm;
+    const r = p1812CellLoss(ci, this.out, kc, tau, skipDucting ? bound : NaN); // P.1812-6 eq. (8)–(11), (41), (44), (46), (57)–(63)
     const Ldp = r.Ldp;
     const Lbs = r.Lbs;
     const Lba = r.Lba;

@@ -125,3 +125,32 @@ export function anomalousConstants(f_ghz: number, p_pct: number, ae_km: number, 
     lnP: Math.log(p_pct),
   };
 }
+
+/**
+ * A lower bound (dB) of `ductingLayerReflectionLoss` that needs neither the terrain roughness
+ * hm nor the effective heights hte, hre: Ast, Asr ≥ 0 are left out of Af (eq. (47), (48)), and
+ * A(p) (eq. (53)) is taken at β = β0, its largest value (μ2, μ3 ≤ 1, eq. (54)–(56)): A(p)
+ * decreases as β grows (checked for 1e-12 ≤ β ≤ 50 %, 1 ≤ p ≤ 50 %, 0 < d ≤ 3000 km in
+ * test/unit/ducting-lower-bound.test.ts; as β → 0 its slope in log β tends to
+ * −(1.2 + 3.7e-3·d) < 0). Act, Acr and γd·θ′ are exact. A coverage uses it to leave out Lba
+ * (and hm) where the bound is so far above Lb0p that Lba cannot move the blend (see
+ * P1812_DUCTING_NEGLIGIBLE_DB in p1812.ts).
+ * @param i inputs (hm_m, hte_m, hre_m are not read)
+ * @param k the terms of f, p and ae alone
+ * @returns a value ≤ Lba (dB)
+ */
+export function ductingLossLowerBound(i: AnomalousInput, k: AnomalousConstants): number {
+  const d = i.d_km;
+  const Act = i.dct_km <= 5 && i.dct_km <= i.dlt_km && i.omega >= 0.75 ? -3 * Math.exp(-0.25 * i.dct_km * i.dct_km) * (1 + Math.tanh(0.07 * (50 - i.hts_m))) : 0; // P.1812-6 eq. (49)
+  const Acr = i.dcr_km <= 5 && i.dcr_km <= i.dlr_km && i.omega >= 0.75 ? -3 * Math.exp(-0.25 * i.dcr_km * i.dcr_km) * (1 + Math.tanh(0.07 * (50 - i.hrs_m))) : 0; // P.1812-6 eq. (49)
+  const tt1 = i.theta_t_mrad <= 0.1 * i.dlt_km ? i.theta_t_mrad : 0.1 * i.dlt_km; // P.1812-6 eq. (52a)
+  const tr1 = i.theta_r_mrad <= 0.1 * i.dlr_km ? i.theta_r_mrad : 0.1 * i.dlr_km; // P.1812-6 eq. (52a)
+  const theta1 = (1e3 * d) / i.ae_km + tt1 + tr1; // P.1812-6 eq. (52)
+  const lnBeta = Math.log(i.beta0_pct); // β ≤ β0 (eq. (54)), the bound of A(p) at β = β0
+  const lb = lnBeta / Math.LN10;
+  const Gamma = (1.076 * Math.exp(-1.012 * Math.log(2.0058 - lb))) * Math.exp(-(9.51 - 4.8 * lb + 0.198 * lb * lb) * 1e-6 * Math.exp(1.13 * Math.log(d))); // P.1812-6 eq. (53a)
+  const lnPb = k.lnP - lnBeta;
+  const Ap = -12 + (1.2 + 3.7e-3 * d) * (lnPb / Math.LN10) + 12 * Math.exp(Gamma * lnPb); // P.1812-6 eq. (53)
+  const Af = 102.45 + k.twentyLogF + 20 * Math.log10(i.dlt_km + i.dlr_km) + k.Alf + Act + Acr; // P.1812-6 eq. (47) without Ast, Asr ≥ 0
+  return Af + k.gammaD * theta1 + Ap; // P.1812-6 eq. (46), (50)
+}

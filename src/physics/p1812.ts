@@ -27,7 +27,7 @@
  * clutter category only sets σL through the receiver's height relative to its clutter).
  */
 import { clearAirBlend, interpolationFj, interpolationFk, type ClearAirBlend } from "./itu-blend.ts";
-import { anomalousConstants, ductingLayerReflectionLoss, type AnomalousConstants, type AnomalousInput } from "./itu-anomalous.ts";
+import { anomalousConstants, ductingLayerReflectionLoss, ductingLossLowerBound, type AnomalousConstants, type AnomalousInput } from "./itu-anomalous.ts";
 import { deltaBullingtonOverSurface, diffractionLossForTime } from "./delta-bullington.ts";
 import {
   beta0Pct,
@@ -421,36 +421,20 @@ export function newP1812CellOutput(): P1812CellOutput {
  * @param out reusable output (its `los`, `blend`, `anomalous` are filled too)
  * @param k terms of f, p, N0 and ae alone (from `p1812CellConstants` for c's values; default: computed)
  * @param tau τ of eq. (3) for c.dlm_km (default: computed)
+ * @param ductingBound a lower bound of Lba from `p1812DuctingLowerBound` (default: none). When it
+ *   is at least Lbd = Lb0p + Ldp, Lba has no effect on Lbc (see there): the bound stands in for
+ *   it (out.Lba is then the bound) and c.hm_m, c.hte_m, c.hre_m are not read.
  * @returns `out`
  */
-export function p1812CellLoss(c: P1812CellInput, out: P1812CellOutput, k: P1812CellConstants = p1812CellConstants(c.frequency_ghz, c.time_pct, c.n0, c.ae_km), tau = inlandTau(c.dlm_km)): P1812CellOutput {
+export function p1812CellLoss(c: P1812CellInput, out: P1812CellOutput, k: P1812CellConstants = p1812CellConstants(c.frequency_ghz, c.time_pct, c.n0, c.ae_km), tau = inlandTau(c.dlm_km), ductingBound = NaN): P1812CellOutput {
   const f = c.frequency_ghz;
   const p = c.time_pct;
   const Fj = interpolationFj(c.theta_mrad); // P.1812-6 eq. (57)
   const Fk = interpolationFk(c.d_km); // P.1812-6 eq. (58)
   const los = p1812LineOfSight(c.d_km, c.hts_m, c.hrs_m, f, p, c.beta0_pct, c.dlt_km, c.dlr_km, out.los, k);
   const Ldp = diffractionLossForTime(p, c.beta0_pct, c.Ld50_db, c.Ldbeta_db); // P.1812-6 eq. (41)
-  const a = out.anomalous;
-  a.d_km = c.d_km;
-  a.dlt_km = c.dlt_km;
-  a.dlr_km = c.dlr_km;
-  a.dct_km = c.dct_km;
-  a.dcr_km = c.dcr_km;
-  a.dlm_km = c.dlm_km;
-  a.hts_m = c.hts_m;
-  a.hrs_m = c.hrs_m;
-  a.hte_m = c.hte_m;
-  a.hre_m = c.hre_m;
-  a.hm_m = c.hm_m;
-  a.theta_t_mrad = c.theta_t_mrad;
-  a.theta_r_mrad = c.theta_r_mrad;
-  a.f_ghz = f;
-  a.p_pct = p;
-  a.omega = c.omega;
-  a.ae_km = c.ae_km;
-  a.beta0_pct = c.beta0_pct;
-  a.low_frequency_correction = true;
-  const Lba = ductingLayerReflectionLoss(a, k.anomalous, tau); // P.1812-6 eq. (46)
+  const a = anomalousInput(c, out.anomalous);
+  const Lba = ductingBound >= los.Lb0p + Ldp ? ductingBound : ductingLayerReflectionLoss(a, k.anomalous, tau); // P.1812-6 eq. (46); a bound ≥ Lbd decides eq. (61) alike
   const Lbs = p1812Troposcatter(c.d_km, c.theta_mrad, f, p, c.n0, k.troposcatter); // P.1812-6 eq. (44)
   const blend = clearAirBlend(p, c.beta0_pct, c.omega, los.Lbfs, los.Lb0p, los.Lb0b, c.Ld50_db, Ldp, Lba, Lbs, Fj, Fk, out.blend);
   const Lloc = c.rx_at_sea || c.sigma_l_db === 0 ? 0 : -inverseComplementaryNormal(c.location_pct / 100) * c.sigma_l_db; // P.1812-6 eq. (69) (location term)
@@ -464,6 +448,46 @@ export function p1812CellLoss(c: P1812CellInput, out: P1812CellOutput, k: P1812C
   out.Fj = Fj;
   out.Fk = Fk;
   return out;
+}
+
+/** c's values in the ducting loss's input `a` (filled in place). */
+function anomalousInput(c: P1812CellInput, a: AnomalousInput): AnomalousInput {
+  a.d_km = c.d_km;
+  a.dlt_km = c.dlt_km;
+  a.dlr_km = c.dlr_km;
+  a.dct_km = c.dct_km;
+  a.dcr_km = c.dcr_km;
+  a.dlm_km = c.dlm_km;
+  a.hts_m = c.hts_m;
+  a.hrs_m = c.hrs_m;
+  a.hte_m = c.hte_m;
+  a.hre_m = c.hre_m;
+  a.hm_m = c.hm_m;
+  a.theta_t_mrad = c.theta_t_mrad;
+  a.theta_r_mrad = c.theta_r_mrad;
+  a.f_ghz = c.frequency_ghz;
+  a.p_pct = c.time_pct;
+  a.omega = c.omega;
+  a.ae_km = c.ae_km;
+  a.beta0_pct = c.beta0_pct;
+  a.low_frequency_correction = true;
+  return a;
+}
+
+/**
+ * A lower bound of the ducting loss Lba for the cell (`ductingLossLowerBound`), which needs
+ * neither hm nor hte, hre. Lba enters the result only through Lminbap = η·ln(exp(Lba/η) +
+ * exp(Lb0p/η)) ≥ Lba (eq. (60)), and where Lminbap > Lbd = Lb0p + Ldp, Lbda = Lbd (eq. (61))
+ * whatever Lminbap is. So where this bound is at least Lbd, Lba has no effect: a coverage then
+ * skips the roughness search and passes the bound to `p1812CellLoss` in place of Lba — the
+ * same Lbc, exactly.
+ * @param c the cell's scalars (hm_m, hte_m, hre_m not read)
+ * @param out scratch (its `anomalous` is filled)
+ * @param k terms of f, p, N0 and ae alone
+ * @returns a value ≤ Lba (dB)
+ */
+export function p1812DuctingLowerBound(c: P1812CellInput, out: P1812CellOutput, k: P1812CellConstants): number {
+  return ductingLossLowerBound(anomalousInput(c, out.anomalous), k.anomalous);
 }
 
 /**
