@@ -138,6 +138,9 @@ export class P1812Radial {
   private readonly lambda: number;
   private readonly aeB_m = EARTH_RADIUS_BETA_KM * 1000;
   private txSea = false;
+  /** the last running maximum slope seen and its angle θt (mrad) */
+  private slopeT = NaN;
+  private thetaTmax = NaN;
   private readonly cell: P1812CellInput;
   private readonly out: P1812CellOutput = newP1812CellOutput();
   private readonly k: P1812CellConstants;
@@ -220,7 +223,9 @@ export class P1812Radial {
     let dlr: number;
     if (trans) {
       lt = pH.argMaxSlopeZ;
-      thetaT = 1000 * Math.atan(pH.maxSlopeZ); // P.1812-6 eq. (76), (78)
+      // the running maximum changes at few samples: keep its angle
+      if (pH.maxSlopeZ !== this.slopeT) (this.slopeT = pH.maxSlopeZ), (this.thetaTmax = 1000 * Math.atan(pH.maxSlopeZ)); // P.1812-6 eq. (76), (78)
+      thetaT = this.thetaTmax;
       const zR = hrs - d * d * k;
       lr = hullTangentFromRight(pH.hullZ, pH.nHullZ, D, pH.z, d, zR);
       thetaR = 1000 * Math.atan((pH.z[lr] - zR) / (d - D[lr]) - 2 * k * d); // P.1812-6 eq. (79)

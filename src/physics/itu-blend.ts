@@ -45,7 +45,8 @@ export function interpolationFk(d_km: number): number {
  *   Lbda = Lbd if Lminbap > Lbd, else Lminbap + (Lbd − Lminbap)·Fk;
  *   Lbam = Lbda + (Lminb0p − Lbda)·Fj;
  *   Lbc = −5·log(10^(−0.2·Lbs) + 10^(−0.2·Lbam)).
- * Pure scalar function (no profile), so a coverage sweep can call it per cell.
+ * Pure scalar function (no profile), so a coverage sweep can call it per cell; `Ip`, I(p/100),
+ * may be given (a coverage computes it once).
  * @returns the blended losses
  */
 export function clearAirBlend(
@@ -62,6 +63,7 @@ export function clearAirBlend(
   Fj: number,
   Fk: number,
   out?: ClearAirBlend,
+  Ip = inverseComplementaryNormal(p_pct / 100),
 ): ClearAirBlend {
   const o = out ?? ({} as ClearAirBlend);
   const Lbd50 = Lbfs + Ld50; // P.1812-6 eq. (42)
@@ -69,7 +71,7 @@ export function clearAirBlend(
   let Lminb0p = Lb0p + (1 - omega) * Ldp; // P.1812-6 eq. (59)
   let Fi = 1;
   if (p_pct >= beta0_pct) {
-    Fi = inverseComplementaryNormal(p_pct / 100) / inverseComplementaryNormal(beta0_pct / 100); // P.1812-6 eq. (40)
+    Fi = Ip / inverseComplementaryNormal(beta0_pct / 100); // P.1812-6 eq. (40)
     Lminb0p = Lbd50 + (Lb0b + (1 - omega) * Ldp - Lbd50) * Fi; // P.1812-6 eq. (59)
   }
   const Lminbap = minimumLoss(Lba, Lb0p); // P.1812-6 eq. (60)

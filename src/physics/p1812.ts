@@ -217,6 +217,8 @@ export interface P1812CellConstants {
   /** eq. (44) without its d and θ terms */
   troposcatter: number;
   anomalous: AnomalousConstants;
+  /** I(p/100) of eq. (40) */
+  Ip: number;
 }
 
 /**
@@ -237,6 +239,7 @@ export function p1812CellConstants(f_ghz: number, p_pct: number, n0: number, ae_
     logP50: Math.log10(p_pct / 50),
     troposcatter: troposcatterConstant(f_ghz, p_pct, n0),
     anomalous: anomalousConstants(f_ghz, p_pct, ae_km, true),
+    Ip: inverseComplementaryNormal(p_pct / 100),
   };
 }
 
@@ -436,7 +439,7 @@ export function p1812CellLoss(c: P1812CellInput, out: P1812CellOutput, k: P1812C
   const a = anomalousInput(c, out.anomalous);
   const Lba = ductingBound >= los.Lb0p + Ldp ? ductingBound : ductingLayerReflectionLoss(a, k.anomalous, tau); // P.1812-6 eq. (46); a bound ≥ Lbd decides eq. (61) alike
   const Lbs = p1812Troposcatter(c.d_km, c.theta_mrad, f, p, c.n0, k.troposcatter); // P.1812-6 eq. (44)
-  const blend = clearAirBlend(p, c.beta0_pct, c.omega, los.Lbfs, los.Lb0p, los.Lb0b, c.Ld50_db, Ldp, Lba, Lbs, Fj, Fk, out.blend);
+  const blend = clearAirBlend(p, c.beta0_pct, c.omega, los.Lbfs, los.Lb0p, los.Lb0b, c.Ld50_db, Ldp, Lba, Lbs, Fj, Fk, out.blend, k.Ip);
   const Lloc = c.rx_at_sea || c.sigma_l_db === 0 ? 0 : -inverseComplementaryNormal(c.location_pct / 100) * c.sigma_l_db; // P.1812-6 eq. (69) (location term)
   const Lb = Math.max(los.Lb0p, blend.Lbc + Lloc); // P.1812-6 eq. (69)
   out.Lb = Lb;
