@@ -316,12 +316,12 @@ export class P1812Radial {
     // (eq. (60), (61); see p1812DuctingLowerBound): the roughness search is then skipped, hm left NaN.
     const kc = this.k;
     const bound = c.exact ? NaN : p1812DuctingLowerBound(ci, this.out, kc);
-    const Lb0p = p1812LineOfSight(dkm, hts, hrs, c.f_ghz, c.p_pct, b0, ci.dlt_km, ci.dlr_km, this.out.los, kc).Lb0p;
+    const Lb0p = p1812LineOfSight(dkm, hts, hrs, c.f_ghz, c.p_pct, b0, ci.dlt_km, ci.dlr_km, this.out.los, kc).Lb0p; // P.1812-6 eq. (8)–(10), kept in out.los
     const skipDucting = bound >= Lb0p + diffractionLossForTime(c.p_pct, b0, Ld50, Ldb); // P.1812-6 eq. (41), (43)
     // the span between the horizon points taken in order (as pathGeometry: they can cross)
     const hm = skipDucting ? NaN : lt >= 0 ? roughness(pH, this.hMax1, this.hMax2, lt < lr ? lt : lr, lt < lr ? lr : lt, hst, m) : 0; // P.1812-6 eq. (93)
     ci.hm_m = hm;
-    const r = p1812CellLoss(ci, this.out, kc, tau, skipDucting ? bound : NaN); // P.1812-6 eq. (8)–(11), (41), (44), (46), (57)–(63)
+    const r = p1812CellLoss(ci, this.out, kc, tau, skipDucting ? bound : NaN, true); // P.1812-6 eq. (8)–(11), (41), (44), (46), (57)–(63)
     const Ldp = r.Ldp;
     const Lbs = r.Lbs;
     const Lba = r.Lba;

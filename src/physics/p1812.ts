@@ -427,14 +427,23 @@ export function newP1812CellOutput(): P1812CellOutput {
  * @param ductingBound a lower bound of Lba from `p1812DuctingLowerBound` (default: none). When it
  *   is at least Lbd = Lb0p + Ldp, Lba has no effect on Lbc (see there): the bound stands in for
  *   it (out.Lba is then the bound) and c.hm_m, c.hte_m, c.hre_m are not read.
+ * @param losDone true when out.los already holds `p1812LineOfSight` for c (a coverage that
+ *   needed Lb0p first): it is not computed again
  * @returns `out`
  */
-export function p1812CellLoss(c: P1812CellInput, out: P1812CellOutput, k: P1812CellConstants = p1812CellConstants(c.frequency_ghz, c.time_pct, c.n0, c.ae_km), tau = inlandTau(c.dlm_km), ductingBound = NaN): P1812CellOutput {
+export function p1812CellLoss(
+  c: P1812CellInput,
+  out: P1812CellOutput,
+  k: P1812CellConstants = p1812CellConstants(c.frequency_ghz, c.time_pct, c.n0, c.ae_km),
+  tau = inlandTau(c.dlm_km),
+  ductingBound = NaN,
+  losDone = false,
+): P1812CellOutput {
   const f = c.frequency_ghz;
   const p = c.time_pct;
   const Fj = interpolationFj(c.theta_mrad); // P.1812-6 eq. (57)
   const Fk = interpolationFk(c.d_km); // P.1812-6 eq. (58)
-  const los = p1812LineOfSight(c.d_km, c.hts_m, c.hrs_m, f, p, c.beta0_pct, c.dlt_km, c.dlr_km, out.los, k);
+  const los = losDone ? out.los : p1812LineOfSight(c.d_km, c.hts_m, c.hrs_m, f, p, c.beta0_pct, c.dlt_km, c.dlr_km, out.los, k);
   const Ldp = diffractionLossForTime(p, c.beta0_pct, c.Ld50_db, c.Ldbeta_db); // P.1812-6 eq. (41)
   const a = anomalousInput(c, out.anomalous);
   const Lba = ductingBound >= los.Lb0p + Ldp ? ductingBound : ductingLayerReflectionLoss(a, k.anomalous, tau); // P.1812-6 eq. (46); a bound ≥ Lbd decides eq. (61) alike
