@@ -135,22 +135,32 @@ export function anomalousConstants(f_ghz: number, p_pct: number, ae_km: number, 
  * −(1.2 + 3.7e-3·d) < 0). Act, Acr and γd·θ′ are exact. A coverage uses it to leave out Lba
  * (and hm) where the bound is so far above Lb0p that Lba cannot move the blend (see
  * P1812_DUCTING_NEGLIGIBLE_DB in p1812.ts).
+ * With a `target`, a cruder bound is tried first and returned when it already reaches the
+ * target: for p ≥ β0, (p/β)^Γ ≥ 1 for every β ≤ β0 (Γ > 0 for β < 101 %), so
+ * A(p) ≥ (1.2 + 3.7e-3·d)·log(p/β0) without Γ.
  * @param i inputs (hm_m, hte_m, hre_m are not read)
  * @param k the terms of f, p and ae alone
+ * @param target the value the caller compares the bound with (default +∞: the full bound)
  * @returns a value ≤ Lba (dB)
  */
-export function ductingLossLowerBound(i: AnomalousInput, k: AnomalousConstants): number {
+export function ductingLossLowerBound(i: AnomalousInput, k: AnomalousConstants, target = Infinity): number {
   const d = i.d_km;
   const Act = i.dct_km <= 5 && i.dct_km <= i.dlt_km && i.omega >= 0.75 ? -3 * Math.exp(-0.25 * i.dct_km * i.dct_km) * (1 + Math.tanh(0.07 * (50 - i.hts_m))) : 0; // P.1812-6 eq. (49)
   const Acr = i.dcr_km <= 5 && i.dcr_km <= i.dlr_km && i.omega >= 0.75 ? -3 * Math.exp(-0.25 * i.dcr_km * i.dcr_km) * (1 + Math.tanh(0.07 * (50 - i.hrs_m))) : 0; // P.1812-6 eq. (49)
   const tt1 = i.theta_t_mrad <= 0.1 * i.dlt_km ? i.theta_t_mrad : 0.1 * i.dlt_km; // P.1812-6 eq. (52a)
   const tr1 = i.theta_r_mrad <= 0.1 * i.dlr_km ? i.theta_r_mrad : 0.1 * i.dlr_km; // P.1812-6 eq. (52a)
   const theta1 = (1e3 * d) / i.ae_km + tt1 + tr1; // P.1812-6 eq. (52)
+  const Af = 102.45 + k.twentyLogF + 20 * Math.log10(i.dlt_km + i.dlr_km) + k.Alf + Act + Acr; // P.1812-6 eq. (47) without Ast, Asr ≥ 0
+  const base = Af + k.gammaD * theta1; // P.1812-6 eq. (46), (50) without A(p)
   const lnBeta = Math.log(i.beta0_pct); // β ≤ β0 (eq. (54)), the bound of A(p) at β = β0
+  const lnPb = k.lnP - lnBeta;
+  const c = 1.2 + 3.7e-3 * d;
+  if (lnPb >= 0) {
+    const crude = base + c * (lnPb / Math.LN10); // P.1812-6 eq. (53) with (p/β)^Γ ≥ 1: −12 + 12 cancel
+    if (crude >= target) return crude;
+  }
   const lb = lnBeta / Math.LN10;
   const Gamma = (1.076 * Math.exp(-1.012 * Math.log(2.0058 - lb))) * Math.exp(-(9.51 - 4.8 * lb + 0.198 * lb * lb) * 1e-6 * Math.exp(1.13 * Math.log(d))); // P.1812-6 eq. (53a)
-  const lnPb = k.lnP - lnBeta;
-  const Ap = -12 + (1.2 + 3.7e-3 * d) * (lnPb / Math.LN10) + 12 * Math.exp(Gamma * lnPb); // P.1812-6 eq. (53)
-  const Af = 102.45 + k.twentyLogF + 20 * Math.log10(i.dlt_km + i.dlr_km) + k.Alf + Act + Acr; // P.1812-6 eq. (47) without Ast, Asr ≥ 0
-  return Af + k.gammaD * theta1 + Ap; // P.1812-6 eq. (46), (50)
+  const Ap = -12 + c * (lnPb / Math.LN10) + 12 * Math.exp(Gamma * lnPb); // P.1812-6 eq. (53)
+  return base + Ap; // P.1812-6 eq. (46), (50)
 }

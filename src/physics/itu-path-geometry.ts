@@ -164,9 +164,10 @@ export function inlandTau(dlm_km: number): number {
  * @returns β0 (%)
  */
 export function beta0PctWithTau(phi_deg: number, dtm_km: number, tau: number): number {
-  const a = Math.exp((-Math.LN10 * dtm_km) / (16 - 6.6 * tau)); // P.1812-6 eq. (2), 10^(−dtm/(16 − 6.6τ))
-  const b = Math.exp(-Math.LN10 * 5 * (0.496 + 0.354 * tau)); // P.1812-6 eq. (2), 10^(−5(0.496 + 0.354τ))
-  let lnMu1 = 0.2 * Math.log(a + b); // P.1812-6 eq. (2)
+  const lnA = (-Math.LN10 * dtm_km) / (16 - 6.6 * tau); // P.1812-6 eq. (2), ln 10^(−dtm/(16 − 6.6τ))
+  const lnB = -Math.LN10 * 5 * (0.496 + 0.354 * tau); // P.1812-6 eq. (2), ln 10^(−5(0.496 + 0.354τ))
+  const hi = lnA > lnB ? lnA : lnB;
+  let lnMu1 = 0.2 * (hi + Math.log1p(Math.exp((lnA > lnB ? lnB : lnA) - hi))); // P.1812-6 eq. (2), 0.2·ln(a + b)
   if (lnMu1 > 0) lnMu1 = 0; // μ1 ≤ 1
   const aphi = Math.abs(phi_deg);
   if (aphi <= 70) return Math.exp(Math.LN10 * (-0.015 * aphi + 1.67) + lnMu1 * (1 + (-0.935 + 0.0176 * aphi))); // P.1812-6 eq. (4), (5): 10^(−0.015|φ| + 1.67)·μ1·μ4

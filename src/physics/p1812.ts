@@ -496,10 +496,11 @@ function anomalousInput(c: P1812CellInput, a: AnomalousInput): AnomalousInput {
  * @param c the cell's scalars (hm_m, hte_m, hre_m not read)
  * @param out scratch (its `anomalous` is filled)
  * @param k terms of f, p, N0 and ae alone
+ * @param target what the bound will be compared with (Lbd): a cruder bound that reaches it may be returned
  * @returns a value ≤ Lba (dB)
  */
-export function p1812DuctingLowerBound(c: P1812CellInput, out: P1812CellOutput, k: P1812CellConstants): number {
-  return ductingLossLowerBound(anomalousInput(c, out.anomalous), k.anomalous);
+export function p1812DuctingLowerBound(c: P1812CellInput, out: P1812CellOutput, k: P1812CellConstants, target = Infinity): number {
+  return ductingLossLowerBound(anomalousInput(c, out.anomalous), k.anomalous, target);
 }
 
 /**

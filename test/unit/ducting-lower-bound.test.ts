@@ -59,6 +59,8 @@ describe("ductingLossLowerBound never exceeds ductingLayerReflectionLoss (P.1812
           const exact = ductingLayerReflectionLoss(i);
           const bound = ductingLossLowerBound(i, k);
           expect(bound, JSON.stringify(r)).toBeLessThanOrEqual(exact + 1e-9);
+          // with a target, the cruder bound it may return is still below Lba
+          for (const target of [exact - 40, exact - 10, exact]) expect(ductingLossLowerBound(i, k, target), JSON.stringify({ ...r, target })).toBeLessThanOrEqual(exact + 1e-9);
         },
       ),
       { numRuns: 5000, seed: 1812 },
