@@ -30,7 +30,7 @@ export interface P1812Constants {
   clutterFree?: boolean;
   /**
    * true: always compute the ducting loss Lba and hm. Default false: where a lower bound of Lba
-   * is at least Lbd = Lb0p + Ldp, Lba cannot change Lbc (p1812DuctingLowerBound in p1812.ts):
+   * is above Lbd = Lb0p + Ldp, Lba cannot change Lbc (p1812DuctingLowerBound in p1812.ts):
    * Lba is then that bound and hm is NaN; Lbc and Lb are the same.
    */
   exact?: boolean;
@@ -312,13 +312,13 @@ export class P1812Radial {
     ci.rx_at_sea = rxSea;
     ci.Ld50_db = Ld50;
     ci.Ldbeta_db = Ldb;
-    // Lba has no effect where a lower bound of it (without hm) is at least Lbd = Lb0p + Ldp
+    // Lba has no effect where a lower bound of it (without hm) is above Lbd = Lb0p + Ldp
     // (eq. (60), (61); see p1812DuctingLowerBound): the roughness search is then skipped, hm left NaN.
     const kc = this.k;
     const Lb0p = p1812LineOfSight(dkm, hts, hrs, c.f_ghz, c.p_pct, b0, ci.dlt_km, ci.dlr_km, this.out.los, kc).Lb0p; // P.1812-6 eq. (8)–(10), kept in out.los
     const Lbd = Lb0p + diffractionLossForTime(c.p_pct, b0, Ld50, Ldb); // P.1812-6 eq. (41), (43)
     const bound = c.exact ? NaN : p1812DuctingLowerBound(ci, this.out, kc, Lbd);
-    const skipDucting = bound >= Lbd;
+    const skipDucting = bound > Lbd; // as p1812CellLoss decides
     // the span between the horizon points taken in order (as pathGeometry: they can cross)
     const hm = skipDucting ? NaN : lt >= 0 ? roughness(pH, this.hMax1, this.hMax2, lt < lr ? lt : lr, lt < lr ? lr : lt, hst, m) : 0; // P.1812-6 eq. (93)
     ci.hm_m = hm;

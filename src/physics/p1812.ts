@@ -425,8 +425,9 @@ export function newP1812CellOutput(): P1812CellOutput {
  * @param k terms of f, p, N0 and ae alone (from `p1812CellConstants` for c's values; default: computed)
  * @param tau τ of eq. (3) for c.dlm_km (default: computed)
  * @param ductingBound a lower bound of Lba from `p1812DuctingLowerBound` (default: none). When it
- *   is at least Lbd = Lb0p + Ldp, Lba has no effect on Lbc (see there): the bound stands in for
- *   it (out.Lba is then the bound) and c.hm_m, c.hte_m, c.hre_m are not read.
+ *   is above Lbd = Lb0p + Ldp, Lba has no effect on Lbc (see there): the bound stands in for
+ *   it (out.Lba is then the bound, out.Fk NaN: eq. (61) does not use it) and c.hm_m, c.hte_m,
+ *   c.hre_m are not read.
  * @param losDone true when out.los already holds `p1812LineOfSight` for c (a coverage that
  *   needed Lb0p first): it is not computed again
  * @returns `out`
@@ -442,11 +443,12 @@ export function p1812CellLoss(
   const f = c.frequency_ghz;
   const p = c.time_pct;
   const Fj = interpolationFj(c.theta_mrad); // P.1812-6 eq. (57)
-  const Fk = interpolationFk(c.d_km); // P.1812-6 eq. (58)
   const los = losDone ? out.los : p1812LineOfSight(c.d_km, c.hts_m, c.hrs_m, f, p, c.beta0_pct, c.dlt_km, c.dlr_km, out.los, k);
   const Ldp = diffractionLossForTime(p, c.beta0_pct, c.Ld50_db, c.Ldbeta_db); // P.1812-6 eq. (41)
-  const a = anomalousInput(c, out.anomalous);
-  const Lba = ductingBound >= los.Lb0p + Ldp ? ductingBound : ductingLayerReflectionLoss(a, k.anomalous, tau); // P.1812-6 eq. (46); a bound ≥ Lbd decides eq. (61) alike
+  // a bound above Lbd decides eq. (61) as Lba would (Lbda = Lbd), and Fk is then not used
+  const useBound = ductingBound > los.Lb0p + Ldp;
+  const Fk = useBound ? NaN : interpolationFk(c.d_km); // P.1812-6 eq. (58)
+  const Lba = useBound ? ductingBound : ductingLayerReflectionLoss(anomalousInput(c, out.anomalous), k.anomalous, tau); // P.1812-6 eq. (46)
   const Lbs = p1812Troposcatter(c.d_km, c.theta_mrad, f, p, c.n0, k.troposcatter); // P.1812-6 eq. (44)
   const blend = clearAirBlend(p, c.beta0_pct, c.omega, los.Lbfs, los.Lb0p, los.Lb0b, c.Ld50_db, Ldp, Lba, Lbs, Fj, Fk, out.blend, k.Ip);
   const Lloc = c.rx_at_sea || c.sigma_l_db === 0 ? 0 : -inverseComplementaryNormal(c.location_pct / 100) * c.sigma_l_db; // P.1812-6 eq. (69) (location term)
@@ -490,7 +492,7 @@ function anomalousInput(c: P1812CellInput, a: AnomalousInput): AnomalousInput {
  * A lower bound of the ducting loss Lba for the cell (`ductingLossLowerBound`), which needs
  * neither hm nor hte, hre. Lba enters the result only through Lminbap = η·ln(exp(Lba/η) +
  * exp(Lb0p/η)) ≥ Lba (eq. (60)), and where Lminbap > Lbd = Lb0p + Ldp, Lbda = Lbd (eq. (61))
- * whatever Lminbap is. So where this bound is at least Lbd, Lba has no effect: a coverage then
+ * whatever Lminbap is. So where this bound is above Lbd, Lba has no effect: a coverage then
  * skips the roughness search and passes the bound to `p1812CellLoss` in place of Lba — the
  * same Lbc, exactly.
  * @param c the cell's scalars (hm_m, hte_m, hre_m not read)
