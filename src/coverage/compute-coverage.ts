@@ -106,7 +106,9 @@ export function prepareCoverage(terrain: Terrain, req: CoverageRequest, options:
   const site_ground_m = terrain.elevation(req.site.lat_deg, req.site.lon_deg);
   const f = req.frequency_ghz;
   const eirp_dbm = req.tx_power_dbm - req.tx_losses_db + req.gain_dbi;
-  const assumptions: string[] = [grid.distanceNote];
+  // in client words; the geometry behind it (straight radials on the grid, distance scaling:
+  // grid.distanceNote) is described in the README, not in the report
+  const assumptions: string[] = [`Terrain: each cell is predicted over the ground profile from the site to the cell's centre, read from the elevation data at the map's ${formatNumber(req.resolution_m, 0)} m spacing.`];
 
   let gamma = 0;
   let hataA = NaN;
@@ -124,7 +126,7 @@ export function prepareCoverage(terrain: Terrain, req: CoverageRequest, options:
     push(warnings, rangeWarning(GAS_P676_VALIDITY.method, "frequency", f, GAS_P676_VALIDITY.frequency_ghz, "GHz"));
     assumptions.push(
       `Received level = EIRP − antenna pattern − free-space loss (ITU-R P.525-4) − delta-Bullington diffraction (ITU-R P.526-15 §4.5, k = ${fmtK(req.k)}, ${req.polarization === "v" ? "vertical" : "horizontal"} polarisation, ${req.ground.replace(/-/g, " ")} εr = ${formatNumber(ground.epsilon_r, 1)}, σ = ${formatSmall(ground.sigma_s_m, 3)} S/m) − gases (ITU-R P.676-12, ${formatSmall(gamma, 3)} dB/km) + receiver gain.`,
-      "Each cell's profile is the radial from the site to the cell centre, sampled once per grid column or row.",
+      "Statistics: one prediction for the effective Earth radius above, over bare terrain; no allowance is made for variability in time or between locations, nor for clutter around the receiver.",
     );
   } else if (req.method === "hata") {
     const base = { frequency_mhz: f * 1000, base_m: req.antenna_m, mobile_m: req.receiver_m, environment: req.hata.environment, city_size: req.hata.city_size };
@@ -142,8 +144,8 @@ export function prepareCoverage(terrain: Terrain, req: CoverageRequest, options:
   } else {
     assumptions.push(
       req.clearance_f1 > 0
-        ? `Visible: line of sight with Earth curvature at k = ${fmtK(req.k)} and at least ${req.clearance_f1} of the first Fresnel radius clear at ${formatFrequency(f)} over every sample of the radial.`
-        : `Visible: geometric line of sight with Earth curvature at k = ${fmtK(req.k)} (running horizon along each radial), receiver ${req.receiver_m} m above ground.`,
+        ? `Visible: line of sight with Earth curvature at k = ${fmtK(req.k)} and at least ${req.clearance_f1} of the first Fresnel radius clear at ${formatFrequency(f)} along the whole path.`
+        : `Visible: geometric line of sight with Earth curvature at k = ${fmtK(req.k)} from the site to each cell, receiver ${req.receiver_m} m above ground.`,
     );
   }
   const isLevel = req.method !== "visibility";

@@ -1,6 +1,17 @@
-import { beta0Pct, EARTH_RADIUS_BETA_KM } from "../physics/itu-path-geometry.ts";
-import { newP1812CellOutput, p1812CellLoss, P1812_DEFAULTS, type P1812CellInput, type P1812CellOutput } from "../physics/p1812.ts";
-import { sphericalEarthDiffractionLoss } from "../physics/spherical-earth-diffraction.ts";
+import { beta0PctWithTau, EARTH_RADIUS_BETA_KM, inlandTau } from "../physics/itu-path-geometry.ts";
+import {
+  newP1812CellOutput,
+  p1812CellConstants,
+  p1812CellLoss,
+  p1812DuctingLowerBound,
+  p1812LineOfSight,
+  P1812_DEFAULTS,
+  type P1812CellConstants,
+  type P1812CellInput,
+  type P1812CellOutput,
+} from "../physics/p1812.ts";
+import { diffractionLossForTime } from "../physics/delta-bullington.ts";
+import { sphericalEarthDiffractionLoss, type SphericalEarthResult } from "../physics/spherical-earth-diffraction.ts";
 import { bullingtonActualIncremental, nuMaxLineOfSight } from "./delta-bullington-incremental.ts";
 import { BLOCK1, BLOCK2, hullHighestAboveSlope, hullTangentFromRight, RadialProfile } from "./radial-profile.ts";
 import { smoothBullington } from "./smooth-bullington.ts";
@@ -17,6 +28,12 @@ export interface P1812Constants {
   n0: number;
   /** true when every clutter height is 0: the clutter profile g is then the terrain h, kept once */
   clutterFree?: boolean;
+  /**
+   * true: always compute the ducting loss Lba and hm. Default false: where a lower bound of Lba
+   * is above Lbd = Lb0p + Ldp, Lba cannot change Lbc (p1812DuctingLowerBound in p1812.ts):
+   * Lba is then that bound and hm is NaN; Lbc and Lb are the same.
+   */
+  exact?: boolean;
 }
 
 /** What one cell's evaluation gives (dB unless named), filled in place. */
@@ -29,10 +46,12 @@ export interface P1812CellLoss {
   Ld50: number;
   Ldp: number;
   Lbs: number;
+  /** ducting loss, or a lower bound of it ≥ Lbd where it cannot change Lbc (see P1812Constants.exact) */
   Lba: number;
   theta_mrad: number;
   dlt_km: number;
   dlr_km: number;
+  /** terrain roughness hm (m); NaN where the ducting loss was left out */
   hm_m: number;
   beta0_pct: number;
   omega: number;
@@ -119,8 +138,12 @@ export class P1812Radial {
   private readonly lambda: number;
   private readonly aeB_m = EARTH_RADIUS_BETA_KM * 1000;
   private txSea = false;
+  /** the last running maximum slope seen and its angle θt (mrad) */
+  private slopeT = NaN;
+  private thetaTmax = NaN;
   private readonly cell: P1812CellInput;
   private readonly out: P1812CellOutput = newP1812CellOutput();
+  private readonly k: P1812CellConstants;
   private readonly sphOpts: { omega: number; polarization: "h" | "v"; frequency_ghz: number };
   /** maxima of the terrain height h over blocks of BLOCK1 and BLOCK2 samples (bounds for hm) */
   private readonly hMax1: Float64Array;
@@ -140,6 +163,7 @@ export class P1812Radial {
       dlt_km: 0, dlr_km: 0, hte_m: 0, hre_m: 0, hm_m: 0, omega: 0, beta0_pct: 0, ae_km: c.ae_m / 1000, dlm_km: 0, dct_km: 0, dcr_km: 0, n0: c.n0, rx_at_sea: false, Ld50_db: 0, Ldbeta_db: 0,
     };
     this.sphOpts = { omega: 0, polarization: c.polarization, frequency_ghz: c.f_ghz };
+    this.k = p1812CellConstants(c.f_ghz, c.p_pct, c.n0, c.ae_m / 1000);
   }
 
   /** Start a radial: ground at the site (m amsl), antenna (m amsl), whether the site is at sea. */
@@ -199,7 +223,9 @@ export class P1812Radial {
     let dlr: number;
     if (trans) {
       lt = pH.argMaxSlopeZ;
-      thetaT = 1000 * Math.atan(pH.maxSlopeZ); // P.1812-6 eq. (76), (78)
+      // the running maximum changes at few samples: keep its angle
+      if (pH.maxSlopeZ !== this.slopeT) (this.slopeT = pH.maxSlopeZ), (this.thetaTmax = 1000 * Math.atan(pH.maxSlopeZ)); // P.1812-6 eq. (76), (78)
+      thetaT = this.thetaTmax;
       const zR = hrs - d * d * k;
       lr = hullTangentFromRight(pH.hullZ, pH.nHullZ, D, pH.z, d, zR);
       thetaR = 1000 * Math.atan((pH.z[lr] - zR) / (d - D[lr]) - 2 * k * d); // P.1812-6 eq. (79)
@@ -250,8 +276,7 @@ export class P1812Radial {
     const hst = hstLs < h0 ? hstLs : h0; // P.1812-6 eq. (90a)
     const hsr = hsrLs < hR_m ? hsrLs : hR_m; // P.1812-6 eq. (90b)
     const m = (hsr - hst) / d; // P.1812-6 eq. (91)
-    // the span between the horizon points taken in order (as pathGeometry: they can cross)
-    const hm = lt >= 0 ? roughness(pH, this.hMax1, this.hMax2, lt < lr ? lt : lr, lt < lr ? lr : lt, hst, m) : 0; // P.1812-6 eq. (93)
+    // hm (eq. (93)) enters only the ducting loss: computed below unless Lba is negligible
 
     // --- zones (§3.6, Table 5) ---
     this.land.finish(d, !rxSea);
@@ -259,7 +284,8 @@ export class P1812Radial {
     const dtm = this.land.best / 1000;
     const dlm = dtm; // only sea and inland zones: every land section is inland
     const omega = this.sea.total / d;
-    const b0 = beta0Pct(phi_deg, dtm, dlm); // P.1812-6 eq. (2)–(5)
+    const tau = inlandTau(dlm); // P.1812-6 eq. (3)
+    const b0 = beta0PctWithTau(phi_deg, dtm, tau); // P.1812-6 eq. (2)–(5)
 
     // --- diffraction (§4.3): Ld50 in ae, Ldβ in aβ ---
     this.sphOpts.omega = omega;
@@ -278,7 +304,6 @@ export class P1812Radial {
     ci.dlr_km = dlr / 1000;
     ci.hte_m = hts - hst; // P.1812-6 eq. (92a)
     ci.hre_m = hrs - hsr; // P.1812-6 eq. (92b)
-    ci.hm_m = hm;
     ci.omega = omega;
     ci.beta0_pct = b0;
     ci.dlm_km = dlm;
@@ -287,7 +312,17 @@ export class P1812Radial {
     ci.rx_at_sea = rxSea;
     ci.Ld50_db = Ld50;
     ci.Ldbeta_db = Ldb;
-    const r = p1812CellLoss(ci, this.out); // P.1812-6 eq. (8)–(11), (41), (44), (46), (57)–(63)
+    // Lba has no effect where a lower bound of it (without hm) is above Lbd = Lb0p + Ldp
+    // (eq. (60), (61); see p1812DuctingLowerBound): the roughness search is then skipped, hm left NaN.
+    const kc = this.k;
+    const Lb0p = p1812LineOfSight(dkm, hts, hrs, c.f_ghz, c.p_pct, b0, ci.dlt_km, ci.dlr_km, this.out.los, kc).Lb0p; // P.1812-6 eq. (8)–(10), kept in out.los
+    const Lbd = Lb0p + diffractionLossForTime(c.p_pct, b0, Ld50, Ldb); // P.1812-6 eq. (41), (43)
+    const bound = c.exact ? NaN : p1812DuctingLowerBound(ci, this.out, kc, Lbd);
+    const skipDucting = bound > Lbd; // as p1812CellLoss decides
+    // the span between the horizon points taken in order (as pathGeometry: they can cross)
+    const hm = skipDucting ? NaN : lt >= 0 ? roughness(pH, this.hMax1, this.hMax2, lt < lr ? lt : lr, lt < lr ? lr : lt, hst, m) : 0; // P.1812-6 eq. (93)
+    ci.hm_m = hm;
+    const r = p1812CellLoss(ci, this.out, kc, tau, skipDucting ? bound : NaN, true); // P.1812-6 eq. (8)–(11), (41), (44), (46), (57)–(63)
     const Ldp = r.Ldp;
     const Lbs = r.Lbs;
     const Lba = r.Lba;
@@ -311,6 +346,9 @@ export class P1812Radial {
   }
 }
 
+/** Reused result of the spherical-Earth loss (one per thread: this module's code runs in one thread). */
+const SPH_OUT: SphericalEarthResult = { Ldsph: NaN, dlos_m: NaN, transhorizon: false, hse_m: NaN, hreq_m: NaN, aem_m: NaN, Ldft: NaN };
+
 /**
  * Delta-Bullington Ld (dB) of P.1812-6 §4.3.4 for the receiver: Bullington on the clutter
  * profile `p` (eq. (21)), the zero-height profile with hts', hrs' (eq. (21)), the spherical-Earth
@@ -319,7 +357,7 @@ export class P1812Radial {
 function diffraction(p: RadialProfile, d: number, hrs: number, htsP: number, hrsP: number, ae_m: number, lambda: number, sph: { omega: number; polarization: "h" | "v"; frequency_ghz: number }): number {
   const Lbulla = bullingtonActualIncremental(p, d, hrs, lambda); // P.1812-6 eq. (21)
   const Lbulls = smoothBullington(p.d, p.n, d, htsP, hrsP, lambda, p.invTwoAe); // P.1812-6 eq. (21), zero heights
-  const Ldsph = sphericalEarthDiffractionLoss(d, htsP, hrsP, ae_m, lambda, sph).Ldsph; // P.1812-6 eq. (22)–(27)
+  const Ldsph = sphericalEarthDiffractionLoss(d, htsP, hrsP, ae_m, lambda, sph, SPH_OUT).Ldsph; // P.1812-6 eq. (22)–(27)
   return Ldsph !== Ldsph ? NaN : Lbulla + Math.max(Ldsph - Lbulls, 0); // P.1812-6 eq. (39)
 }
 

@@ -1,3 +1,5 @@
+import { inlandTau } from "./itu-path-geometry.ts";
+
 /** Inputs of `ductingLayerReflectionLoss` (one object can be reused per call). */
 export interface AnomalousInput {
   /** path length d (km) */
@@ -52,36 +54,113 @@ export interface AnomalousInput {
  *   β = β0·μ2·μ3, μ2 = [500/ae · d²/(sqrt(hte) + sqrt(hre))²]^α ≤ 1,
  *     α = max(−0.6 − 3.5e-9·d^3.1·τ, −3.4), τ = 1 − exp(−4.12e-4·dlm^2.41),
  *     μ3 = exp(−4.6e-5·(hm − 10)·(43 + 6·dI)) for hm > 10 m, else 1, dI = min(d − dlt − dlr, 40) (eq. (54)–(56a)).
+ * Powers x^y are taken as exp(y·ln x) (equal to rounding; Math.pow costs several times more),
+ * and the terms of f, p and ae alone come from `anomalousConstants` (a coverage computes them once).
  * @param i inputs
+ * @param k the terms of f, p and ae alone (default: computed from i)
+ * @param tau τ of P.1812-6 eq. (3) for i.dlm_km (default: computed; a coverage shares it with β0)
  * @returns Lba (dB)
  */
-export function ductingLayerReflectionLoss(i: AnomalousInput): number {
-  const f = i.f_ghz;
+export function ductingLayerReflectionLoss(i: AnomalousInput, k: AnomalousConstants = anomalousConstants(i.f_ghz, i.p_pct, i.ae_km, i.low_frequency_correction), tau = inlandTau(i.dlm_km)): number {
   const d = i.d_km;
-  const Alf = i.low_frequency_correction && f < 0.5 ? 45.375 - 137.0 * f + 92.5 * f * f : 0; // P.1812-6 eq. (47a)
+  const lnD = Math.log(d);
   const tt2 = i.theta_t_mrad - 0.1 * i.dlt_km; // P.1812-6 eq. (48a)
   const tr2 = i.theta_r_mrad - 0.1 * i.dlr_km; // P.1812-6 eq. (48a)
-  const Ast = tt2 > 0 ? 20 * Math.log10(1 + 0.361 * tt2 * Math.sqrt(f * i.dlt_km)) + 0.264 * tt2 * Math.cbrt(f) : 0; // P.1812-6 eq. (48)
-  const Asr = tr2 > 0 ? 20 * Math.log10(1 + 0.361 * tr2 * Math.sqrt(f * i.dlr_km)) + 0.264 * tr2 * Math.cbrt(f) : 0; // P.1812-6 eq. (48)
+  const Ast = tt2 > 0 ? 20 * Math.log10(1 + 0.361 * tt2 * k.sqrtF * Math.sqrt(i.dlt_km)) + 0.264 * tt2 * k.cbrtF : 0; // P.1812-6 eq. (48)
+  const Asr = tr2 > 0 ? 20 * Math.log10(1 + 0.361 * tr2 * k.sqrtF * Math.sqrt(i.dlr_km)) + 0.264 * tr2 * k.cbrtF : 0; // P.1812-6 eq. (48)
   const Act = i.dct_km <= 5 && i.dct_km <= i.dlt_km && i.omega >= 0.75 ? -3 * Math.exp(-0.25 * i.dct_km * i.dct_km) * (1 + Math.tanh(0.07 * (50 - i.hts_m))) : 0; // P.1812-6 eq. (49)
   const Acr = i.dcr_km <= 5 && i.dcr_km <= i.dlr_km && i.omega >= 0.75 ? -3 * Math.exp(-0.25 * i.dcr_km * i.dcr_km) * (1 + Math.tanh(0.07 * (50 - i.hrs_m))) : 0; // P.1812-6 eq. (49)
-  const gammaD = 5e-5 * i.ae_km * Math.cbrt(f); // P.1812-6 eq. (51)
   const tt1 = i.theta_t_mrad <= 0.1 * i.dlt_km ? i.theta_t_mrad : 0.1 * i.dlt_km; // P.1812-6 eq. (52a)
   const tr1 = i.theta_r_mrad <= 0.1 * i.dlr_km ? i.theta_r_mrad : 0.1 * i.dlr_km; // P.1812-6 eq. (52a)
   const theta1 = (1e3 * d) / i.ae_km + tt1 + tr1; // P.1812-6 eq. (52)
   const dI = Math.min(d - i.dlt_km - i.dlr_km, 40); // P.1812-6 eq. (56a)
-  const mu3 = i.hm_m > 10 ? Math.exp(-4.6e-5 * (i.hm_m - 10) * (43 + 6 * dI)) : 1; // P.1812-6 eq. (56)
-  const tau = 1 - Math.exp(-4.12e-4 * Math.pow(i.dlm_km, 2.41)); // P.1812-6 eq. (3)
-  let alpha = -0.6 - 3.5e-9 * Math.pow(d, 3.1) * tau; // P.1812-6 eq. (55a)
+  const lnMu3 = i.hm_m > 10 ? -4.6e-5 * (i.hm_m - 10) * (43 + 6 * dI) : 0; // P.1812-6 eq. (56), ln μ3
+  let alpha = -0.6 - 3.5e-9 * Math.exp(3.1 * lnD) * tau; // P.1812-6 eq. (55a), d^3.1
   if (alpha < -3.4) alpha = -3.4;
   const sh = Math.sqrt(i.hte_m) + Math.sqrt(i.hre_m);
-  let mu2 = Math.pow(((500 / i.ae_km) * d * d) / (sh * sh), alpha); // P.1812-6 eq. (55)
-  if (mu2 > 1) mu2 = 1;
-  const beta = i.beta0_pct * mu2 * mu3; // P.1812-6 eq. (54)
-  const lb = Math.log10(beta);
-  const Gamma = (1.076 / Math.pow(2.0058 - lb, 1.012)) * Math.exp(-(9.51 - 4.8 * lb + 0.198 * lb * lb) * 1e-6 * Math.pow(d, 1.13)); // P.1812-6 eq. (53a)
-  const Ap = -12 + (1.2 + 3.7e-3 * d) * Math.log10(i.p_pct / beta) + 12 * Math.pow(i.p_pct / beta, Gamma); // P.1812-6 eq. (53)
-  const Adp = gammaD * theta1 + Ap; // P.1812-6 eq. (50)
-  const Af = 102.45 + 20 * Math.log10(f) + 20 * Math.log10(i.dlt_km + i.dlr_km) + Alf + Ast + Asr + Act + Acr; // P.1812-6 eq. (47)
+  let lnMu2 = alpha * (k.ln500ae + 2 * lnD - 2 * Math.log(sh)); // P.1812-6 eq. (55), ln μ2 = α·ln(500/ae · d²/(√hte + √hre)²)
+  if (lnMu2 > 0) lnMu2 = 0; // P.1812-6 eq. (55), μ2 ≤ 1
+  const lnBeta = Math.log(i.beta0_pct) + lnMu2 + lnMu3; // P.1812-6 eq. (54), β = β0·μ2·μ3
+  const lb = lnBeta / Math.LN10;
+  const Gamma = (1.076 * Math.exp(-1.012 * Math.log(2.0058 - lb))) * Math.exp(-(9.51 - 4.8 * lb + 0.198 * lb * lb) * 1e-6 * Math.exp(1.13 * lnD)); // P.1812-6 eq. (53a)
+  const lnPb = k.lnP - lnBeta; // ln(p/β)
+  const Ap = -12 + (1.2 + 3.7e-3 * d) * (lnPb / Math.LN10) + 12 * Math.exp(Gamma * lnPb); // P.1812-6 eq. (53)
+  const Adp = k.gammaD * theta1 + Ap; // P.1812-6 eq. (50)
+  const Af = 102.45 + k.twentyLogF + 20 * Math.log10(i.dlt_km + i.dlr_km) + k.Alf + Ast + Asr + Act + Acr; // P.1812-6 eq. (47)
   return Af + Adp; // P.1812-6 eq. (46)
+}
+
+/** What `ductingLayerReflectionLoss` needs of frequency, time percentage and ae alone (compute once per coverage). */
+export interface AnomalousConstants {
+  sqrtF: number;
+  cbrtF: number;
+  /** 20·log f (f in GHz) */
+  twentyLogF: number;
+  /** low-frequency correction Alf (dB), P.1812-6 eq. (47a); 0 when not applied */
+  Alf: number;
+  /** specific attenuation γd (dB/mrad), eq. (51) */
+  gammaD: number;
+  /** ln(500/ae) (ae in km), for μ2 */
+  ln500ae: number;
+  /** ln p */
+  lnP: number;
+}
+
+/**
+ * The frequency-, time- and ae-only terms of the ducting loss, for `ductingLayerReflectionLoss`.
+ * @param f_ghz frequency (GHz)
+ * @param p_pct time percentage (%)
+ * @param ae_km median effective Earth radius (km)
+ * @param lowFrequencyCorrection apply P.1812's Alf below 0.5 GHz
+ */
+export function anomalousConstants(f_ghz: number, p_pct: number, ae_km: number, lowFrequencyCorrection: boolean): AnomalousConstants {
+  const f = f_ghz;
+  return {
+    sqrtF: Math.sqrt(f),
+    cbrtF: Math.cbrt(f),
+    twentyLogF: 20 * Math.log10(f),
+    Alf: lowFrequencyCorrection && f < 0.5 ? 45.375 - 137.0 * f + 92.5 * f * f : 0, // P.1812-6 eq. (47a)
+    gammaD: 5e-5 * ae_km * Math.cbrt(f), // P.1812-6 eq. (51)
+    ln500ae: Math.log(500 / ae_km),
+    lnP: Math.log(p_pct),
+  };
+}
+
+/**
+ * A lower bound (dB) of `ductingLayerReflectionLoss` that needs neither the terrain roughness
+ * hm nor the effective heights hte, hre: Ast, Asr ≥ 0 are left out of Af (eq. (47), (48)), and
+ * A(p) (eq. (53)) is taken at β = β0, its largest value (μ2, μ3 ≤ 1, eq. (54)–(56)): A(p)
+ * decreases as β grows (checked for 1e-12 ≤ β ≤ 50 %, 1 ≤ p ≤ 50 %, 0 < d ≤ 3000 km in
+ * test/unit/ducting-lower-bound.test.ts; as β → 0 its slope in log β tends to
+ * −(1.2 + 3.7e-3·d) < 0). Act, Acr and γd·θ′ are exact. A coverage uses it to leave out Lba
+ * (and hm) where the bound is so far above Lb0p that Lba cannot move the blend (see
+ * P1812_DUCTING_NEGLIGIBLE_DB in p1812.ts).
+ * With a `target`, a cruder bound is tried first and returned when it already reaches the
+ * target: for p ≥ β0, (p/β)^Γ ≥ 1 for every β ≤ β0 (Γ > 0 for β < 101 %), so
+ * A(p) ≥ (1.2 + 3.7e-3·d)·log(p/β0) without Γ.
+ * @param i inputs (hm_m, hte_m, hre_m are not read)
+ * @param k the terms of f, p and ae alone
+ * @param target the value the caller compares the bound with (default +∞: the full bound)
+ * @returns a value ≤ Lba (dB)
+ */
+export function ductingLossLowerBound(i: AnomalousInput, k: AnomalousConstants, target = Infinity): number {
+  const d = i.d_km;
+  const Act = i.dct_km <= 5 && i.dct_km <= i.dlt_km && i.omega >= 0.75 ? -3 * Math.exp(-0.25 * i.dct_km * i.dct_km) * (1 + Math.tanh(0.07 * (50 - i.hts_m))) : 0; // P.1812-6 eq. (49)
+  const Acr = i.dcr_km <= 5 && i.dcr_km <= i.dlr_km && i.omega >= 0.75 ? -3 * Math.exp(-0.25 * i.dcr_km * i.dcr_km) * (1 + Math.tanh(0.07 * (50 - i.hrs_m))) : 0; // P.1812-6 eq. (49)
+  const tt1 = i.theta_t_mrad <= 0.1 * i.dlt_km ? i.theta_t_mrad : 0.1 * i.dlt_km; // P.1812-6 eq. (52a)
+  const tr1 = i.theta_r_mrad <= 0.1 * i.dlr_km ? i.theta_r_mrad : 0.1 * i.dlr_km; // P.1812-6 eq. (52a)
+  const theta1 = (1e3 * d) / i.ae_km + tt1 + tr1; // P.1812-6 eq. (52)
+  const Af = 102.45 + k.twentyLogF + 20 * Math.log10(i.dlt_km + i.dlr_km) + k.Alf + Act + Acr; // P.1812-6 eq. (47) without Ast, Asr ≥ 0
+  const base = Af + k.gammaD * theta1; // P.1812-6 eq. (46), (50) without A(p)
+  const lnBeta = Math.log(i.beta0_pct); // β ≤ β0 (eq. (54)), the bound of A(p) at β = β0
+  const lnPb = k.lnP - lnBeta;
+  const c = 1.2 + 3.7e-3 * d;
+  if (lnPb >= 0) {
+    const crude = base + c * (lnPb / Math.LN10); // P.1812-6 eq. (53) with (p/β)^Γ ≥ 1: −12 + 12 cancel
+    if (crude >= target) return crude;
+  }
+  const lb = lnBeta / Math.LN10;
+  const Gamma = (1.076 * Math.exp(-1.012 * Math.log(2.0058 - lb))) * Math.exp(-(9.51 - 4.8 * lb + 0.198 * lb * lb) * 1e-6 * Math.exp(1.13 * Math.log(d))); // P.1812-6 eq. (53a)
+  const Ap = -12 + c * (lnPb / Math.LN10) + 12 * Math.exp(Gamma * lnPb); // P.1812-6 eq. (53)
+  return base + Ap; // P.1812-6 eq. (46), (50)
 }

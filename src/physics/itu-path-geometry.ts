@@ -141,16 +141,37 @@ export function seaFraction(d_km: ArrayLike<number>, zone: ArrayLike<number>): n
  * @returns β0 (%)
  */
 export function beta0Pct(phi_deg: number, dtm_km: number, dlm_km: number): number {
-  const tau = 1 - Math.exp(-4.12e-4 * Math.pow(dlm_km, 2.41)); // P.1812-6 eq. (3)
-  let mu1 = Math.pow(Math.pow(10, -dtm_km / (16 - 6.6 * tau)) + Math.pow(10, -5 * (0.496 + 0.354 * tau)), 0.2); // P.1812-6 eq. (2)
-  if (mu1 > 1) mu1 = 1;
+  return beta0PctWithTau(phi_deg, dtm_km, inlandTau(dlm_km));
+}
+
+/**
+ * τ = 1 − exp(−4.12e-4·dlm^2.41) of P.1812-6 eq. (3) (P.452-18 eq. (3a)), used by β0 and by
+ * the ducting exponent α (eq. (55a)); dlm^2.41 as exp(2.41·ln dlm) (0 for dlm = 0).
+ * @param dlm_km longest continuous inland section (km)
+ * @returns τ
+ */
+export function inlandTau(dlm_km: number): number {
+  return 1 - Math.exp(-4.12e-4 * Math.exp(2.41 * Math.log(dlm_km))); // P.1812-6 eq. (3)
+}
+
+/**
+ * `beta0Pct` from τ (P.1812-6 eq. (3)) already known — a coverage shares τ with the ducting
+ * loss (eq. (55a)). Evaluated in the log domain (x^y as exp(y·ln x), one exponential at the
+ * end): the same equations, equal to rounding, at a quarter of the cost of Math.pow.
+ * @param phi_deg path-centre latitude (deg)
+ * @param dtm_km longest continuous land section (km)
+ * @param tau τ of eq. (3)
+ * @returns β0 (%)
+ */
+export function beta0PctWithTau(phi_deg: number, dtm_km: number, tau: number): number {
+  const lnA = (-Math.LN10 * dtm_km) / (16 - 6.6 * tau); // P.1812-6 eq. (2), ln 10^(−dtm/(16 − 6.6τ))
+  const lnB = -Math.LN10 * 5 * (0.496 + 0.354 * tau); // P.1812-6 eq. (2), ln 10^(−5(0.496 + 0.354τ))
+  const hi = lnA > lnB ? lnA : lnB;
+  let lnMu1 = 0.2 * (hi + Math.log1p(Math.exp((lnA > lnB ? lnB : lnA) - hi))); // P.1812-6 eq. (2), 0.2·ln(a + b)
+  if (lnMu1 > 0) lnMu1 = 0; // μ1 ≤ 1
   const aphi = Math.abs(phi_deg);
-  if (aphi <= 70) {
-    const mu4 = Math.pow(mu1, -0.935 + 0.0176 * aphi); // P.1812-6 eq. (4)
-    return Math.pow(10, -0.015 * aphi + 1.67) * mu1 * mu4; // P.1812-6 eq. (5)
-  }
-  const mu4 = Math.pow(mu1, 0.3); // P.1812-6 eq. (4)
-  return 4.17 * mu1 * mu4; // P.1812-6 eq. (5)
+  if (aphi <= 70) return Math.exp(Math.LN10 * (-0.015 * aphi + 1.67) + lnMu1 * (1 + (-0.935 + 0.0176 * aphi))); // P.1812-6 eq. (4), (5): 10^(−0.015|φ| + 1.67)·μ1·μ4
+  return 4.17 * Math.exp(1.3 * lnMu1); // P.1812-6 eq. (4), (5): 4.17·μ1·μ1^0.3
 }
 
 /**

@@ -23,9 +23,12 @@ export function erfc(x: number): number {
 
 /**
  * Φ(x), the probability that a standard normal variable is at most x: erfc(−x/√2)/2.
- * Absolute error below 1e-7 (from erfc). NaN → NaN.
+ * Absolute error below 1e-7 (from erfc). NaN → NaN. Beyond ±9 the tails (below 1.2e-19) are
+ * not computed: 0 and 1 (a coverage asks for many cells far from every threshold).
  */
 export function normalCdf(x: number): number {
+  if (x < -9) return 0;
+  if (x > 9) return 1;
   return 0.5 * erfc(-x / Math.SQRT2);
 }
 

@@ -27,12 +27,13 @@
  * clutter category only sets σL through the receiver's height relative to its clutter).
  */
 import { clearAirBlend, interpolationFj, interpolationFk, type ClearAirBlend } from "./itu-blend.ts";
-import { ductingLayerReflectionLoss, type AnomalousInput } from "./itu-anomalous.ts";
+import { anomalousConstants, ductingLayerReflectionLoss, ductingLossLowerBound, type AnomalousConstants, type AnomalousInput } from "./itu-anomalous.ts";
 import { deltaBullingtonOverSurface, diffractionLossForTime } from "./delta-bullington.ts";
 import {
   beta0Pct,
   EARTH_RADIUS_BETA_KM,
   effectiveEarthRadiusKm,
+  inlandTau,
   inverseComplementaryNormal,
   longestZoneSectionKm,
   newPathGeometry,
@@ -153,16 +154,28 @@ export interface LineOfSightLoss {
  * @param dlt_km Tx horizon distance (km)
  * @param dlr_km Rx horizon distance (km)
  * @param out optional object to fill
+ * @param k terms of f and p alone (default: computed; see `p1812CellConstants`)
  * @returns Lbfs, Lb0p, Lb0b (dB)
  */
-export function p1812LineOfSight(d_km: number, hts_m: number, hrs_m: number, f_ghz: number, p_pct: number, beta0_pct: number, dlt_km: number, dlr_km: number, out?: LineOfSightLoss): LineOfSightLoss {
+export function p1812LineOfSight(
+  d_km: number,
+  hts_m: number,
+  hrs_m: number,
+  f_ghz: number,
+  p_pct: number,
+  beta0_pct: number,
+  dlt_km: number,
+  dlr_km: number,
+  out?: LineOfSightLoss,
+  k: { twentyLogF: number; logP50: number } = { twentyLogF: 20 * Math.log10(f_ghz), logP50: Math.log10(p_pct / 50) },
+): LineOfSightLoss {
   const o = out ?? ({} as LineOfSightLoss);
   const dh = (hts_m - hrs_m) / 1000;
   const dfs = Math.sqrt(d_km * d_km + dh * dh); // P.1812-6 eq. (8a)
-  const Lbfs = 92.4 + 20 * Math.log10(f_ghz) + 20 * Math.log10(dfs); // P.1812-6 eq. (8)
+  const Lbfs = 92.4 + k.twentyLogF + 20 * Math.log10(dfs); // P.1812-6 eq. (8)
   const e = 2.6 * (1 - Math.exp(-0.1 * (dlt_km + dlr_km)));
   o.Lbfs = Lbfs;
-  o.Lb0p = Lbfs + e * Math.log10(p_pct / 50); // P.1812-6 eq. (9a), (10)
+  o.Lb0p = Lbfs + e * k.logP50; // P.1812-6 eq. (9a), (10)
   o.Lb0b = Lbfs + e * Math.log10(beta0_pct / 50); // P.1812-6 eq. (9b), (11)
   return o;
 }
@@ -177,12 +190,57 @@ export function p1812LineOfSight(d_km: number, hts_m: number, hrs_m: number, f_g
  * @param f_ghz frequency (GHz)
  * @param p_pct time percentage (%)
  * @param n0 sea-level surface refractivity N0 (N-units)
+ * @param c the terms of f, p and N0 alone (default: computed; see `p1812CellConstants`)
  * @returns Lbs (dB)
  */
-export function p1812Troposcatter(d_km: number, theta_mrad: number, f_ghz: number, p_pct: number, n0: number): number {
+export function p1812Troposcatter(d_km: number, theta_mrad: number, f_ghz: number, p_pct: number, n0: number, c = troposcatterConstant(f_ghz, p_pct, n0)): number {
+  return c + 20 * Math.log10(d_km) + 0.573 * theta_mrad; // P.1812-6 eq. (44)
+}
+
+/** 190.1 + Lf − 0.15·N0 − 10.125·[log(50/p)]^0.7: the terms of eq. (44) without d and θ. */
+function troposcatterConstant(f_ghz: number, p_pct: number, n0: number): number {
   const lf = Math.log10(f_ghz / 2);
   const Lf = 25 * Math.log10(f_ghz) - 2.5 * lf * lf; // P.1812-6 eq. (45)
-  return 190.1 + Lf + 20 * Math.log10(d_km) + 0.573 * theta_mrad - 0.15 * n0 - 10.125 * Math.pow(Math.log10(50 / p_pct), 0.7); // P.1812-6 eq. (44)
+  return 190.1 + Lf - 0.15 * n0 - 10.125 * Math.pow(Math.log10(50 / p_pct), 0.7); // P.1812-6 eq. (44)
+}
+
+/** The terms of `p1812CellLoss` that depend on f, p, N0 and ae alone (one object per coverage). */
+export interface P1812CellConstants {
+  frequency_ghz: number;
+  time_pct: number;
+  n0: number;
+  ae_km: number;
+  /** 20·log f (f in GHz) */
+  twentyLogF: number;
+  /** log(p/50) */
+  logP50: number;
+  /** eq. (44) without its d and θ terms */
+  troposcatter: number;
+  anomalous: AnomalousConstants;
+  /** I(p/100) of eq. (40) */
+  Ip: number;
+}
+
+/**
+ * The terms of `p1812CellLoss` that depend on f, p, N0 and ae alone, for a coverage to
+ * compute once instead of for every cell.
+ * @param f_ghz frequency (GHz)
+ * @param p_pct time percentage (%)
+ * @param n0 N0 (N-units)
+ * @param ae_km median effective Earth radius (km)
+ */
+export function p1812CellConstants(f_ghz: number, p_pct: number, n0: number, ae_km: number): P1812CellConstants {
+  return {
+    frequency_ghz: f_ghz,
+    time_pct: p_pct,
+    n0,
+    ae_km,
+    twentyLogF: 20 * Math.log10(f_ghz),
+    logP50: Math.log10(p_pct / 50),
+    troposcatter: troposcatterConstant(f_ghz, p_pct, n0),
+    anomalous: anomalousConstants(f_ghz, p_pct, ae_km, true),
+    Ip: inverseComplementaryNormal(p_pct / 100),
+  };
 }
 
 /**
@@ -364,16 +422,50 @@ export function newP1812CellOutput(): P1812CellOutput {
  *   Ep = 199.36 + 20·log f − Lb (eq. (70)).
  * @param c the cell's scalars
  * @param out reusable output (its `los`, `blend`, `anomalous` are filled too)
+ * @param k terms of f, p, N0 and ae alone (from `p1812CellConstants` for c's values; default: computed)
+ * @param tau τ of eq. (3) for c.dlm_km (default: computed)
+ * @param ductingBound a lower bound of Lba from `p1812DuctingLowerBound` (default: none). When it
+ *   is above Lbd = Lb0p + Ldp, Lba has no effect on Lbc (see there): the bound stands in for
+ *   it (out.Lba is then the bound, out.Fk NaN: eq. (61) does not use it) and c.hm_m, c.hte_m,
+ *   c.hre_m are not read.
+ * @param losDone true when out.los already holds `p1812LineOfSight` for c (a coverage that
+ *   needed Lb0p first): it is not computed again
  * @returns `out`
  */
-export function p1812CellLoss(c: P1812CellInput, out: P1812CellOutput): P1812CellOutput {
+export function p1812CellLoss(
+  c: P1812CellInput,
+  out: P1812CellOutput,
+  k: P1812CellConstants = p1812CellConstants(c.frequency_ghz, c.time_pct, c.n0, c.ae_km),
+  tau = inlandTau(c.dlm_km),
+  ductingBound = NaN,
+  losDone = false,
+): P1812CellOutput {
   const f = c.frequency_ghz;
   const p = c.time_pct;
   const Fj = interpolationFj(c.theta_mrad); // P.1812-6 eq. (57)
-  const Fk = interpolationFk(c.d_km); // P.1812-6 eq. (58)
-  const los = p1812LineOfSight(c.d_km, c.hts_m, c.hrs_m, f, p, c.beta0_pct, c.dlt_km, c.dlr_km, out.los);
+  const los = losDone ? out.los : p1812LineOfSight(c.d_km, c.hts_m, c.hrs_m, f, p, c.beta0_pct, c.dlt_km, c.dlr_km, out.los, k);
   const Ldp = diffractionLossForTime(p, c.beta0_pct, c.Ld50_db, c.Ldbeta_db); // P.1812-6 eq. (41)
-  const a = out.anomalous;
+  // a bound above Lbd decides eq. (61) as Lba would (Lbda = Lbd), and Fk is then not used
+  const useBound = ductingBound > los.Lb0p + Ldp;
+  const Fk = useBound ? NaN : interpolationFk(c.d_km); // P.1812-6 eq. (58)
+  const Lba = useBound ? ductingBound : ductingLayerReflectionLoss(anomalousInput(c, out.anomalous), k.anomalous, tau); // P.1812-6 eq. (46)
+  const Lbs = p1812Troposcatter(c.d_km, c.theta_mrad, f, p, c.n0, k.troposcatter); // P.1812-6 eq. (44)
+  const blend = clearAirBlend(p, c.beta0_pct, c.omega, los.Lbfs, los.Lb0p, los.Lb0b, c.Ld50_db, Ldp, Lba, Lbs, Fj, Fk, out.blend, k.Ip);
+  const Lloc = c.rx_at_sea || c.sigma_l_db === 0 ? 0 : -inverseComplementaryNormal(c.location_pct / 100) * c.sigma_l_db; // P.1812-6 eq. (69) (location term)
+  const Lb = Math.max(los.Lb0p, blend.Lbc + Lloc); // P.1812-6 eq. (69)
+  out.Lb = Lb;
+  out.Ep_1kw_dbuv_m = 199.36 + k.twentyLogF - Lb; // P.1812-6 eq. (70)
+  out.Ldp = Ldp;
+  out.Lba = Lba;
+  out.Lbs = Lbs;
+  out.Lloc = Lloc;
+  out.Fj = Fj;
+  out.Fk = Fk;
+  return out;
+}
+
+/** c's values in the ducting loss's input `a` (filled in place). */
+function anomalousInput(c: P1812CellInput, a: AnomalousInput): AnomalousInput {
   a.d_km = c.d_km;
   a.dlt_km = c.dlt_km;
   a.dlr_km = c.dlr_km;
@@ -387,26 +479,30 @@ export function p1812CellLoss(c: P1812CellInput, out: P1812CellOutput): P1812Cel
   a.hm_m = c.hm_m;
   a.theta_t_mrad = c.theta_t_mrad;
   a.theta_r_mrad = c.theta_r_mrad;
-  a.f_ghz = f;
-  a.p_pct = p;
+  a.f_ghz = c.frequency_ghz;
+  a.p_pct = c.time_pct;
   a.omega = c.omega;
   a.ae_km = c.ae_km;
   a.beta0_pct = c.beta0_pct;
   a.low_frequency_correction = true;
-  const Lba = ductingLayerReflectionLoss(a); // P.1812-6 eq. (46)
-  const Lbs = p1812Troposcatter(c.d_km, c.theta_mrad, f, p, c.n0); // P.1812-6 eq. (44)
-  const blend = clearAirBlend(p, c.beta0_pct, c.omega, los.Lbfs, los.Lb0p, los.Lb0b, c.Ld50_db, Ldp, Lba, Lbs, Fj, Fk, out.blend);
-  const Lloc = c.rx_at_sea ? 0 : -inverseComplementaryNormal(c.location_pct / 100) * c.sigma_l_db; // P.1812-6 eq. (69) (location term)
-  const Lb = Math.max(los.Lb0p, blend.Lbc + Lloc); // P.1812-6 eq. (69)
-  out.Lb = Lb;
-  out.Ep_1kw_dbuv_m = 199.36 + 20 * Math.log10(f) - Lb; // P.1812-6 eq. (70)
-  out.Ldp = Ldp;
-  out.Lba = Lba;
-  out.Lbs = Lbs;
-  out.Lloc = Lloc;
-  out.Fj = Fj;
-  out.Fk = Fk;
-  return out;
+  return a;
+}
+
+/**
+ * A lower bound of the ducting loss Lba for the cell (`ductingLossLowerBound`), which needs
+ * neither hm nor hte, hre. Lba enters the result only through Lminbap = η·ln(exp(Lba/η) +
+ * exp(Lb0p/η)) ≥ Lba (eq. (60)), and where Lminbap > Lbd = Lb0p + Ldp, Lbda = Lbd (eq. (61))
+ * whatever Lminbap is. So where this bound is above Lbd, Lba has no effect: a coverage then
+ * skips the roughness search and passes the bound to `p1812CellLoss` in place of Lba — the
+ * same Lbc, exactly.
+ * @param c the cell's scalars (hm_m, hte_m, hre_m not read)
+ * @param out scratch (its `anomalous` is filled)
+ * @param k terms of f, p, N0 and ae alone
+ * @param target what the bound will be compared with (Lbd): a cruder bound that reaches it may be returned
+ * @returns a value ≤ Lba (dB)
+ */
+export function p1812DuctingLowerBound(c: P1812CellInput, out: P1812CellOutput, k: P1812CellConstants, target = Infinity): number {
+  return ductingLossLowerBound(anomalousInput(c, out.anomalous), k.anomalous, target);
 }
 
 /**

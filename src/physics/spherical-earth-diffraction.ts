@@ -43,6 +43,7 @@ export interface SphericalEarthResult {
  * @param ae_m effective Earth radius (m)
  * @param lambda_m wavelength (m)
  * @param options ground and polarisation of the first term
+ * @param out optional result object to fill (a coverage reuses one instead of allocating per cell)
  * @returns Ldsph (dB) and intermediates
  */
 export function sphericalEarthDiffractionLoss(
@@ -52,6 +53,7 @@ export function sphericalEarthDiffractionLoss(
   ae_m: number,
   lambda_m: number,
   options: FirstTermOptions = {},
+  out?: SphericalEarthResult,
 ): SphericalEarthResult {
   const d = d_m;
   const a = ae_m;
@@ -60,15 +62,15 @@ export function sphericalEarthDiffractionLoss(
   const lambda = lambda_m;
   const dlos = Math.sqrt(2 * a) * (Math.sqrt(h1) + Math.sqrt(h2)); // P.526-15 §3.2 (dlos)
   if (Number.isNaN(dlos + d + lambda) || !(lambda > 0)) {
-    return { Ldsph: NaN, dlos_m: NaN, transhorizon: false, hse_m: NaN, hreq_m: NaN, aem_m: NaN, Ldft: NaN };
+    return fill(out, NaN, NaN, false, NaN, NaN, NaN, NaN);
   }
   if (a === Infinity) {
     // Flat Earth (k = ∞): the surface never rises into the ray; Ldsph → 0 as a → ∞.
-    return { Ldsph: 0, dlos_m: Infinity, transhorizon: false, hse_m: NaN, hreq_m: NaN, aem_m: NaN, Ldft: NaN };
+    return fill(out, 0, Infinity, false, NaN, NaN, NaN, NaN);
   }
   if (d >= dlos) {
     const Ldft = sphericalEarthFirstTermLoss(d, h1, h2, a, lambda, options); // P.526-15 §3.2 (d ≥ dlos)
-    return { Ldsph: Ldft, dlos_m: dlos, transhorizon: true, hse_m: NaN, hreq_m: NaN, aem_m: NaN, Ldft };
+    return fill(out, Ldft, dlos, true, NaN, NaN, NaN, Ldft);
   }
   const c = (h1 - h2) / (h1 + h2); // P.526-15 §3.2 (c)
   const m = (d * d) / (4 * a * (h1 + h2)); // P.526-15 §3.2 (m)
@@ -87,7 +89,7 @@ export function sphericalEarthDiffractionLoss(
   const hreqConst = options.frequency_ghz !== undefined ? 17.456 / Math.sqrt(1000) : 0.552;
   const hreq = hreqConst * Math.sqrt((d1d2 * lambda) / d); // P.526-15 §3.2 (hreq); P.1812-6 eq. (25) // P.526-15 §3.2 (hreq)
   if (h > hreq) {
-    return { Ldsph: 0, dlos_m: dlos, transhorizon: false, hse_m: h, hreq_m: hreq, aem_m: NaN, Ldft: NaN };
+    return fill(out, 0, dlos, false, h, hreq, NaN, NaN);
   }
   const aem = 0.5 * (d / (Math.sqrt(h1) + Math.sqrt(h2))) ** 2; // P.526-15 §3.2 (aem)
   const Ldft = sphericalEarthFirstTermLoss(d, h1, h2, aem, lambda, options);
@@ -95,5 +97,18 @@ export function sphericalEarthDiffractionLoss(
   // h = O(d2) while hreq = O(√d2), so h/hreq → 0 (full first-term loss), not 0/0.
   const ratio = hreq > 0 ? h / hreq : 0;
   const Ldsph = Ldft < 0 ? 0 : (1 - ratio) * Ldft; // P.526-15 §3.2 (A = (1 − h/hreq)·Ah)
-  return { Ldsph, dlos_m: dlos, transhorizon: false, hse_m: h, hreq_m: hreq, aem_m: aem, Ldft };
+  return fill(out, Ldsph, dlos, false, h, hreq, aem, Ldft);
+}
+
+/** Fill `out` when one is given, else a new result. */
+function fill(out: SphericalEarthResult | undefined, Ldsph: number, dlos_m: number, transhorizon: boolean, hse_m: number, hreq_m: number, aem_m: number, Ldft: number): SphericalEarthResult {
+  if (out === undefined) return { Ldsph, dlos_m, transhorizon, hse_m, hreq_m, aem_m, Ldft };
+  out.Ldsph = Ldsph;
+  out.dlos_m = dlos_m;
+  out.transhorizon = transhorizon;
+  out.hse_m = hse_m;
+  out.hreq_m = hreq_m;
+  out.aem_m = aem_m;
+  out.Ldft = Ldft;
+  return out;
 }

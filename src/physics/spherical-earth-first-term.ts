@@ -87,17 +87,38 @@ function firstTerm(d: number, h1: number, h2: number, a: number, lambda: number,
 function firstTermPractical(d_m: number, h1: number, h2: number, a_m: number, f: number, epsilonR: number, sigma: number, vertical: boolean): number {
   const a = a_m / 1000;
   const d = d_m / 1000;
-  const s18 = (18 * sigma) / f;
-  const KH = 0.036 * Math.cbrt(1 / (a * f)) * Math.pow((epsilonR - 1) ** 2 + s18 * s18, -0.25); // P.1812-6 eq. (29a)
-  const K = vertical ? KH * Math.sqrt(epsilonR * epsilonR + s18 * s18) : KH; // P.1812-6 eq. (29b)
+  // one cube root of a and one of f: (a·f)^(−1/3), (f/a²)^(1/3), (f²/a)^(1/3) are products of them;
+  // the terms of f and the ground alone are kept from the previous call with the same ones
+  const g = groundTerms(f, epsilonR, sigma, vertical);
+  const ca = Math.cbrt(1 / a);
+  const cf = g.cf;
+  const K = ca * g.kScale; // P.1812-6 eq. (29a), (29b)
   const K2 = K * K;
   const K4 = K2 * K2;
   const beta = (1 + 1.6 * K2 + 0.67 * K4) / (1 + 4.5 * K2 + 1.53 * K4); // P.1812-6 eq. (30)
-  const X = 21.88 * beta * Math.cbrt(f / (a * a)) * d; // P.1812-6 eq. (31)
-  const yScale = 0.9575 * beta * Math.cbrt((f * f) / a);
-  const Fx = X >= 1.6 ? 11 + 10 * Math.log10(X) - 17.6 * X : -20 * Math.log10(X) - 5.6488 * Math.pow(X, 1.425); // P.1812-6 eq. (33)
+  const X = 21.88 * beta * cf * ca * ca * d; // P.1812-6 eq. (31)
+  const yScale = 0.9575 * beta * cf * cf * ca;
+  const Fx = X >= 1.6 ? 11 + 10 * Math.log10(X) - 17.6 * X : -20 * Math.log10(X) - 5.6488 * Math.exp(1.425 * Math.log(X)); // P.1812-6 eq. (33)
   const Gmin = 2 + 20 * Math.log10(K);
   return -Fx - heightGain(beta * yScale * h1, Gmin) - heightGain(beta * yScale * h2, Gmin); // P.1812-6 eq. (32), (34)–(36)
+}
+
+/** f^(1/3) and K/a^(−1/3) of P.1812-6 eq. (29a), (29b) for the last frequency and ground asked for. */
+const lastGround = { f: NaN, epsilonR: NaN, sigma: NaN, vertical: false, cf: NaN, kScale: NaN };
+
+function groundTerms(f: number, epsilonR: number, sigma: number, vertical: boolean): typeof lastGround {
+  const g = lastGround;
+  if (g.f === f && g.epsilonR === epsilonR && g.sigma === sigma && g.vertical === vertical) return g;
+  const s18 = (18 * sigma) / f;
+  const cf = Math.cbrt(f);
+  const kh = 0.036 / cf / Math.sqrt(Math.sqrt((epsilonR - 1) ** 2 + s18 * s18)); // P.1812-6 eq. (29a), times a^(1/3)
+  g.f = f;
+  g.epsilonR = epsilonR;
+  g.sigma = sigma;
+  g.vertical = vertical;
+  g.cf = cf;
+  g.kScale = vertical ? kh * Math.sqrt(epsilonR * epsilonR + s18 * s18) : kh; // P.1812-6 eq. (29b)
+  return g;
 }
 
 /** Height-gain function G(Y) (dB) of P.526-15 §3.1.1.2 with B = β·Y, floored at Gmin. */
