@@ -13,6 +13,7 @@ import { validateCoverageRequest, type CoverageRequest, type FieldNames } from "
 import type { TallyData } from "./coverage-tally.ts";
 import { elevationWindow, type Elevations } from "./elevation-window.ts";
 import { raysPerHalfFace } from "./radial-sweep.ts";
+import { horizonTileTable, lineOfSightOnly } from "./horizon-sweep.ts";
 import { CoverageError } from "./coverage-error.ts";
 import { p1812Job } from "./p1812-setup.ts";
 
@@ -177,6 +178,7 @@ export function prepareCoverage(terrain: Terrain, req: CoverageRequest, options:
     thresholds_dbm: Float64Array.from(isLevel ? req.thresholds_dbm : [1]),
     rc: raysPerHalfFace({ ...grid, radius_m: req.radius_m }),
   };
+  if (lineOfSightOnly(req.method, req.clearance_f1)) job.dem_tile_max = horizonTileTable(grid.width, grid.height).buffer as SharedArrayBuffer;
   if (req.method === "p1812") {
     if (!req.p1812) throw new CoverageError("p1812: the method's inputs are missing", "p1812");
     const a: string[] = [];

@@ -199,6 +199,11 @@ class GeoTiffTerrain extends RasterTerrain {
     return this.hashed;
   }
 
+  /** Whether the band is in memory (decoded, or read by the general reader); false while windows are read from the file. */
+  get pixelsInMemory(): boolean {
+    return this.pixels === null || this.pixels.decoded;
+  }
+
   /**
    * Bilinear elevation as RasterTerrain computes it; before the band is decoded, from the 4×4
    * pixels around the point (clamped to the raster), which hold every pixel the interpolation
