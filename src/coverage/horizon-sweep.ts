@@ -227,10 +227,11 @@ function faceWavefront(fv: Float64Array, iv: Int32Array, iv2: Int32Array, st: Fl
       let kTo = Math.ceil(bs + ((T1 - 0.5) * da) / rcf) + 1;
       if (kFrom < 0) kFrom = 0;
       if (kTo > bmax) kTo = bmax;
+      // only the face's cells: |k − bs| ≤ da on the x faces, < da on the y faces (an interval of k)
+      while (kFrom <= kTo && (xMajor ? bs - kFrom > da : bs - kFrom >= da)) kFrom++;
+      while (kTo >= kFrom && (xMajor ? kTo - bs > da : kTo - bs >= da)) kTo--;
       for (let k = kFrom; k <= kTo; k++) {
         const db = k - bs;
-        const adb = db < 0 ? -db : db;
-        if (xMajor ? adb > da : adb >= da) continue;
         const x = db * rcf;
         // a guess, moved by one when the exact test says so
         let t = Math.round(x * invDa);
@@ -371,7 +372,7 @@ function tileRowMax(dem: Float32Array | Int16Array, offset: number, W: number, r
  * thread that would otherwise wait while the terrain is read. Int16 elevations, as read from
  * an Int16 GeoTIFF. Returns the visible share, so the work cannot be optimised away.
  */
-export function warmUpHorizonSweep(passes = 10): number {
+export function warmUpHorizonSweep(passes = 4): number {
   const n = 81;
   const c = (n - 1) / 2;
   const dem = new Int16Array(n * n);

@@ -158,7 +158,8 @@ export async function coverageCommand(argv: string[]): Promise<number> {
       throw e;
     }
     if (inMemory) collectGarbage(); // the terrain's own raster, now copied into the grid
-    const progress = (await import("../progress.ts")).progressReporter("coverage");
+    // the bar draws only on a terminal: elsewhere its module (cli-progress) is not loaded
+    const progress = process.stderr.isTTY ? (await import("../progress.ts")).progressReporter("coverage") : { update() {}, stop() {} };
     let computed;
     try {
       computed = await runCoverage(prepared, { pool, onProgress: (phase, d, t) => phase === "compute" && progress.update(d, t) });
