@@ -83,6 +83,8 @@ export async function runCoverage(prepared: PreparedCoverage, options: Pick<Comp
   if (options.pool) await options.pool.fill(values, nodata);
   else values.fill(nodata);
   const job: CoverageJob = { ...base, out };
+  // made here, with the result, so that it always belongs to these elevations
+  if (lineOfSightOnly(base.method, base.clearance_f1)) job.dem_tile_max = horizonTileTable(base.width, base.height).buffer as SharedArrayBuffer;
   const t1 = performance.now();
   const progress: CoverageProgress = (d, t) => options.onProgress?.("compute", d, t);
   const tally = options.pool ? await options.pool.run(job, progress) : await runInThisThread(job, progress);
@@ -178,7 +180,6 @@ export function prepareCoverage(terrain: Terrain, req: CoverageRequest, options:
     thresholds_dbm: Float64Array.from(isLevel ? req.thresholds_dbm : [1]),
     rc: raysPerHalfFace({ ...grid, radius_m: req.radius_m }),
   };
-  if (lineOfSightOnly(req.method, req.clearance_f1)) job.dem_tile_max = horizonTileTable(grid.width, grid.height).buffer as SharedArrayBuffer;
   if (req.method === "p1812") {
     if (!req.p1812) throw new CoverageError("p1812: the method's inputs are missing", "p1812");
     const a: string[] = [];
