@@ -236,8 +236,8 @@ function faceWavefront(fv: Float64Array, iv: Int32Array, iv2: Int32Array, st: Fl
         // a guess, moved by one when the exact test says so (written without a branch that the
         // warm-up might never take: its first use would send the loop back to the interpreter)
         let t = Math.round(x * invDa);
-        t += (x >= (t + 0.5) * da ? 1 : 0) - (x < (t - 0.5) * da ? 1 : 0);
-        if (t < T0 || t >= T1 || !(x >= (t - 0.5) * da && x < (t + 0.5) * da)) continue;
+        t += (x >= (t + 0.5) * da ? 1 : 0) - (x < (t - 0.5) * da ? 1 : 0); // (x·invDa is within 1e-8 of x/da: one step is all it can be off)
+        if (t < T0 || t >= T1) continue;
         // (the radial's sample here is inside the grid, as the cell it owns is within half a
         // cell of it, and inside the radius plus margin when the cell is inside the radius)
         const horizon = st[3 * (t - T0) + 2];
