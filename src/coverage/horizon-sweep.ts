@@ -80,7 +80,7 @@ export function horizonSweep(g: SweepGeometry, dem: Float32Array | Int16Array, r
   let uniformArea = true;
   for (let r = 1; r < H; r++) if (area[r] !== area[0]) uniformArea = false;
   const iv2 = new Int32Array(3);
-  fillTileTable(tiles, dem, W, H);
+  fillTileTable(tiles, dem, g);
   for (let face = Math.floor(q0 / perFace); face * perFace < q1; face++) {
     const from = Math.max(q0, face * perFace) - face * perFace - rc;
     const to = Math.min(q1, (face + 1) * perFace) - face * perFace - rc;
@@ -323,21 +323,39 @@ export function horizonTileTable(width: number, height: number): Float32Array {
 
 /**
  * Fill a horizon tile table unless it is filled: every thread that calls this takes tile rows
- * from the shared counter and fills them, then waits for the rows others are filling.
- * Elevations (Int16 or Float32) are exact in Float32.
+ * from the shared counter and fills them, then waits for the rows others are filling. Only the
+ * tiles within the radius plus three cells are read (the samples end 1.5 cells past it and
+ * interpolate with the next cell); the others are +∞, which bounds nothing, so the table never
+ * decides more than the cells it has read. Elevations (Int16 or Float32) are exact in Float32.
  */
-function fillTileTable(tiles: Float32Array, dem: Float32Array | Int16Array, W: number, H: number): void {
+function fillTileTable(tiles: Float32Array, dem: Float32Array | Int16Array, g: SweepGeometry): void {
   const ctrl = new Int32Array(tiles.buffer, 0, 2);
+  const W = g.width;
+  const H = g.height;
   const across = Math.ceil(W / TILE);
   const rows = Math.ceil(H / TILE);
   if (Atomics.load(ctrl, 1) >= rows) return;
+  const ex = Math.abs(g.east_per_col_m[0]);
+  const ny = Math.abs(g.north_per_row_m[0]);
+  const reach = g.radius_m + 3 * Math.max(ex, ny);
   const row = new Float64Array(across);
   for (;;) {
     const tr = Atomics.add(ctrl, 0, 1);
     if (tr >= rows) break;
-    row.fill(-Infinity);
-    const r1 = Math.min(H, tr * TILE + TILE);
-    for (let r = tr * TILE; r < r1; r++) tileRowMax(dem, r * W, W, row);
+    row.fill(Infinity);
+    const r0 = tr * TILE;
+    const r1 = Math.min(H, r0 + TILE);
+    // the tile columns the disc reaches in these rows
+    const dy = (g.site_row < r0 ? r0 - g.site_row : g.site_row > r1 - 1 ? g.site_row - (r1 - 1) : 0) * ny;
+    if (dy <= reach) {
+      const half = Math.sqrt(reach * reach - dy * dy) / ex;
+      const tcLo = Math.max(0, Math.floor((Math.floor(g.site_col - half) - 1) / TILE));
+      const tcHi = Math.min(across - 1, Math.floor((Math.ceil(g.site_col + half) + 1) / TILE));
+      if (tcLo <= tcHi) {
+        row.fill(-Infinity, tcLo, tcHi + 1);
+        for (let r = r0; r < r1; r++) tileRowMax(dem, r * W, W, row, tcLo, tcHi);
+      }
+    }
     for (let tc = 0; tc < across; tc++) tiles[tr * across + tc] = row[tc];
     Atomics.add(ctrl, 1, 1);
     Atomics.notify(ctrl, 1);
@@ -349,9 +367,9 @@ function fillTileTable(tiles: Float32Array, dem: Float32Array | Int16Array, W: n
   }
 }
 
-/** Raise row[tc] to the highest of the cells of tile column tc in one grid row (+∞ at nodata). */
-function tileRowMax(dem: Float32Array | Int16Array, offset: number, W: number, row: Float64Array): void {
-  for (let tc = 0, c0 = 0; c0 < W; tc++, c0 += TILE) {
+/** Raise row[tc] to the highest of the cells of tile columns tcLo…tcHi in one grid row (+∞ at nodata). */
+function tileRowMax(dem: Float32Array | Int16Array, offset: number, W: number, row: Float64Array, tcLo: number, tcHi: number): void {
+  for (let tc = tcLo, c0 = tcLo * TILE; tc <= tcHi && c0 < W; tc++, c0 += TILE) {
     let top = row[tc];
     const c1 = c0 + TILE < W ? c0 + TILE : W;
     for (let c = c0; c < c1; c++) {
