@@ -55,8 +55,8 @@ export function horizonSweepApplies(g: SweepGeometry): boolean {
  * 100 km grid); the cells are all visited as before.
  * @param out visibility raster (1 visible, 0 not), written for the cells these radials own
  * @param area ground area of a cell per row (m²)
- * @param tiles the grid's horizonTileTable (filled as tiles are first needed; one table may
- *   be shared by every thread sweeping the grid); default a new one
+ * @param tiles the grid's horizonTileTable, filled by the first sweep given it (the threads
+ *   sharing one table fill it together); default a new one
  */
 export function horizonSweep(g: SweepGeometry, dem: Float32Array | Int16Array, rc: number, q0: number, q1: number, p: HorizonParams, out: Uint8Array, area: Float64Array, tally: CoverageTally, tiles: Float32Array = horizonTileTable(g.width, g.height)): void {
   const xs = g.site_col;
