@@ -13,6 +13,7 @@ import { validateCoverageRequest, type CoverageRequest, type FieldNames } from "
 import type { TallyData } from "./coverage-tally.ts";
 import { elevationWindow, type Elevations } from "./elevation-window.ts";
 import { raysPerHalfFace } from "./radial-sweep.ts";
+import { horizonTileTable, lineOfSightOnly } from "./horizon-sweep.ts";
 import { CoverageError } from "./coverage-error.ts";
 import { p1812Job } from "./p1812-setup.ts";
 
@@ -82,6 +83,8 @@ export async function runCoverage(prepared: PreparedCoverage, options: Pick<Comp
   if (options.pool) await options.pool.fill(values, nodata);
   else values.fill(nodata);
   const job: CoverageJob = { ...base, out };
+  // made here, with the result, so that it always belongs to these elevations
+  if (lineOfSightOnly(base.method, base.clearance_f1)) job.dem_tile_max = horizonTileTable(base.width, base.height).buffer as SharedArrayBuffer;
   const t1 = performance.now();
   const progress: CoverageProgress = (d, t) => options.onProgress?.("compute", d, t);
   const tally = options.pool ? await options.pool.run(job, progress) : await runInThisThread(job, progress);

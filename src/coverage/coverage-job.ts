@@ -49,6 +49,11 @@ export interface CoverageJob extends SweepGeometry {
   thresholds_dbm: Float64Array;
   /** radials per half face of the sweep */
   rc: number;
+  /**
+   * geometric line of sight: the buffer of the threads' shared horizonTileTable (horizon-sweep.ts),
+   * which belongs to `dem` (a job given other elevations must not carry it); absent, each thread makes its own
+   */
+  dem_tile_max?: SharedArrayBuffer;
   /** p1812 only: the method's statistics, clutter classes and the location-probability raster */
   p1812?: P1812Job;
 }

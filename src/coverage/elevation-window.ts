@@ -9,8 +9,8 @@ const MESH_M = 500;
 
 /**
  * A coverage grid's elevations (m, row-major): Float32 with NaN for nodata, or — read from an
- * Int16 raster — Int16 with INT16_NODATA (−32768) for nodata, the same values in half the
- * memory. Read single values with `elevationAt`; hot loops compare with INT16_NODATA
+ * Int16 raster, or from a Float32 one whose samples are all whole metres — Int16 with
+ * INT16_NODATA (−32768) for nodata, the same values in half the memory. Read single values with `elevationAt`; hot loops compare with INT16_NODATA
  * themselves (−32768 is never a height on Earth, so the test is the same for both types).
  */
 export type Elevations = Float32Array | Int16Array;

@@ -4,7 +4,7 @@ import { readFile } from "node:fs/promises";
 import { makeRasterGrid, RasterTerrain, type RasterTerrainOptions } from "./raster-terrain.ts";
 import { bilinearGrid } from "./bilinear-grid.ts";
 import { crsFromEpsg } from "../geo/crs-from-epsg.ts";
-import { bandLayout, decodeBands, readBandFloat32, readBandInt16, waitForBands, type BandLayout, type PixelWindow, type TiffBandSource } from "./tiff-band-reader.ts";
+import { bandLayout, decodeBands, readBandFloat32, readBandFloat32AsInt16, readBandInt16, waitForBands, type BandLayout, type PixelWindow, type TiffBandSource } from "./tiff-band-reader.ts";
 import { readTiffDirectory } from "./tiff-directory.ts";
 import type { RasterGrid } from "./terrain.ts";
 import { TerrainError } from "./terrain-error.ts";
@@ -150,7 +150,12 @@ class DeferredPixels {
   window(w: PixelWindow): Float32Array;
   window(w: PixelWindow, int16: boolean): Float32Array | Int16Array;
   window(w: PixelWindow, int16 = false): Float32Array | Int16Array {
-    if (this.data === null) return int16 && this.int16 ? this.read(w, true) : this.read(w);
+    if (this.data === null) {
+      if (int16 && this.int16) return this.read(w, true);
+      // a Float32 band of whole metres reads as Int16 too: the same values in half the memory
+      if (int16 && this.layout.kind === "f32") return this.decode((fd) => readBandFloat32AsInt16(fd, this.layout, this.nodata, w)) ?? this.read(w);
+      return this.read(w);
+    }
     const out = new Float32Array(new SharedArrayBuffer(w.width * w.height * 4));
     const W = this.layout.width;
     for (let r = 0; r < w.height; r++) {
@@ -163,10 +168,15 @@ class DeferredPixels {
   private read(w?: PixelWindow): Float32Array;
   private read(w: PixelWindow, int16: true): Int16Array;
   private read(w?: PixelWindow, int16 = false): Float32Array | Int16Array {
+    return this.decode((fd) => (int16 ? readBandInt16(fd, this.layout, this.nodata, w) : readBandFloat32(fd, this.layout, this.nodata, w)));
+  }
+
+  /** Run a decoder on the open file; a failure becomes a TerrainError naming the file. */
+  private decode<T>(decoder: (fd: number) => T): T {
     let fd: number | null = null;
     try {
       fd = openSync(this.path, "r");
-      return int16 ? readBandInt16(fd, this.layout, this.nodata, w) : readBandFloat32(fd, this.layout, this.nodata, w);
+      return decoder(fd);
     } catch (e) {
       throw new TerrainError(
         `GeoTIFF ${this.label}: its pixels could not be decoded (${(e as NodeJS.ErrnoException).code ?? (e as Error).message}); rewrite it with gdal_translate -co COMPRESS=DEFLATE in.tif out.tif`,
@@ -199,6 +209,11 @@ class GeoTiffTerrain extends RasterTerrain {
     return this.hashed;
   }
 
+  /** Whether the band is in memory (decoded, or read by the general reader); false while windows are read from the file. */
+  get pixelsInMemory(): boolean {
+    return this.pixels === null || this.pixels.decoded;
+  }
+
   /**
    * Bilinear elevation as RasterTerrain computes it; before the band is decoded, from the 4×4
    * pixels around the point (clamped to the raster), which hold every pixel the interpolation
@@ -229,8 +244,10 @@ class GeoTiffTerrain extends RasterTerrain {
    * Elevations of a window of the raster's own pixels (Float32 on a SharedArrayBuffer, NaN
    * nodata), read straight from the file when the band is not decoded yet — with `share`,
    * by this thread and the threads `share` hands the same work to (see decodeBands). With
-   * `int16` and an Int16 band read that way, an Int16Array instead (nodata INT16_NODATA):
-   * the same values in half the memory, which a 100 km coverage grid (≈ 45 M cells) feels.
+   * `int16` and an Int16 band read that way — or an uncompressed or single-thread Float32 band
+   * whose window holds only whole metres (readBandFloat32AsInt16) — an Int16Array instead
+   * (nodata INT16_NODATA): the same values in half the memory, which a 100 km coverage grid
+   * (≈ 45 M cells) feels.
    */
   readWindow(window: PixelWindow, share?: ShareDecode, int16 = false): Float32Array | Int16Array {
     // Shared only when blocks are compressed: inflating is work that threads divide, while

@@ -135,6 +135,44 @@ export function readBandInt16(fd: number, layout: BandLayout, nodata: number | n
   return out;
 }
 
+/**
+ * Decode a Float32 band 1 (layout.kind "f32") into Int16 when every sample of the window is
+ * a whole number from −32767 to 32767 or nodata (NaN, or equal to `nodata` in Float32): the
+ * values readBandFloat32 gives, exactly, with nodata as INT16_NODATA, in half the memory (a
+ * Float32 DEM of whole metres, as GDAL converts an Int16 one). Null as soon as a sample is
+ * not; the caller then reads the band as Float32.
+ * @throws Error for a band that is not Float32, a truncated block or a corrupt stream
+ */
+export function readBandFloat32AsInt16(fd: number, layout: BandLayout, nodata: number | null, window?: PixelWindow): Int16Array | null {
+  if (layout.kind !== "f32") throw new Error(`readBandFloat32AsInt16: the band holds ${layout.kind} samples`);
+  const win = window ?? { col0: 0, row0: 0, width: layout.width, height: layout.height };
+  const out = new Int16Array(new SharedArrayBuffer(win.width * win.height * 2));
+  const nd = nodata === null || Number.isNaN(nodata) ? NaN : Math.fround(nodata);
+  const notWhole = new Error("not whole metres");
+  try {
+    decodeWindow(fd, layout, win, (samples, src, dst, n) => {
+      if (!wholeToInt16(samples as Float32Array, src, out, dst, n, nd)) throw notWhole;
+    });
+  } catch (e) {
+    if (e === notWhole) return null;
+    throw e;
+  }
+  return out;
+}
+
+/** Copy n Float32 samples to Int16 (NaN and `nd` as INT16_NODATA); false at the first sample that is not a whole number from −32767 to 32767. */
+function wholeToInt16(samples: Float32Array, src: number, out: Int16Array, dst: number, n: number, nd: number): boolean {
+  for (let c = 0; c < n; c++) {
+    const v = samples[src + c];
+    const i = v | 0; // NaN → 0, which differs from it
+    // one test for the common sample: whole, from −32767 to 32767, not nodata
+    if (i === v && (i + 32767) >>> 0 <= 65534 && v !== nd) out[dst + c] = i;
+    else if (v !== v || v === nd) out[dst + c] = INT16_NODATA;
+    else return false;
+  }
+  return true;
+}
+
 /** Copies n samples of one row of a decoded block, from samples[src…] to the window at dst. */
 type CopyRow = (samples: ArrayLike<number>, src: number, dst: number, n: number) => void;
 

@@ -23,6 +23,7 @@ let dir: string;
 let int16: Terrain;
 let int16Deflate: Terrain;
 let float32: Terrain;
+let float32Deferred: Terrain;
 let pool: CoveragePool;
 
 beforeAll(async () => {
@@ -43,7 +44,9 @@ beforeAll(async () => {
   writeGeoTiff(join(dir, "f32.tif"), { ...common, data: f32 });
   writeGeoTiff(join(dir, "i16z.tif"), { ...common, data: i16, compression: "deflate" }); // compressed: read by the pool's threads together
   int16 = await openGeoTiff(join(dir, "i16.tif"), { deferPixels: true });
-  float32 = await openGeoTiff(join(dir, "f32.tif"), { deferPixels: true });
+  // decoded whole, so that its windows are Float32 (a window read from the file would be Int16: whole metres)
+  float32 = await openGeoTiff(join(dir, "f32.tif"));
+  float32Deferred = await openGeoTiff(join(dir, "f32.tif"), { deferPixels: true });
   int16Deflate = await openGeoTiff(join(dir, "i16z.tif"), { deferPixels: true });
   pool = CoveragePool.start(2);
 });
@@ -85,7 +88,7 @@ describe("coverage on an Int16 DEM", () => {
     const [lat2, lon2] = cellLatLon({ x0: X0, y0: Y0, cell: CELL }, 100, 130);
     for (const k of [...cases, { method: "hata" as const, clearance_f1: 0 }]) {
       const req = request({ site: { lat_deg: lat2, lon_deg: lon2 }, method: k.method, clearance_f1: k.clearance_f1, radius_m: 2500, thresholds_dbm: [-90, -80] });
-      for (const terrain of [int16, float32, int16Deflate]) {
+      for (const terrain of [int16, float32Deferred, int16Deflate]) {
         const share = { pool, shareDecode: (...x: Parameters<CoveragePool["shareDecode"]>) => pool.shareDecode(...x) }; // the Deflate file is read by the threads together
         const all = await computeCoverage(terrain, req, share);
         const disc = await computeCoverage(terrain, req, { ...share, elevationsInsideRadiusOnly: true });

@@ -138,6 +138,7 @@ export async function coverageCommand(argv: string[]): Promise<number> {
   try {
     let prepared;
     let open_s = 0;
+    let inMemory = true;
     try {
       // The terrain is only needed to fill the grid's elevations; it is let go before the
       // result is allocated, so its raster and the result are not in memory together.
@@ -145,7 +146,9 @@ export async function coverageCommand(argv: string[]): Promise<number> {
       const terrain = await openCoverageTerrain(parseTerrainArg(v("terrain")!), openTerrain, openGeoTiff);
       open_s = (performance.now() - tOpen) / 1000;
       mark("terrain opened");
-      collectGarbage(); // the reader's file bytes and decoding buffers
+      // a GeoTIFF read window by window holds no pixels: nothing for a collection to free
+      inMemory = (terrain as { pixelsInMemory?: boolean }).pixelsInMemory !== false;
+      if (inMemory) collectGarbage(); // the reader's file bytes and decoding buffers
       // only the raster is written: the elevations outside the radius are not needed
       prepared = prepareCoverage(terrain, request, { names, patternField: "--pattern", shareDecode: pool ? (...a) => pool.shareDecode(...a) : undefined, elevationsInsideRadiusOnly: true });
       mark("grid elevations");
@@ -154,8 +157,9 @@ export async function coverageCommand(argv: string[]): Promise<number> {
       if (e instanceof CoverageError) throw new UsageError(e.field.startsWith("--") || e.message.startsWith("--") ? e.message : `--${e.field.replace(/_/g, "-")}: ${e.message}`);
       throw e;
     }
-    collectGarbage(); // the terrain's own raster, now copied into the grid
-    const progress = (await import("../progress.ts")).progressReporter("coverage");
+    if (inMemory) collectGarbage(); // the terrain's own raster, now copied into the grid
+    // the bar draws only on a terminal: elsewhere its module (cli-progress) is not loaded
+    const progress = process.stderr.isTTY ? (await import("../progress.ts")).progressReporter("coverage") : { update() {}, stop() {} };
     let computed;
     try {
       computed = await runCoverage(prepared, { pool, onProgress: (phase, d, t) => phase === "compute" && progress.update(d, t) });
