@@ -1,6 +1,7 @@
 import { createHash } from "node:crypto";
 import { relative, isAbsolute } from "node:path";
 import { coverageKeyer } from "../coverage/coverage-cache-keys.ts";
+import { coverageTileCount, coverageTileKey } from "../coverage/coverage-tiles.ts";
 import { linkKeyer } from "../cache/cache-keys.ts";
 import type { ResultCache } from "../cache/result-cache.ts";
 import { terrainSourceKey } from "../cache/terrain-source-key.ts";
@@ -25,10 +26,12 @@ export interface StudyPlan {
 
 /**
  * The tasks of a study: the cache entries it needs that `cache` lacks — terrain links in
- * batches of LINKS_PER_TASK, in study order, and each coverage map on its own. Links with a
- * surveyed profile (no terrain, microseconds each) and the multi-site composite (made from
- * its members' rasters once they are in the cache) are left to the coordinator's own build,
- * as is a study whose terrain cannot be read (the build then reports why).
+ * batches of LINKS_PER_TASK, in study order, and each tile of the coverage maps the cache
+ * lacks (coverage-tiles.ts; the tiles it already holds are not sent again). Links with a
+ * surveyed profile (no terrain, microseconds each), the assembly of each map from its tiles
+ * (its files and figures) and the multi-site composite (made from its members' rasters) are
+ * left to the coordinator's own build, which finds the tiles in its cache, as is a study whose
+ * terrain cannot be read (the build then reports why).
  */
 export function planStudy(study: Study, cache: ResultCache, identity: QueueIdentity, cwd = process.cwd(), linksPerTask = LINKS_PER_TASK): StudyPlan {
   const bytes = encodeStudy(study);
@@ -47,8 +50,14 @@ export function planStudy(study: Study, cache: ResultCache, identity: QueueIdent
   }
   const keyer = coverageKeyer(study, terrainKey);
   for (const entry of study.coverage ?? []) {
-    const key = keyer.entry(entry);
-    if (!cache.has("coverage", key)) plan.tasks.push({ ...base, kind: "coverage", label: `coverage ${entry.id} of study ${study.id}`, keys: [key], ids: [entry.id] });
+    const mapKey = keyer.entry(entry);
+    if (cache.has("coverage", mapKey)) continue;
+    const count = coverageTileCount(entry.radius_km * 1000, entry.resolution_m);
+    for (let index = 0; index < count; index++) {
+      const key = coverageTileKey(mapKey, index, count);
+      if (cache.has("coverage-tile", key)) continue;
+      plan.tasks.push({ ...base, kind: "coverage-tile", label: `coverage ${entry.id} tile ${index + 1}/${count} of study ${study.id}`, keys: [key], ids: [entry.id], tile: { index, count, mapKey } });
+    }
   }
   return plan;
 }

@@ -5,7 +5,7 @@ import { connectRedis, redisOptions } from "./connect.ts";
 import { identityMismatch, queueIdentity } from "./identity.ts";
 import type { RedisTarget } from "./redis-url.ts";
 import { getChunked, KEY_PREFIX, putChunked, resultKey, studyKey } from "./result-store.ts";
-import { runTask } from "./run-task.ts";
+import { closeTaskResources, runTask } from "./run-task.ts";
 import { decodeStudy, QUEUE_NAME, workerStudyDir, type TaskData, type TaskResult } from "./task.ts";
 
 export interface WorkerOptions {
@@ -80,7 +80,10 @@ export async function runWorker(target: RedisTarget, o: WorkerOptions): Promise<
     autorun: false,
   });
   worker.on("error", () => {}); // connection errors: ioredis reconnects
-  const stop = (): Promise<void> => (stopping ??= worker.close().then(() => redis.disconnect()));
+  const stop = (): Promise<void> => (stopping ??= worker.close().then(async () => {
+    redis.disconnect();
+    await closeTaskResources();
+  }));
   const onSignal = () => {
     o.log(`ridgeline worker ${o.name}: stopping after the task${(o.concurrency ?? 1) > 1 ? "s" : ""} in hand`);
     void stop();
