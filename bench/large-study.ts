@@ -64,7 +64,7 @@ export async function benchLargeStudy(): Promise<Record<string, unknown>> {
   }
 }
 
-const coverageYaml = (sites: string[]) =>
+export const coverageYaml = (sites: string[]) =>
   `coverage:\n${sites
     .map(
       (s, i) => `  - id: cov-${i}
@@ -96,7 +96,7 @@ function startWorker(url: string, name: string): Promise<ChildProcess> {
 }
 
 /** Queue figures of one study: computed in this process (no queue), then on 1 and 2 workers, each from an empty cache. */
-async function queueRuns(studyDir: string, url: string) {
+export async function queueRuns(studyDir: string, url: string) {
   const studies = () => loadStudies([join(studyDir, "study.yaml")]);
   const t0 = performance.now();
   await analyzeStudies(studies(), { coverageOutputs: loadCoverageOutputStage, cache: new ResultCache(mkdtempSync(join(tmpdir(), "ridgeline-bench-cache-"))) });

@@ -37,9 +37,15 @@ export interface CoverageTile {
   row0: number;
   width: number;
   height: number;
-  /** the box's values: the tile's cells, nodata elsewhere */
+  /**
+   * The tile's cells that hold a value, in runs along the box's rows: pairs (row-major index
+   * in the grid, length); the values of the runs one after the other. Only the cells a tile
+   * computed travel and are stored — about 4 (level) or 1 (visibility) bytes a cell — not its
+   * whole box.
+   */
+  runs: Int32Array;
   values: Float32Array | Uint8Array;
-  /** P.1812: the box's location probabilities (PROBABILITY_NODATA elsewhere); null otherwise */
+  /** P.1812: the location probabilities of the same runs; null otherwise */
   probability: Float32Array | null;
   tally: TallyData;
 }
@@ -133,6 +139,37 @@ function fillBox(a: Raster, W: number, b: Box, value: number): void {
   for (let r = 0; r < b.height; r++) a.fill(value, (b.row0 + r) * W + b.col0, (b.row0 + r) * W + b.col0 + b.width);
 }
 
+/**
+ * The runs of cells in the box whose value (or probability) is not nodata, and their values:
+ * what a tile keeps of the box it was computed in.
+ */
+function packRuns(out: Raster, prob: Float32Array | null, W: number, b: Box, nodata: number): { runs: Int32Array; values: Raster; probability: Float32Array | null } {
+  const runs: number[] = [];
+  let cells = 0;
+  for (let r = 0; r < b.height; r++) {
+    const at = (b.row0 + r) * W + b.col0;
+    let start = -1;
+    for (let c = 0; c <= b.width; c++) {
+      const has = c < b.width && (out[at + c] !== nodata || (prob !== null && prob[at + c] !== PROBABILITY_NODATA));
+      if (has && start < 0) start = c;
+      else if (!has && start >= 0) {
+        runs.push(at + start, c - start);
+        cells += c - start;
+        start = -1;
+      }
+    }
+  }
+  const values = out instanceof Float32Array ? new Float32Array(cells) : new Uint8Array(cells);
+  const probability = prob ? new Float32Array(cells) : null;
+  let p = 0;
+  for (let i = 0; i < runs.length; i += 2) {
+    values.set(out.subarray(runs[i], runs[i] + runs[i + 1]), p);
+    probability?.set(prob!.subarray(runs[i], runs[i] + runs[i + 1]), p);
+    p += runs[i + 1];
+  }
+  return { runs: Int32Array.from(runs), values, probability };
+}
+
 /** Write the box's values into the grid where they are not nodata (another tile's cells, or the tile's own). */
 function writeBox(a: Raster, W: number, b: Box, values: Raster, nodata: number): void {
   for (let r = 0; r < b.height; r++) {
@@ -170,7 +207,8 @@ export async function computeCoverageTile(job: CoverageJob, index: number, count
   }
   const n = job.thresholds_dbm.length;
   const tally = from >= to ? emptyTally(n) : o.pool ? await o.pool.run(job, o.onProgress, [from, to]) : await runInThisThread(job, o.onProgress, [from, to]);
-  const tile: CoverageTile = { index, count, from, to, ...box, values: o.extract ? readBox(out, W, box) : new Float32Array(0), probability: o.extract && prob ? readBox(prob, W, box) : null, tally };
+  const packed = o.extract ? packRuns(out, prob, W, box, nodata) : { runs: new Int32Array(0), values: new Float32Array(0), probability: null };
+  const tile: CoverageTile = { index, count, from, to, ...box, ...packed, tally };
   if (kept) writeBox(out, W, box, kept, nodata);
   if (keptProb) writeBox(prob!, W, box, keptProb, PROBABILITY_NODATA);
   return tile;
@@ -178,9 +216,14 @@ export async function computeCoverageTile(job: CoverageJob, index: number, count
 
 /** Write a tile's cells into the job's result rasters (filled with nodata, or holding other tiles). */
 export function placeCoverageTile(job: CoverageJob, tile: CoverageTile): void {
-  const { out, nodata, prob } = rasters(job);
-  writeBox(out, job.width, tile, tile.values, nodata);
-  if (prob && tile.probability) writeBox(prob, job.width, tile, tile.probability, PROBABILITY_NODATA);
+  const { out, prob } = rasters(job);
+  const { runs, values, probability } = tile;
+  let p = 0;
+  for (let i = 0; i < runs.length; i += 2) {
+    out.set(values.subarray(p, p + runs[i + 1]), runs[i]);
+    if (prob && probability) prob.set(probability.subarray(p, p + runs[i + 1]), runs[i]);
+    p += runs[i + 1];
+  }
 }
 
 /** A tile as cache-entry bytes (the entry codec: the same bytes on every machine for the same tile). */
@@ -195,7 +238,20 @@ export function decodeCoverageTile(bytes: Uint8Array, job: CoverageJob, index: n
   const [from, to] = tileUnits(job, index, count);
   const box = tileBox(job, from, to);
   if (t.from !== from || t.to !== to || t.col0 !== box.col0 || t.row0 !== box.row0 || t.width !== box.width || t.height !== box.height) return null;
-  const cells = box.width * box.height;
+  // runs within the box's rows, in order, their lengths adding up to the values'
+  const runs = t.runs;
+  if (!(runs instanceof Int32Array) || runs.length % 2 !== 0) return null;
+  let cells = 0;
+  let last = -1;
+  for (let i = 0; i < runs.length; i += 2) {
+    const at = runs[i];
+    const n = runs[i + 1];
+    const row = Math.floor(at / job.width);
+    const col = at - row * job.width;
+    if (!(at > last && n > 0 && row >= box.row0 && row < box.row0 + box.height && col >= box.col0 && col + n <= box.col0 + box.width)) return null;
+    last = at + n - 1;
+    cells += n;
+  }
   const isLevel = job.method !== "visibility";
   const v = t.values;
   if (!(isLevel ? v instanceof Float32Array : v instanceof Uint8Array) || v!.length !== cells) return null;
