@@ -7,6 +7,7 @@ import { cpus, totalmem } from "node:os";
 import { fileURLToPath } from "node:url";
 import { benchCoverage } from "./coverage.ts";
 import { benchInterference } from "./interference.ts";
+import { benchLargeCoverage } from "./large-coverage.ts";
 import { benchLargeStudy, benchLazyTiles, benchQueue } from "./large-study.ts";
 import { benchLinks } from "./links.ts";
 import { benchRebuild } from "./rebuild.ts";
@@ -21,7 +22,11 @@ const parts: Record<string, () => Promise<unknown>> = {
   large_study: benchLargeStudy,
   queue: benchQueue,
   lazy_tiles: benchLazyTiles,
+  large_coverage: () => benchLargeCoverage(),
 };
+
+/** Parts that take minutes: run only when asked (`npm run bench -- --large-coverage`). */
+const onRequest: Record<string, string> = { large_coverage: "--large-coverage" };
 
 const at = process.argv.indexOf("--part");
 if (at >= 0) {
@@ -36,6 +41,7 @@ if (at >= 0) {
     memory_gib: Math.round((totalmem() / 2 ** 30) * 10) / 10,
   };
   for (const name of Object.keys(parts)) {
+    if (Object.hasOwn(onRequest, name) && !process.argv.includes(onRequest[name])) continue;
     const r = spawnSync(process.execPath, ["--import", "tsx", fileURLToPath(import.meta.url), "--part", name], { encoding: "utf8", stdio: ["ignore", "pipe", "inherit"], maxBuffer: 1 << 26 });
     if (r.status !== 0) throw new Error(`bench/run.ts: the ${name} benchmark failed (exit ${r.status ?? r.signal})`);
     // the figures are the last line: a part that renders a site may have printed Eleventy's summary before it

@@ -131,6 +131,11 @@ async function runTileTask(t: TaskData, study: Study, terrainKey: string, terrai
   return new Map([[`coverage-tile:${t.keys[0]}`, encodeCoverageTile(tile)]]);
 }
 
+/** Start the coverage threads before the first task (they load their code while the worker waits for one). */
+export function warmTaskResources(): void {
+  pool ??= CoveragePool.start(availableParallelism());
+}
+
 /** Stop what the worker keeps between tasks (its coverage threads). */
 export async function closeTaskResources(): Promise<void> {
   const p = pool;

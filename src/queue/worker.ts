@@ -5,7 +5,7 @@ import { connectRedis, redisOptions } from "./connect.ts";
 import { identityMismatch, queueIdentity } from "./identity.ts";
 import type { RedisTarget } from "./redis-url.ts";
 import { getChunked, KEY_PREFIX, putChunked, resultKey, studyKey } from "./result-store.ts";
-import { closeTaskResources, runTask } from "./run-task.ts";
+import { closeTaskResources, runTask, warmTaskResources } from "./run-task.ts";
 import { decodeStudy, QUEUE_NAME, workerStudyDir, type TaskData, type TaskResult } from "./task.ts";
 
 export interface WorkerOptions {
@@ -90,6 +90,7 @@ export async function runWorker(target: RedisTarget, o: WorkerOptions): Promise<
   };
   process.on("SIGTERM", onSignal);
   process.on("SIGINT", onSignal);
+  warmTaskResources();
   o.log(`ridgeline worker ${o.name}: waiting for tasks on ${target.display} (Ridgeline ${identity.version}, code ${identity.code.slice(0, 12)})`);
   try {
     await worker.run();
