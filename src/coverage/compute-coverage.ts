@@ -83,7 +83,7 @@ export async function runCoverage(prepared: PreparedCoverage, options: Pick<Comp
   const out = new SharedArrayBuffer(isLevel ? cells * 4 : cells);
   const values = isLevel ? new Float32Array(out) : new Uint8Array(out);
   const nodata = isLevel ? LEVEL_NODATA : VISIBILITY_NODATA;
-  if (options.pool) await options.pool.fill(values, nodata);
+  if (options.pool && !options.tiles) await options.pool.fill(values, nodata); // with tiles at hand, not worth waiting for the threads
   else values.fill(nodata);
   const job: CoverageJob = { ...base, out };
   const t1 = performance.now();

@@ -21,22 +21,26 @@ export interface StudyPlan {
   study: Study;
   bytes: Buffer;
   sha: string;
+  /** tasks to queue at once: link batches and coverage tiles */
   tasks: TaskData[];
+  /** per coverage map the cache lacks: its assembly task (queued when its tiles are done) and its tiles */
+  maps: { task: TaskData; tiles: TaskData[] }[];
 }
 
 /**
  * The tasks of a study: the cache entries it needs that `cache` lacks — terrain links in
  * batches of LINKS_PER_TASK, in study order, and each tile of the coverage maps the cache
- * lacks (coverage-tiles.ts; the tiles it already holds are not sent again). Links with a
- * surveyed profile (no terrain, microseconds each), the assembly of each map from its tiles
- * (its files and figures) and the multi-site composite (made from its members' rasters) are
- * left to the coordinator's own build, which finds the tiles in its cache, as is a study whose
- * terrain cannot be read (the build then reports why).
+ * lacks (coverage-tiles.ts; the tiles it already holds are not computed again), then each such
+ * map's assembly from its tiles (its files, figures and rasters), a task queued once its tiles
+ * are done. Links with a surveyed profile (no terrain, microseconds each) and the multi-site
+ * composite (made from its members' rasters once they are in the cache) are left to the
+ * coordinator's own build, as is a study whose terrain cannot be read (the build then reports
+ * why).
  */
 export function planStudy(study: Study, cache: ResultCache, identity: QueueIdentity, cwd = process.cwd(), linksPerTask = LINKS_PER_TASK): StudyPlan {
   const bytes = encodeStudy(study);
   const sha = createHash("sha256").update(bytes).digest("hex");
-  const plan: StudyPlan = { study, bytes, sha, tasks: [] };
+  const plan: StudyPlan = { study, bytes, sha, tasks: [], maps: [] };
   const terrainKey = terrainSourceKey(study.terrain, study.dir, cache);
   if (terrainKey === null) return plan;
   const rel = relative(cwd, study.dir);
@@ -53,11 +57,14 @@ export function planStudy(study: Study, cache: ResultCache, identity: QueueIdent
     const mapKey = keyer.entry(entry);
     if (cache.has("coverage", mapKey)) continue;
     const count = coverageTileCount(entry.radius_km * 1000, entry.resolution_m);
-    for (let index = 0; index < count; index++) {
-      const key = coverageTileKey(mapKey, index, count);
+    const tileKeys = Array.from({ length: count }, (_, index) => coverageTileKey(mapKey, index, count));
+    const tiles: TaskData[] = [];
+    for (const [index, key] of tileKeys.entries()) {
       if (cache.has("coverage-tile", key)) continue;
-      plan.tasks.push({ ...base, kind: "coverage-tile", label: `coverage ${entry.id} tile ${index + 1}/${count} of study ${study.id}`, keys: [key], ids: [entry.id], tile: { index, count, mapKey } });
+      tiles.push({ ...base, kind: "coverage-tile", label: `coverage ${entry.id} tile ${index + 1}/${count} of study ${study.id}`, keys: [key], ids: [entry.id], tile: { index, count, mapKey } });
     }
+    plan.tasks.push(...tiles);
+    plan.maps.push({ task: { ...base, kind: "coverage", label: `coverage ${entry.id} of study ${study.id} (assembly of ${count} tiles)`, keys: [mapKey], ids: [entry.id], tileKeys }, tiles });
   }
   return plan;
 }

@@ -1,4 +1,7 @@
 import { availableParallelism } from "node:os";
+import { makeTempDir, removeTempDir } from "../temp-dirs.ts";
+import { loadCoverageOutputStage } from "../render/coverage-output-loader.ts";
+import { ResultCache } from "../cache/result-cache.ts";
 import { analyzeStudy, openStudyTerrain, type CachedLink } from "../analysis/analyze-study.ts";
 import { coverageRequestOf, p1812RequestOf } from "../coverage/analyze-coverage.ts";
 import { coverageKeyer } from "../coverage/coverage-cache-keys.ts";
@@ -50,7 +53,7 @@ function workerTerrainKey(study: Study): string | null {
  * "kind:key". Throws (the task then fails and is retried) when this machine's terrain or a
  * recomputed key differs from the coordinator's, naming the difference.
  */
-export async function runTask(t: TaskData, study: Study): Promise<Map<string, Buffer>> {
+export async function runTask(t: TaskData, study: Study, o: { fetchTiles?: (keys: string[]) => Promise<Map<string, Buffer>> } = {}): Promise<Map<string, Buffer>> {
   const terrainKey = workerTerrainKey(study);
   if (terrainKey !== t.terrainKey) {
     const where = "file" in study.terrain ? `${study.terrain.file} in ${study.dir}` : "the study's terrain section";
@@ -62,6 +65,7 @@ export async function runTask(t: TaskData, study: Study): Promise<Map<string, Bu
   }
   const terrain = await openTerrainOnce(study, terrainKey);
   if (t.kind === "coverage-tile") return runTileTask(t, study, terrainKey, terrain);
+  if (t.kind === "coverage") return runMapTask(t, study, terrainKey, terrain, o.fetchTiles);
   const keyOf = linkKeyer(study, terrainKey);
   const links = t.ids.map((id, i) => {
     const link = study.links.find((l) => l.id === id);
@@ -129,6 +133,33 @@ async function runTileTask(t: TaskData, study: Study, terrainKey: string, terrai
   computing = run.catch(() => {});
   const tile = await run;
   return new Map([[`coverage-tile:${t.keys[0]}`, encodeCoverageTile(tile)]]);
+}
+
+/**
+ * A map assembled from its tiles, exactly as a local build assembles it: the tiles go into a
+ * private, temporary cache (a tile missing from Redis is computed here), the ordinary
+ * analyzeStudy of the study cut down to this coverage entry lays the map out from them, and
+ * its "coverage" entry (files, figures, rasters) is read back.
+ */
+async function runMapTask(t: TaskData, study: Study, terrainKey: string, terrain: Terrain, fetchTiles?: (keys: string[]) => Promise<Map<string, Buffer>>): Promise<Map<string, Buffer>> {
+  const entry = study.coverage?.find((c) => c.id === t.ids[0]);
+  if (!entry) throw new Error(`coverage ${t.ids[0]} is not in study ${study.id}`);
+  const mapKey = coverageKeyer(study, terrainKey).entry(entry);
+  if (mapKey !== t.keys[0]) throw new Error(`coverage ${entry.id}: the cache key computed here differs from the coordinator's`);
+  const sub: Study = { ...study, chains: [], coverage: [entry], interference: undefined }; // links kept: the map draws them and its key covers them
+  const dir = makeTempDir("ridgeline-task-");
+  try {
+    const cache = new ResultCache(dir);
+    const tiles = (await fetchTiles?.(t.tileKeys ?? [])) ?? new Map<string, Buffer>();
+    for (const [key, bytes] of tiles) cache.putBytes("coverage-tile", key, bytes);
+    const analysed = await analyzeStudy(sub, { cache, terrain, coverageOutputs: loadCoverageOutputStage, skipLinks: true });
+    if (analysed.coverage) removeTempDir(analysed.coverage.dir);
+    const bytes = cache.getBytes("coverage", mapKey);
+    if (!bytes) throw new Error(`the coverage entry ${mapKey.slice(0, 12)} was not written (cache write errors: ${cache.writeErrors})`);
+    return new Map([[`coverage:${mapKey}`, bytes]]);
+  } finally {
+    removeTempDir(dir);
+  }
 }
 
 /** Start the coverage threads before the first task (they load their code while the worker waits for one). */

@@ -11,11 +11,12 @@ export const QUEUE_NAME = "tasks";
  * One task: cache entries of one study to compute, named by their cache keys (content
  * addressed: the same inputs, code and terrain give the same key and the same bytes).
  * `links`: a batch of links (entries "link" and "link-figure" of each key); `coverage-tile`:
- * one tile of a coverage map (entry "coverage-tile", coverage-tiles.ts), which the
- * coordinator's own build assembles into the map with the others.
+ * one tile of a coverage map (entry "coverage-tile", coverage-tiles.ts); `coverage`: the
+ * assembly of a map from its tiles (read from Redis) into its files, figures and rasters
+ * (entry "coverage"), queued once its tiles are done.
  */
 export interface TaskData {
-  kind: "links" | "coverage-tile";
+  kind: "links" | "coverage-tile" | "coverage";
   /** For messages: "links l000–l024 of study bench". */
   label: string;
   /** sha256 of the study as sent (encodeStudy), stored in Redis under studyKey(sha). */
@@ -31,6 +32,8 @@ export interface TaskData {
   ids: string[];
   /** coverage-tile: which tile of how many, of the map with this cache key */
   tile?: { index: number; count: number; mapKey: string };
+  /** coverage: the keys of the map's tiles, in order (their entries are in Redis, resultKey) */
+  tileKeys?: string[];
   identity: QueueIdentity;
 }
 
@@ -51,7 +54,7 @@ export function taskJobId(kind: TaskData["kind"], keys: string[]): string {
 
 /** The cache entries a task produces. */
 export function taskEntries(t: Pick<TaskData, "kind" | "keys">): { kind: string; key: string }[] {
-  return t.kind === "links" ? t.keys.flatMap((key) => [{ kind: "link-figure", key }, { kind: "link", key }]) : t.keys.map((key) => ({ kind: "coverage-tile", key }));
+  return t.kind === "links" ? t.keys.flatMap((key) => [{ kind: "link-figure", key }, { kind: "link", key }]) : t.keys.map((key) => ({ kind: t.kind, key }));
 }
 
 /**

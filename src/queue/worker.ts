@@ -57,7 +57,7 @@ export async function runWorker(target: RedisTarget, o: WorkerOptions): Promise<
     try {
       const t0 = performance.now();
       const study = await loadStudy(redis, studies, t, o.terrainRoot ?? null);
-      const entries = await runTask(t, study);
+      const entries = await runTask(t, study, { fetchTiles: (keys) => fetchTiles(redis, keys) });
       const t1 = performance.now();
       await putChunked(redis, [...entries].map(([id, bytes]) => [resultKey(id.slice(0, id.indexOf(":")), id.slice(id.indexOf(":") + 1)), bytes] as const));
       const t2 = performance.now();
@@ -100,6 +100,12 @@ export async function runWorker(target: RedisTarget, o: WorkerOptions): Promise<
     process.off("SIGINT", onSignal);
   }
   return exitCode;
+}
+
+/** A map's tiles from Redis (those present), by tile key. */
+async function fetchTiles(redis: Redis, keys: string[]): Promise<Map<string, Buffer>> {
+  const got = await getChunked(redis, keys.map((k) => resultKey("coverage-tile", k)));
+  return new Map(keys.flatMap((k) => (got.has(resultKey("coverage-tile", k)) ? [[k, got.get(resultKey("coverage-tile", k))!] as const] : [])));
 }
 
 /** The task's study, fetched from Redis once per worker and placed in this machine's study folder. */

@@ -54,15 +54,16 @@ describe("ridgeline build --queue", () => {
     await Promise.all([w1.waitFor(/waiting for tasks/), w2.waitFor(/waiting for tasks/)]);
     const b = build(join(tmp, "site-queue"), ["--no-cache"]);
     expect(await b.exited, b.output()).toBe(0);
-    // 44 links in batches of 25 and two coverage maps of 2 tiles: 6 tasks; each map assembled
-    // here from its tiles, and the composite made from the maps
-    expect(b.output()).toMatch(/queue: tasks 6\/6 done, 0 failed/);
-    expect(b.output()).toMatch(/6 tasks on [12] workers?/);
-    expect(b.output()).toMatch(/44 of 44 links from cache, 0 of 3 coverage maps from cache/);
+    // 44 links in batches of 25, two coverage maps of 2 tiles each and their assembly: 8
+    // tasks; the composite made here from the maps
+    expect(b.output()).toMatch(/queue: tasks 8\/8 done, 0 failed/);
+    expect(b.output()).toMatch(/8 tasks on [12] workers?/);
+    expect(b.output()).toMatch(/44 of 44 links from cache, 2 of 3 coverage maps from cache/);
     expect(b.output()).not.toContain(redis.password); // the URL is printed masked
     expect(b.output()).toContain(`redis://:****@127.0.0.1:${redis.port}`);
     expect(w1.output() + w2.output()).toMatch(/done "coverage cov-a tile 1\/2 of study queue-study"/);
     expect(w1.output() + w2.output()).toMatch(/done "coverage cov-b tile 2\/2 of study queue-study"/);
+    expect(w1.output() + w2.output()).toMatch(/done "coverage cov-b of study queue-study \(assembly of 2 tiles\)"/);
     const site = treeBytes(join(tmp, "site-queue"));
     expect(siteDifferences(site, localSite)).toEqual([]);
     expect([...site.values()].some((bytes) => bytes.includes(redis.password))).toBe(false);
