@@ -152,7 +152,8 @@ async function runMapTask(t: TaskData, study: Study, terrainKey: string, terrain
     const cache = new ResultCache(dir);
     const tiles = (await fetchTiles?.(t.tileKeys ?? [])) ?? new Map<string, Buffer>();
     for (const [key, bytes] of tiles) cache.putBytes("coverage-tile", key, bytes);
-    const analysed = await analyzeStudy(sub, { cache, terrain, coverageOutputs: loadCoverageOutputStage, skipLinks: true });
+    // no threads of its own: every tile is normally at hand (a missing one is computed in this thread)
+    const analysed = await analyzeStudy(sub, { cache, terrain, coverageOutputs: loadCoverageOutputStage, skipLinks: true, coverageWorkers: 0 });
     if (analysed.coverage) removeTempDir(analysed.coverage.dir);
     const bytes = cache.getBytes("coverage", mapKey);
     if (!bytes) throw new Error(`the coverage entry ${mapKey.slice(0, 12)} was not written (cache write errors: ${cache.writeErrors})`);

@@ -87,6 +87,22 @@ describe("ridgeline build --queue", () => {
     await stopCli(rescuer);
   });
 
+  it("maps whose tiles the coordinator's cache already holds: only their assembly is queued, the tiles sent from the cache, and the site is the same", async () => {
+    const cacheDir = join(tmp, "cache-tiles-only");
+    const first = runCli(["build", "--studies-dir", studies, "--out", join(tmp, "site-cached"), "--cache-dir", cacheDir]);
+    expect(first.status, first.stderr).toBe(0);
+    rmSync(join(cacheDir, "coverage"), { recursive: true, force: true }); // the maps and composite gone, their tiles kept
+    const w = worker("assembler");
+    await w.waitFor(/waiting for tasks/);
+    const b = build(join(tmp, "site-from-tiles"), ["--cache-dir", cacheDir]);
+    expect(await b.exited, b.output()).toBe(0);
+    expect(b.output()).toMatch(/queue: tasks 2\/2 done, 0 failed/);
+    expect(w.output()).toMatch(/done "coverage cov-a of study queue-study \(assembly of 2 tiles\)"/);
+    expect(w.output()).not.toMatch(/tile \d\/2/);
+    expect(siteDifferences(treeBytes(join(tmp, "site-from-tiles")), localSite)).toEqual([]);
+    await stopCli(w);
+  });
+
   it("a worker of another Ridgeline version refuses the tasks, says why, and exits 2; the build completes on a matching worker", async () => {
     // A copy of this checkout whose package.json names another version.
     const other = join(tmp, "other-version");
