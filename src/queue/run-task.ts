@@ -8,6 +8,7 @@ import { coverageKeyer } from "../coverage/coverage-cache-keys.ts";
 import { prepareCoverage } from "../coverage/compute-coverage.ts";
 import type { CoverageJob } from "../coverage/coverage-job.ts";
 import { CoveragePool } from "../coverage/coverage-pool.ts";
+import { keepElevationWindows } from "../coverage/elevation-window.ts";
 import { computeCoverageTile, coverageTileCount, coverageTileKey, encodeCoverageTile } from "../coverage/coverage-tiles.ts";
 import { linkKeyer } from "../cache/cache-keys.ts";
 import { canonicalJson } from "../cache/canonical-json.ts";
@@ -26,7 +27,10 @@ function openTerrainOnce(study: Study, terrainKey: string): Promise<Terrain> {
   const id = `${study.dir}\0${terrainKey}`;
   let t = terrains.get(id);
   if (!t) {
-    t = openStudyTerrain(study);
+    t = openStudyTerrain(study).then((terrain) => {
+      keepElevationWindows(terrain); // a map's tiles and its assembly read its elevations once
+      return terrain;
+    });
     t.catch(() => terrains.delete(id));
     terrains.set(id, t);
     if (terrains.size > KEEP_TERRAINS) terrains.delete(terrains.keys().next().value!);
