@@ -96,7 +96,7 @@ export async function distributeStudies(studies: Study[], cache: ResultCache, ta
       if (bytes) local.push([resultKey("coverage-tile", key), bytes]);
     }
     if (local.length) await putChunked(redis, local);
-    await queue.add(m.task.kind, m.task, jobOptions(mapId));
+    await queue.add(m.task.kind, m.task, { ...jobOptions(mapId), lifo: true }); // next: a worker still holds the map's elevations
   };
   let fail: (e: unknown) => void = () => {};
   const p: Progress = { done: 0, failed: 0, total: byId.size, running: new Map(), perWorker: new Map() };

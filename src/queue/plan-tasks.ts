@@ -63,8 +63,14 @@ export function planStudy(study: Study, cache: ResultCache, identity: QueueIdent
       if (cache.has("coverage-tile", key)) continue;
       tiles.push({ ...base, kind: "coverage-tile", label: `coverage ${entry.id} tile ${index + 1}/${count} of study ${study.id}`, keys: [key], ids: [entry.id], tile: { index, count, mapKey } });
     }
-    plan.tasks.push(...tiles);
     plan.maps.push({ task: { ...base, kind: "coverage", label: `coverage ${entry.id} of study ${study.id} (assembly of ${count} tiles)`, keys: [mapKey], ids: [entry.id], tileKeys }, tiles });
+  }
+  // Tiles of two maps at a time, alternately (a1, b1, a2, b2, …): two workers taking tiles in
+  // turn then tend to stay on one map each, laying out its grid and elevations once.
+  for (let i = 0; i < plan.maps.length; i += 2) {
+    const a = plan.maps[i].tiles;
+    const b = plan.maps[i + 1]?.tiles ?? [];
+    for (let k = 0; k < Math.max(a.length, b.length); k++) plan.tasks.push(...a.slice(k, k + 1), ...b.slice(k, k + 1));
   }
   return plan;
 }
