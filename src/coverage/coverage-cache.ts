@@ -111,7 +111,7 @@ export async function cachedStudyCoverage(study: Study, o: CachedCoverageOptions
         member = m && { ...m, result };
         if (keys[i]) {
           const stored: CoverageEntry = { result, figure: a.figure, extra: a.extra.map((x) => ({ suffix: x.suffix, figure: x.figure })), files: readFiles(o.outDir, result.files), member: m && { thresholds_dbm: m.thresholds_dbm, grid: m.grid, values: m.values, dem: m.dem } };
-          cache!.put("coverage", keys[i], stored);
+          cache!.putLarge("coverage", keys[i], stored); // written piece by piece: its rasters are not copied again
         }
         run.cache.misses++;
       }
