@@ -114,9 +114,9 @@ export async function queueRuns(studyDir: string, url: string) {
   const c0 = ownCpuS();
   const oneDir = mkdtempSync(join(tmpdir(), "ridgeline-bench-cache-"));
   await analyzeStudies(studies(), { coverageOutputs: loadCoverageOutputStage, cache: new ResultCache(oneDir) });
-  rmSync(oneDir, { recursive: true, force: true });
   const local_s = (performance.now() - t0) / 1000;
   const oneCpu = ownCpuS() - c0;
+  rmSync(oneDir, { recursive: true, force: true });
   const out: Record<string, unknown> = { one_process_s: r3(local_s), one_process_cpu_s: r3(oneCpu) };
   const workers: ChildProcess[] = [];
   try {
