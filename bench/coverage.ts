@@ -48,7 +48,7 @@ interface ProcessRun {
 }
 
 /** Run a command under /usr/bin/time -v: wall time and peak resident set size of the child. */
-function timed(cmd: string, args: string[], env: NodeJS.ProcessEnv = process.env): ProcessRun {
+export function timed(cmd: string, args: string[], env: NodeJS.ProcessEnv = process.env): ProcessRun {
   const t0 = performance.now();
   const r = spawnSync("/usr/bin/time", ["-v", cmd, ...args], { encoding: "utf8", cwd: ROOT, maxBuffer: 1 << 26, env });
   const wall_s = (performance.now() - t0) / 1000;

@@ -78,6 +78,8 @@ export interface AnalyzeOptions {
    * links or one coverage: the key covers the tiles the whole study can reach.
    */
   terrainKey?: string;
+  /** Threads for coverage tiles that must be computed (default: available parallelism; 0: this thread). */
+  coverageWorkers?: number;
 }
 
 /** Coverage maps of a study: the folder their files were written to, and each map's SVG. */
@@ -297,7 +299,7 @@ export async function analyzeStudy(study: Study, options: AnalyzeOptions = {}): 
     const { cachedStudyCoverage } = await import("../coverage/coverage-cache.ts");
     let cov: Awaited<ReturnType<typeof cachedStudyCoverage>>;
     try {
-      cov = await cachedStudyCoverage(study, { outDir: dir, outputs: await options.coverageOutputs?.(), cache, terrainKey, openTerrain: open });
+      cov = await cachedStudyCoverage(study, { outDir: dir, outputs: await options.coverageOutputs?.(), cache, terrainKey, openTerrain: open, workers: options.coverageWorkers });
     } catch (e) {
       removeTempDir(dir);
       throw e;

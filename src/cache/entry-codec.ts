@@ -55,6 +55,16 @@ function fnv1a(bytes: Uint8Array, from: number, to: number): number {
 
 /** Encode a value (objects, arrays, strings, numbers including NaN/±∞/−0, booleans, null, typed arrays). */
 export function encodeEntry(value: unknown): Buffer {
+  const parts = encodeEntryParts(value);
+  return parts.length === 1 ? (parts[0] as Buffer) : Buffer.concat(parts);
+}
+
+/**
+ * The bytes of encodeEntry(value) as consecutive parts: the head (shape, scalars, numbers) and
+ * each typed array's own bytes, not copied (views of the value's arrays), with padding. For
+ * writing a large entry (a coverage map's rasters) without a second copy of it in memory.
+ */
+export function encodeEntryParts(value: unknown): Uint8Array[] {
   const numbers: number[] = [];
   const scalars: unknown[] = [];
   const blobs: Uint8Array[] = [];
@@ -105,9 +115,7 @@ export function encodeEntry(value: unknown): Buffer {
   const shape = ascii(JSON.stringify(shapeOf(value)));
   const text = ascii(JSON.stringify(scalars));
   const numbersAt = pad8(HEADER + shape.byteLength + text.byteLength);
-  let size = numbersAt + 8 * numbers.length;
-  for (const b of blobs) size += pad8(b.byteLength);
-  const out = Buffer.alloc(size);
+  const out = Buffer.alloc(numbersAt + 8 * numbers.length);
   out.write(MAGIC + ORDER, 0, "latin1");
   out.writeUInt32LE(shape.byteLength, 8);
   out.writeUInt32LE(text.byteLength, 12);
@@ -116,12 +124,12 @@ export function encodeEntry(value: unknown): Buffer {
   out.writeUInt32LE(fnv1a(out, HEADER, HEADER + shape.byteLength), 20);
   text.copy(out, HEADER + shape.byteLength);
   new Float64Array(out.buffer, out.byteOffset + numbersAt, numbers.length).set(numbers);
-  let at = numbersAt + 8 * numbers.length;
+  const parts: Uint8Array[] = [out];
   for (const b of blobs) {
-    out.set(b, at);
-    at += pad8(b.byteLength);
+    parts.push(b);
+    if (pad8(b.byteLength) > b.byteLength) parts.push(new Uint8Array(pad8(b.byteLength) - b.byteLength));
   }
-  return out;
+  return parts;
 }
 
 /** How decodeEntry gives back typed arrays. */

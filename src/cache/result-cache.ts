@@ -1,7 +1,7 @@
-import { closeSync, existsSync, fstatSync, mkdirSync, openSync, readFileSync, readSync, renameSync, rmSync, writeFileSync } from "node:fs";
+import { closeSync, existsSync, fstatSync, mkdirSync, openSync, readFileSync, readSync, renameSync, rmSync, writeFileSync, writeSync } from "node:fs";
 import { readFile } from "node:fs/promises";
 import { join, resolve } from "node:path";
-import { decodeEntry, encodeEntry } from "./entry-codec.ts";
+import { decodeEntry, encodeEntry, encodeEntryParts } from "./entry-codec.ts";
 import { decodePack, encodePack, PACK_HEADER_BYTES, packIndexEnd, packKeys } from "./entry-pack.ts";
 
 /** Default cache folder, relative to the project root (the working directory). */
@@ -69,6 +69,21 @@ export class ResultCache {
   }
 
   /**
+   * Store a large value as put does, written piece by piece (encodeEntryParts): its typed
+   * arrays are not copied into one buffer first.
+   */
+  putLarge(kind: string, key: string, value: unknown): void {
+    let parts: Uint8Array[];
+    try {
+      parts = encodeEntryParts(value);
+    } catch {
+      this.writeErrors++;
+      return;
+    }
+    this.writeFile(kind, key, parts);
+  }
+
+  /**
    * The entries of the pack `name` (key → entry bytes); empty when absent or unreadable.
    * Read in one call: a pack is a few megabytes, which readFile would fetch in 512 kB pieces,
    * each a round trip through the I/O threads.
@@ -127,16 +142,27 @@ export class ResultCache {
     this.writeFile("pack", name, encodePack(entries));
   }
 
-  private writeFile(kind: string, key: string, bytes: Uint8Array): void {
+  private writeFile(kind: string, key: string, bytes: Uint8Array | Uint8Array[]): void {
     const file = this.file(kind, key);
     const tmp = `${file}.tmp-${process.pid}-${tmpCounter++}`;
     try {
       mkdirSync(join(this.dir, kind, key.slice(0, 2)), { recursive: true });
-      writeFileSync(tmp, bytes);
+      if (Array.isArray(bytes)) writeParts(tmp, bytes);
+      else writeFileSync(tmp, bytes);
       renameSync(tmp, file);
     } catch {
       this.writeErrors++;
       rmSync(tmp, { force: true });
     }
+  }
+}
+
+/** Write byte ranges one after the other into a new file. */
+function writeParts(path: string, parts: Uint8Array[]): void {
+  const fd = openSync(path, "w");
+  try {
+    for (const p of parts) for (let at = 0; at < p.byteLength; ) at += writeSync(fd, p, at, p.byteLength - at);
+  } finally {
+    closeSync(fd);
   }
 }

@@ -11,6 +11,7 @@ import { parseK } from "../study/load-study.ts";
 import type { CoverageInput, Study } from "../study/study.ts";
 import type { Terrain } from "../terrain/terrain.ts";
 import { computeCoverage, type ComputedCoverage } from "./compute-coverage.ts";
+import type { CoverageTileStore } from "./coverage-tiles.ts";
 import { CoverageError } from "./coverage-error.ts";
 import { CoveragePool } from "./coverage-pool.ts";
 import type { CoverageRequest, FieldNames } from "./coverage-request.ts";
@@ -39,6 +40,8 @@ export interface CoverageOptions {
   pool?: CoveragePool | null;
   /** called with (coverage id, phase, done, total) */
   onProgress?: (id: string, phase: "terrain" | "compute", done: number, total: number) => void;
+  /** where the map's tiles are found and kept (coverage-tiles.ts) */
+  tiles?: CoverageTileStore | null;
 }
 
 /** What analysing one coverage gives: its JSON, file paths, page figure and the raster. */
@@ -141,6 +144,7 @@ export async function analyzeCoverage(study: Study, entry: CoverageInput, terrai
     if (p1812) request.p1812 = p1812;
     computed = await computeCoverage(terrain, request, {
       pool: options.pool,
+      tiles: options.tiles,
       names: STUDY_FIELDS,
       patternField: "pattern",
       onProgress: (phase, d, t) => options.onProgress?.(entry.id, phase, d, t),

@@ -8,7 +8,8 @@ import { rangeWarning } from "../analysis/range-warning.ts";
 import { formatFrequency, formatK, formatNumber, formatSmall } from "../format/quantity.ts";
 import { planCoverageGrid, type CoverageGrid } from "./coverage-grid.ts";
 import { LEVEL_NODATA, VISIBILITY_NODATA, type CoverageJob } from "./coverage-job.ts";
-import { runInThisThread, type CoveragePool, type CoverageProgress } from "./coverage-pool.ts";
+import type { CoveragePool, CoverageProgress } from "./coverage-pool.ts";
+import { computeCoverageTiles, coverageTileCount, type CoverageTileStore } from "./coverage-tiles.ts";
 import { validateCoverageRequest, type CoverageRequest, type FieldNames } from "./coverage-request.ts";
 import type { TallyData } from "./coverage-tally.ts";
 import { elevationWindow, type Elevations } from "./elevation-window.ts";
@@ -54,6 +55,8 @@ export interface ComputeOptions {
    * coverage raster (the one-off command), not the relief.
    */
   elevationsInsideRadiusOnly?: boolean;
+  /** where the map's tiles are found and kept (coverage-tiles.ts); none: every tile is computed */
+  tiles?: CoverageTileStore | null;
 }
 
 /** A coverage laid out and ready to compute: everything but the result buffer. */
@@ -70,24 +73,26 @@ export async function computeCoverage(terrain: Terrain, req: CoverageRequest, op
 }
 
 /**
- * Allocate the result (filled with nodata) and compute a prepared coverage. The terrain is no
- * longer needed at this point: a caller that holds nothing else of it can let it go first.
+ * Allocate the result (filled with nodata) and compute a prepared coverage, tile by tile
+ * (coverage-tiles.ts), taking the tiles `options.tiles` holds. The terrain is no longer needed
+ * at this point: a caller that holds nothing else of it can let it go first.
  */
-export async function runCoverage(prepared: PreparedCoverage, options: Pick<ComputeOptions, "pool" | "onProgress"> = {}): Promise<ComputedCoverage> {
+export async function runCoverage(prepared: PreparedCoverage, options: Pick<ComputeOptions, "pool" | "onProgress" | "tiles"> = {}): Promise<ComputedCoverage> {
   const { terrain_s, job: base, ...rest } = prepared;
   const cells = rest.grid.width * rest.grid.height;
   const isLevel = base.method !== "visibility";
   const out = new SharedArrayBuffer(isLevel ? cells * 4 : cells);
   const values = isLevel ? new Float32Array(out) : new Uint8Array(out);
   const nodata = isLevel ? LEVEL_NODATA : VISIBILITY_NODATA;
-  if (options.pool) await options.pool.fill(values, nodata);
+  if (options.pool && !options.tiles) await options.pool.fill(values, nodata); // with tiles at hand, not worth waiting for the threads
   else values.fill(nodata);
   const job: CoverageJob = { ...base, out };
   // made here, with the result, so that it always belongs to these elevations
   if (lineOfSightOnly(base.method, base.clearance_f1)) job.dem_tile_max = horizonTileTable(base.width, base.height).buffer as SharedArrayBuffer;
   const t1 = performance.now();
   const progress: CoverageProgress = (d, t) => options.onProgress?.("compute", d, t);
-  const tally = options.pool ? await options.pool.run(job, progress) : await runInThisThread(job, progress);
+  const count = coverageTileCount(rest.request.radius_m, rest.request.resolution_m);
+  const tally = await computeCoverageTiles(job, count, { pool: options.pool, onProgress: progress, store: options.tiles });
   const compute_s = (performance.now() - t1) / 1000;
   if (tally.failed > 0) {
     rest.warnings.push(`${tally.failed} cells inside the radius could not be computed (no terrain data on their profile or under them) and are left as nodata.`);

@@ -9,6 +9,7 @@ import { analyzeCoverage, compositeMemberOf, type CoverageOptions } from "./anal
 import { coverageKeyer } from "./coverage-cache-keys.ts";
 import { requireOutputStage, type CoverageFigure, type CoverageOutputStage } from "./coverage-output-stage.ts";
 import { CoveragePool } from "./coverage-pool.ts";
+import { coverageTileKey, type CoverageTileStore } from "./coverage-tiles.ts";
 import type { CoverageResult } from "./coverage-result.ts";
 import { studyComposite, type CompositeMember, type CompositeOutputs } from "./study-composite.ts";
 
@@ -102,14 +103,15 @@ export async function cachedStudyCoverage(study: Study, o: CachedCoverageOptions
       } else {
         const workers = o.workers ?? availableParallelism();
         if (pool === undefined) pool = workers > 0 ? CoveragePool.start(workers) : null; // threads load while the terrain opens
-        const a = await analyzeCoverage(study, entry, await o.openTerrain(), { outDir: o.outDir, outputs: o.outputs, pool, index: i, onProgress: o.onProgress });
+        const tiles = keys[i] ? coverageTileStore(cache!, keys[i]) : null;
+        const a = await analyzeCoverage(study, entry, await o.openTerrain(), { outDir: o.outDir, outputs: o.outputs, pool, index: i, onProgress: o.onProgress, tiles });
         const { compute_s: _clock, ...result } = a.result; // no clock in results
         run.items.push({ result, files: a.files, figure: a.figure, svg: a.svg, extra: a.extra.map((x) => ({ suffix: x.suffix, svg: x.svg })) });
         const m = compositeMemberOf(a);
         member = m && { ...m, result };
         if (keys[i]) {
           const stored: CoverageEntry = { result, figure: a.figure, extra: a.extra.map((x) => ({ suffix: x.suffix, figure: x.figure })), files: readFiles(o.outDir, result.files), member: m && { thresholds_dbm: m.thresholds_dbm, grid: m.grid, values: m.values, dem: m.dem } };
-          cache!.put("coverage", keys[i], stored);
+          cache!.putLarge("coverage", keys[i], stored); // written piece by piece: its rasters are not copied again
         }
         run.cache.misses++;
       }
@@ -125,6 +127,14 @@ export async function cachedStudyCoverage(study: Study, o: CachedCoverageOptions
   run.results.push(...run.items.map((it) => it.result));
   if (members.length >= 2) await addComposite(run, study, members, memberKeys.every((k) => k) ? keyer!.composite(memberKeys as string[]) : null, o);
   return run;
+}
+
+/** The tiles of the coverage map with this key, in the cache (entry kind "coverage-tile"; the job queue's tasks send them). */
+export function coverageTileStore(cache: ResultCache, mapKey: string): CoverageTileStore {
+  return {
+    get: (index, count) => cache.getBytesAsync("coverage-tile", coverageTileKey(mapKey, index, count)),
+    put: (index, count, bytes) => cache.putBytes("coverage-tile", coverageTileKey(mapKey, index, count), bytes),
+  };
 }
 
 /** Read the composite from the cache or compute it from its members; add it to the run. */

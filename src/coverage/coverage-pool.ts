@@ -93,12 +93,16 @@ export class CoveragePool {
     return this.workers.length;
   }
 
-  /** Compute a job over every thread; resolves with the merged tally. */
-  async run(job: CoverageJob, onProgress?: CoverageProgress): Promise<TallyData> {
+  /**
+   * Compute a job over every thread — all of it, or units from…to−1 (`from` a multiple of
+   * chunkSize, as a coverage tile's first unit is) in the same chunks; resolves with the
+   * merged tally of those chunks. Progress counts units of the range.
+   */
+  async run(job: CoverageJob, onProgress?: CoverageProgress, range?: readonly [number, number]): Promise<TallyData> {
     await Promise.all(this.ready);
-    const total = coverageUnits(job);
-    const chunk = chunkSize(total);
-    let next = 0;
+    const [first, total] = range ?? [0, coverageUnits(job)];
+    const chunk = chunkSize(coverageUnits(job));
+    let next = first;
     let done = 0;
     // Each chunk's tally is kept with the chunk's start and merged in chunk order, so the
     // floating-point sums do not depend on which thread finished first (reproducible builds).
@@ -113,7 +117,7 @@ export class CoveragePool {
               if (m.type !== "done") return;
               tallies.push({ from: current, tally: m.tally });
               done += m.units;
-              onProgress?.(done, total);
+              onProgress?.(done, total - first);
               send();
             };
             const send = () => {
@@ -154,23 +158,24 @@ export class CoveragePool {
  * Units of work per chunk: a fixed share of the job whatever the number of threads, so the
  * chunk tallies — and their sums, merged in chunk order — are the same on every machine.
  */
-function chunkSize(total: number): number {
+export function chunkSize(total: number): number {
   return Math.max(1, Math.ceil(total / 96));
 }
 
 /**
- * Compute a job in the calling thread, chunk by chunk (small jobs, tests, or one core),
+ * Compute a job (or units from…to−1 of it, as CoveragePool.run) in the calling thread, chunk
+ * by chunk (small jobs, tests, or one core),
  * yielding to the event loop between chunks so progress can be drawn.
  */
-export async function runInThisThread(job: CoverageJob, onProgress?: CoverageProgress): Promise<TallyData> {
+export async function runInThisThread(job: CoverageJob, onProgress?: CoverageProgress, range?: readonly [number, number]): Promise<TallyData> {
   const runner = createChunkRunner(job);
-  const total = coverageUnits(job);
-  const chunk = chunkSize(total);
+  const [first, total] = range ?? [0, coverageUnits(job)];
+  const chunk = chunkSize(coverageUnits(job));
   const tallies: TallyData[] = [];
-  for (let from = 0; from < total; from += chunk) {
+  for (let from = first; from < total; from += chunk) {
     const to = Math.min(total, from + chunk);
     tallies.push(runner.run(from, to));
-    onProgress?.(to, total);
+    onProgress?.(to - first, total - first);
     if (onProgress) await new Promise((r) => setImmediate(r));
   }
   return mergeTallies(tallies, job.thresholds_dbm.length);

@@ -49,6 +49,18 @@ export function elevationsFloat32(dem: Elevations): Float32Array {
  *   shaded relief of a map).
  */
 export function elevationWindow(terrain: Terrain, grid: CoverageGrid, onRow?: (done: number, total: number) => void, share?: ShareDecode, options: { insideRadiusOnly?: boolean } = {}): Elevations {
+  const keep = keptWindows.get(terrain);
+  if (keep) {
+    const key = JSON.stringify([grid.epsg, grid.geoTransform, grid.width, grid.height, grid.source, grid.radius_m, !!options.insideRadiusOnly]);
+    let dem = keep.find((w) => w.key === key)?.dem;
+    if (!dem) {
+      keptWindows.delete(terrain); // read it as usual
+      dem = elevationWindow(terrain, grid, onRow, share, options);
+      keptWindows.set(terrain, [{ key, dem }, ...keep].slice(0, KEEP_WINDOWS));
+    }
+    onRow?.(grid.height, grid.height);
+    return dem;
+  }
   const { width: W, height: H } = grid;
   const src = grid.source;
   // A terrain that reads windows of its raster itself (GeoTIFF) decodes only the grid's pixels, once.
@@ -84,6 +96,19 @@ export function elevationWindow(terrain: Terrain, grid: CoverageGrid, onRow?: (d
     if ((row & 63) === 63 || row === H - 1) onRow?.(row + 1, H);
   }
   return out;
+}
+
+/** Terrains whose last elevation windows are kept (keepElevationWindows), with them. */
+const keptWindows = new WeakMap<Terrain, { key: string; dem: Elevations }[]>();
+const KEEP_WINDOWS = 2;
+
+/**
+ * Keep the last two elevation windows read from this terrain and hand them out again for the
+ * same grid (read-only: every user of a window only reads it). For a queue worker, whose
+ * tiles of a map and the map's assembly read the same window: it is read once.
+ */
+export function keepElevationWindows(terrain: Terrain): void {
+  if (!keptWindows.has(terrain)) keptWindows.set(terrain, []);
 }
 
 /**

@@ -59,7 +59,21 @@ export async function distributeStudies(studies: Study[], cache: ResultCache, ta
   const tasks = plans.flatMap((p) => p.tasks);
   const report: QueueReport = { tasks: tasks.length, entries: 0, workers: {}, wall_s: 0, fetch_s: 0 };
   const redis = await connectRedis(target);
-  if (tasks.length === 0) {
+  const byId = new Map(tasks.map((t) => [taskJobId(t.kind, t.keys), t])); // two studies may share a task
+  // Each map's assembly waits for its tiles: queued when the last of them is done.
+  const maps = new Map<string, { task: TaskData; waiting: Set<string> }>();
+  const mapOfTile = new Map<string, string>();
+  for (const m of plans.flatMap((p) => p.maps)) {
+    const id = taskJobId(m.task.kind, m.task.keys);
+    if (maps.has(id)) continue;
+    const waiting = new Set(m.tiles.map((t) => taskJobId(t.kind, t.keys)));
+    for (const t of waiting) mapOfTile.set(t, id);
+    maps.set(id, { task: m.task, waiting });
+    byId.set(id, m.task);
+  }
+  const tileKeysQueued = new Set(tasks.filter((t) => t.kind === "coverage-tile").map((t) => t.keys[0]));
+  const tileKeysInRedis = new Set<string>(); // deleted when the build ends
+  if (byId.size === 0) {
     redis.disconnect();
     return report;
   }
@@ -69,8 +83,22 @@ export async function distributeStudies(studies: Study[], cache: ResultCache, ta
   const events = new QueueEvents(QUEUE_NAME, { connection, prefix: KEY_PREFIX });
   queue.on("error", () => {}); // connection errors: ioredis reconnects; a lasting outage stalls the wait
   events.on("error", () => {});
-  const byId = new Map(tasks.map((t) => [taskJobId(t.kind, t.keys), t])); // two studies may share a task
   report.tasks = byId.size;
+  const jobOptions = (jobId: string) => ({ jobId, attempts: TASK_ATTEMPTS, backoff: { type: "fixed" as const, delay: 500 }, removeOnComplete: true, removeOnFail: true });
+  /** Queue a map's assembly: its tiles this build did not compute go to Redis from the local cache first. */
+  const startMap = async (mapId: string): Promise<void> => {
+    const m = maps.get(mapId)!;
+    const local: [string, Uint8Array][] = [];
+    for (const key of m.task.tileKeys ?? []) {
+      tileKeysInRedis.add(key);
+      if (tileKeysQueued.has(key)) continue;
+      const bytes = cache.getBytes("coverage-tile", key); // absent: the worker computes that tile itself
+      if (bytes) local.push([resultKey("coverage-tile", key), bytes]);
+    }
+    if (local.length) await putChunked(redis, local);
+    await queue.add(m.task.kind, m.task, { ...jobOptions(mapId), lifo: true }); // next: a worker still holds the map's elevations
+  };
+  let fail: (e: unknown) => void = () => {};
   const p: Progress = { done: 0, failed: 0, total: byId.size, running: new Map(), perWorker: new Map() };
   const log = o.log ?? (() => {});
   let lastLog = 0;
@@ -84,8 +112,9 @@ export async function distributeStudies(studies: Study[], cache: ResultCache, ta
   const fetching: Promise<void>[] = [];
   try {
     await events.waitUntilReady();
-    await putChunked(redis, plans.filter((plan) => plan.tasks.length).map((plan) => [studyKey(plan.sha), plan.bytes] as const));
+    await putChunked(redis, plans.filter((plan) => plan.tasks.length || plan.maps.length).map((plan) => [studyKey(plan.sha), plan.bytes] as const));
     const finished = new Promise<void>((resolve, reject) => {
+      fail = reject;
       const pending = new Set(byId.keys());
       const finish = (id: string) => {
         pending.delete(id);
@@ -116,7 +145,11 @@ export async function distributeStudies(studies: Study[], cache: ResultCache, ta
         pw.done++;
         p.perWorker.set(r.worker, pw);
         show();
-        fetching.push(fetchResults(redis, cache, task, report));
+        // a tile stays in Redis for its map's assembly; the map's entries are taken
+        fetching.push(fetchResults(redis, cache, task, report, { remove: task.kind !== "coverage-tile" }));
+        const mapId = mapOfTile.get(jobId);
+        const map = mapId ? maps.get(mapId) : undefined;
+        if (map && map.waiting.delete(jobId) && map.waiting.size === 0) fetching.push(startMap(mapId!).catch(reject));
         finish(jobId);
       });
       events.on("failed", ({ jobId, failedReason }) => {
@@ -132,13 +165,8 @@ export async function distributeStudies(studies: Study[], cache: ResultCache, ta
       });
     });
     finished.catch(() => {}); // handled below
-    await queue.addBulk(
-      [...byId].map(([jobId, t]) => ({
-        name: t.kind,
-        data: t,
-        opts: { jobId, attempts: TASK_ATTEMPTS, backoff: { type: "fixed", delay: 500 }, removeOnComplete: true, removeOnFail: true },
-      })),
-    );
+    await queue.addBulk([...byId].filter(([jobId]) => !maps.has(jobId)).map(([jobId, t]) => ({ name: t.kind, data: t, opts: jobOptions(jobId) })));
+    for (const [mapId, m] of maps) if (m.waiting.size === 0) await startMap(mapId).catch(fail);
     log(`queue: ${byId.size} task${byId.size === 1 ? "" : "s"} queued on ${target.display}`, true);
     await finished;
     show(true);
@@ -150,21 +178,22 @@ export async function distributeStudies(studies: Study[], cache: ResultCache, ta
     throw e;
   } finally {
     await Promise.allSettled(fetching);
-    for (const plan of plans) if (plan.tasks.length) await deleteChunked(redis, studyKey(plan.sha)).catch(() => {});
+    for (const plan of plans) if (plan.tasks.length || plan.maps.length) await deleteChunked(redis, studyKey(plan.sha)).catch(() => {});
+    for (const key of new Set([...tileKeysQueued, ...tileKeysInRedis])) await deleteChunked(redis, resultKey("coverage-tile", key)).catch(() => {});
     await Promise.allSettled([events.close(), queue.close()]);
     redis.disconnect();
   }
 }
 
 /**
- * Copy a finished task's entries from Redis into the local cache, then delete them there. An
+ * Copy a finished task's entries from Redis into the local cache, then (`remove`) delete them there. An
  * entry missing from Redis (taken by another coordinator, say) is simply computed by the local
  * build that follows.
  */
-async function fetchResults(redis: Redis, cache: ResultCache, task: TaskData, report: QueueReport): Promise<void> {
+async function fetchResults(redis: Redis, cache: ResultCache, task: TaskData, report: QueueReport, o: { remove: boolean }): Promise<void> {
   const t0 = performance.now();
   const entries = taskEntries(task);
-  const got = await getChunked(redis, entries.map(({ kind, key }) => resultKey(kind, key)), { remove: true });
+  const got = await getChunked(redis, entries.map(({ kind, key }) => resultKey(kind, key)), { remove: o.remove });
   for (const { kind, key } of entries) {
     const bytes = got.get(resultKey(kind, key));
     if (bytes) {

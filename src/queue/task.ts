@@ -10,11 +10,13 @@ export const QUEUE_NAME = "tasks";
 /**
  * One task: cache entries of one study to compute, named by their cache keys (content
  * addressed: the same inputs, code and terrain give the same key and the same bytes).
- * `links`: a batch of links (entries "link" and "link-figure" of each key); `coverage`: one
- * coverage map (entry "coverage").
+ * `links`: a batch of links (entries "link" and "link-figure" of each key); `coverage-tile`:
+ * one tile of a coverage map (entry "coverage-tile", coverage-tiles.ts); `coverage`: the
+ * assembly of a map from its tiles (read from Redis) into its files, figures and rasters
+ * (entry "coverage"), queued once its tiles are done.
  */
 export interface TaskData {
-  kind: "links" | "coverage";
+  kind: "links" | "coverage-tile" | "coverage";
   /** For messages: "links l000–l024 of study bench". */
   label: string;
   /** sha256 of the study as sent (encodeStudy), stored in Redis under studyKey(sha). */
@@ -24,10 +26,14 @@ export interface TaskData {
   studyDirRel: string | null;
   /** The study's terrain source key on the coordinator (the worker's must match). */
   terrainKey: string;
-  /** Cache keys (one per link, or the coverage map's). */
+  /** Cache keys (one per link, or the tile's). */
   keys: string[];
   /** Link ids, or the coverage entry's id, in the order of `keys`. */
   ids: string[];
+  /** coverage-tile: which tile of how many, of the map with this cache key */
+  tile?: { index: number; count: number; mapKey: string };
+  /** coverage: the keys of the map's tiles, in order (their entries are in Redis, resultKey) */
+  tileKeys?: string[];
   identity: QueueIdentity;
 }
 
@@ -48,7 +54,7 @@ export function taskJobId(kind: TaskData["kind"], keys: string[]): string {
 
 /** The cache entries a task produces. */
 export function taskEntries(t: Pick<TaskData, "kind" | "keys">): { kind: string; key: string }[] {
-  return t.kind === "links" ? t.keys.flatMap((key) => [{ kind: "link-figure", key }, { kind: "link", key }]) : t.keys.map((key) => ({ kind: "coverage", key }));
+  return t.kind === "links" ? t.keys.flatMap((key) => [{ kind: "link-figure", key }, { kind: "link", key }]) : t.keys.map((key) => ({ kind: t.kind, key }));
 }
 
 /**

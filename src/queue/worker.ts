@@ -5,7 +5,7 @@ import { connectRedis, redisOptions } from "./connect.ts";
 import { identityMismatch, queueIdentity } from "./identity.ts";
 import type { RedisTarget } from "./redis-url.ts";
 import { getChunked, KEY_PREFIX, putChunked, resultKey, studyKey } from "./result-store.ts";
-import { runTask } from "./run-task.ts";
+import { closeTaskResources, runTask, warmTaskResources } from "./run-task.ts";
 import { decodeStudy, QUEUE_NAME, workerStudyDir, type TaskData, type TaskResult } from "./task.ts";
 
 export interface WorkerOptions {
@@ -57,7 +57,7 @@ export async function runWorker(target: RedisTarget, o: WorkerOptions): Promise<
     try {
       const t0 = performance.now();
       const study = await loadStudy(redis, studies, t, o.terrainRoot ?? null);
-      const entries = await runTask(t, study);
+      const entries = await runTask(t, study, { fetchTiles: (keys) => fetchTiles(redis, keys) });
       const t1 = performance.now();
       await putChunked(redis, [...entries].map(([id, bytes]) => [resultKey(id.slice(0, id.indexOf(":")), id.slice(id.indexOf(":") + 1)), bytes] as const));
       const t2 = performance.now();
@@ -80,13 +80,17 @@ export async function runWorker(target: RedisTarget, o: WorkerOptions): Promise<
     autorun: false,
   });
   worker.on("error", () => {}); // connection errors: ioredis reconnects
-  const stop = (): Promise<void> => (stopping ??= worker.close().then(() => redis.disconnect()));
+  const stop = (): Promise<void> => (stopping ??= worker.close().then(async () => {
+    redis.disconnect();
+    await closeTaskResources();
+  }));
   const onSignal = () => {
     o.log(`ridgeline worker ${o.name}: stopping after the task${(o.concurrency ?? 1) > 1 ? "s" : ""} in hand`);
     void stop();
   };
   process.on("SIGTERM", onSignal);
   process.on("SIGINT", onSignal);
+  warmTaskResources();
   o.log(`ridgeline worker ${o.name}: waiting for tasks on ${target.display} (Ridgeline ${identity.version}, code ${identity.code.slice(0, 12)})`);
   try {
     await worker.run();
@@ -96,6 +100,12 @@ export async function runWorker(target: RedisTarget, o: WorkerOptions): Promise<
     process.off("SIGINT", onSignal);
   }
   return exitCode;
+}
+
+/** A map's tiles from Redis (those present), by tile key. */
+async function fetchTiles(redis: Redis, keys: string[]): Promise<Map<string, Buffer>> {
+  const got = await getChunked(redis, keys.map((k) => resultKey("coverage-tile", k)));
+  return new Map(keys.flatMap((k) => (got.has(resultKey("coverage-tile", k)) ? [[k, got.get(resultKey("coverage-tile", k))!] as const] : [])));
 }
 
 /** The task's study, fetched from Redis once per worker and placed in this machine's study folder. */

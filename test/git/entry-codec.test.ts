@@ -1,6 +1,10 @@
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
-import { decodeEntry, encodeEntry } from "../../src/cache/entry-codec.ts";
+import { mkdtempSync, rmSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import { decodeEntry, encodeEntry, encodeEntryParts } from "../../src/cache/entry-codec.ts";
+import { ResultCache } from "../../src/cache/result-cache.ts";
 import { decodePack, encodePack, packKeys } from "../../src/cache/entry-pack.ts";
 
 // The cache's byte format must give back exactly what went in: bit-identical numbers
@@ -35,6 +39,26 @@ describe("cache entry codec", () => {
       }),
       { numRuns: 300 },
     );
+  });
+
+  it("writes a large entry piece by piece with the same bytes as in one buffer (property)", () => {
+    const dir = mkdtempSync(join(tmpdir(), "ridgeline-entry-parts-"));
+    try {
+      const cache = new ResultCache(dir);
+      let n = 0;
+      fc.assert(
+        fc.property(tree, (v) => {
+          const whole = encodeEntry(v);
+          expect(Buffer.concat(encodeEntryParts(v)).equals(whole)).toBe(true);
+          const key = (n++).toString(16).padStart(16, "0");
+          cache.putLarge("t", key, v);
+          expect(cache.getBytes("t", key)?.equals(whole)).toBe(true);
+        }),
+        { numRuns: 100 },
+      );
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
   });
 
   it("gives back arrays of same-shaped number records as the same records (property)", () => {

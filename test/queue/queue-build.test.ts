@@ -54,13 +54,16 @@ describe("ridgeline build --queue", () => {
     await Promise.all([w1.waitFor(/waiting for tasks/), w2.waitFor(/waiting for tasks/)]);
     const b = build(join(tmp, "site-queue"), ["--no-cache"]);
     expect(await b.exited, b.output()).toBe(0);
-    // 44 links in batches of 25 and two coverage maps: 4 tasks, the composite assembled locally
-    expect(b.output()).toMatch(/queue: tasks 4\/4 done, 0 failed/);
-    expect(b.output()).toMatch(/4 tasks on [12] workers?/);
+    // 44 links in batches of 25, two coverage maps of 2 tiles each and their assembly: 8
+    // tasks; the composite made here from the maps
+    expect(b.output()).toMatch(/queue: tasks 8\/8 done, 0 failed/);
+    expect(b.output()).toMatch(/8 tasks on [12] workers?/);
     expect(b.output()).toMatch(/44 of 44 links from cache, 2 of 3 coverage maps from cache/);
     expect(b.output()).not.toContain(redis.password); // the URL is printed masked
     expect(b.output()).toContain(`redis://:****@127.0.0.1:${redis.port}`);
-    expect(w1.output() + w2.output()).toMatch(/done "coverage cov-a of study queue-study"/);
+    expect(w1.output() + w2.output()).toMatch(/done "coverage cov-a tile 1\/2 of study queue-study"/);
+    expect(w1.output() + w2.output()).toMatch(/done "coverage cov-b tile 2\/2 of study queue-study"/);
+    expect(w1.output() + w2.output()).toMatch(/done "coverage cov-b of study queue-study \(assembly of 2 tiles\)"/);
     const site = treeBytes(join(tmp, "site-queue"));
     expect(siteDifferences(site, localSite)).toEqual([]);
     expect([...site.values()].some((bytes) => bytes.includes(redis.password))).toBe(false);
@@ -68,7 +71,7 @@ describe("ridgeline build --queue", () => {
     expect(w1.output()).toMatch(/stopping after the task/);
   });
 
-  it("a worker killed (-9) in the middle of a coverage task: another worker runs it and the site is the same", async () => {
+  it("a worker killed (-9) in the middle of a coverage tile task: another worker runs it and the site is the same", async () => {
     // a dead worker's task is taken back within about twice --stall-seconds
     const a = worker("doomed", ["--stall-seconds", "4"]);
     await a.waitFor(/waiting for tasks/);
@@ -79,9 +82,25 @@ describe("ridgeline build --queue", () => {
     expect(a.output()).not.toMatch(/done "coverage cov-a/);
     const rescuer = worker("rescuer", ["--stall-seconds", "4"]);
     expect(await b.exited, b.output()).toBe(0);
-    expect(rescuer.output()).toMatch(/started "coverage cov-a of study queue-study" \(attempt 2\)/);
+    expect(rescuer.output()).toMatch(/started "coverage cov-a tile 1\/2 of study queue-study" \(attempt 2\)/);
     expect(siteDifferences(treeBytes(join(tmp, "site-killed")), localSite)).toEqual([]);
     await stopCli(rescuer);
+  });
+
+  it("maps whose tiles the coordinator's cache already holds: only their assembly is queued, the tiles sent from the cache, and the site is the same", async () => {
+    const cacheDir = join(tmp, "cache-tiles-only");
+    const first = runCli(["build", "--studies-dir", studies, "--out", join(tmp, "site-cached"), "--cache-dir", cacheDir]);
+    expect(first.status, first.stderr).toBe(0);
+    rmSync(join(cacheDir, "coverage"), { recursive: true, force: true }); // the maps and composite gone, their tiles kept
+    const w = worker("assembler");
+    await w.waitFor(/waiting for tasks/);
+    const b = build(join(tmp, "site-from-tiles"), ["--cache-dir", cacheDir]);
+    expect(await b.exited, b.output()).toBe(0);
+    expect(b.output()).toMatch(/queue: tasks 2\/2 done, 0 failed/);
+    expect(w.output()).toMatch(/done "coverage cov-a of study queue-study \(assembly of 2 tiles\)"/);
+    expect(w.output()).not.toMatch(/tile \d\/2/);
+    expect(siteDifferences(treeBytes(join(tmp, "site-from-tiles")), localSite)).toEqual([]);
+    await stopCli(w);
   });
 
   it("a worker of another Ridgeline version refuses the tasks, says why, and exits 2; the build completes on a matching worker", async () => {
@@ -118,7 +137,7 @@ describe("ridgeline build --queue", () => {
     writeFileSync(tile, bytes);
     const w = worker("tired");
     expect(await b.exited).toBe(2);
-    expect(b.output()).toMatch(/task "(links l00–l24|links l25–l43|coverage cov-a|coverage cov-b) of study changed-terrain" failed and will not be retried \(up to 3 attempts, on any worker\); last error: worker tired: the terrain \(dem in .*changed-terrain\) differs from the coordinator's/);
+    expect(b.output()).toMatch(/task "(links l00–l24|links l25–l43|coverage cov-[ab] tile [12]\/2) of study changed-terrain" failed and will not be retried \(up to 3 attempts, on any worker\); last error: worker tired: the terrain \(dem in .*changed-terrain\) differs from the coordinator's/);
     expect(w.output()).toMatch(/failed \(attempt 3\)/);
     expect(b.output()).not.toMatch(/\n\s+at /);
     expect(siteDifferences(treeBytes(out), localSite)).toEqual([]);

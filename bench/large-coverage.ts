@@ -1,0 +1,69 @@
+// Benchmark: one coverage of radius 150 km at 30 m (a 10 003 × 10 003 grid, ≈ 100 M cells, 79 M
+// inside the radius) on a generated Int16 DEM, by the whole `ridgeline coverage` process:
+// wall and CPU time, peak RSS (/usr/bin/time -v), tiles. Methods: line of sight and
+// delta-Bullington (the level raster is Float32: 4 bytes a cell). It takes minutes, so
+// `npm run bench` runs it only when asked: `npm run bench -- --large-coverage`.
+// Run alone: node --import tsx bench/large-coverage.ts
+import { mkdtempSync, rmSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import { fileURLToPath } from "node:url";
+import { coverageTileCount } from "../src/coverage/coverage-tiles.ts";
+import { crsFromEpsg } from "../src/geo/crs-from-epsg.ts";
+import { timed, writeDem } from "./coverage.ts";
+
+const ROOT = fileURLToPath(new URL("..", import.meta.url));
+const r3 = (x: number) => Math.round(x * 1000) / 1000;
+
+/** The 150 km / 30 m coverage, line of sight and delta-Bullington; figures as plain JSON. */
+export async function benchLargeCoverage(options: { radius_km?: number; resolution_m?: number; methods?: string[] } = {}): Promise<Record<string, unknown>> {
+  const radius_km = options.radius_km ?? 150;
+  const res = options.resolution_m ?? 30;
+  const dir = mkdtempSync(join(tmpdir(), "ridgeline-bench-large-coverage-"));
+  try {
+    const n = 2 * Math.ceil((radius_km * 1000) / res) + 3;
+    const x0 = 500_000 - (n * res) / 2;
+    const y0 = 5_000_000 + (n * res) / 2;
+    const demPath = join(dir, "dem.tif");
+    const tg = performance.now();
+    writeDem(demPath, n, res, x0, y0);
+    const generate_s = (performance.now() - tg) / 1000;
+    const oc = (n - 1) / 2;
+    const [lat, lon] = crsFromEpsg(32632)!.fromCrs(x0 + (oc + 0.5) * res, y0 - (oc + 0.5) * res);
+    const common = ["--site", `${lat},${lon}`, "--antenna-m", "30", "--receiver-m", "2", "--terrain", demPath, "--radius-km", String(radius_km), "--resolution-m", String(res), "--frequency-ghz", "0.9", "--k", "4/3"];
+    const out: Record<string, unknown> = {
+      grid: `${n} × ${n} = ${((n * n) / 1e6).toFixed(1)} M cells (UTM 32N, ${res} m), Int16 DEM (generated)`,
+      tiles: coverageTileCount(radius_km * 1000, res),
+      generate_dem_s: r3(generate_s),
+      target_max_rss_mib: 1536,
+    };
+    const methods: Record<string, string[]> = {
+      visibility: ["--method", "visibility"],
+      "delta-bullington": ["--method", "delta-bullington", "--tx-power-dbm", "43", "--thresholds-dbm", "-100,-90,-80"],
+    };
+    for (const m of options.methods ?? Object.keys(methods)) {
+      const run = timed(join(ROOT, "bin/ridgeline.js"), ["coverage", ...common, ...methods[m], "--out", join(dir, `${m}.tif`)]);
+      if (run.status !== 0) throw new Error(`ridgeline coverage --method ${m} failed:\n${run.stderr}`);
+      const summary = /Wrote .*?: (.*)\n/.exec(run.stderr)?.[1] ?? "";
+      const compute = /compute ([\d.]+) s/.exec(summary);
+      const cells = /([\d.]+) M cells inside/.exec(summary);
+      out[m] = {
+        wall_s: r3(run.wall_s),
+        cpu_s: r3(run.cpu_s),
+        max_rss_mib: Math.round(run.max_rss_mib),
+        compute_s: compute ? Number(compute[1]) : NaN,
+        m_cells_inside: cells ? Number(cells[1]) : NaN,
+        summary,
+      };
+      rmSync(join(dir, `${m}.tif`), { force: true });
+    }
+    return out;
+  } finally {
+    rmSync(dir, { recursive: true, force: true });
+  }
+}
+
+if (process.argv[1] && fileURLToPath(import.meta.url) === process.argv[1]) {
+  const methods = process.argv.slice(2).filter((a) => !a.startsWith("-"));
+  process.stdout.write(`${JSON.stringify(await benchLargeCoverage(methods.length ? { methods } : {}), null, 2)}\n`);
+}
