@@ -21,6 +21,13 @@ export interface VerticalPropagatorOptions {
   boundary: PeBoundary;
   /** an fft.js instance of size 2n */
   fft: FFT;
+  /** vertical wavenumber (rad/m) where the angular filter reaches zero, k·sin θmax of the
+   * model; default the grid's band π/Δz. Kept fixed when the grid is refined, so that a finer
+   * grid carries the same angles (the model) more finely sampled. */
+  p_limit_rad_m?: number;
+  /** the angular filter's factor is raised to this power (default 1): Δx over a reference
+   * step, so that the filter absorbs the same per metre whatever the range step */
+  filter_exponent?: number;
 }
 
 /**
@@ -53,13 +60,15 @@ export function makeVerticalPropagator(o: VerticalPropagatorOptions): (ur: Float
   const out = new Float64Array(2 * m2);
   const pr = new Float64Array(m2);
   const pi = new Float64Array(m2);
+  const pLimit = Math.min(o.p_limit_rad_m ?? Infinity, Math.PI / dz);
   for (let q = 0; q < m2; q++) {
     const p = (Math.PI * (q <= n ? q : q - m2)) / (n * dz);
-    const ph = (dx * -(p * p)) / (Math.sqrt(k * k - p * p) + k); // Feit–Fleck: Δx·(√(k² − p²) − k), cancellation-free
-    const t = Math.abs(q <= n ? q : q - m2) / n; // |p| / p_max
-    const filter = t <= SPECTRAL_FILTER_FROM ? 1 : 0.5 * (1 + Math.cos((Math.PI * (t - SPECTRAL_FILTER_FROM)) / (1 - SPECTRAL_FILTER_FROM)));
-    pr[q] = filter * Math.cos(ph);
-    pi[q] = filter * Math.sin(ph);
+    const ph = p >= k || p <= -k ? 0 : (dx * -(p * p)) / (Math.sqrt(k * k - p * p) + k); // Feit–Fleck: Δx·(√(k² − p²) − k), cancellation-free
+    const t = Math.abs(p) / pLimit; // |p| / p_max
+    const filter = t <= SPECTRAL_FILTER_FROM ? 1 : t >= 1 ? 0 : 0.5 * (1 + Math.cos((Math.PI * (t - SPECTRAL_FILTER_FROM)) / (1 - SPECTRAL_FILTER_FROM)));
+    const f = filter ** (o.filter_exponent ?? 1);
+    pr[q] = f * Math.cos(ph);
+    pi[q] = f * Math.sin(ph);
   }
   /** data ← propagate(data) in the spectral domain. */
   const spectral = () => {
