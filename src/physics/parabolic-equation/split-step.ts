@@ -1,4 +1,3 @@
-import FFT from "fft.js";
 import { wavelengthM } from "../constants.ts";
 import { bandLimitedSample } from "./band-limited-sample.ts";
 import { gaussianAxisAmplitude, gaussianSourceSigmaM } from "./aperture-source.ts";
@@ -228,7 +227,6 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
     dx_m: dx,
     k_rad_m: k,
     boundary: alpha ? { kind: "mixed", alpha } : input.polarization === "h" ? { kind: "dirichlet" } : { kind: "neumann" },
-    fft: new FFT(2 * N),
     // the filter holds the model's angles, not the grid's band, and absorbs the same per metre
     // on a refined grid: refining the grid then changes the sampling only, not the model
     p_limit_rad_m: k * Math.sin(thetaMax),
