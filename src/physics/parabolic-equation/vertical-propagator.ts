@@ -270,8 +270,8 @@ export function makeSineTransform(n: number): (ar: Float64Array, ai: Float64Arra
   const fft = new FFT(n);
   const sinT = new Float64Array(n);
   for (let j = 0; j < n; j++) sinT[j] = Math.sin((Math.PI * j) / n);
-  const z = fft.createComplexArray() as number[];
-  const Z = fft.createComplexArray() as number[];
+  const z = new Float64Array(2 * n);
+  const Z = new Float64Array(2 * n);
   return (ar, ai, xr, xi) => {
     z[0] = 0;
     z[1] = 0;
