@@ -91,21 +91,20 @@ export function makeVerticalPropagator(o: VerticalPropagatorOptions): (ur: Float
   const sine = cosine ? null : makeSineTransform(n);
   const sr = new Float64Array(n + 1);
   const si = new Float64Array(n + 1);
+  // the propagator with the inverse's factor 2/n folded in (the sine transform is its own
+  // inverse up to 2/n)
+  const sPr = Float64Array.from(pr.subarray(0, n), (v) => (2 / n) * v);
+  const sPi = Float64Array.from(pi.subarray(0, n), (v) => (2 / n) * v);
   /** (ar + i·ai)[1..n−1] ← propagate by the sine transform (values at 0 and n taken as 0). */
   const sinePropagate = (ar: Float64Array, ai: Float64Array) => {
     sine!(ar, ai, sr, si);
     for (let q = 1; q < n; q++) {
       const re = sr[q];
       const im = si[q];
-      sr[q] = re * pr[q] - im * pi[q];
-      si[q] = re * pi[q] + im * pr[q];
+      sr[q] = re * sPr[q] - im * sPi[q];
+      si[q] = re * sPi[q] + im * sPr[q];
     }
     sine!(sr, si, ar, ai);
-    const scale = 2 / n; // the sine transform is its own inverse up to 2/n
-    for (let j = 1; j < n; j++) {
-      ar[j] *= scale;
-      ai[j] *= scale;
-    }
   };
   if (o.boundary.kind === "dirichlet") {
     return (ur, ui) => {
