@@ -274,13 +274,17 @@ export function makeSineTransform(n: number): (ar: Float64Array, ai: Float64Arra
   return (ar, ai, xr, xi) => {
     z[0] = 0;
     z[1] = 0;
-    for (let j = 1; j < n; j++) {
-      const a = ar[j];
-      const a2 = ar[n - j];
-      const b = ai[j];
-      const b2 = ai[n - j];
-      z[2 * j] = sinT[j] * (a + a2) + 0.5 * (a - a2);
-      z[2 * j + 1] = sinT[j] * (b + b2) + 0.5 * (b - b2);
+    // y_j and y_{n−j} from the same sum and difference
+    for (let j = 1, h = n >> 1; j <= h; j++) {
+      const m = n - j;
+      const sa = sinT[j] * (ar[j] + ar[m]);
+      const da = 0.5 * (ar[j] - ar[m]);
+      const sb = sinT[j] * (ai[j] + ai[m]);
+      const db = 0.5 * (ai[j] - ai[m]);
+      z[2 * j] = sa + da;
+      z[2 * j + 1] = sb + db;
+      z[2 * m] = sa - da;
+      z[2 * m + 1] = sb - db;
     }
     fft.transform(Z, z);
     let oa = 0;
