@@ -12,14 +12,15 @@ import { loadStudy } from "../../src/study/load-study.ts";
 // snapped to a cell.
 //
 // Measured 2026-12-05 after the terrain-following frame was aligned with the ground's rows and
-// the angular filter held at θmax (split-step.ts), in dB: kvtw-lowf 0.01, pell-grey 0.00,
-// harr-aldr 0.03, lowf-oxle 0.03, mill-harr 0.06, kvtw-grey 0.06, mill-thrn 0.14 — these seven
-// are held to 0.2 dB. Five are NOT within the goal: mill-cobb 0.32, pell-kvtw 0.90, grey-lowf
-// (UHF, 1.26 m cells) 2.34, harr-kvtw 3.04 and the blocked, rejected mill-aldr (52 dB below free
-// space, deep in the shadow) 5.16. What remains is the staircase part, ground steeper than the
-// frame's slope limit, which depends on Δx (DEVELOPERS.md); for those five the test holds the
-// measured change, rounded up, so that a regression shows. Before (main, 2026-12-04):
-// 0.05-0.48 dB on seven links, 0.86, 0.91, 2.04, 3.76 and 10.67 dB on the others.
+// allowed to tilt towards the beam's aim, and the angular filter held at θmax (split-step.ts),
+// in dB: harr-aldr 0.00, lowf-oxle 0.00, pell-grey 0.00, kvtw-lowf 0.01, pell-kvtw 0.04,
+// kvtw-grey 0.06, mill-cobb 0.08, mill-thrn 0.08, harr-kvtw 0.09 — these nine are held to 0.2 dB.
+// Three are NOT within the goal: mill-harr 0.42, grey-lowf (UHF, 1.26 m cells) 1.71 and the
+// blocked, rejected mill-aldr (about 64 dB below free space, deep in the shadow) 4.44. What
+// remains is the staircase part, ground steeper than the frame may tilt, which depends on Δx
+// (DEVELOPERS.md); for those three the test holds the measured change, rounded up, so that a
+// regression shows. Before (main, 2026-12-04): 0.05-0.48 dB on seven links, 0.86, 0.91, 2.04,
+// 3.76 and 10.67 dB on the others.
 const study = loadStudy("content/studies/kestrel-vale/study.yaml");
 study.design.wave_solution = false;
 const terrain = await openStudyTerrain(study);
@@ -27,7 +28,7 @@ const terrain = await openStudyTerrain(study);
 /** The goal (issue #15's acceptance). */
 const GOAL_DB = 0.2;
 /** Links not yet within the goal: the bound held (measured change rounded up, dB). */
-const NOT_YET: Record<string, number> = { "mill-cobb": 0.5, "pell-kvtw": 1.2, "grey-lowf": 3, "harr-kvtw": 3.5, "mill-aldr": 6 };
+const NOT_YET: Record<string, number> = { "mill-harr": 0.6, "grey-lowf": 2, "mill-aldr": 5 };
 
 describe("wave solution: grid halving (Δz and Δx) on the demo's links", () => {
   it.each(study.links.map((l) => [l.id, l, NOT_YET[l.id] ?? GOAL_DB] as const))("%s changes by less than its bound (0.2 dB, the goal, unless listed as not yet within it)", (_id, link, bound) => {
