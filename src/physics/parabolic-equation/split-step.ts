@@ -186,7 +186,7 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
   // the frame (see the doc comment): floor height bf[i] at range plane i and the ground's row
   // there, row[i] (the ground lies row[i]·Δz above the floor: exactly once the frame has
   // caught up with it, within half a cell on steep parts). The floor's slope is the ground's,
-  // clamped to ±max_frame_slope, plus a bounded correction towards the ground's row.
+  // clamped to [sLo, sHi], plus a bounded correction towards the ground's row.
   const steps = grid.steps;
   const fs = grid.max_frame_slope;
   // the frame's slopes span the horizontal and the beam's aim, widened by ±fs: a frame tilted
@@ -218,8 +218,10 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
   }
   // phase screen exp(ik·Δx·(m − 1)) by absolute height on the vertical grid, over every height
   // the field array reaches (indices from the lowest)
-  const sMin = Math.floor(fMin / dz) - Math.ceil((2 * fs * dx) / dz) - 2;
-  const screenRe = new Float64Array(Math.ceil(gTop / dz) - sMin + N + Math.ceil((2 * fs * dx) / dz) + 6);
+  // (the screen is indexed from the previous plane's floor: a margin for one step of the frame)
+  const margin = Math.ceil(((Math.max(-sLo, sHi) + ALIGN_SLOPE * fs) * dx) / dz) + 2;
+  const sMin = Math.floor(fMin / dz) - margin;
+  const screenRe = new Float64Array(Math.ceil(gTop / dz) - sMin + N + margin + 6);
   const screenIm = new Float64Array(screenRe.length);
   for (let a = 0; a < screenRe.length; a++) {
     const ph = k * dx * mExcess((a + sMin) * dz); // Levy 2000: refraction phase screen exp(ik·Δx·(m − 1))
