@@ -183,3 +183,23 @@ describe("parabolic equation: regression, an answer that depended on the grid ov
     expectClose(r2, r4, { abs: 0.5 }, { r1: r1.excess_loss_db, r2, r4 });
   });
 });
+
+describe("parabolic equation: a uniform slope along the line of sight is flat ground rotated", () => {
+  // Without refraction or curvature (k = ∞), a plane ground sloping at s with both antennas
+  // 10 m above it is flat ground rotated by atan(s): the same field (the wave equation is
+  // invariant under rotation; common practice). The terrain-following frame follows the slope
+  // instead of cutting it into stairs, so the answer is the flat one within 0.1 dB (measured
+  // 0.01-0.06 dB; a frame limited to ±s_max read 0.19 dB off at 10 % and 182 dB at 30 %).
+  const run = (slope: number) => {
+    const d_m = Float64Array.from({ length: 501 }, (_, i) => i * 10);
+    const ground_m = Float64Array.from(d_m, (x) => 1000 + slope * x);
+    return parabolicEquationField({ d_m, ground_m, frequency_ghz: 3, tx_antenna_m: 10, rx_antenna_m: 10, polarization: "h", ground: { kind: "impedance", epsilon_r: 15, sigma_s_m: 0.005 }, refractivity: flatEarth, beamwidth_deg: 5 });
+  };
+  const flat = run(0);
+  it.each([0.05, 0.1, -0.1])("slope %f: within 0.1 dB of flat ground", (slope) => {
+    const r = run(slope);
+    expect(r.status).toBe("ok");
+    expect(r.angle_limit_exceeded).toBe(false);
+    expectClose(r.excess_loss_db, flat.excess_loss_db, { abs: 0.1 }, { slope, flat: flat.excess_loss_db });
+  });
+});
