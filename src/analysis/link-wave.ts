@@ -102,7 +102,7 @@ export function linkWave(
   if (ok) for (const [m, v] of Object.entries(byMethod)) difference[m] = v - r.excess_loss_db;
   const grid = r.grid;
   const wave: WaveResult = {
-    method: "split-step parabolic equation (wide-angle, impedance ground, staircase terrain)",
+    method: "split-step parabolic equation (wide-angle, impedance ground, terrain-following frame with a staircase on steep ground)",
     status: ok ? "ok" : "refused",
     reason: r.reason,
     k_label: options.refractivity ? "profile" : k0.label,

@@ -17,8 +17,10 @@
  * The range step is the profile's own spacing
  * (terrain is not resampled coarser than surveyed) within [D/3000, D/200]: the wide-angle
  * propagator is exact for any step in a uniform medium, so the step only limits how finely
- * terrain and refraction are followed. Convergence is measured by halving both steps
- * (test/reference/parabolic-equation.test.ts, README validation table).
+ * terrain and refraction are followed. Convergence is measured by halving both steps with
+ * θmax held (test/reference/parabolic-equation-convergence.test.ts, README validation table):
+ * θmax is the model's angle limit, so the solver's angular filter stays at θmax when Δz is
+ * overridden finer, and a refined grid samples the same model more finely.
  */
 
 /** Largest propagation angle (°) for which the wide-angle (Feit–Fleck) split-step propagator is trusted (common practice for the split-step Fourier method; from memory). */
@@ -28,8 +30,9 @@ export const PE_MIN_GRID_ANGLE_DEG = 2;
 /** Default memory limit of one solution (bytes): 256 MiB. */
 export const PE_DEFAULT_MEMORY_LIMIT_BYTES = 256 * 1024 * 1024;
 /**
- * Work limit: transform points × range steps a solution may take by default (250 million:
- * about 30 s on one core of the project's machine, the 50 km, 18 GHz path over mountains).
+ * Work limit: transform points (2N, the odd extension's) × range steps a solution may take by
+ * default (250 million: about 10 s of CPU on the project's machine, from the 50 km, 18 GHz
+ * path across the demo's mountains, 52 million in 2.2 s with the half-size sine transform).
  * Long paths at high frequencies need far more (227 km at 80 GHz: billions, 10 min or more),
  * and a study computes every link, so such a grid is refused with the reason instead.
  */
@@ -40,6 +43,9 @@ export interface PeGridChoice {
   dz_m: number;
   /** range step (m) */
   dx_m: number;
+  /** the range step the grid chooses for this path when not overridden (m): the angular
+   * filter's reference length, so that a refined grid absorbs the same per metre */
+  dx_reference_m: number;
   /** range steps from end to end */
   steps: number;
   /** largest angle the grid carries (°) */
@@ -50,9 +56,8 @@ export interface PeGridChoice {
   n: number;
   /** absolute height (m) where the absorbing layer begins, at each profile sample */
   top_m: Float64Array;
-  /** the terrain-following frame's floor at each profile sample (m): the highest surface under
-   * the ground whose slope stays within ±max_frame_slope (slopeLimitedFloor) */
-  floor_m: Float64Array;
+  /** largest slope of the terrain-following frame (split-step.ts): the ground's slope clamped
+   * to ±this; steeper ground is a staircase in the frame */
   max_frame_slope: number;
   /** thickness of the absorbing layer (cells) */
   absorber_cells: number;
@@ -118,7 +123,8 @@ export function choosePeGrid(input: PeGridInput): PeGridChoice {
   const dz_m = input.overrides?.dz_m ?? lambda_m / (2 * Math.sin((max_angle_deg * Math.PI) / 180));
   let profileStep = Infinity;
   for (let i = 1; i < n; i++) profileStep = Math.min(profileStep, d_m[i] - d_m[i - 1] > 0 ? d_m[i] - d_m[i - 1] : Infinity);
-  const dxWanted = input.overrides?.dx_m ?? Math.min(Math.max(profileStep, D / 3000), D / 200);
+  const dxChosen = Math.min(Math.max(profileStep, D / 3000), D / 200);
+  const dxWanted = input.overrides?.dx_m ?? dxChosen;
   const steps = Math.max(1, Math.ceil(D / dxWanted - 1e-9));
   const dx_m = D / steps;
   const f1Max = 0.5 * Math.sqrt(lambda_m * D);
@@ -147,7 +153,6 @@ export function choosePeGrid(input: PeGridInput): PeGridChoice {
     hz.push(z);
   }
   const max_frame_slope = 0.25 * Math.sin(0.75 * ((max_angle_deg * Math.PI) / 180));
-  const floor_m = slopeLimitedFloor(d_m, ground_m, max_frame_slope);
   const top_m = new Float64Array(n);
   let tallest = 0;
   for (let i = 0, h = 0; i < n; i++) {
@@ -156,8 +161,8 @@ export function choosePeGrid(input: PeGridInput): PeGridChoice {
     const t = hx[h + 1] > hx[h] ? (x - hx[h]) / (hx[h + 1] - hx[h]) : 0;
     top_m[i] = Math.max(hz[h] + t * (hz[h + 1] - hz[h]) - bulge(x), ground_m[i]) + margin;
     // the solver drops the cells below the ground (they hold no field): its domain starts at
-    // the lower of neighbouring samples' ground, never below the floor
-    const low = Math.max(floor_m[i], Math.min(ground_m[i], ground_m[Math.max(0, i - 1)], ground_m[Math.min(n - 1, i + 1)]));
+    // the lower of neighbouring samples' ground
+    const low = Math.min(ground_m[i], ground_m[Math.max(0, i - 1)], ground_m[Math.min(n - 1, i + 1)]);
     tallest = Math.max(tallest, top_m[i] - low);
   }
   const absorber_cells = Math.max(16, Math.ceil((0.5 * tallest) / dz_m));
@@ -169,30 +174,16 @@ export function choosePeGrid(input: PeGridInput): PeGridChoice {
   return {
     dz_m,
     dx_m,
+    dx_reference_m: D / Math.max(1, Math.ceil(D / dxChosen - 1e-9)),
     steps,
     max_angle_deg,
     geometry_angle_deg,
     n: N,
     top_m,
-    floor_m,
     max_frame_slope,
     absorber_cells,
     z_low_m: gMin,
     z_high_m: zTop,
     memory_bytes,
   };
-}
-
-/**
- * The highest surface f ≤ ground whose slope never exceeds ±s (two passes of the running
- * minimum, forward and backward, over the profile; common practice for slope limiting). The
- * parabolic-equation frame follows it; what of the ground rises above it (cliffs, single
- * obstacles) is cut as a staircase of screens.
- */
-export function slopeLimitedFloor(d_m: ArrayLike<number>, ground_m: ArrayLike<number>, s: number): Float64Array {
-  const n = d_m.length;
-  const f = Float64Array.from(ground_m);
-  for (let i = 1; i < n; i++) f[i] = Math.min(f[i], f[i - 1] + s * (d_m[i] - d_m[i - 1]));
-  for (let i = n - 2; i >= 0; i--) f[i] = Math.min(f[i], f[i + 1] + s * (d_m[i + 1] - d_m[i]));
-  return f;
 }

@@ -1,4 +1,3 @@
-import FFT from "fft.js";
 import { wavelengthM } from "../constants.ts";
 import { bandLimitedSample } from "./band-limited-sample.ts";
 import { gaussianAxisAmplitude, gaussianSourceSigmaM } from "./aperture-source.ts";
@@ -6,6 +5,9 @@ import { impedanceAlpha, type PeGround } from "./ground-impedance.ts";
 import { effectiveRadiusFromRefractivity, modifiedRefractivity, type RefractivityModel } from "./modified-refractivity.ts";
 import { choosePeGrid, PE_DEFAULT_MEMORY_LIMIT_BYTES, PE_DEFAULT_WORK_LIMIT_CELL_STEPS, PE_MAX_ANGLE_DEG, type PeGridChoice } from "./pe-grid.ts";
 import { makeVerticalPropagator } from "./vertical-propagator.ts";
+
+/** The frame's correction towards the ground's row, at most this fraction of the frame's slope limit per range step (see the doc comment). */
+const ALIGN_SLOPE = 0.25;
 
 export interface ParabolicEquationInput {
   /** profile distances from the transmitter (m), ascending */
@@ -77,16 +79,29 @@ export interface ParabolicEquationResult {
  * (modified-refractivity.ts), so the Earth is flat and its curvature and the atmosphere's
  * refraction are both in m. The ground is a Leontovich impedance boundary ∂u/∂z + αu = 0
  * (ground-impedance.ts) handled by the discrete mixed Fourier transform (vertical-
- * propagator.ts); a perfect conductor is a sine (H) or cosine (V) transform. Terrain is
- * followed two ways. The computational frame starts at a floor under the ground whose slope is
- * limited (pe-grid.ts, slopeLimitedFloor): a terrain-following (shift-map) transformation,
- * where a change of the floor's slope Δs tilts the field by exp(−ik·Δs·z') and the ground
- * keeps its impedance condition, exact for gentle slopes. Ground rising above the floor
- * (cliffs, steep flanks, single-sample obstacles) is a staircase of Kirchhoff screens: at each
- * range plane the field below the ground there is cut off, which makes a thin obstacle a knife
- * edge. The shift map alone fails on steep or abrupt terrain, which surveyed and DEM profiles
- * contain; the staircase alone reflects poorly from long slopes; hence both. The staircase
- * part converges slowly with Δx on slopes steeper than the frame's limit (measured in
+ * propagator.ts); a perfect conductor is a sine (H) or cosine (V) transform.
+ * Terrain: a terrain-following (Beilis–Tappert shift-map) frame on the piecewise-linear
+ * profile, with a staircase only for what the frame cannot follow. Why this and not a pure
+ * staircase: a staircase reflects from its treads, not from the slope, and its heights are
+ * rounded to whole cells, so its answer depends on the grid (grid halving moved the demo's
+ * links by up to 10 dB); a pure shift map cannot follow slopes steeper than the grid's angles.
+ * The frame's floor b(x) takes, over each range step, the ground's own slope clamped to the
+ * interval from min(0, tan θaim) − s_max to max(0, tan θaim) + s_max (s_max = max_frame_slope,
+ * pe-grid.ts; θaim the beam's aim): the field's angles in the frame are the physical ones less
+ * the frame's slope, and the field is mostly at angles between the horizontal (grazing
+ * reflections) and the aim (the beam), so a frame tilted by up to the aim keeps it in the band
+ * (a frame limited to ±s_max cut a ground running along a falling line of sight into stairs:
+ * harr-kvtw moved 3 dB under grid halving, 0.09 dB now). A change of slope Δs tilts the field
+ * by exp(−ik·Δs·z') and the impedance condition stays ∂v/∂z' + αv = 0 (exact in the narrow-angle limit for
+ * piecewise-linear floors). Where the ground is no steeper than that, it is flat in the frame
+ * and exactly on a row: no height is rounded (sub-cell terrain). Where it is steeper, the rest
+ * of the slope is a staircase of Kirchhoff screens in the frame (the field below the ground's
+ * row is cut at each range plane, which also makes a thin obstacle a knife edge), and the
+ * frame is moved towards the ground's row by at most ALIGN_SLOPE of its slope limit per step,
+ * so that it lies exactly on a row again a few steps after the steep part ends. Cells below
+ * the ground are dropped (the field array starts at the ground's row). The angular filter
+ * (vertical-propagator.ts) holds the model's angles θmax on any grid. The staircase part still
+ * depends on Δx on long slopes steeper than the frame's limit (measured in
  * test/reference/parabolic-equation-convergence.test.ts). A Hann taper above the region of
  * interest (the upper hull of terrain and ends plus the Fresnel zone: pe-grid.ts) absorbs what
  * leaves it. The source is a Gaussian aperture of the antenna's 3 dB beamwidth aimed at the receiver (aperture-source.ts); the receiver is a point.
@@ -167,18 +182,46 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
   const dz = grid.dz_m;
   const dx = grid.dx_m;
   const groundAt = makeGroundInterpolator(d, g);
-  const floorAt = makeGroundInterpolator(d, grid.floor_m);
   const topAt = makeGroundInterpolator(d, grid.top_m);
-  // phase screen exp(ik·Δx·(m − 1)) by absolute height on the vertical grid, over every height
-  // the frame reaches (indices from the lowest floor)
-  let fMin = Infinity;
+  // the frame (see the doc comment): floor height bf[i] at range plane i and the ground's row
+  // there, row[i] (the ground lies row[i]·Δz above the floor: exactly once the frame has
+  // caught up with it, within half a cell on steep parts). The floor's slope is the ground's,
+  // clamped to [sLo, sHi], plus a bounded correction towards the ground's row.
+  const steps = grid.steps;
+  const fs = grid.max_frame_slope;
+  // the frame's slopes span the horizontal and the beam's aim, widened by ±fs: a frame tilted
+  // towards the beam keeps the beam inside the band (a path whose ground runs along a falling
+  // line of sight is followed instead of cut into stairs)
+  const tanAim = Math.tan(aim);
+  const sLo = Math.min(0, tanAim) - fs;
+  const sHi = Math.max(0, tanAim) + fs;
+  const bf = new Float64Array(steps + 1);
+  const row = new Int32Array(steps + 1);
+  bf[0] = groundAt(d[0]);
+  let gPrev = bf[0];
+  let fMin = bf[0];
   let gTop = -Infinity;
-  for (let i = 0; i < np; i++) {
-    fMin = Math.min(fMin, grid.floor_m[i]);
-    gTop = Math.max(gTop, g[i]);
+  for (let i = 0; i < np; i++) gTop = Math.max(gTop, g[i]);
+  for (let i = 1; i <= steps; i++) {
+    const gi = groundAt(d[0] + i * dx);
+    const want = bf[i - 1] + Math.max(sLo, Math.min(sHi, (gi - gPrev) / dx)) * dx;
+    // the ground's height above the frame in rows, and the correction that brings it onto a
+    // row, limited to ALIGN_SLOPE·fs·Δx per step (so the frame's slope stays within the band)
+    const rows = (gi - want) / dz;
+    const r = Math.round(rows);
+    const limit = (ALIGN_SLOPE * fs * dx) / dz;
+    const shift = Math.max(-limit, Math.min(limit, rows - r));
+    bf[i] = want + shift * dz;
+    row[i] = Math.round((gi - bf[i]) / dz);
+    fMin = Math.min(fMin, bf[i] + Math.min(0, row[i]) * dz);
+    gPrev = gi;
   }
-  const sMin = Math.floor(fMin / dz);
-  const screenRe = new Float64Array(Math.ceil(gTop / dz) - sMin + N + 4);
+  // phase screen exp(ik·Δx·(m − 1)) by absolute height on the vertical grid, over every height
+  // the field array reaches (indices from the lowest)
+  // (the screen is indexed from the previous plane's floor: a margin for one step of the frame)
+  const margin = Math.ceil(((Math.max(-sLo, sHi) + ALIGN_SLOPE * fs) * dx) / dz) + 2;
+  const sMin = Math.floor(fMin / dz) - margin;
+  const screenRe = new Float64Array(Math.ceil(gTop / dz) - sMin + N + margin + 6);
   const screenIm = new Float64Array(screenRe.length);
   for (let a = 0; a < screenRe.length; a++) {
     const ph = k * dx * mExcess((a + sMin) * dz); // Levy 2000: refraction phase screen exp(ik·Δx·(m − 1))
@@ -191,22 +234,26 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
   for (let j = 0; j < L; j++) taper[j] = 0.5 * (1 + Math.cos((Math.PI * j) / L));
   const alpha = input.ground.kind === "impedance" ? impedanceAlpha(input.ground.epsilon_r, input.ground.sigma_s_m, lambda, input.polarization) : null;
   if (alpha && !(Number.isFinite(alpha.re) && Number.isFinite(alpha.im))) return bad("ground constants are not usable", grid);
-  const step = makeVerticalPropagator({ n: N, dz_m: dz, dx_m: dx, k_rad_m: k, boundary: alpha ? { kind: "mixed", alpha } : input.polarization === "h" ? { kind: "dirichlet" } : { kind: "neumann" }, fft: new FFT(2 * N) });
-  // the frame: heights above the floor b(x); the source at its height above the ground
-  let b = floorAt(d[0]);
+  const step = makeVerticalPropagator({
+    n: N,
+    dz_m: dz,
+    dx_m: dx,
+    k_rad_m: k,
+    boundary: alpha ? { kind: "mixed", alpha } : input.polarization === "h" ? { kind: "dirichlet" } : { kind: "neumann" },
+    // the filter holds the model's angles, not the grid's band, and absorbs the same per metre
+    // on a refined grid: refining the grid then changes the sampling only, not the model
+    p_limit_rad_m: k * Math.sin(thetaMax),
+    filter_exponent: dx / grid.dx_reference_m,
+  });
+  // the field array starts at the ground (row 0 at the transmitter); the source at its height
+  let b = bf[0];
   const ur = new Float64Array(N + 1);
   const ui = new Float64Array(N + 1);
   const sigma = gaussianSourceSigmaM(beam, k);
   const p0 = k * Math.sin(aim);
   const zs = zT - b;
-  // The array starts at the ground, not at the floor: where the slope-limited floor lies far
-  // below the transmitter's ground (a valley further along), the cells between them hold no
-  // field, and counting them would push the source out of the domain (the field of a link
-  // from a quarry rim above a valley was lost entirely at the first step).
-  const above0 = (g[0] - b) / dz;
-  const q0 = above0 < 0.5 ? 0 : Math.round(above0 + 0.5) - 1;
   for (let j = 0; j < N; j++) {
-    const z = (j + q0) * dz;
+    const z = j * dz;
     const amp = Math.exp(-((z - zs) ** 2) / (2 * sigma * sigma)); // Levy 2000 §8: Gaussian aperture
     ur[j] = amp * Math.cos(p0 * (z - zs));
     ui[j] = amp * Math.sin(p0 * (z - zs));
@@ -220,7 +267,6 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
   const below = alpha ? "none" : input.polarization === "v" ? "even" : "odd";
   /** F (dB) at height zRel above the frame's floor, distance x, from the complex field between cells (band-limited-sample.ts): for the receiver and its height-gain curve. */
   const relDbExact = (zRel: number, x: number): number => {
-    if (zRel < 0) return NaN;
     const t = zRel / dz - q;
     if (t < 0 || t > N) return NaN;
     const [re, im] = bandLimitedSample(ur, ui, t, below);
@@ -229,7 +275,6 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
   };
   /** F (dB) at height zRel above the frame's floor, distance x; amplitude interpolated linearly (the figure only: its rows are far coarser than Δz). */
   const relDb = (zRel: number, x: number): number => {
-    if (zRel < 0) return NaN;
     const t = zRel / dz - q;
     if (t < 0) return NaN;
     const j = Math.floor(t);
@@ -242,16 +287,12 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
     return 20 * Math.log10(amp / gaussianAxisAmplitude(r, sigma, k)); // F relative to free space on the beam axis
   };
   let slope = 0;
-  // q: cells between the floor and the array's first cell, dropped because the ground covers
-  // them (they hold no field); array cell j is (j + q)·Δz above the floor
-  let q = q0;
-  const cellsAbove = (x: number, floor: number) => {
-    const above = (groundAt(x) - floor) / dz;
-    return above < 0.5 ? 0 : Math.round(above + 0.5);
-  };
-  for (let i = 1; i <= grid.steps; i++) {
+  // q: the row of the array's first cell (the ground's row, or the lower of two neighbouring
+  // planes' rows); array cell j is (j + q)·Δz above the floor
+  let q = 0;
+  for (let i = 1; i <= steps; i++) {
     const x = i * dx;
-    const bNext = floorAt(d[0] + x);
+    const bNext = bf[i];
     // terrain-following frame (shift map): a change of the floor's slope tilts the field,
     // exp(−ik·Δs·z'), so that in the frame angles are measured from the local ground; the
     // impedance condition on the normal derivative, ∂u/∂z − s·∂u/∂x ≈ ∂u/∂z − ik·s·u, is then
@@ -294,21 +335,19 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
       ur[j] *= t;
       ui[j] *= t;
     }
-    b = bNext;
-    // ground above the floor at this plane cuts off the field below it (a Kirchhoff screen);
-    // the field vanishes half a cell below the first cell kept, so that cell is the one
-    // nearest half a cell above the ground (measured: the knife edge's J(ν) then has no bias)
-    const gx = groundAt(d[0] + x);
-    const cutCells = cellsAbove(d[0] + x, b);
-    const cut = Math.min(N + 1, cutCells - q);
+    // ground above the array's first cell at this plane cuts off the field below it (a
+    // Kirchhoff screen); the ground lies on its row, which becomes the array's first cell
+    const cut = Math.min(N + 1, row[i] - q);
     if (cut > 0) {
       ur.fill(0, 0, cut);
       ui.fill(0, 0, cut);
     }
     // the next step starts at the lower of this plane's and the next plane's ground
-    const qNew = i === grid.steps ? Math.min(q, cutCells) : Math.min(cutCells, cellsAbove(d[0] + x + dx, floorAt(d[0] + x + dx)));
+    const qNew = i < steps ? Math.min(row[i], row[i + 1]) : row[i];
     shiftField(ur, ui, qNew - q);
     q = qNew;
+    b = bNext;
+    const gx = groundAt(d[0] + x);
     if (field && nextCol < cols && i === Math.round(((nextCol + 1) * grid.steps) / cols)) {
       field.x_m[nextCol] = x;
       field.ground_m[nextCol] = gx;

@@ -1,4 +1,4 @@
-import type FFT from "fft.js";
+import FFT from "fft.js";
 import { csqrt, type Complex } from "../complex.ts";
 
 /**
@@ -19,8 +19,16 @@ export interface VerticalPropagatorOptions {
   dx_m: number;
   k_rad_m: number;
   boundary: PeBoundary;
-  /** an fft.js instance of size 2n */
-  fft: FFT;
+  /** an fft.js instance of size 2n, for the cosine transform (made here when not given; the
+   * sine transforms use one of size n of their own) */
+  fft?: FFT;
+  /** vertical wavenumber (rad/m) where the angular filter reaches zero, k·sin θmax of the
+   * model; default the grid's band π/Δz. Kept fixed when the grid is refined, so that a finer
+   * grid carries the same angles (the model) more finely sampled. */
+  p_limit_rad_m?: number;
+  /** the angular filter's factor is raised to this power (default 1): Δx over a reference
+   * step, so that the filter absorbs the same per metre whatever the range step */
+  filter_exponent?: number;
 }
 
 /**
@@ -38,8 +46,12 @@ export interface VerticalPropagatorOptions {
  *   u_{j−1} = ρ·(v_j − u_j) (backward from u_n = 0), plus the mode, whose coefficient is the
  *   projection c = ⟨ρ^j, u⟩/⟨ρ^j, ρ^j⟩ with the bilinear form Σ' (weight ½ at j = 0) under
  *   which the discrete operator is symmetric.
- * Above SPECTRAL_FILTER_FROM of the band the spectrum is tapered away (an absorber in angle).
- * Each transform is a complex FFT (fft.js) of the field's odd or even extension to 2n points.
+ * Above SPECTRAL_FILTER_FROM of the band (or of p_limit_rad_m) the spectrum is tapered away
+ * (an absorber in angle).
+ * The sine transforms take one complex FFT of n points for the field's real and imaginary
+ * parts together (makeSineTransform; half the work of the odd extension to 2n points, which a
+ * first version transformed); the cosine transform, a complex FFT (fft.js) of the even
+ * extension to 2n points.
  * Reference: G. D. Dockery & J. R. Kuttler, "An improved impedance-boundary algorithm for
  * Fourier split-step solutions of the parabolic wave equation", IEEE Trans. Antennas Propag.
  * 44(12), 1996 (from memory; the recursions and projection are derived afresh above).
@@ -47,53 +59,58 @@ export interface VerticalPropagatorOptions {
  *   for this step, default the one given here)
  */
 export function makeVerticalPropagator(o: VerticalPropagatorOptions): (ur: Float64Array, ui: Float64Array, alpha?: Complex) => void {
-  const { n, dz_m: dz, dx_m: dx, k_rad_m: k, fft } = o;
+  const { n, dz_m: dz, dx_m: dx, k_rad_m: k } = o;
   const m2 = 2 * n;
-  const data = new Float64Array(2 * m2);
-  const out = new Float64Array(2 * m2);
+  const cosine = o.boundary.kind === "neumann";
+  const fft = cosine ? (o.fft ?? new FFT(m2)) : null;
+  const data = new Float64Array(cosine ? 2 * m2 : 0);
+  const out = new Float64Array(cosine ? 2 * m2 : 0);
   const pr = new Float64Array(m2);
   const pi = new Float64Array(m2);
+  const pLimit = Math.min(o.p_limit_rad_m ?? Infinity, Math.PI / dz);
   for (let q = 0; q < m2; q++) {
     const p = (Math.PI * (q <= n ? q : q - m2)) / (n * dz);
-    const ph = (dx * -(p * p)) / (Math.sqrt(k * k - p * p) + k); // Feit–Fleck: Δx·(√(k² − p²) − k), cancellation-free
-    const t = Math.abs(q <= n ? q : q - m2) / n; // |p| / p_max
-    const filter = t <= SPECTRAL_FILTER_FROM ? 1 : 0.5 * (1 + Math.cos((Math.PI * (t - SPECTRAL_FILTER_FROM)) / (1 - SPECTRAL_FILTER_FROM)));
-    pr[q] = filter * Math.cos(ph);
-    pi[q] = filter * Math.sin(ph);
+    const ph = p >= k || p <= -k ? 0 : (dx * -(p * p)) / (Math.sqrt(k * k - p * p) + k); // Feit–Fleck: Δx·(√(k² − p²) − k), cancellation-free
+    const t = Math.abs(p) / pLimit; // |p| / p_max
+    const filter = t <= SPECTRAL_FILTER_FROM ? 1 : t >= 1 ? 0 : 0.5 * (1 + Math.cos((Math.PI * (t - SPECTRAL_FILTER_FROM)) / (1 - SPECTRAL_FILTER_FROM)));
+    const f = filter ** (o.filter_exponent ?? 1);
+    pr[q] = f * Math.cos(ph);
+    pi[q] = f * Math.sin(ph);
   }
   /** data ← propagate(data) in the spectral domain. */
   const spectral = () => {
-    fft.transform(out, data);
+    fft!.transform(out, data);
     for (let q = 0; q < m2; q++) {
       const re = out[2 * q];
       const im = out[2 * q + 1];
       out[2 * q] = re * pr[q] - im * pi[q];
       out[2 * q + 1] = re * pi[q] + im * pr[q];
     }
-    fft.inverseTransform(data, out);
+    fft!.inverseTransform(data, out);
   };
-  const oddExtend = (ar: Float64Array, ai: Float64Array) => {
-    data[0] = 0;
-    data[1] = 0;
-    data[2 * n] = 0;
-    data[2 * n + 1] = 0;
-    for (let j = 1; j < n; j++) {
-      data[2 * j] = ar[j];
-      data[2 * j + 1] = ai[j];
-      data[2 * (m2 - j)] = -ar[j];
-      data[2 * (m2 - j) + 1] = -ai[j];
+  const sine = cosine ? null : makeSineTransform(n);
+  const sr = new Float64Array(n + 1);
+  const si = new Float64Array(n + 1);
+  // the propagator with the inverse's factor 2/n folded in (the sine transform is its own
+  // inverse up to 2/n)
+  const sPr = Float64Array.from(pr.subarray(0, n), (v) => (2 / n) * v);
+  const sPi = Float64Array.from(pi.subarray(0, n), (v) => (2 / n) * v);
+  /** (ar + i·ai)[1..n−1] ← propagate by the sine transform (values at 0 and n taken as 0). */
+  const sinePropagate = (ar: Float64Array, ai: Float64Array) => {
+    sine!(ar, ai, sr, si);
+    for (let q = 1; q < n; q++) {
+      const re = sr[q];
+      const im = si[q];
+      sr[q] = re * sPr[q] - im * sPi[q];
+      si[q] = re * sPi[q] + im * sPr[q];
     }
+    sine!(sr, si, ar, ai);
   };
   if (o.boundary.kind === "dirichlet") {
     return (ur, ui) => {
       ur[0] = 0;
       ui[0] = 0;
-      oddExtend(ur, ui);
-      spectral();
-      for (let j = 0; j < n; j++) {
-        ur[j] = data[2 * j];
-        ui[j] = data[2 * j + 1];
-      }
+      sinePropagate(ur, ui);
       ur[n] = 0;
       ui[n] = 0;
     };
@@ -154,14 +171,17 @@ export function makeVerticalPropagator(o: VerticalPropagatorOptions): (ur: Float
       wr[j] = (ur[j + 1] - ur[j - 1]) / twoDz + alpha.re * ur[j] - alpha.im * ui[j];
       wi[j] = (ui[j + 1] - ui[j - 1]) / twoDz + alpha.re * ui[j] + alpha.im * ur[j];
     }
-    oddExtend(wr, wi);
-    spectral();
+    wr[0] = 0;
+    wi[0] = 0;
+    wr[n] = 0;
+    wi[n] = 0;
+    sinePropagate(wr, wi);
     // v (kept in wr/wi, shifted: wr[j] holds v_j), forward from v_1 = 0
     let vr = 0;
     let vi = 0;
     for (let j = 1; j < n; j++) {
-      const w2r = twoDz * data[2 * j];
-      const w2i = twoDz * data[2 * j + 1];
+      const w2r = twoDz * wr[j];
+      const w2i = twoDz * wi[j];
       wr[j] = vr;
       wi[j] = vi;
       const nvr = rho.re * vr - rho.im * vi + w2r;
@@ -232,4 +252,66 @@ function modeSetup(alpha: Complex, n: number, dz: number, dx: number, k: number)
   if (kz.im < 0) kz = { re: -kz.re, im: -kz.im };
   const decay = Math.exp(-dx * kz.im);
   return { rho, powRe, powIm, J: powRe.length, nr, ni, modeRe: decay * Math.cos(dx * (kz.re - k)), modeIm: decay * Math.sin(dx * (kz.re - k)) };
+}
+
+/**
+ * Sine transform (DST-I) of two real sequences at once, X_k = Σ_{j=1}^{n−1} x_j·sin(πjk/n),
+ * k = 1..n−1, by one complex FFT of n points (fft.js) instead of the 2n points of the odd
+ * extension: with y_j = sin(πj/n)·(x_j + x_{n−j}) + ½·(x_j − x_{n−j}) (x_0 = x_n = 0) and
+ * Y = DFT_n(y), X_2k = −Im Y_k, X_1 = ½·Re Y_0 and X_2k+1 = X_2k−1 + Re Y_k (the symmetric part
+ * of y gives the cosine sums, the antisymmetric part the sine sums; common practice for fast
+ * sine transforms, e.g. W. H. Press et al., Numerical Recipes, §12.3 — from memory, derived
+ * afresh here). The two real sequences are packed as the real and imaginary parts of one
+ * complex sequence and separated by Y_a = (Z_k + Z̄_{n−k})/2, Y_b = (Z_k − Z̄_{n−k})/(2i).
+ * @returns dst(ar, ai, xr, xi): xr, xi[1..n−1] ← the transforms of ar, ai[1..n−1]
+ */
+export function makeSineTransform(n: number): (ar: Float64Array, ai: Float64Array, xr: Float64Array, xi: Float64Array) => void {
+  const fft = new FFT(n);
+  const sinT = new Float64Array(n);
+  for (let j = 0; j < n; j++) sinT[j] = Math.sin((Math.PI * j) / n);
+  const z = new Float64Array(2 * n);
+  const Z = new Float64Array(2 * n);
+  return (ar, ai, xr, xi) => {
+    z[0] = 0;
+    z[1] = 0;
+    // y_j and y_{n−j} from the same sum and difference
+    for (let j = 1, h = n >> 1; j <= h; j++) {
+      const m = n - j;
+      const sa = sinT[j] * (ar[j] + ar[m]);
+      const da = 0.5 * (ar[j] - ar[m]);
+      const sb = sinT[j] * (ai[j] + ai[m]);
+      const db = 0.5 * (ai[j] - ai[m]);
+      z[2 * j] = sa + da;
+      z[2 * j + 1] = sb + db;
+      z[2 * m] = sa - da;
+      z[2 * m + 1] = sb - db;
+    }
+    fft.transform(Z, z);
+    let oa = 0;
+    let ob = 0;
+    const half = n >> 1;
+    for (let k = 0; k < half; k++) {
+      const k2 = k === 0 ? 0 : n - k;
+      const zr = Z[2 * k];
+      const zi = Z[2 * k + 1];
+      const cr = Z[2 * k2];
+      const ci = -Z[2 * k2 + 1];
+      // Y_a = (Z_k + Z̄_{n−k})/2, Y_b = (Z_k − Z̄_{n−k})/(2i)
+      const yaR = 0.5 * (zr + cr);
+      const yaI = 0.5 * (zi + ci);
+      const ybR = 0.5 * (zi - ci);
+      const ybI = -0.5 * (zr - cr);
+      if (k > 0) {
+        xr[2 * k] = -yaI;
+        xi[2 * k] = -ybI;
+        oa += yaR;
+        ob += ybR;
+      } else {
+        oa = 0.5 * yaR;
+        ob = 0.5 * ybR;
+      }
+      xr[2 * k + 1] = oa;
+      xi[2 * k + 1] = ob;
+    }
+  };
 }
