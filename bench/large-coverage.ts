@@ -1,10 +1,11 @@
 // Benchmark: one coverage of radius 150 km at 30 m (a 10 003 × 10 003 grid, ≈ 100 M cells, 79 M
 // inside the radius) on a generated Int16 DEM, by the whole `ridgeline coverage` process:
 // wall and CPU time, peak RSS (/usr/bin/time -v), tiles. Methods: line of sight and
-// delta-Bullington (the level raster is Float32: 4 bytes a cell). It takes minutes, so
+// delta-Bullington (the level raster is Float32: 4 bytes a cell); then the same
+// delta-Bullington map as the coverage of a study built with a cache. It takes minutes, so
 // `npm run bench` runs it only when asked: `npm run bench -- --large-coverage`.
 // Run alone: node --import tsx bench/large-coverage.ts
-import { mkdtempSync, rmSync } from "node:fs";
+import { mkdirSync, mkdtempSync, renameSync, rmSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { fileURLToPath } from "node:url";
@@ -16,7 +17,7 @@ const ROOT = fileURLToPath(new URL("..", import.meta.url));
 const r3 = (x: number) => Math.round(x * 1000) / 1000;
 
 /** The 150 km / 30 m coverage, line of sight and delta-Bullington; figures as plain JSON. */
-export async function benchLargeCoverage(options: { radius_km?: number; resolution_m?: number; methods?: string[] } = {}): Promise<Record<string, unknown>> {
+export async function benchLargeCoverage(options: { radius_km?: number; resolution_m?: number; methods?: string[]; study?: boolean } = {}): Promise<Record<string, unknown>> {
   const radius_km = options.radius_km ?? 150;
   const res = options.resolution_m ?? 30;
   const dir = mkdtempSync(join(tmpdir(), "ridgeline-bench-large-coverage-"));
@@ -57,10 +58,44 @@ export async function benchLargeCoverage(options: { radius_km?: number; resoluti
       };
       rmSync(join(dir, `${m}.tif`), { force: true });
     }
+    // The same map as a study's coverage, built with a cache (the default): the build also
+    // keeps the map's cache entry (level raster and the grid's elevations, for a composite)
+    // and renders its page.
+    if (options.study !== false) {
+      const studyDir = join(dir, "studies", "wide");
+      mkdirSync(studyDir, { recursive: true });
+      renameSync(demPath, join(studyDir, "dem.tif"));
+      const [latB, lonB] = crsFromEpsg(32632)!.fromCrs(x0 + (oc + Math.round(n / 20) + 0.5) * res, y0 - (oc + Math.round(n / 30) + 0.5) * res);
+      writeFileSync(join(studyDir, "study.yaml"), wideStudyYaml(lat, lon, latB, lonB, radius_km, res));
+      const run = timed(join(ROOT, "bin/ridgeline.js"), ["build", "--studies-dir", join(dir, "studies"), "--out", join(dir, "site"), "--cache-dir", join(dir, "cache")]);
+      if (run.status !== 0) throw new Error(`ridgeline build of the 150 km study failed:\n${run.stderr}`);
+      out["study_build_delta_bullington_with_cache"] = { wall_s: r3(run.wall_s), cpu_s: r3(run.cpu_s), max_rss_mib: Math.round(run.max_rss_mib) };
+    }
     return out;
   } finally {
     rmSync(dir, { recursive: true, force: true });
   }
+}
+
+/** A study whose one coverage is the bench's map (delta-Bullington), with one short link. */
+function wideStudyYaml(lat: number, lon: number, latB: number, lonB: number, radius_km: number, res: number): string {
+  return `title: Wide-area coverage (generated terrain, for the benchmark)
+client: Benchmark
+prepared_by: Benchmark
+revision: A
+date: 2026-01-15
+terrain:
+  file: dem.tif
+radios:
+  - { id: r1, frequency_ghz: 6, tx_power_dbm: 25, rx_threshold_dbm: -75 }
+sites:
+  - { id: A, name: Centre, lat_deg: ${lat.toFixed(6)}, lon_deg: ${lon.toFixed(6)} }
+  - { id: B, name: East, lat_deg: ${latB.toFixed(6)}, lon_deg: ${lonB.toFixed(6)} }
+links:
+  - { id: a-b, from: { site: A, antenna_m: 30, gain_dbi: 34 }, to: { site: B, antenna_m: 30, gain_dbi: 34 }, radio: r1 }
+coverage:
+  - { id: wide, site: A, method: delta-bullington, frequency_ghz: 0.9, antenna_m: 30, receiver_m: 2, tx_power_dbm: 43, radius_km: ${radius_km}, resolution_m: ${res}, thresholds: [-100, -90, -80] }
+`;
 }
 
 if (process.argv[1] && fileURLToPath(import.meta.url) === process.argv[1]) {

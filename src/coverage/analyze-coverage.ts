@@ -1,4 +1,3 @@
-import { elevationsFloat32 } from "./elevation-window.ts";
 import { availableParallelism } from "node:os";
 import { join } from "node:path";
 import type { GroundClass } from "../physics/ground-constants.ts";
@@ -233,7 +232,7 @@ export function compositeMemberOf(it: Pick<AnalyzedCoverage, "result" | "compute
   const c = it.computed;
   if (c.request.method === "visibility") return null;
   const { epsg, geoTransform, width, height, site_col, site_row } = c.grid;
-  return { result: it.result, thresholds_dbm: c.request.thresholds_dbm, grid: { epsg, geoTransform, width, height, site_col, site_row }, values: c.values as Float32Array, dem: elevationsFloat32(c.dem) };
+  return { result: it.result, thresholds_dbm: c.request.thresholds_dbm, grid: { epsg, geoTransform, width, height, site_col, site_row }, values: c.values as Float32Array, dem: c.dem };
 }
 
 function methodName(m: string): string {

@@ -2,14 +2,15 @@ import { crsFromEpsg } from "../geo/crs-from-epsg.ts";
 import { metresPerDegree } from "../terrain/metres-per-degree.ts";
 import { MAX_COVERAGE_CELLS, pointScale, type CoverageGrid } from "./coverage-grid.ts";
 import { LEVEL_NODATA, VISIBILITY_NODATA } from "./coverage-job.ts";
+import { elevationAt, type Elevations } from "./elevation-window.ts";
 
 /** What the composite reads of a level coverage (a ComputedCoverage is one). */
 export interface CompositeInput {
   grid: Pick<CoverageGrid, "epsg" | "geoTransform" | "width" | "height">;
   /** received level (dBm, LEVEL_NODATA where not computed), row-major */
   values: Float32Array | Uint8Array;
-  /** the grid's elevations (m) */
-  dem: Float32Array;
+  /** the grid's elevations (m; Float32 with NaN nodata or Int16: elevation-window.ts) */
+  dem: Elevations;
 }
 
 /** The multi-site composite of level coverages on their common grid. */
@@ -84,7 +85,7 @@ export function compositeCoverage(inputs: readonly CompositeInput[]): Composite 
       for (let i = 0; i < w; i++) {
         const x = v[src + i];
         const j = dst + i;
-        if (dem[j] !== dem[j]) dem[j] = c.dem[src + i];
+        if (dem[j] !== dem[j]) dem[j] = elevationAt(c.dem, src + i);
         if (x === LEVEL_NODATA) continue;
         if (level[j] === LEVEL_NODATA || x > level[j]) {
           level[j] = x;

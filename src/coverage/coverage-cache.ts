@@ -210,7 +210,7 @@ function coverageHit(v: unknown, entry: CoverageInput): CoverageEntry | null {
   const m = (v as Partial<CoverageEntry>).member;
   if (entry.method === "visibility") return m === null ? (v as CoverageEntry) : null;
   const cells = m?.grid ? m.grid.width * m.grid.height : -1;
-  const ok = m && Array.isArray(m.thresholds_dbm) && m.values instanceof Float32Array && m.dem instanceof Float32Array && m.values.length === cells && m.dem.length === cells;
+  const ok = m && Array.isArray(m.thresholds_dbm) && m.values instanceof Float32Array && (m.dem instanceof Float32Array || m.dem instanceof Int16Array) && m.values.length === cells && m.dem.length === cells;
   return ok ? (v as CoverageEntry) : null;
 }
 

@@ -6,6 +6,7 @@ import { compositeAreas, compositeCoverage } from "./composite-coverage.ts";
 import { cellCentreLatLon, type CoverageGrid } from "./coverage-grid.ts";
 import { formatDb, type CoverageResult } from "./coverage-result.ts";
 import type { CoverageFigure, CoverageOutputStage } from "./coverage-output-stage.ts";
+import type { Elevations } from "./elevation-window.ts";
 
 /**
  * What the multi-site composite reads of one level coverage: its JSON, thresholds (dBm), grid
@@ -17,8 +18,8 @@ export interface CompositeMember {
   grid: Pick<CoverageGrid, "epsg" | "geoTransform" | "width" | "height" | "site_col" | "site_row">;
   /** received level (dBm, LEVEL_NODATA where not computed), row-major */
   values: Float32Array;
-  /** the grid's elevations (m, NaN nodata) */
-  dem: Float32Array;
+  /** the grid's elevations (m; Float32 with NaN nodata, or Int16 as read from an Int16 DEM: elevation-window.ts) */
+  dem: Elevations;
 }
 
 /** The composite's files (absolute paths), page figure and SVG. */
