@@ -6,23 +6,7 @@ import { afterAll, describe, expect, it } from "vitest";
 import { writeGeoTiff } from "../../src/geo/geotiff-writer.ts";
 import { freeSpaceLossDb } from "../../src/physics/free-space-loss.ts";
 import { expectClose } from "../helpers/expect-close.ts";
-
-/** Run the CLI in this process, capturing stdout and stderr. */
-async function runCli(argv: string[]): Promise<{ code: number; stdout: string; stderr: string }> {
-  const { main } = await import("../../src/cli/main.ts");
-  let stdout = "";
-  let stderr = "";
-  const ow = process.stdout.write.bind(process.stdout);
-  const ew = process.stderr.write.bind(process.stderr);
-  process.stdout.write = ((s: string | Uint8Array) => ((stdout += String(s)), true)) as typeof process.stdout.write;
-  process.stderr.write = ((s: string | Uint8Array) => ((stderr += String(s)), true)) as typeof process.stderr.write;
-  try {
-    return { code: await main(argv), stdout, stderr };
-  } finally {
-    process.stdout.write = ow;
-    process.stderr.write = ew;
-  }
-}
+import { runCliInProcess as runCli } from "../helpers/run-cli.ts";
 
 const dir = mkdtempSync(join(tmpdir(), "ridgeline-path-wave-"));
 afterAll(() => rmSync(dir, { recursive: true, force: true }));

@@ -10,7 +10,8 @@ import { studyHead } from "../helpers/tiny-study.ts";
 import { loadStudy } from "../../src/study/load-study.ts";
 import { studySchema } from "../../src/study/schema.ts";
 import { ConstantTerrain } from "../../src/terrain/constant.ts";
-import { cellLatLon, runCli, writeUtmDem } from "./coverage-fixtures.ts";
+import { runCliInProcess as runCli } from "../helpers/run-cli.ts";
+import { cellLatLon, writeUtmDem } from "./coverage-fixtures.ts";
 
 // Bad coverage input must end in a clear message and exit code 2, never a stack trace,
 // from the command line and from a study file.

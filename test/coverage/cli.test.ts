@@ -4,7 +4,7 @@ import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { writeHgtTile } from "../../src/terrain/write-hgt.ts";
-import { runCli } from "./coverage-fixtures.ts";
+import { runCliInProcess as runCli } from "../helpers/run-cli.ts";
 
 // `ridgeline coverage` end to end on a folder of .hgt tiles (no raster of its own: a UTM grid
 // at the requested resolution), read back with GDAL; and the same raster whichever number of

@@ -49,20 +49,3 @@ export function request(over: Partial<CoverageRequest> & Pick<CoverageRequest, "
   };
 }
 
-/** Run a CLI command in this process, capturing stdout and stderr. */
-export async function runCli(argv: string[]): Promise<{ code: number; stdout: string; stderr: string }> {
-  const { main } = await import("../../src/cli/main.ts");
-  let stdout = "";
-  let stderr = "";
-  const ow = process.stdout.write.bind(process.stdout);
-  const ew = process.stderr.write.bind(process.stderr);
-  process.stdout.write = ((s: string | Uint8Array) => ((stdout += String(s)), true)) as typeof process.stdout.write;
-  process.stderr.write = ((s: string | Uint8Array) => ((stderr += String(s)), true)) as typeof process.stderr.write;
-  try {
-    const code = await main(argv);
-    return { code, stdout, stderr };
-  } finally {
-    process.stdout.write = ow;
-    process.stderr.write = ew;
-  }
-}

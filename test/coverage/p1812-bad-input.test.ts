@@ -99,7 +99,7 @@ describe("ridgeline coverage --method p1812: bad flags → exit 2 naming the fla
     [["--frequency-ghz", "0.45", "--time-pct", "60"], /--time-pct: received 60; expected a percentage of time from 1 to 50 %/],
     [["--frequency-ghz", "0.45", "--location-pct", "0.5"], /--location-pct: received 0\.5; expected a percentage of locations from 1 to 99 %/],
   ])("%j", async (over, message) => {
-    const { runCli } = await import("./coverage-fixtures.ts");
+    const { runCliInProcess: runCli } = await import("../helpers/run-cli.ts");
     const r = await runCli(args(over));
     expect(r.code, r.stderr).toBe(2);
     expect(r.stderr).toMatch(message);

@@ -9,7 +9,8 @@ import { freeSpaceLossDb } from "../../src/physics/free-space-loss.ts";
 import { groundConstants } from "../../src/physics/ground-constants.ts";
 import { openGeoTiff } from "../../src/terrain/geotiff.ts";
 import { expectClose } from "../helpers/expect-close.ts";
-import { cellLatLon, request, runCli, writeUtmDem } from "./coverage-fixtures.ts";
+import { runCliInProcess as runCli } from "../helpers/run-cli.ts";
+import { cellLatLon, request, writeUtmDem } from "./coverage-fixtures.ts";
 
 // A coverage cell against `ridgeline path --json` for the same geometry (site → cell centre,
 // same terrain, antenna and receiver heights, frequency, k, power): received level within
