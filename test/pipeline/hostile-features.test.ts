@@ -8,6 +8,7 @@ import { fadeDepthExceedancePercent } from "../../src/physics/multipath-fading.t
 import { multipathActivityFactor } from "../../src/physics/dispersive-fading.ts";
 import { diversityOutageProbability } from "../../src/physics/diversity.ts";
 import { runCase, type CaseResult } from "../fuzz/run-case.ts";
+import { expectClean, sub } from "../helpers/hostile-case.ts";
 import { expectClose } from "../helpers/expect-close.ts";
 import { TINY_STUDY } from "../helpers/tiny-study.ts";
 
@@ -32,16 +33,6 @@ async function run(yaml: string, extra: (dir: string) => void = () => {}): Promi
   writeFileSync(join(dir, "study.yaml"), yaml);
   return runCase(studies, "s", null);
 }
-
-const sub = (from: string, to: string, text = TINY_STUDY) => {
-  if (!text.includes(from)) throw new Error(`fixture lacks ${from}`);
-  return text.replace(from, to);
-};
-
-const expectClean = (r: CaseResult, ...parts: (string | RegExp)[]) => {
-  expect(r.outcome, r.detail).toBe("clean-error");
-  for (const p of parts) expect(r.detail).toMatch(p);
-};
 
 /** TINY_STUDY (6 GHz radio r1, link a-b) with an envelope CSV on the from-end. */
 const WITH_ENVELOPE = sub("from: { site: A, antenna_m: 30, gain_dbi: 34, feeder_loss_db: 1 }", "from: { site: A, antenna_m: 30, gain_dbi: 34, feeder_loss_db: 1, pattern: { envelope_csv: env.csv } }");

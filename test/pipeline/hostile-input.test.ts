@@ -9,6 +9,7 @@ import { InternalError } from "../../src/errors.ts";
 import { svgId, urlPathSegment } from "../../src/render/svg/escape.ts";
 import { relativeUrl } from "../../src/site/relative-url.ts";
 import { runCase, type CaseResult } from "../fuzz/run-case.ts";
+import { expectClean, sub } from "../helpers/hostile-case.ts";
 import { PROJECT_ROOT } from "../helpers/run-cli.ts";
 import { studyHead, TINY_STUDY } from "../helpers/tiny-study.ts";
 import { loadCoverageOutputStage } from "../../src/render/coverage-output-loader.ts";
@@ -34,16 +35,6 @@ async function run(yaml: string | null, extra: (dir: string) => void = () => {},
   if (yaml !== null) writeFileSync(join(dir, "study.yaml"), yaml);
   return runCase(studies, id, null);
 }
-
-const sub = (from: string, to: string, text = TINY_STUDY) => {
-  if (!text.includes(from)) throw new Error(`fixture lacks ${from}`);
-  return text.replace(from, to);
-};
-
-const expectClean = (r: CaseResult, ...parts: (string | RegExp)[]) => {
-  expect(r.outcome, r.detail).toBe("clean-error");
-  for (const p of parts) expect(r.detail).toMatch(p);
-};
 
 const COVERAGE = (site = "A", id = "cov", extra = "") => `coverage:
   - id: ${id}
