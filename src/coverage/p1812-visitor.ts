@@ -6,6 +6,31 @@ import { patternLoss } from "./level-visitors.ts";
 import { newCellLoss, P1812Radial, type P1812CellLoss } from "./p1812-incremental.ts";
 import type { RayVisitor } from "./radial-sweep.ts";
 
+/** Percentage of locations one standard deviation above the median: Φ(1) (%). */
+const ONE_SIGMA_PCT = 84.134474606854;
+
+/**
+ * The extra median loss (dB) and the location standard deviation σ (dB) of a receiver of land
+ * class `cls` at `d_m` from the site: the coverage's building entry loss (or none) and the class's
+ * σ, plus, where asked, the terrestrial clutter loss of P.2108-1 §3.2 (its median, at least at
+ * the method's shortest distance of 0.25 km, and its spread L(Φ(1)) − L(50 %) combined with σ);
+ * σ = 0 at sea (P.1812-6 eq. (69)). Written into `out` (no allocation per cell).
+ */
+export function receiverLocationStats(q: P1812Job, f_ghz: number, cls: number, d_m: number, out: { extra_db: number; sigma_db: number }): void {
+  const rxSea = q.sea[cls] === 1;
+  let extra = q.extra_median_db;
+  let sigma = q.sigma_db[cls];
+  if (q.p2108 && !rxSea) {
+    const dkm = d_m / 1000 < 0.25 ? 0.25 : d_m / 1000;
+    const med = terrestrialClutterLoss(f_ghz, dkm, 50); // P.2108-1 eq. (4), median
+    const s = terrestrialClutterLoss(f_ghz, dkm, ONE_SIGMA_PCT) - med; // P.2108-1 σ_cb (one standard deviation)
+    extra += med;
+    sigma = Math.sqrt(sigma * sigma + s * s);
+  }
+  out.extra_db = extra;
+  out.sigma_db = rxSea ? 0 : sigma; // P.1812-6 eq. (69): no location variability at sea
+}
+
 /**
  * Received level (dBm) by ITU-R P.1812-6, evaluated incrementally along each radial
  * (P1812Radial), with clutter from the land cover (or one class), the location term of eq. (69)
@@ -26,6 +51,7 @@ export class P1812Visitor implements RayVisitor {
   private readonly prob: Float32Array;
   private readonly classes: Uint8Array | null;
   private readonly o: P1812CellLoss = newCellLoss();
+  private readonly stats = { extra_db: 0, sigma_db: 0 };
   private readonly hts: number;
   private readonly base: number;
   private readonly usePattern: boolean;
@@ -63,16 +89,10 @@ export class P1812Visitor implements RayVisitor {
     const rxSea = q.sea[cls] === 1;
     const o = this.o;
     this.rad.evaluate(d_m, h_m, this.job.receiver_m, rxSea, q.site_lat_deg + north_m * this.halfDegPerM, o);
-    let extra = q.extra_median_db;
-    let sigma = q.sigma_db[cls];
-    if (q.p2108 && !rxSea) {
-      const dkm = d_m / 1000;
-      const med = terrestrialClutterLoss(this.job.frequency_ghz, dkm < 0.25 ? 0.25 : dkm, 50); // P.2108-1 eq. (4), median
-      const s = (terrestrialClutterLoss(this.job.frequency_ghz, dkm < 0.25 ? 0.25 : dkm, 84.134474606854) - med); // P.2108-1 σ_cb (one standard deviation)
-      extra += med;
-      sigma = Math.sqrt(sigma * sigma + s * s);
-    }
-    if (rxSea) sigma = 0; // P.1812-6 eq. (69): no location variability at sea
+    const stats = this.stats;
+    receiverLocationStats(q, this.job.frequency_ghz, cls, d_m, stats);
+    const extra = stats.extra_db;
+    const sigma = stats.sigma_db;
     let top = this.base - extra;
     if (this.usePattern) top -= patternLoss(this.job, d_m, h_m + this.job.receiver_m - this.hts, 1 / (2 * q.ae_m), east_m, north_m);
     const Lloc = q.loc_factor * sigma; // P.1812-6 eq. (69) (location term)

@@ -2,12 +2,12 @@ import { crsFromEpsg } from "../geo/crs-from-epsg.ts";
 import { normalCdf } from "../physics/normal-distribution.ts";
 import { ZONE_INLAND, ZONE_SEA } from "../physics/itu-path-geometry.ts";
 import { p1812Loss } from "../physics/p1812.ts";
-import { terrestrialClutterLoss } from "../physics/terrestrial-clutter-loss.ts";
 import { cellProfile } from "./cell-profile.ts";
 import type { CoverageGrid } from "./coverage-grid.ts";
 import type { CoverageJob } from "./coverage-job.ts";
 import type { Elevations } from "./elevation-window.ts";
 import { patternLoss } from "./level-visitors.ts";
+import { receiverLocationStats } from "./p1812-visitor.ts";
 
 /** One study site inside a P.1812 coverage's radius, as the served-sites table lists it. */
 export interface ServedSite {
@@ -81,16 +81,9 @@ export function servedSites(
     d_km[n - 1] = prof.cell.d_m / 1000;
     h_m[n - 1] = prof.cell.h_m;
     zone[n - 1] = rxSea ? ZONE_SEA : ZONE_INLAND;
-    let extra = q.extra_median_db;
-    let sigma = q.sigma_db[rc];
-    if (q.p2108 && !rxSea) {
-      const dk = Math.max(0.25, prof.cell.d_m / 1000);
-      const med = terrestrialClutterLoss(job.frequency_ghz, dk, 50);
-      const sd = terrestrialClutterLoss(job.frequency_ghz, dk, 84.134474606854) - med;
-      extra += med;
-      sigma = Math.sqrt(sigma * sigma + sd * sd);
-    }
-    if (rxSea) sigma = 0;
+    const stats = { extra_db: 0, sigma_db: 0 };
+    receiverLocationStats(q, job.frequency_ghz, rc, prof.cell.d_m, stats);
+    const { extra_db: extra, sigma_db: sigma } = stats;
     const r = p1812Loss({
       frequency_ghz: job.frequency_ghz,
       time_pct: q.time_pct,
