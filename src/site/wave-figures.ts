@@ -2,7 +2,7 @@ import type { AnalyzedStudy } from "../analysis/analyze-study.ts";
 import { rgbaPngDataUri } from "../render/raster/rgba-png.ts";
 import { waveFieldRgba } from "../render/raster/wave-field-raster.ts";
 import { waveFieldLayout, waveFieldSvg } from "../render/svg/wave-field-figure.ts";
-import { waveHeightGainSvg } from "../render/svg/wave-height-gain.ts";
+import { waveHeightGainSvg } from "../render/svg/height-gain-chart.ts";
 
 /** The wave solution's field figure of a link (SVG with an embedded PNG), or "" when it was not computed. */
 export async function linkWaveFieldSvg(s: AnalyzedStudy, linkId: string): Promise<string> {
