@@ -1,3 +1,5 @@
+import { sphericalEarthHeightGain } from "../physics/spherical-earth-first-term.ts";
+
 /** Ground and polarisation of the spherical-Earth term, resolved once per coverage. */
 export interface SphericalGround {
   /** relative permittivity of land */
@@ -70,11 +72,5 @@ function firstTermLoss(d: number, h1: number, h2: number, a: number, lambda: num
   const yScale = 2 * beta * Math.cbrt((Math.PI * Math.PI) / (lambda * lambda)) * ca;
   const Fx = X >= 1.6 ? 11 + 10 * Math.log10(X) - 17.6 * X : -20 * Math.log10(X) - 5.6488 * Math.pow(X, 1.425); // P.526-15 §3.1.1.2 (F(X))
   const Gmin = 2 + 20 * Math.log10(K);
-  return -Fx - heightGain(beta * yScale * h1, Gmin) - heightGain(beta * yScale * h2, Gmin); // P.526-15 §3.1.1.2 (L = −F − G − G)
-}
-
-/** G(Y) of P.526-15 §3.1.1.2 with B = β·Y, floored at Gmin. */
-function heightGain(B: number, Gmin: number): number {
-  const G = B > 2 ? 17.6 * Math.sqrt(B - 1.1) - 5 * Math.log10(B - 1.1) - 8 : 20 * Math.log10(B + 0.1 * B * B * B); // P.526-15 §3.1.1.2 (G(Y))
-  return G < Gmin ? Gmin : G;
+  return -Fx - sphericalEarthHeightGain(beta * yScale * h1, Gmin) - sphericalEarthHeightGain(beta * yScale * h2, Gmin); // P.526-15 §3.1.1.2 (L = −F − G − G)
 }

@@ -76,7 +76,7 @@ function firstTerm(d: number, h1: number, h2: number, a: number, lambda: number,
   const Y2 = yScale * h2; // P.526-15 §3.1.1.2 (Y)
   const Fx = X >= 1.6 ? 11 + 10 * Math.log10(X) - 17.6 * X : -20 * Math.log10(X) - 5.6488 * Math.pow(X, 1.425); // P.526-15 §3.1.1.2 (F(X))
   const Gmin = 2 + 20 * Math.log10(K);
-  return -Fx - heightGain(beta * Y1, Gmin) - heightGain(beta * Y2, Gmin); // P.526-15 §3.1.1.2 (L = −F − G − G)
+  return -Fx - sphericalEarthHeightGain(beta * Y1, Gmin) - sphericalEarthHeightGain(beta * Y2, Gmin); // P.526-15 §3.1.1.2 (L = −F − G − G)
 }
 
 /**
@@ -100,7 +100,7 @@ function firstTermPractical(d_m: number, h1: number, h2: number, a_m: number, f:
   const yScale = 0.9575 * beta * cf * cf * ca;
   const Fx = X >= 1.6 ? 11 + 10 * Math.log10(X) - 17.6 * X : -20 * Math.log10(X) - 5.6488 * Math.exp(1.425 * Math.log(X)); // P.1812-6 eq. (33)
   const Gmin = 2 + 20 * Math.log10(K);
-  return -Fx - heightGain(beta * yScale * h1, Gmin) - heightGain(beta * yScale * h2, Gmin); // P.1812-6 eq. (32), (34)–(36)
+  return -Fx - sphericalEarthHeightGain(beta * yScale * h1, Gmin) - sphericalEarthHeightGain(beta * yScale * h2, Gmin); // P.1812-6 eq. (32), (34)–(36)
 }
 
 /** f^(1/3) and K/a^(−1/3) of P.1812-6 eq. (29a), (29b) for the last frequency and ground asked for. */
@@ -121,8 +121,11 @@ function groundTerms(f: number, epsilonR: number, sigma: number, vertical: boole
   return g;
 }
 
-/** Height-gain function G(Y) (dB) of P.526-15 §3.1.1.2 with B = β·Y, floored at Gmin. */
-function heightGain(B: number, Gmin: number): number {
+/**
+ * Height-gain function G(Y) (dB) of P.526-15 §3.1.1.2 with B = β·Y, floored at Gmin
+ * (Gmin = 2 + 20·log10 K). Valid for B ≥ 0; NaN in, NaN out.
+ */
+export function sphericalEarthHeightGain(B: number, Gmin: number): number {
   const G = B > 2 ? 17.6 * Math.sqrt(B - 1.1) - 5 * Math.log10(B - 1.1) - 8 : 20 * Math.log10(B + 0.1 * B * B * B); // P.526-15 §3.1.1.2 (G(Y))
   return G < Gmin ? Gmin : G;
 }
