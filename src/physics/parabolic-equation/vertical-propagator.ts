@@ -105,13 +105,7 @@ export function makeVerticalPropagator(o: VerticalPropagatorOptions): (ur: Float
   const sPi = Float64Array.from(pi.subarray(0, n), (v) => (2 / n) * v);
   /** (ar + i·ai)[1..n−1] ← propagate by the sine transform (values at 0 and n taken as 0). */
   const sinePropagate = (ar: Float64Array, ai: Float64Array) => {
-    sine!(ar, ai, sr, si);
-    for (let q = 1; q < n; q++) {
-      const re = sr[q];
-      const im = si[q];
-      sr[q] = re * sPr[q] - im * sPi[q];
-      si[q] = re * sPi[q] + im * sPr[q];
-    }
+    sine!(ar, ai, sr, si, sPr, sPi); // the propagator applied as the transform is unpacked
     sine!(sr, si, ar, ai);
   };
   if (o.boundary.kind === "dirichlet") {
@@ -159,25 +153,40 @@ export function makeVerticalPropagator(o: VerticalPropagatorOptions): (ur: Float
   const wi = new Float64Array(n + 1);
   const twoDz = 2 * dz;
   const fixed = o.boundary.alpha;
+  /** the mode's coefficient ⟨ρ^j, u⟩/⟨ρ^j, ρ^j⟩ (bilinear form Σ', weight ½ at j = 0), into proj */
+  const proj = { re: 0, im: 0 };
+  const project = (m: ModeSetup, ur: Float64Array, ui: Float64Array): void => {
+    const { powRe, powIm, J, nr, ni } = m;
+    let sr = 0.5 * ur[0];
+    let si = 0.5 * ui[0];
+    for (let j = 1; j < J; j++) {
+      sr += powRe[j] * ur[j] - powIm[j] * ui[j];
+      si += powRe[j] * ui[j] + powIm[j] * ur[j];
+    }
+    const d2 = nr * nr + ni * ni;
+    proj.re = (sr * nr + si * ni) / d2;
+    proj.im = (si * nr - sr * ni) / d2;
+  };
   return (ur, ui, alphaNow) => {
     const alpha = alphaNow ?? fixed;
-    const { rho, powRe, powIm, J, nr, ni, modeRe, modeIm } = setupFor(alpha);
-    const project = (ur: Float64Array, ui: Float64Array) => {
-      let sr = 0.5 * ur[0];
-      let si = 0.5 * ui[0];
-      for (let j = 1; j < J; j++) {
-        sr += powRe[j] * ur[j] - powIm[j] * ui[j];
-        si += powRe[j] * ui[j] + powIm[j] * ur[j];
-      }
-      const d2 = nr * nr + ni * ni;
-      return { re: (sr * nr + si * ni) / d2, im: (si * nr - sr * ni) / d2 };
-    };
+    const setup = setupFor(alpha);
+    const { powRe, powIm, J, modeRe, modeIm } = setup;
+    // scalars in locals: the loops below are the closure's whole cost
+    const rr = setup.rho.re;
+    const ri = setup.rho.im;
+    const ar = alpha.re;
+    const ai = alpha.im;
+    const h = 1 / twoDz;
     ur[n] = 0;
     ui[n] = 0;
-    const c = project(ur, ui);
+    project(setup, ur, ui);
+    const cRe = proj.re;
+    const cIm = proj.im;
     for (let j = 1; j < n; j++) {
-      wr[j] = (ur[j + 1] - ur[j - 1]) / twoDz + alpha.re * ur[j] - alpha.im * ui[j];
-      wi[j] = (ui[j + 1] - ui[j - 1]) / twoDz + alpha.re * ui[j] + alpha.im * ur[j];
+      const u = ur[j];
+      const v = ui[j];
+      wr[j] = (ur[j + 1] - ur[j - 1]) * h + ar * u - ai * v;
+      wi[j] = (ui[j + 1] - ui[j - 1]) * h + ar * v + ai * u;
     }
     wr[0] = 0;
     wi[0] = 0;
@@ -192,8 +201,8 @@ export function makeVerticalPropagator(o: VerticalPropagatorOptions): (ur: Float
       const w2i = twoDz * wi[j];
       wr[j] = vr;
       wi[j] = vi;
-      const nvr = rho.re * vr - rho.im * vi + w2r;
-      const nvi = rho.re * vi + rho.im * vr + w2i;
+      const nvr = rr * vr - ri * vi + w2r;
+      const nvi = rr * vi + ri * vr + w2i;
       vr = nvr;
       vi = nvi;
     }
@@ -202,16 +211,20 @@ export function makeVerticalPropagator(o: VerticalPropagatorOptions): (ur: Float
     // u backward from u_n = 0
     ur[n] = 0;
     ui[n] = 0;
+    let ur1 = 0;
+    let ui1 = 0;
     for (let j = n; j >= 1; j--) {
-      const dr = wr[j] - ur[j];
-      const di = wi[j] - ui[j];
-      ur[j - 1] = rho.re * dr - rho.im * di;
-      ui[j - 1] = rho.re * di + rho.im * dr;
+      const dr = wr[j] - ur1;
+      const di = wi[j] - ui1;
+      ur1 = rr * dr - ri * di;
+      ui1 = rr * di + ri * dr;
+      ur[j - 1] = ur1;
+      ui[j - 1] = ui1;
     }
     // the mode: propagated coefficient minus what the particular solution already holds
-    const cp = project(ur, ui);
-    const tr = c.re * modeRe - c.im * modeIm - cp.re;
-    const ti = c.re * modeIm + c.im * modeRe - cp.im;
+    project(setup, ur, ui);
+    const tr = cRe * modeRe - cIm * modeIm - proj.re;
+    const ti = cRe * modeIm + cIm * modeRe - proj.im;
     for (let j = 0; j < J; j++) {
       ur[j] += tr * powRe[j] - ti * powIm[j];
       ui[j] += tr * powIm[j] + ti * powRe[j];
@@ -273,15 +286,17 @@ function modeSetup(alpha: Complex, n: number, dz: number, dx: number, k: number,
  * sine transforms, e.g. W. H. Press et al., Numerical Recipes, §12.3 — from memory, derived
  * afresh here). The two real sequences are packed as the real and imaginary parts of one
  * complex sequence and separated by Y_a = (Z_k + Z̄_{n−k})/2, Y_b = (Z_k − Z̄_{n−k})/(2i).
- * @returns dst(ar, ai, xr, xi): xr, xi[1..n−1] ← the transforms of ar, ai[1..n−1]
+ * @returns dst(ar, ai, xr, xi, mr?, mi?): xr, xi[1..n−1] ← the transforms of ar, ai[1..n−1]
+ *   (as one complex sequence X_k = A_k + i·B_k), multiplied by mr + i·mi when given (a
+ *   propagator applied as the transform is unpacked: one pass over the spectrum less)
  */
-export function makeSineTransform(n: number): (ar: Float64Array, ai: Float64Array, xr: Float64Array, xi: Float64Array) => void {
+export function makeSineTransform(n: number): (ar: Float64Array, ai: Float64Array, xr: Float64Array, xi: Float64Array, mr?: Float64Array, mi?: Float64Array) => void {
   const fft = new FFT(n);
   const sinT = new Float64Array(n);
   for (let j = 0; j < n; j++) sinT[j] = Math.sin((Math.PI * j) / n);
   const z = new Float64Array(2 * n);
   const Z = new Float64Array(2 * n);
-  return (ar, ai, xr, xi) => {
+  return (ar, ai, xr, xi, mr, mi) => {
     z[0] = 0;
     z[1] = 0;
     // y_j and y_{n−j} from the same sum and difference
@@ -300,6 +315,34 @@ export function makeSineTransform(n: number): (ar: Float64Array, ai: Float64Arra
     let oa = 0;
     let ob = 0;
     const half = n >> 1;
+    if (mr && mi) {
+      // the same unpacking, each output multiplied by mr + i·mi as it is written
+      for (let k = 0; k < half; k++) {
+        const k2 = k === 0 ? 0 : n - k;
+        const zr = Z[2 * k];
+        const zi = Z[2 * k + 1];
+        const cr = Z[2 * k2];
+        const ci = -Z[2 * k2 + 1];
+        const yaR = 0.5 * (zr + cr);
+        const yaI = 0.5 * (zi + ci);
+        const ybR = 0.5 * (zi - ci);
+        const ybI = -0.5 * (zr - cr);
+        if (k > 0) {
+          const e = 2 * k;
+          xr[e] = -yaI * mr[e] + ybI * mi[e];
+          xi[e] = -yaI * mi[e] - ybI * mr[e];
+          oa += yaR;
+          ob += ybR;
+        } else {
+          oa = 0.5 * yaR;
+          ob = 0.5 * ybR;
+        }
+        const o = 2 * k + 1;
+        xr[o] = oa * mr[o] - ob * mi[o];
+        xi[o] = oa * mi[o] + ob * mr[o];
+      }
+      return;
+    }
     for (let k = 0; k < half; k++) {
       const k2 = k === 0 ? 0 : n - k;
       const zr = Z[2 * k];
