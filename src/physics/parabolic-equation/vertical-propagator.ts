@@ -153,6 +153,7 @@ export function makeVerticalPropagator(o: VerticalPropagatorOptions): (ur: Float
   const wi = new Float64Array(n + 1);
   const twoDz = 2 * dz;
   const fixed = o.boundary.alpha;
+  const rec = { rhoRe: 0, rhoIm: 0, c: twoDz };
   /** the mode's coefficient ⟨ρ^j, u⟩/⟨ρ^j, ρ^j⟩ (bilinear form Σ', weight ½ at j = 0), into proj */
   const proj = { re: 0, im: 0 };
   const project = (m: ModeSetup, ur: Float64Array, ui: Float64Array): void => {
@@ -192,22 +193,12 @@ export function makeVerticalPropagator(o: VerticalPropagatorOptions): (ur: Float
     wi[0] = 0;
     wr[n] = 0;
     wi[n] = 0;
-    sinePropagate(wr, wi);
-    // v (kept in wr/wi, shifted: wr[j] holds v_j), forward from v_1 = 0
-    let vr = 0;
-    let vi = 0;
-    for (let j = 1; j < n; j++) {
-      const w2r = twoDz * wr[j];
-      const w2i = twoDz * wi[j];
-      wr[j] = vr;
-      wi[j] = vi;
-      const nvr = rr * vr - ri * vi + w2r;
-      const nvi = rr * vi + ri * vr + w2i;
-      vr = nvr;
-      vi = nvi;
-    }
-    wr[n] = vr;
-    wi[n] = vi;
+    // w propagated by the sine transform, and v (in wr/wi: wr[j] holds v_j) by the forward
+    // recursion v_{j+1} = ρ·v_j + 2Δz·w_j from v_1 = 0, run as the inverse transform is unpacked
+    sine!(wr, wi, sr, si, sPr, sPi);
+    rec.rhoRe = rr;
+    rec.rhoIm = ri;
+    sine!(sr, si, wr, wi, undefined, undefined, rec);
     // u backward from u_n = 0
     ur[n] = 0;
     ui[n] = 0;
@@ -288,15 +279,18 @@ function modeSetup(alpha: Complex, n: number, dz: number, dx: number, k: number,
  * complex sequence and separated by Y_a = (Z_k + Z̄_{n−k})/2, Y_b = (Z_k − Z̄_{n−k})/(2i).
  * @returns dst(ar, ai, xr, xi, mr?, mi?): xr, xi[1..n−1] ← the transforms of ar, ai[1..n−1]
  *   (as one complex sequence X_k = A_k + i·B_k), multiplied by mr + i·mi when given (a
- *   propagator applied as the transform is unpacked: one pass over the spectrum less)
+ *   propagator applied as the transform is unpacked: one pass over the spectrum less); or,
+ *   when `rec` is given (and mr, mi are not), the first-order recursion v_1 = 0,
+ *   v_{j+1} = ρ·v_j + c·X_j run over the output as it is unpacked, xr, xi[j] ← v_j for
+ *   j = 1..n (the mixed transform's forward recursion, without a pass of its own)
  */
-export function makeSineTransform(n: number): (ar: Float64Array, ai: Float64Array, xr: Float64Array, xi: Float64Array, mr?: Float64Array, mi?: Float64Array) => void {
+export function makeSineTransform(n: number): (ar: Float64Array, ai: Float64Array, xr: Float64Array, xi: Float64Array, mr?: Float64Array, mi?: Float64Array, rec?: { rhoRe: number; rhoIm: number; c: number }) => void {
   const fft = new FFT(n);
   const sinT = new Float64Array(n);
   for (let j = 0; j < n; j++) sinT[j] = Math.sin((Math.PI * j) / n);
   const z = new Float64Array(2 * n);
   const Z = new Float64Array(2 * n);
-  return (ar, ai, xr, xi, mr, mi) => {
+  return (ar, ai, xr, xi, mr, mi, rec) => {
     z[0] = 0;
     z[1] = 0;
     // y_j and y_{n−j} from the same sum and difference
@@ -341,6 +335,47 @@ export function makeSineTransform(n: number): (ar: Float64Array, ai: Float64Arra
         xr[o] = oa * mr[o] - ob * mi[o];
         xi[o] = oa * mi[o] + ob * mr[o];
       }
+      return;
+    }
+    if (rec) {
+      // the same unpacking, the output fed to the recursion as it is written
+      const rr = rec.rhoRe;
+      const ri = rec.rhoIm;
+      const c = rec.c;
+      let vr = 0;
+      let vi = 0;
+      for (let k = 0; k < half; k++) {
+        const k2 = k === 0 ? 0 : n - k;
+        const zr = Z[2 * k];
+        const zi = Z[2 * k + 1];
+        const cr = Z[2 * k2];
+        const ci = -Z[2 * k2 + 1];
+        const yaR = 0.5 * (zr + cr);
+        const yaI = 0.5 * (zi + ci);
+        const ybR = 0.5 * (zi - ci);
+        const ybI = -0.5 * (zr - cr);
+        if (k > 0) {
+          const e = 2 * k;
+          xr[e] = vr;
+          xi[e] = vi;
+          const nvr = rr * vr - ri * vi - c * yaI;
+          vi = rr * vi + ri * vr - c * ybI;
+          vr = nvr;
+          oa += yaR;
+          ob += ybR;
+        } else {
+          oa = 0.5 * yaR;
+          ob = 0.5 * ybR;
+        }
+        const o = 2 * k + 1;
+        xr[o] = vr;
+        xi[o] = vi;
+        const nvr = rr * vr - ri * vi + c * oa;
+        vi = rr * vi + ri * vr + c * ob;
+        vr = nvr;
+      }
+      xr[n] = vr;
+      xi[n] = vi;
       return;
     }
     for (let k = 0; k < half; k++) {
