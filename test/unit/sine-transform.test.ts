@@ -35,3 +35,60 @@ describe("sine transform (DST-I) by a half-size FFT", () => {
     );
   });
 });
+
+describe("sine transform with a spectral factor applied as it is unpacked", () => {
+  it.each([4, 16, 256])("n = %i: equals the transform (A + iB) times m, within 1e-12 of the scale", (n) => {
+    fc.assert(
+      fc.property(fc.array(fc.double({ min: -1, max: 1, noNaN: true }), { minLength: 4 * (n + 1), maxLength: 4 * (n + 1) }), (v) => {
+        const ar = Float64Array.from(v.slice(0, n + 1));
+        const ai = Float64Array.from(v.slice(n + 1, 2 * (n + 1)));
+        const mr = Float64Array.from(v.slice(2 * (n + 1), 3 * (n + 1)));
+        const mi = Float64Array.from(v.slice(3 * (n + 1)));
+        const xr = new Float64Array(n + 1);
+        const xi = new Float64Array(n + 1);
+        makeSineTransform(n)(ar, ai, xr, xi, mr, mi);
+        const er = direct(ar, n);
+        const ei = direct(ai, n);
+        for (let k = 1; k < n; k++) {
+          expect(Math.abs(xr[k] - (er[k] * mr[k] - ei[k] * mi[k]))).toBeLessThan(2e-12 * n);
+          expect(Math.abs(xi[k] - (er[k] * mi[k] + ei[k] * mr[k]))).toBeLessThan(2e-12 * n);
+        }
+      }),
+      { numRuns: 20 },
+    );
+  });
+});
+
+describe("sine transform with the mixed transform's forward recursion run as it is unpacked", () => {
+  it.each([4, 16, 256])("n = %i: v_1 = 0, v_{j+1} = ρ·v_j + c·X_j over the direct sum, within 1e-12 of the scale", (n) => {
+    fc.assert(
+      fc.property(
+        fc.array(fc.double({ min: -1, max: 1, noNaN: true }), { minLength: 2 * (n + 1), maxLength: 2 * (n + 1) }),
+        fc.double({ min: -0.9, max: 0.9, noNaN: true }),
+        fc.double({ min: -0.4, max: 0.4, noNaN: true }),
+        (v, rhoRe, rhoIm) => {
+          const ar = Float64Array.from(v.slice(0, n + 1));
+          const ai = Float64Array.from(v.slice(n + 1));
+          const xr = new Float64Array(n + 1);
+          const xi = new Float64Array(n + 1);
+          const c = 0.3;
+          makeSineTransform(n)(ar, ai, xr, xi, undefined, undefined, { rhoRe, rhoIm, c });
+          const er = direct(ar, n);
+          const ei = direct(ai, n);
+          let vr = 0;
+          let vi = 0;
+          for (let j = 1; j <= n; j++) {
+            expect(Math.abs(xr[j] - vr)).toBeLessThan(1e-12 * n);
+            expect(Math.abs(xi[j] - vi)).toBeLessThan(1e-12 * n);
+            if (j < n) {
+              const nr = rhoRe * vr - rhoIm * vi + c * er[j];
+              vi = rhoRe * vi + rhoIm * vr + c * ei[j];
+              vr = nr;
+            }
+          }
+        },
+      ),
+      { numRuns: 20 },
+    );
+  });
+});

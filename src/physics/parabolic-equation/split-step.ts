@@ -247,8 +247,11 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
   });
   // the field array starts at the ground (row 0 at the transmitter); the source at its height
   let b = bf[0];
-  const ur = new Float64Array(N + 1);
-  const ui = new Float64Array(N + 1);
+  // the field array is a view of N + 1 cells into a larger buffer: moving the array up or down
+  // with the ground (shiftField before) moves the view and clears only the cells it uncovers
+  const field2 = new FieldWindow(N + 1);
+  let ur = field2.re;
+  let ui = field2.im;
   const sigma = gaussianSourceSigmaM(beam, k);
   const p0 = k * Math.sin(aim);
   const zs = zT - b;
@@ -286,55 +289,51 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
     const r = Math.hypot(x, b + zRel - zT);
     return 20 * Math.log10(amp / gaussianAxisAmplitude(r, sigma, k)); // F relative to free space on the beam axis
   };
-  let slope = 0;
   // q: the row of the array's first cell (the ground's row, or the lower of two neighbouring
   // planes' rows); array cell j is (j + q)·Δz above the floor
   let q = 0;
+  // the floor's slope over range step i: the frame (shift map) tilts the field by
+  // exp(−ik·Δs·z') where it changes, so that in the frame angles are measured from the local
+  // ground; the impedance condition on the normal derivative, ∂u/∂z − s·∂u/∂x ≈ ∂u/∂z − ik·s·u,
+  // is then ∂v/∂z' + αv = 0 unchanged
+  const slopeOf = (i: number) => (bf[i] - bf[i - 1]) / dx;
+  // the tilt before the first step (the later ones are applied with the refraction screen)
+  tilt(ur, ui, -k * slopeOf(1) * dz, q, N);
   for (let i = 1; i <= steps; i++) {
     const x = i * dx;
     const bNext = bf[i];
-    // terrain-following frame (shift map): a change of the floor's slope tilts the field,
-    // exp(−ik·Δs·z'), so that in the frame angles are measured from the local ground; the
-    // impedance condition on the normal derivative, ∂u/∂z − s·∂u/∂x ≈ ∂u/∂z − ik·s·u, is then
-    // ∂v/∂z' + αv = 0 unchanged
-    const s = (bNext - b) / dx;
-    if (s !== slope) {
-      const c = -k * (s - slope) * dz;
-      // exp(ic·(j + q)) by recurrence (one rotation per cell instead of a cos and a sin;
-      // rounding drift about N·1e-16, re-seeded every 1024 cells)
-      const er = Math.cos(c);
-      const ei = Math.sin(c);
-      let cr = 0;
-      let ci = 0;
-      for (let j = 0; j <= N; j++) {
-        if ((j & 1023) === 0) {
-          cr = Math.cos(c * (j + q));
-          ci = Math.sin(c * (j + q));
-        }
-        const re = ur[j];
-        ur[j] = re * cr - ui[j] * ci;
-        ui[j] = re * ci + ui[j] * cr;
-        const nr = cr * er - ci * ei;
-        ci = cr * ei + ci * er;
-        cr = nr;
-      }
-      slope = s;
-    }
     step(ur, ui);
+    // one pass over the field: the refraction screen exp(ik·Δx·(m − 1)), the absorbing layer
+    // above the region of interest, and the next step's tilt exp(ic·(j + q)), c = −k·Δs·Δz (by
+    // recurrence: one rotation per cell instead of a cos and a sin; rounding drift about
+    // N·1e-16, re-seeded every 1024 cells)
     const off = Math.round(b / dz) + q - sMin;
     const jA = Math.min(N, Math.max(0, Math.ceil((topAt(d[0] + x - dx) - b) / dz) - q));
-    for (let j = 0; j <= N; j++) {
-      const cr = screenRe[off + j];
-      const ci = screenIm[off + j];
+    const jEnd = Math.min(N + 1, jA + L);
+    const c = i < steps ? -k * (slopeOf(i + 1) - slopeOf(i)) * dz : 0;
+    const er = Math.cos(c);
+    const ei = Math.sin(c);
+    let cr = 1;
+    let ci = 0;
+    for (let j = 0; j < jEnd; j++) {
+      if ((j & 1023) === 0) {
+        cr = Math.cos(c * (j + q));
+        ci = Math.sin(c * (j + q));
+      }
+      const t = j < jA ? 1 : taper[j - jA];
+      const sr = screenRe[off + j];
+      const si = screenIm[off + j];
+      const fr = t * (sr * cr - si * ci);
+      const fi = t * (sr * ci + si * cr);
       const re = ur[j];
-      ur[j] = re * cr - ui[j] * ci;
-      ui[j] = re * ci + ui[j] * cr;
+      ur[j] = re * fr - ui[j] * fi;
+      ui[j] = re * fi + ui[j] * fr;
+      const nr = cr * er - ci * ei;
+      ci = cr * ei + ci * er;
+      cr = nr;
     }
-    for (let j = jA; j <= N; j++) {
-      const t = j - jA < L ? taper[j - jA] : 0;
-      ur[j] *= t;
-      ui[j] *= t;
-    }
+    ur.fill(0, jEnd);
+    ui.fill(0, jEnd);
     // ground above the array's first cell at this plane cuts off the field below it (a
     // Kirchhoff screen); the ground lies on its row, which becomes the array's first cell
     const cut = Math.min(N + 1, row[i] - q);
@@ -344,7 +343,9 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
     }
     // the next step starts at the lower of this plane's and the next plane's ground
     const qNew = i < steps ? Math.min(row[i], row[i + 1]) : row[i];
-    shiftField(ur, ui, qNew - q);
+    field2.shift(qNew - q);
+    ur = field2.re;
+    ui = field2.im;
     q = qNew;
     b = bNext;
     const gx = groundAt(d[0] + x);
@@ -389,19 +390,80 @@ function makeGroundInterpolator(d: ArrayLike<number>, g: ArrayLike<number>): (x:
   };
 }
 
-/** Move the field by `by` cells: a positive shift drops cells at the bottom (zeros there), a negative one adds zero cells below. */
-function shiftField(ur: Float64Array, ui: Float64Array, by: number): void {
-  if (by === 0) return;
-  const n = ur.length;
-  if (by > 0) {
-    ur.copyWithin(0, by);
-    ui.copyWithin(0, by);
-    ur.fill(0, Math.max(0, n - by));
-    ui.fill(0, Math.max(0, n - by));
-  } else {
-    ur.copyWithin(-by, 0, n + by);
-    ui.copyWithin(-by, 0, n + by);
-    ur.fill(0, 0, Math.min(n, -by));
-    ui.fill(0, 0, Math.min(n, -by));
+/** Multiply u[0..n] by exp(ic·(j + q)) (by recurrence, re-seeded every 1024 cells). */
+function tilt(ur: Float64Array, ui: Float64Array, c: number, q: number, n: number): void {
+  if (c === 0) return;
+  const er = Math.cos(c);
+  const ei = Math.sin(c);
+  let cr = 1;
+  let ci = 0;
+  for (let j = 0; j <= n; j++) {
+    if ((j & 1023) === 0) {
+      cr = Math.cos(c * (j + q));
+      ci = Math.sin(c * (j + q));
+    }
+    const re = ur[j];
+    ur[j] = re * cr - ui[j] * ci;
+    ui[j] = re * ci + ui[j] * cr;
+    const nr = cr * er - ci * ei;
+    ci = cr * ei + ci * er;
+    cr = nr;
+  }
+}
+
+/**
+ * The field array (real and imaginary parts, `length` cells) as a window into buffers with
+ * room on both sides: shift(by) moves the window by `by` cells (positive: the bottom cells are
+ * dropped and zero cells appear at the top; negative: zero cells are added below), clearing
+ * only the cells it uncovers, and copies the window back to the middle only when it reaches
+ * an end of the buffers.
+ */
+class FieldWindow {
+  re: Float64Array;
+  im: Float64Array;
+  private readonly bufRe: Float64Array;
+  private readonly bufIm: Float64Array;
+  private start: number;
+  private readonly slack: number;
+  constructor(private readonly length: number) {
+    this.slack = Math.max(64, length);
+    this.bufRe = new Float64Array(length + 2 * this.slack);
+    this.bufIm = new Float64Array(length + 2 * this.slack);
+    this.start = this.slack;
+    this.re = this.bufRe.subarray(this.start, this.start + length);
+    this.im = this.bufIm.subarray(this.start, this.start + length);
+  }
+  shift(by: number): void {
+    if (by === 0) return;
+    const n = this.length;
+    if (Math.abs(by) >= n) {
+      this.re.fill(0);
+      this.im.fill(0);
+      return;
+    }
+    let s = this.start + by;
+    if (s < 0 || s + n > this.bufRe.length) {
+      // back to the middle: the cells that stay in the window, copied
+      const keepFrom = Math.max(0, by);
+      const keepTo = Math.min(n, n + by);
+      const to = this.slack + keepFrom - by;
+      this.bufRe.copyWithin(to, this.start + keepFrom, this.start + keepTo);
+      this.bufIm.copyWithin(to, this.start + keepFrom, this.start + keepTo);
+      s = this.slack;
+      // everything else in the new window is cleared below
+      this.bufRe.fill(0, s, to);
+      this.bufIm.fill(0, s, to);
+      this.bufRe.fill(0, to + keepTo - keepFrom, s + n);
+      this.bufIm.fill(0, to + keepTo - keepFrom, s + n);
+    } else if (by > 0) {
+      this.bufRe.fill(0, this.start + n, s + n);
+      this.bufIm.fill(0, this.start + n, s + n);
+    } else {
+      this.bufRe.fill(0, s, this.start);
+      this.bufIm.fill(0, s, this.start);
+    }
+    this.start = s;
+    this.re = this.bufRe.subarray(s, s + n);
+    this.im = this.bufIm.subarray(s, s + n);
   }
 }

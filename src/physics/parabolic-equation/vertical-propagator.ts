@@ -47,7 +47,11 @@ export interface VerticalPropagatorOptions {
  *   projection c = ⟨ρ^j, u⟩/⟨ρ^j, ρ^j⟩ with the bilinear form Σ' (weight ½ at j = 0) under
  *   which the discrete operator is symmetric.
  * Above SPECTRAL_FILTER_FROM of the band (or of p_limit_rad_m) the spectrum is tapered away
- * (an absorber in angle).
+ * (an absorber in angle); the surface mode too, at its own vertical wavenumber Re √(−λd): when
+ * |α|·Δz < π (a vertically polarised ground whose Brewster angle, sin ψB ≈ |α|/k, lies inside
+ * the band) the mode is the Brewster-angle pseudo-mode at the band's edge, and carried
+ * unfiltered it grew on a rough staircase (a UHF link on a grid refined to Δz = 0.32 m: −855 dB;
+ * test/unit/parabolic-equation-surface-mode.test.ts).
  * The sine transforms take one complex FFT of n points for the field's real and imaginary
  * parts together (makeSineTransform; half the work of the odd extension to 2n points, which a
  * first version transformed); the cosine transform, a complex FFT (fft.js) of the even
@@ -68,12 +72,16 @@ export function makeVerticalPropagator(o: VerticalPropagatorOptions): (ur: Float
   const pr = new Float64Array(m2);
   const pi = new Float64Array(m2);
   const pLimit = Math.min(o.p_limit_rad_m ?? Infinity, Math.PI / dz);
+  /** the angular filter's factor for vertical wavenumber p (rad/m) */
+  const filterAt = (p: number): number => {
+    const t = Math.abs(p) / pLimit; // |p| / p_max
+    const filter = t <= SPECTRAL_FILTER_FROM ? 1 : t >= 1 ? 0 : 0.5 * (1 + Math.cos((Math.PI * (t - SPECTRAL_FILTER_FROM)) / (1 - SPECTRAL_FILTER_FROM)));
+    return filter ** (o.filter_exponent ?? 1);
+  };
   for (let q = 0; q < m2; q++) {
     const p = (Math.PI * (q <= n ? q : q - m2)) / (n * dz);
     const ph = p >= k || p <= -k ? 0 : (dx * -(p * p)) / (Math.sqrt(k * k - p * p) + k); // Feit–Fleck: Δx·(√(k² − p²) − k), cancellation-free
-    const t = Math.abs(p) / pLimit; // |p| / p_max
-    const filter = t <= SPECTRAL_FILTER_FROM ? 1 : t >= 1 ? 0 : 0.5 * (1 + Math.cos((Math.PI * (t - SPECTRAL_FILTER_FROM)) / (1 - SPECTRAL_FILTER_FROM)));
-    const f = filter ** (o.filter_exponent ?? 1);
+    const f = filterAt(p);
     pr[q] = f * Math.cos(ph);
     pi[q] = f * Math.sin(ph);
   }
@@ -97,13 +105,7 @@ export function makeVerticalPropagator(o: VerticalPropagatorOptions): (ur: Float
   const sPi = Float64Array.from(pi.subarray(0, n), (v) => (2 / n) * v);
   /** (ar + i·ai)[1..n−1] ← propagate by the sine transform (values at 0 and n taken as 0). */
   const sinePropagate = (ar: Float64Array, ai: Float64Array) => {
-    sine!(ar, ai, sr, si);
-    for (let q = 1; q < n; q++) {
-      const re = sr[q];
-      const im = si[q];
-      sr[q] = re * sPr[q] - im * sPi[q];
-      si[q] = re * sPi[q] + im * sPr[q];
-    }
+    sine!(ar, ai, sr, si, sPr, sPi); // the propagator applied as the transform is unpacked
     sine!(sr, si, ar, ai);
   };
   if (o.boundary.kind === "dirichlet") {
@@ -141,7 +143,7 @@ export function makeVerticalPropagator(o: VerticalPropagatorOptions): (ur: Float
     const key = `${alpha.re.toPrecision(7)},${alpha.im.toPrecision(7)}`;
     let m = setups.get(key);
     if (!m) {
-      m = modeSetup(alpha, n, dz, dx, k);
+      m = modeSetup(alpha, n, dz, dx, k, filterAt);
       if (setups.size > 256) setups.clear();
       setups.set(key, m);
     }
@@ -151,59 +153,69 @@ export function makeVerticalPropagator(o: VerticalPropagatorOptions): (ur: Float
   const wi = new Float64Array(n + 1);
   const twoDz = 2 * dz;
   const fixed = o.boundary.alpha;
+  const rec = { rhoRe: 0, rhoIm: 0, c: twoDz };
+  /** the mode's coefficient ⟨ρ^j, u⟩/⟨ρ^j, ρ^j⟩ (bilinear form Σ', weight ½ at j = 0), into proj */
+  const proj = { re: 0, im: 0 };
+  const project = (m: ModeSetup, ur: Float64Array, ui: Float64Array): void => {
+    const { powRe, powIm, J, nr, ni } = m;
+    let sr = 0.5 * ur[0];
+    let si = 0.5 * ui[0];
+    for (let j = 1; j < J; j++) {
+      sr += powRe[j] * ur[j] - powIm[j] * ui[j];
+      si += powRe[j] * ui[j] + powIm[j] * ur[j];
+    }
+    const d2 = nr * nr + ni * ni;
+    proj.re = (sr * nr + si * ni) / d2;
+    proj.im = (si * nr - sr * ni) / d2;
+  };
   return (ur, ui, alphaNow) => {
     const alpha = alphaNow ?? fixed;
-    const { rho, powRe, powIm, J, nr, ni, modeRe, modeIm } = setupFor(alpha);
-    const project = (ur: Float64Array, ui: Float64Array) => {
-      let sr = 0.5 * ur[0];
-      let si = 0.5 * ui[0];
-      for (let j = 1; j < J; j++) {
-        sr += powRe[j] * ur[j] - powIm[j] * ui[j];
-        si += powRe[j] * ui[j] + powIm[j] * ur[j];
-      }
-      const d2 = nr * nr + ni * ni;
-      return { re: (sr * nr + si * ni) / d2, im: (si * nr - sr * ni) / d2 };
-    };
+    const setup = setupFor(alpha);
+    const { powRe, powIm, J, modeRe, modeIm } = setup;
+    // scalars in locals: the loops below are the closure's whole cost
+    const rr = setup.rho.re;
+    const ri = setup.rho.im;
+    const ar = alpha.re;
+    const ai = alpha.im;
+    const h = 1 / twoDz;
     ur[n] = 0;
     ui[n] = 0;
-    const c = project(ur, ui);
+    project(setup, ur, ui);
+    const cRe = proj.re;
+    const cIm = proj.im;
     for (let j = 1; j < n; j++) {
-      wr[j] = (ur[j + 1] - ur[j - 1]) / twoDz + alpha.re * ur[j] - alpha.im * ui[j];
-      wi[j] = (ui[j + 1] - ui[j - 1]) / twoDz + alpha.re * ui[j] + alpha.im * ur[j];
+      const u = ur[j];
+      const v = ui[j];
+      wr[j] = (ur[j + 1] - ur[j - 1]) * h + ar * u - ai * v;
+      wi[j] = (ui[j + 1] - ui[j - 1]) * h + ar * v + ai * u;
     }
     wr[0] = 0;
     wi[0] = 0;
     wr[n] = 0;
     wi[n] = 0;
-    sinePropagate(wr, wi);
-    // v (kept in wr/wi, shifted: wr[j] holds v_j), forward from v_1 = 0
-    let vr = 0;
-    let vi = 0;
-    for (let j = 1; j < n; j++) {
-      const w2r = twoDz * wr[j];
-      const w2i = twoDz * wi[j];
-      wr[j] = vr;
-      wi[j] = vi;
-      const nvr = rho.re * vr - rho.im * vi + w2r;
-      const nvi = rho.re * vi + rho.im * vr + w2i;
-      vr = nvr;
-      vi = nvi;
-    }
-    wr[n] = vr;
-    wi[n] = vi;
+    // w propagated by the sine transform, and v (in wr/wi: wr[j] holds v_j) by the forward
+    // recursion v_{j+1} = ρ·v_j + 2Δz·w_j from v_1 = 0, run as the inverse transform is unpacked
+    sine!(wr, wi, sr, si, sPr, sPi);
+    rec.rhoRe = rr;
+    rec.rhoIm = ri;
+    sine!(sr, si, wr, wi, undefined, undefined, rec);
     // u backward from u_n = 0
     ur[n] = 0;
     ui[n] = 0;
+    let ur1 = 0;
+    let ui1 = 0;
     for (let j = n; j >= 1; j--) {
-      const dr = wr[j] - ur[j];
-      const di = wi[j] - ui[j];
-      ur[j - 1] = rho.re * dr - rho.im * di;
-      ui[j - 1] = rho.re * di + rho.im * dr;
+      const dr = wr[j] - ur1;
+      const di = wi[j] - ui1;
+      ur1 = rr * dr - ri * di;
+      ui1 = rr * di + ri * dr;
+      ur[j - 1] = ur1;
+      ui[j - 1] = ui1;
     }
     // the mode: propagated coefficient minus what the particular solution already holds
-    const cp = project(ur, ui);
-    const tr = c.re * modeRe - c.im * modeIm - cp.re;
-    const ti = c.re * modeIm + c.im * modeRe - cp.im;
+    project(setup, ur, ui);
+    const tr = cRe * modeRe - cIm * modeIm - proj.re;
+    const ti = cRe * modeIm + cIm * modeRe - proj.im;
     for (let j = 0; j < J; j++) {
       ur[j] += tr * powRe[j] - ti * powIm[j];
       ui[j] += tr * powIm[j] + ti * powRe[j];
@@ -225,7 +237,7 @@ interface ModeSetup {
 }
 
 /** The discrete mode of the mixed transform for one α: ρ, its powers, norm and propagator. */
-function modeSetup(alpha: Complex, n: number, dz: number, dx: number, k: number): ModeSetup {
+function modeSetup(alpha: Complex, n: number, dz: number, dx: number, k: number, filterAt: (p: number) => number): ModeSetup {
   const a = { re: alpha.re * dz, im: alpha.im * dz };
   const root = csqrt({ re: 1 + a.re * a.re - a.im * a.im, im: 2 * a.re * a.im });
   let rho = { re: -a.re + root.re, im: -a.im + root.im };
@@ -250,7 +262,9 @@ function modeSetup(alpha: Complex, n: number, dz: number, dx: number, k: number)
   const lamIm = (rho.im - rho.im * inv) / (dz * dz);
   let kz = csqrt({ re: k * k + lamRe, im: lamIm });
   if (kz.im < 0) kz = { re: -kz.re, im: -kz.im };
-  const decay = Math.exp(-dx * kz.im);
+  // the angular filter at the mode's vertical wavenumber p = Re √(−λd)
+  const pm = csqrt({ re: -lamRe, im: -lamIm });
+  const decay = Math.exp(-dx * kz.im) * filterAt(pm.re);
   return { rho, powRe, powIm, J: powRe.length, nr, ni, modeRe: decay * Math.cos(dx * (kz.re - k)), modeIm: decay * Math.sin(dx * (kz.re - k)) };
 }
 
@@ -263,15 +277,20 @@ function modeSetup(alpha: Complex, n: number, dz: number, dx: number, k: number)
  * sine transforms, e.g. W. H. Press et al., Numerical Recipes, §12.3 — from memory, derived
  * afresh here). The two real sequences are packed as the real and imaginary parts of one
  * complex sequence and separated by Y_a = (Z_k + Z̄_{n−k})/2, Y_b = (Z_k − Z̄_{n−k})/(2i).
- * @returns dst(ar, ai, xr, xi): xr, xi[1..n−1] ← the transforms of ar, ai[1..n−1]
+ * @returns dst(ar, ai, xr, xi, mr?, mi?): xr, xi[1..n−1] ← the transforms of ar, ai[1..n−1]
+ *   (as one complex sequence X_k = A_k + i·B_k), multiplied by mr + i·mi when given (a
+ *   propagator applied as the transform is unpacked: one pass over the spectrum less); or,
+ *   when `rec` is given (and mr, mi are not), the first-order recursion v_1 = 0,
+ *   v_{j+1} = ρ·v_j + c·X_j run over the output as it is unpacked, xr, xi[j] ← v_j for
+ *   j = 1..n (the mixed transform's forward recursion, without a pass of its own)
  */
-export function makeSineTransform(n: number): (ar: Float64Array, ai: Float64Array, xr: Float64Array, xi: Float64Array) => void {
+export function makeSineTransform(n: number): (ar: Float64Array, ai: Float64Array, xr: Float64Array, xi: Float64Array, mr?: Float64Array, mi?: Float64Array, rec?: { rhoRe: number; rhoIm: number; c: number }) => void {
   const fft = new FFT(n);
   const sinT = new Float64Array(n);
   for (let j = 0; j < n; j++) sinT[j] = Math.sin((Math.PI * j) / n);
   const z = new Float64Array(2 * n);
   const Z = new Float64Array(2 * n);
-  return (ar, ai, xr, xi) => {
+  return (ar, ai, xr, xi, mr, mi, rec) => {
     z[0] = 0;
     z[1] = 0;
     // y_j and y_{n−j} from the same sum and difference
@@ -290,6 +309,75 @@ export function makeSineTransform(n: number): (ar: Float64Array, ai: Float64Arra
     let oa = 0;
     let ob = 0;
     const half = n >> 1;
+    if (mr && mi) {
+      // the same unpacking, each output multiplied by mr + i·mi as it is written
+      for (let k = 0; k < half; k++) {
+        const k2 = k === 0 ? 0 : n - k;
+        const zr = Z[2 * k];
+        const zi = Z[2 * k + 1];
+        const cr = Z[2 * k2];
+        const ci = -Z[2 * k2 + 1];
+        const yaR = 0.5 * (zr + cr);
+        const yaI = 0.5 * (zi + ci);
+        const ybR = 0.5 * (zi - ci);
+        const ybI = -0.5 * (zr - cr);
+        if (k > 0) {
+          const e = 2 * k;
+          xr[e] = -yaI * mr[e] + ybI * mi[e];
+          xi[e] = -yaI * mi[e] - ybI * mr[e];
+          oa += yaR;
+          ob += ybR;
+        } else {
+          oa = 0.5 * yaR;
+          ob = 0.5 * ybR;
+        }
+        const o = 2 * k + 1;
+        xr[o] = oa * mr[o] - ob * mi[o];
+        xi[o] = oa * mi[o] + ob * mr[o];
+      }
+      return;
+    }
+    if (rec) {
+      // the same unpacking, the output fed to the recursion as it is written
+      const rr = rec.rhoRe;
+      const ri = rec.rhoIm;
+      const c = rec.c;
+      let vr = 0;
+      let vi = 0;
+      for (let k = 0; k < half; k++) {
+        const k2 = k === 0 ? 0 : n - k;
+        const zr = Z[2 * k];
+        const zi = Z[2 * k + 1];
+        const cr = Z[2 * k2];
+        const ci = -Z[2 * k2 + 1];
+        const yaR = 0.5 * (zr + cr);
+        const yaI = 0.5 * (zi + ci);
+        const ybR = 0.5 * (zi - ci);
+        const ybI = -0.5 * (zr - cr);
+        if (k > 0) {
+          const e = 2 * k;
+          xr[e] = vr;
+          xi[e] = vi;
+          const nvr = rr * vr - ri * vi - c * yaI;
+          vi = rr * vi + ri * vr - c * ybI;
+          vr = nvr;
+          oa += yaR;
+          ob += ybR;
+        } else {
+          oa = 0.5 * yaR;
+          ob = 0.5 * ybR;
+        }
+        const o = 2 * k + 1;
+        xr[o] = vr;
+        xi[o] = vi;
+        const nvr = rr * vr - ri * vi + c * oa;
+        vi = rr * vi + ri * vr + c * ob;
+        vr = nvr;
+      }
+      xr[n] = vr;
+      xi[n] = vi;
+      return;
+    }
     for (let k = 0; k < half; k++) {
       const k2 = k === 0 ? 0 : n - k;
       const zr = Z[2 * k];
