@@ -8,6 +8,7 @@ import { queueIdentity } from "./identity.ts";
 import { planStudy } from "./plan-tasks.ts";
 import type { RedisTarget } from "./redis-url.ts";
 import { deleteChunked, getChunked, KEY_PREFIX, putChunked, resultKey, studyKey } from "./result-store.ts";
+import { trace } from "./trace.ts";
 import { QUEUE_NAME, taskEntries, taskJobId, type TaskData, type TaskResult } from "./task.ts";
 
 /** Attempts of a task before the build fails (BullMQ retries a failed task, on any worker). */
@@ -54,6 +55,7 @@ export function progressLine(p: Progress): string {
  * @throws QueueConnectionError when Redis cannot be used, QueueTaskError when a task fails for good
  */
 export async function distributeStudies(studies: Study[], cache: ResultCache, target: RedisTarget, o: { log?: (line: string, final: boolean) => void } = {}): Promise<QueueReport> {
+  trace("coord", "begin");
   const identity = queueIdentity();
   const plans = studies.map((s) => planStudy(s, cache, identity));
   const tasks = plans.flatMap((p) => p.tasks);
@@ -78,6 +80,7 @@ export async function distributeStudies(studies: Study[], cache: ResultCache, ta
     return report;
   }
   const t0 = performance.now();
+  trace("coord", "planned");
   const connection = redisOptions(target) as ConnectionOptions; // ioredis options; BullMQ opens its own connections with them
   const queue = new Queue<TaskData, TaskResult>(QUEUE_NAME, { connection, prefix: KEY_PREFIX });
   const events = new QueueEvents(QUEUE_NAME, { connection, prefix: KEY_PREFIX });
@@ -96,7 +99,8 @@ export async function distributeStudies(studies: Study[], cache: ResultCache, ta
       if (bytes) local.push([resultKey("coverage-tile", key), bytes]);
     }
     if (local.length) await putChunked(redis, local);
-    await queue.add(m.task.kind, m.task, { ...jobOptions(mapId), lifo: true }); // next: a worker still holds the map's elevations
+    await queue.add(m.task.kind, m.task, { ...jobOptions(mapId), lifo: true });
+    trace("coord", `added ${mapId}`); // next: a worker still holds the map's elevations
   };
   let fail: (e: unknown) => void = () => {};
   const p: Progress = { done: 0, failed: 0, total: byId.size, running: new Map(), perWorker: new Map() };
@@ -111,8 +115,8 @@ export async function distributeStudies(studies: Study[], cache: ResultCache, ta
   const refusals = new Set<string>();
   const fetching: Promise<void>[] = [];
   try {
-    await events.waitUntilReady();
-    await putChunked(redis, plans.filter((plan) => plan.tasks.length || plan.maps.length).map((plan) => [studyKey(plan.sha), plan.bytes] as const));
+    await Promise.all([events.waitUntilReady(), putChunked(redis, plans.filter((plan) => plan.tasks.length || plan.maps.length).map((plan) => [studyKey(plan.sha), plan.bytes] as const))]);
+    trace("coord", "events-ready");
     const finished = new Promise<void>((resolve, reject) => {
       fail = reject;
       const pending = new Set(byId.keys());
@@ -134,6 +138,7 @@ export async function distributeStudies(studies: Study[], cache: ResultCache, ta
       events.on("completed", ({ jobId, returnvalue }) => {
         const task = byId.get(jobId);
         if (!task || !pending.has(jobId)) return;
+        trace("coord", `completed ${jobId}`);
         const r = (typeof returnvalue === "string" ? JSON.parse(returnvalue) : returnvalue) as TaskResult;
         p.running.delete(jobId);
         p.done++;
@@ -167,8 +172,10 @@ export async function distributeStudies(studies: Study[], cache: ResultCache, ta
     finished.catch(() => {}); // handled below
     await queue.addBulk([...byId].filter(([jobId]) => !maps.has(jobId)).map(([jobId, t]) => ({ name: t.kind, data: t, opts: jobOptions(jobId) })));
     for (const [mapId, m] of maps) if (m.waiting.size === 0) await startMap(mapId).catch(fail);
+    trace("coord", "queued");
     log(`queue: ${byId.size} task${byId.size === 1 ? "" : "s"} queued on ${target.display}`, true);
     await finished;
+    trace("coord", "finished");
     show(true);
     report.wall_s = (performance.now() - t0) / 1000;
     return report;
@@ -178,10 +185,12 @@ export async function distributeStudies(studies: Study[], cache: ResultCache, ta
     throw e;
   } finally {
     await Promise.allSettled(fetching);
-    for (const plan of plans) if (plan.tasks.length || plan.maps.length) await deleteChunked(redis, studyKey(plan.sha)).catch(() => {});
-    for (const key of new Set([...tileKeysQueued, ...tileKeysInRedis])) await deleteChunked(redis, resultKey("coverage-tile", key)).catch(() => {});
+    const leftovers = [...plans.filter((plan) => plan.tasks.length || plan.maps.length).map((plan) => studyKey(plan.sha)), ...[...new Set([...tileKeysQueued, ...tileKeysInRedis])].map((key) => resultKey("coverage-tile", key))];
+    await deleteChunked(redis, leftovers).catch(() => {});
+    trace("coord", "deleted");
     await Promise.allSettled([events.close(), queue.close()]);
     redis.disconnect();
+    trace("coord", "closed");
   }
 }
 
@@ -202,4 +211,5 @@ async function fetchResults(redis: Redis, cache: ResultCache, task: TaskData, re
     }
   }
   report.fetch_s += (performance.now() - t0) / 1000;
+  trace("coord", `fetched ${taskJobId(task.kind, task.keys)}`);
 }
