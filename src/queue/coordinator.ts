@@ -28,6 +28,12 @@ export interface QueueReport {
   wall_s: number;
   /** seconds spent fetching results from Redis into the local cache */
   fetch_s: number;
+  /**
+   * Where the time went (ms since the epoch; the workers' own clocks for their tasks): when the
+   * coordinator began (before planning), when its tasks were on the queue, and each task as
+   * its worker reported it, in the order they completed.
+   */
+  timeline: { began_at_ms: number; queued_at_ms: number; tasks: { kind: TaskData["kind"]; worker: string; compute_s: number; store_s: number; started_at_ms: number; stored_at_ms: number }[] };
 }
 
 interface Progress {
@@ -56,11 +62,14 @@ export function progressLine(p: Progress): string {
  */
 export async function distributeStudies(studies: Study[], cache: ResultCache, target: RedisTarget, o: { log?: (line: string, final: boolean) => void } = {}): Promise<QueueReport> {
   trace("coord", "begin");
+  const began_at_ms = performance.timeOrigin + performance.now();
   const identity = queueIdentity();
   const plans = studies.map((s) => planStudy(s, cache, identity));
   const tasks = plans.flatMap((p) => p.tasks);
-  const report: QueueReport = { tasks: tasks.length, entries: 0, workers: {}, wall_s: 0, fetch_s: 0 };
+  trace("coord", "plans");
+  const report: QueueReport = { tasks: tasks.length, entries: 0, workers: {}, wall_s: 0, fetch_s: 0, timeline: { began_at_ms, queued_at_ms: NaN, tasks: [] } };
   const redis = await connectRedis(target);
+  trace("coord", "connected");
   const byId = new Map(tasks.map((t) => [taskJobId(t.kind, t.keys), t])); // two studies may share a task
   // Each map's assembly waits for its tiles: queued when the last of them is done.
   const maps = new Map<string, { task: TaskData; waiting: Set<string> }>();
@@ -146,6 +155,7 @@ export async function distributeStudies(studies: Study[], cache: ResultCache, ta
         w.done++;
         w.compute_s += r.compute_s;
         w.store_s += r.store_s;
+        report.timeline.tasks.push({ kind: task.kind, worker: r.worker, compute_s: r.compute_s, store_s: r.store_s, started_at_ms: r.started_at_ms ?? NaN, stored_at_ms: r.stored_at_ms ?? NaN });
         const pw = p.perWorker.get(r.worker) ?? { done: 0, running: 0 };
         pw.done++;
         p.perWorker.set(r.worker, pw);
@@ -173,6 +183,7 @@ export async function distributeStudies(studies: Study[], cache: ResultCache, ta
     await queue.addBulk([...byId].filter(([jobId]) => !maps.has(jobId)).map(([jobId, t]) => ({ name: t.kind, data: t, opts: jobOptions(jobId) })));
     for (const [mapId, m] of maps) if (m.waiting.size === 0) await startMap(mapId).catch(fail);
     trace("coord", "queued");
+    report.timeline.queued_at_ms = performance.timeOrigin + performance.now();
     log(`queue: ${byId.size} task${byId.size === 1 ? "" : "s"} queued on ${target.display}`, true);
     await finished;
     trace("coord", "finished");

@@ -67,7 +67,8 @@ export async function runWorker(target: RedisTarget, o: WorkerOptions): Promise<
       const t2 = performance.now();
       trace(o.name, `stored ${job.id}`);
       o.log(`ridgeline worker ${o.name}: done "${t.label}" in ${((t2 - t0) / 1000).toFixed(2)} s`);
-      return { worker: o.name, entries: [...entries.keys()].map((id) => ({ kind: id.slice(0, id.indexOf(":")), key: id.slice(id.indexOf(":") + 1) })), compute_s: (t1 - t0) / 1000, store_s: (t2 - t1) / 1000 };
+      const epoch = (t: number) => Math.round((performance.timeOrigin + t) * 10) / 10;
+      return { worker: o.name, entries: [...entries.keys()].map((id) => ({ kind: id.slice(0, id.indexOf(":")), key: id.slice(id.indexOf(":") + 1) })), compute_s: (t1 - t0) / 1000, store_s: (t2 - t1) / 1000, started_at_ms: epoch(t0), stored_at_ms: epoch(t2) };
     } catch (e) {
       const m = (e as Error)?.message ?? String(e);
       o.log(`ridgeline worker ${o.name}: task "${t.label}" failed (attempt ${job.attemptsMade + 1}): ${m}`);
