@@ -250,7 +250,7 @@ export async function benchQueue(): Promise<Record<string, unknown>> {
     const covDir = join(dir, "coverage");
     makeBenchStudy(covDir, 4, { coverage: coverageYaml(["S00", "S11", "S22", "S33"]) });
     return {
-      note: "workers are local processes on the same 2 cores as the coordinator; one_process_s: the same computation in one process without the queue",
+      note: "workers are local processes on the same 2 cores as the coordinator; one_process_s: the same computation in one process without the queue (its second run); workers_N: steady state (warm workers, the coordinator's cache remembering the terrain files' digests, every result recomputed); workers_N_first_build: new workers and a coordinator hashing the terrain; overhead_per_task_s = (queue wall × workers − Σ task compute) / tasks, split in overhead_breakdown",
       links_1000: await queueRuns(linksDir, redis.url),
       coverage_4: await queueRuns(covDir, redis.url),
     };

@@ -63,12 +63,20 @@ export function progressLine(p: Progress): string {
 export async function distributeStudies(studies: Study[], cache: ResultCache, target: RedisTarget, o: { log?: (line: string, final: boolean) => void } = {}): Promise<QueueReport> {
   trace("coord", "begin");
   const began_at_ms = performance.timeOrigin + performance.now();
-  const identity = queueIdentity();
-  const plans = studies.map((s) => planStudy(s, cache, identity));
+  // connecting while the studies are planned (the TCP handshake needs no help from this thread)
+  const connecting = connectRedis(target);
+  let plans: ReturnType<typeof planStudy>[];
+  try {
+    const identity = queueIdentity();
+    plans = studies.map((s) => planStudy(s, cache, identity));
+  } catch (e) {
+    void connecting.then((r) => r.disconnect(), () => {});
+    throw e;
+  }
   const tasks = plans.flatMap((p) => p.tasks);
   trace("coord", "plans");
   const report: QueueReport = { tasks: tasks.length, entries: 0, workers: {}, wall_s: 0, fetch_s: 0, timeline: { began_at_ms, queued_at_ms: NaN, tasks: [] } };
-  const redis = await connectRedis(target);
+  const redis = await connecting;
   trace("coord", "connected");
   const byId = new Map(tasks.map((t) => [taskJobId(t.kind, t.keys), t])); // two studies may share a task
   // Each map's assembly waits for its tiles: queued when the last of them is done.
@@ -197,9 +205,7 @@ export async function distributeStudies(studies: Study[], cache: ResultCache, ta
   } finally {
     await Promise.allSettled(fetching);
     const leftovers = [...plans.filter((plan) => plan.tasks.length || plan.maps.length).map((plan) => studyKey(plan.sha)), ...[...new Set([...tileKeysQueued, ...tileKeysInRedis])].map((key) => resultKey("coverage-tile", key))];
-    await deleteChunked(redis, leftovers).catch(() => {});
-    trace("coord", "deleted");
-    await Promise.allSettled([events.close(), queue.close()]);
+    await Promise.allSettled([deleteChunked(redis, leftovers), events.close(), queue.close()]);
     redis.disconnect();
     trace("coord", "closed");
   }
