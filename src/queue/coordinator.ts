@@ -168,11 +168,12 @@ export async function distributeStudies(studies: Study[], cache: ResultCache, ta
         pw.done++;
         p.perWorker.set(r.worker, pw);
         show();
-        // a tile stays in Redis for its map's assembly; the map's entries are taken
-        fetching.push(fetchResults(redis, cache, task, report, { remove: task.kind !== "coverage-tile" }));
+        // a map whose last tile this was: its assembly queued first (a worker may be waiting for it), then the results fetched
         const mapId = mapOfTile.get(jobId);
         const map = mapId ? maps.get(mapId) : undefined;
         if (map && map.waiting.delete(jobId) && map.waiting.size === 0) fetching.push(startMap(mapId!).catch(reject));
+        // a tile stays in Redis for its map's assembly; the map's entries are taken
+        fetching.push(fetchResults(redis, cache, task, report, { remove: task.kind !== "coverage-tile" }));
         finish(jobId);
       });
       events.on("failed", ({ jobId, failedReason }) => {
