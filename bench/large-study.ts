@@ -13,6 +13,7 @@ import { join } from "node:path";
 import { fileURLToPath } from "node:url";
 import { analyzeStudies } from "../src/analysis/analyze-study.ts";
 import { ResultCache } from "../src/cache/result-cache.ts";
+import { studyTerrainKey } from "../src/cache/terrain-source-key.ts";
 import { buildSite } from "../src/cli/build-site.ts";
 import { loadStudies } from "../src/analysis/load-all.ts";
 import { distributeStudies, type QueueReport } from "../src/queue/coordinator.ts";
@@ -107,27 +108,89 @@ function processCpuS(pid: number | undefined): number {
 }
 const ownCpuS = () => { const u = process.cpuUsage(); return (u.user + u.system) / 1e6; };
 
+/**
+ * Where the queue's overhead went in one build, from the tasks' own start and end times (the
+ * workers run on this machine: one clock). For each worker, the wall time of the queue
+ * phase splits exactly into: waiting before its first task (the coordinator planning — which
+ * hashes the terrain for the keys —, connecting and queuing), its tasks (compute, then
+ * storing the result in Redis), the gaps between its tasks (BullMQ completing one task and
+ * handing over the next, or no task ready), and waiting after its last task (for the other
+ * workers, then the coordinator fetching the last result and cleaning up). The sum over the
+ * workers of everything but compute is the overhead the bench reports; here per task (ms).
+ * A tile task's own cost is what one more tile adds: storing its result and the gap to its
+ * worker's next task.
+ */
+export function overheadBreakdown(report: QueueReport, q0_ms: number, q1_ms: number) {
+  const byWorker = new Map<string, QueueReport["timeline"]["tasks"]>();
+  for (const t of report.timeline.tasks) byWorker.set(t.worker, [...(byWorker.get(t.worker) ?? []), t]);
+  let before = 0, between = 0, after = 0, store = 0;
+  const tileCosts: number[] = [];
+  const tileCompute: number[] = [];
+  for (const tasks of byWorker.values()) {
+    tasks.sort((a, b) => a.started_at_ms - b.started_at_ms);
+    before += tasks[0].started_at_ms - q0_ms;
+    after += q1_ms - tasks[tasks.length - 1].stored_at_ms;
+    for (const [i, t] of tasks.entries()) {
+      store += t.store_s * 1000;
+      const gap = i + 1 < tasks.length ? tasks[i + 1].started_at_ms - t.stored_at_ms : NaN;
+      if (i + 1 < tasks.length) between += gap;
+      if (t.kind === "coverage-tile") {
+        tileCompute.push(t.compute_s);
+        if (Number.isFinite(gap)) tileCosts.push(t.store_s * 1000 + gap);
+      }
+    }
+  }
+  const n = report.timeline.tasks.length;
+  const mean = (xs: number[]) => xs.reduce((a, x) => a + x, 0) / xs.length;
+  const r1 = (x: number) => Math.round(x * 10) / 10;
+  return {
+    /** ms per task, summed over the workers: the parts of overhead_per_task_s */
+    before_first_task_ms: r1(before / n),
+    store_ms: r1(store / n),
+    between_tasks_ms: r1(between / n),
+    after_last_task_ms: r1(after / n),
+    /** the coordinator's own time before the tasks were on the queue (planning: keys, terrain hash; connecting) */
+    coordinator_plan_ms: r1(report.timeline.queued_at_ms - q0_ms),
+    /** coverage tile tasks alone: mean compute, and the queue's cost of one more tile (its store and the gap to its worker's next task) */
+    tile_tasks: tileCompute.length ? { count: tileCompute.length, mean_compute_s: r3(mean(tileCompute)), queue_cost_ms: r1(mean(tileCosts)), queue_cost_pct: r3((100 * mean(tileCosts)) / (1000 * mean(tileCompute))) } : null,
+  };
+}
+
 /** Queue figures of one study: computed in this process (no queue), then on 1 and 2 workers, each from an empty cache. */
 export async function queueRuns(studyDir: string, url: string) {
   const studies = () => loadStudies([join(studyDir, "study.yaml")]);
-  const t0 = performance.now();
-  const c0 = ownCpuS();
-  const oneDir = mkdtempSync(join(tmpdir(), "ridgeline-bench-cache-"));
-  await analyzeStudies(studies(), { coverageOutputs: loadCoverageOutputStage, cache: new ResultCache(oneDir) });
-  const local_s = (performance.now() - t0) / 1000;
-  const oneCpu = ownCpuS() - c0;
-  rmSync(oneDir, { recursive: true, force: true });
-  const out: Record<string, unknown> = { one_process_s: r3(local_s), one_process_cpu_s: r3(oneCpu) };
+  // Twice: the first also loads and compiles this process's modules and starts its threads,
+  // as a new worker's first build does, and hashes the terrain; the second is the baseline of
+  // the steady state (below).
+  const oneProcess = async (terrainKnown: boolean) => {
+    const oneDir = mkdtempSync(join(tmpdir(), "ridgeline-bench-cache-"));
+    const cache = new ResultCache(oneDir);
+    const s = studies();
+    if (terrainKnown) for (const study of s) studyTerrainKey(study, cache);
+    const t0 = performance.now();
+    const c0 = ownCpuS();
+    await analyzeStudies(s, { coverageOutputs: loadCoverageOutputStage, cache });
+    rmSync(oneDir, { recursive: true, force: true });
+    return { s: (performance.now() - t0) / 1000, cpu: ownCpuS() - c0 };
+  };
+  const first = await oneProcess(false);
+  const { s: local_s, cpu: oneCpu } = await oneProcess(true);
+  const out: Record<string, unknown> = { one_process_first_s: r3(first.s), one_process_first_cpu_s: r3(first.cpu), one_process_s: r3(local_s), one_process_cpu_s: r3(oneCpu) };
   const workers: ChildProcess[] = [];
   try {
-    // Each configuration builds twice from an empty cache: the first build also pays each new
-    // worker process's module loading and compilation (once per worker, not per task), the
-    // second is the steady state.
+    // Each configuration builds twice, every result computed again: the first build from an
+    // empty cache also pays each new worker process's module loading and compilation (once per
+    // worker, not per task) and the coordinator's hashing of the terrain files (35-60 ms for
+    // the two 26 MB tiles, before any task can be named); the second is the steady state:
+    // warm workers and a coordinator that has built on this terrain before — its cache
+    // remembers the files' digests (file-digest.ts), as after any earlier build — with no
+    // result cached (a study whose every entry changed).
     for (const [n, round] of [[1, "first_build"], [1, ""], [2, "first_build"], [2, ""]] as const) {
       while (workers.length < n) workers.push(await startWorker(url, `bench-${workers.length + 1}`));
       const cacheDir = mkdtempSync(join(tmpdir(), "ridgeline-bench-cache-"));
       const cache = new ResultCache(cacheDir);
       const s = studies();
+      if (!round) for (const study of s) studyTerrainKey(study, cache);
       const workersCpu = () => workers.reduce((a, w) => a + processCpuS(w.pid), 0);
       const wc0 = workersCpu();
       const cc0 = ownCpuS();
@@ -164,6 +227,7 @@ export async function queueRuns(studyDir: string, url: string) {
         /** (queue wall × workers − compute) / tasks: everything a task costs beyond its computation, idle time at the end included */
         overhead_per_task_s: r3(((q1 - q0) / 1000 * n - compute) / report.tasks),
         overhead_pct_of_task: r3((100 * ((q1 - q0) / 1000 * n - compute)) / compute),
+        overhead_breakdown: overheadBreakdown(report, performance.timeOrigin + q0, performance.timeOrigin + q1),
         tasks_per_worker: Object.fromEntries(Object.entries(report.workers).map(([w, x]) => [w, x.done])),
       };
     }
@@ -186,7 +250,7 @@ export async function benchQueue(): Promise<Record<string, unknown>> {
     const covDir = join(dir, "coverage");
     makeBenchStudy(covDir, 4, { coverage: coverageYaml(["S00", "S11", "S22", "S33"]) });
     return {
-      note: "workers are local processes on the same 2 cores as the coordinator; one_process_s: the same computation in one process without the queue",
+      note: "workers are local processes on the same 2 cores as the coordinator; one_process_s: the same computation in one process without the queue (its second run); workers_N: steady state (warm workers, the coordinator's cache remembering the terrain files' digests, every result recomputed); workers_N_first_build: new workers and a coordinator hashing the terrain; overhead_per_task_s = (queue wall × workers − Σ task compute) / tasks, split in overhead_breakdown",
       links_1000: await queueRuns(linksDir, redis.url),
       coverage_4: await queueRuns(covDir, redis.url),
     };

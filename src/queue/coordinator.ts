@@ -8,6 +8,7 @@ import { queueIdentity } from "./identity.ts";
 import { planStudy } from "./plan-tasks.ts";
 import type { RedisTarget } from "./redis-url.ts";
 import { deleteChunked, getChunked, KEY_PREFIX, putChunked, resultKey, studyKey } from "./result-store.ts";
+import { trace } from "./trace.ts";
 import { QUEUE_NAME, taskEntries, taskJobId, type TaskData, type TaskResult } from "./task.ts";
 
 /** Attempts of a task before the build fails (BullMQ retries a failed task, on any worker). */
@@ -27,6 +28,12 @@ export interface QueueReport {
   wall_s: number;
   /** seconds spent fetching results from Redis into the local cache */
   fetch_s: number;
+  /**
+   * Where the time went (ms since the epoch; the workers' own clocks for their tasks): when the
+   * coordinator began (before planning), when its tasks were on the queue, and each task as
+   * its worker reported it, in the order they completed.
+   */
+  timeline: { began_at_ms: number; queued_at_ms: number; tasks: { kind: TaskData["kind"]; worker: string; compute_s: number; store_s: number; started_at_ms: number; stored_at_ms: number }[] };
 }
 
 interface Progress {
@@ -54,11 +61,23 @@ export function progressLine(p: Progress): string {
  * @throws QueueConnectionError when Redis cannot be used, QueueTaskError when a task fails for good
  */
 export async function distributeStudies(studies: Study[], cache: ResultCache, target: RedisTarget, o: { log?: (line: string, final: boolean) => void } = {}): Promise<QueueReport> {
-  const identity = queueIdentity();
-  const plans = studies.map((s) => planStudy(s, cache, identity));
+  trace("coord", "begin");
+  const began_at_ms = performance.timeOrigin + performance.now();
+  // connecting while the studies are planned (the TCP handshake needs no help from this thread)
+  const connecting = connectRedis(target);
+  let plans: ReturnType<typeof planStudy>[];
+  try {
+    const identity = queueIdentity();
+    plans = studies.map((s) => planStudy(s, cache, identity));
+  } catch (e) {
+    void connecting.then((r) => r.disconnect(), () => {});
+    throw e;
+  }
   const tasks = plans.flatMap((p) => p.tasks);
-  const report: QueueReport = { tasks: tasks.length, entries: 0, workers: {}, wall_s: 0, fetch_s: 0 };
-  const redis = await connectRedis(target);
+  trace("coord", "plans");
+  const report: QueueReport = { tasks: tasks.length, entries: 0, workers: {}, wall_s: 0, fetch_s: 0, timeline: { began_at_ms, queued_at_ms: NaN, tasks: [] } };
+  const redis = await connecting;
+  trace("coord", "connected");
   const byId = new Map(tasks.map((t) => [taskJobId(t.kind, t.keys), t])); // two studies may share a task
   // Each map's assembly waits for its tiles: queued when the last of them is done.
   const maps = new Map<string, { task: TaskData; waiting: Set<string> }>();
@@ -78,6 +97,7 @@ export async function distributeStudies(studies: Study[], cache: ResultCache, ta
     return report;
   }
   const t0 = performance.now();
+  trace("coord", "planned");
   const connection = redisOptions(target) as ConnectionOptions; // ioredis options; BullMQ opens its own connections with them
   const queue = new Queue<TaskData, TaskResult>(QUEUE_NAME, { connection, prefix: KEY_PREFIX });
   const events = new QueueEvents(QUEUE_NAME, { connection, prefix: KEY_PREFIX });
@@ -96,7 +116,8 @@ export async function distributeStudies(studies: Study[], cache: ResultCache, ta
       if (bytes) local.push([resultKey("coverage-tile", key), bytes]);
     }
     if (local.length) await putChunked(redis, local);
-    await queue.add(m.task.kind, m.task, { ...jobOptions(mapId), lifo: true }); // next: a worker still holds the map's elevations
+    await queue.add(m.task.kind, m.task, { ...jobOptions(mapId), lifo: true });
+    trace("coord", `added ${mapId}`); // next: a worker still holds the map's elevations
   };
   let fail: (e: unknown) => void = () => {};
   const p: Progress = { done: 0, failed: 0, total: byId.size, running: new Map(), perWorker: new Map() };
@@ -111,8 +132,8 @@ export async function distributeStudies(studies: Study[], cache: ResultCache, ta
   const refusals = new Set<string>();
   const fetching: Promise<void>[] = [];
   try {
-    await events.waitUntilReady();
-    await putChunked(redis, plans.filter((plan) => plan.tasks.length || plan.maps.length).map((plan) => [studyKey(plan.sha), plan.bytes] as const));
+    await Promise.all([events.waitUntilReady(), putChunked(redis, plans.filter((plan) => plan.tasks.length || plan.maps.length).map((plan) => [studyKey(plan.sha), plan.bytes] as const))]);
+    trace("coord", "events-ready");
     const finished = new Promise<void>((resolve, reject) => {
       fail = reject;
       const pending = new Set(byId.keys());
@@ -134,6 +155,7 @@ export async function distributeStudies(studies: Study[], cache: ResultCache, ta
       events.on("completed", ({ jobId, returnvalue }) => {
         const task = byId.get(jobId);
         if (!task || !pending.has(jobId)) return;
+        trace("coord", `completed ${jobId}`);
         const r = (typeof returnvalue === "string" ? JSON.parse(returnvalue) : returnvalue) as TaskResult;
         p.running.delete(jobId);
         p.done++;
@@ -141,15 +163,17 @@ export async function distributeStudies(studies: Study[], cache: ResultCache, ta
         w.done++;
         w.compute_s += r.compute_s;
         w.store_s += r.store_s;
+        report.timeline.tasks.push({ kind: task.kind, worker: r.worker, compute_s: r.compute_s, store_s: r.store_s, started_at_ms: r.started_at_ms ?? NaN, stored_at_ms: r.stored_at_ms ?? NaN });
         const pw = p.perWorker.get(r.worker) ?? { done: 0, running: 0 };
         pw.done++;
         p.perWorker.set(r.worker, pw);
         show();
-        // a tile stays in Redis for its map's assembly; the map's entries are taken
-        fetching.push(fetchResults(redis, cache, task, report, { remove: task.kind !== "coverage-tile" }));
+        // a map whose last tile this was: its assembly queued first (a worker may be waiting for it), then the results fetched
         const mapId = mapOfTile.get(jobId);
         const map = mapId ? maps.get(mapId) : undefined;
         if (map && map.waiting.delete(jobId) && map.waiting.size === 0) fetching.push(startMap(mapId!).catch(reject));
+        // a tile stays in Redis for its map's assembly; the map's entries are taken
+        fetching.push(fetchResults(redis, cache, task, report, { remove: task.kind !== "coverage-tile" }));
         finish(jobId);
       });
       events.on("failed", ({ jobId, failedReason }) => {
@@ -167,8 +191,11 @@ export async function distributeStudies(studies: Study[], cache: ResultCache, ta
     finished.catch(() => {}); // handled below
     await queue.addBulk([...byId].filter(([jobId]) => !maps.has(jobId)).map(([jobId, t]) => ({ name: t.kind, data: t, opts: jobOptions(jobId) })));
     for (const [mapId, m] of maps) if (m.waiting.size === 0) await startMap(mapId).catch(fail);
+    trace("coord", "queued");
+    report.timeline.queued_at_ms = performance.timeOrigin + performance.now();
     log(`queue: ${byId.size} task${byId.size === 1 ? "" : "s"} queued on ${target.display}`, true);
     await finished;
+    trace("coord", "finished");
     show(true);
     report.wall_s = (performance.now() - t0) / 1000;
     return report;
@@ -178,10 +205,10 @@ export async function distributeStudies(studies: Study[], cache: ResultCache, ta
     throw e;
   } finally {
     await Promise.allSettled(fetching);
-    for (const plan of plans) if (plan.tasks.length || plan.maps.length) await deleteChunked(redis, studyKey(plan.sha)).catch(() => {});
-    for (const key of new Set([...tileKeysQueued, ...tileKeysInRedis])) await deleteChunked(redis, resultKey("coverage-tile", key)).catch(() => {});
-    await Promise.allSettled([events.close(), queue.close()]);
+    const leftovers = [...plans.filter((plan) => plan.tasks.length || plan.maps.length).map((plan) => studyKey(plan.sha)), ...[...new Set([...tileKeysQueued, ...tileKeysInRedis])].map((key) => resultKey("coverage-tile", key))];
+    await Promise.allSettled([deleteChunked(redis, leftovers), events.close(), queue.close()]);
     redis.disconnect();
+    trace("coord", "closed");
   }
 }
 
@@ -202,4 +229,5 @@ async function fetchResults(redis: Redis, cache: ResultCache, task: TaskData, re
     }
   }
   report.fetch_s += (performance.now() - t0) / 1000;
+  trace("coord", `fetched ${taskJobId(task.kind, task.keys)}`);
 }

@@ -45,6 +45,9 @@ export interface TaskResult {
   /** Seconds spent computing, and storing the results in Redis. */
   compute_s: number;
   store_s: number;
+  /** When the worker began the task and when its entries were stored (ms since the epoch, the worker's clock). */
+  started_at_ms?: number;
+  stored_at_ms?: number;
 }
 
 /** A job id from the task's keys: a task queued twice (two coordinators, same study) runs once. */

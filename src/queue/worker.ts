@@ -6,6 +6,7 @@ import { identityMismatch, queueIdentity } from "./identity.ts";
 import type { RedisTarget } from "./redis-url.ts";
 import { getChunked, KEY_PREFIX, putChunked, resultKey, studyKey } from "./result-store.ts";
 import { closeTaskResources, runTask, warmTaskResources } from "./run-task.ts";
+import { trace } from "./trace.ts";
 import { decodeStudy, QUEUE_NAME, workerStudyDir, type TaskData, type TaskResult } from "./task.ts";
 
 export interface WorkerOptions {
@@ -52,17 +53,22 @@ export async function runWorker(target: RedisTarget, o: WorkerOptions): Promise<
       }
       throw new WaitingError();
     }
-    await job.updateProgress({ worker: o.name });
+    trace(o.name, `start ${job.id}`);
+    // not waited for: the coordinator's "running" line needs no round trip before the task starts
+    void job.updateProgress({ worker: o.name }).catch(() => {});
     o.log(`ridgeline worker ${o.name}: started "${t.label}"${job.attemptsStarted > 1 ? ` (attempt ${job.attemptsStarted})` : ""}`);
     try {
       const t0 = performance.now();
       const study = await loadStudy(redis, studies, t, o.terrainRoot ?? null);
       const entries = await runTask(t, study, { fetchTiles: (keys) => fetchTiles(redis, keys) });
       const t1 = performance.now();
+      trace(o.name, `computed ${job.id} ${[...entries.values()].map((b) => b.byteLength).join(",")}`);
       await putChunked(redis, [...entries].map(([id, bytes]) => [resultKey(id.slice(0, id.indexOf(":")), id.slice(id.indexOf(":") + 1)), bytes] as const));
       const t2 = performance.now();
+      trace(o.name, `stored ${job.id}`);
       o.log(`ridgeline worker ${o.name}: done "${t.label}" in ${((t2 - t0) / 1000).toFixed(2)} s`);
-      return { worker: o.name, entries: [...entries.keys()].map((id) => ({ kind: id.slice(0, id.indexOf(":")), key: id.slice(id.indexOf(":") + 1) })), compute_s: (t1 - t0) / 1000, store_s: (t2 - t1) / 1000 };
+      const epoch = (t: number) => Math.round((performance.timeOrigin + t) * 10) / 10;
+      return { worker: o.name, entries: [...entries.keys()].map((id) => ({ kind: id.slice(0, id.indexOf(":")), key: id.slice(id.indexOf(":") + 1) })), compute_s: (t1 - t0) / 1000, store_s: (t2 - t1) / 1000, started_at_ms: epoch(t0), stored_at_ms: epoch(t2) };
     } catch (e) {
       const m = (e as Error)?.message ?? String(e);
       o.log(`ridgeline worker ${o.name}: task "${t.label}" failed (attempt ${job.attemptsMade + 1}): ${m}`);
@@ -80,6 +86,7 @@ export async function runWorker(target: RedisTarget, o: WorkerOptions): Promise<
     autorun: false,
   });
   worker.on("error", () => {}); // connection errors: ioredis reconnects
+  worker.on("completed", (job) => trace(o.name, `completed ${job.id}`));
   const stop = (): Promise<void> => (stopping ??= worker.close().then(async () => {
     redis.disconnect();
     await closeTaskResources();
