@@ -3,7 +3,8 @@ import { closeSync, fstatSync, openSync, readFileSync } from "node:fs";
 import { readFile } from "node:fs/promises";
 import { makeRasterGrid, RasterTerrain, type RasterTerrainOptions } from "./raster-terrain.ts";
 import { bilinearGrid } from "./bilinear-grid.ts";
-import { crsFromEpsg } from "../geo/crs-from-epsg.ts";
+import { BandBlocks } from "./band-blocks.ts";
+import { crsFromEpsg, type Crs } from "../geo/crs-from-epsg.ts";
 import { bandLayout, decodeBands, readBandFloat32, readBandFloat32AsInt16, readBandInt16, waitForBands, type BandLayout, type PixelWindow, type TiffBandSource } from "./tiff-band-reader.ts";
 import { readTiffDirectory } from "./tiff-directory.ts";
 import type { RasterGrid } from "./terrain.ts";
@@ -39,9 +40,13 @@ const RASTER_PIXEL_IS_POINT = 2;
  * @param options.label how messages name the file (default: the path)
  * @param options.deferPixels decode the band only when `raster.data` is first read (the fast
  *   path only); single elevations and `readWindow` read just the pixels they need meanwhile
+ * @param options.blocks for a band of at least `minPixels` pixels (fast path only): decode
+ *   nothing when opening; elevations and profiles read the band in blocks (BandBlocks), keeping
+ *   at most `maxBytes` of them, and `readWindow` reads its window from the file — a study's DEM
+ *   far larger than its links need stays on disk beside a coverage grid. Same values.
  * @throws TerrainError when the file is missing, unreadable, not georeferenced or in another CRS
  */
-export async function openGeoTiff(path: string, options: { label?: string; deferPixels?: boolean } = {}): Promise<RasterTerrain> {
+export async function openGeoTiff(path: string, options: { label?: string; deferPixels?: boolean; blocks?: { minPixels: number; maxBytes: number } } = {}): Promise<RasterTerrain> {
   const label = options.label ?? path;
   const unreadable = (e: unknown) =>
     new TerrainError(
@@ -52,6 +57,7 @@ export async function openGeoTiff(path: string, options: { label?: string; defer
     );
   let raster: RasterGrid | null = null;
   let pixels: DeferredPixels | null = null;
+  let blocks: BandBlocks | null = null;
   try {
     const head = readGeoTiffHeader(path, label);
     if (head !== null) {
@@ -59,7 +65,8 @@ export async function openGeoTiff(path: string, options: { label?: string; defer
       raster = makeRasterGrid(head.width, head.height, head.gt, head.epsg, EMPTY, path);
       const px = pixels;
       Object.defineProperty(raster, "data", { enumerable: true, get: () => px.all() });
-      if (!options.deferPixels) px.all();
+      if (options.blocks && head.width * head.height >= options.blocks.minPixels) blocks = px.blocks(options.blocks.maxBytes);
+      else if (!options.deferPixels) px.all();
     }
   } catch (e) {
     if (e instanceof TerrainError) throw e;
@@ -75,7 +82,7 @@ export async function openGeoTiff(path: string, options: { label?: string; defer
     raster = await parseGeoTiff(bytes, path, label);
   }
   const res = `${fmtRes(raster)}`;
-  return new GeoTiffTerrain(path, raster, pixels, {
+  return new GeoTiffTerrain(path, raster, pixels, blocks, {
     kind: "geotiff",
     description: `GeoTIFF ${label} (EPSG:${raster.epsg}, ${raster.width}×${raster.height}, ${res})`,
     synthetic: false,
@@ -142,6 +149,11 @@ class DeferredPixels {
     return waitForBands(src, w, ctrl) ? out : null;
   }
 
+  /** The band read in blocks on demand (BandBlocks), at most maxBytes of them kept decoded. */
+  blocks(maxBytes: number): BandBlocks {
+    return new BandBlocks(this.layout, (w) => this.decode((fd) => readBandFloat32(fd, this.layout, this.nodata, w, new Float32Array(w.width * w.height))), maxBytes);
+  }
+
   all(): Float32Array {
     this.data ??= this.read();
     return this.data;
@@ -195,10 +207,12 @@ class DeferredPixels {
  */
 class GeoTiffTerrain extends RasterTerrain {
   private hashed: string | null = null;
+  private geoCrs: Crs | null = null;
   constructor(
     private readonly path: string,
     raster: RasterGrid,
     private readonly pixels: DeferredPixels | null,
+    private readonly blocks: BandBlocks | null,
     options: RasterTerrainOptions,
   ) {
     super(raster, options);
@@ -221,6 +235,7 @@ class GeoTiffTerrain extends RasterTerrain {
    */
   override elevation(lat_deg: number, lon_deg: number): number {
     if (this.pixels === null || this.pixels.decoded) return super.elevation(lat_deg, lon_deg);
+    if (this.blocks) return this.blocks.bilinear(...this.pixelPosition(lat_deg, lon_deg));
     const r = this.raster;
     const crs = crsFromEpsg(r.epsg)!;
     const [x, y] = crs.geographic ? [lon_deg, lat_deg] : crs.toCrs(lat_deg, lon_deg);
@@ -238,6 +253,30 @@ class GeoTiffTerrain extends RasterTerrain {
       return super.elevation(lat_deg, lon_deg);
     }
     return bilinearGrid(this.pixels.window(w), w.width, w.height, col - c0, row - r0);
+  }
+
+  /** Profiles as RasterTerrain samples them; before the band is decoded, through its blocks when it has them. */
+  override sample(lat_deg: ArrayLike<number>, lon_deg: ArrayLike<number>): { h_m: Float64Array; voidFilled: number; outside: number } {
+    const blocks = this.blocks;
+    if (blocks === null || this.pixels === null || this.pixels.decoded) return super.sample(lat_deg, lon_deg);
+    const n = Math.min(lat_deg.length, lon_deg.length);
+    const h_m = new Float64Array(n);
+    let outside = 0;
+    for (let i = 0; i < n; i++) {
+      const h = blocks.bilinear(...this.pixelPosition(lat_deg[i], lon_deg[i]));
+      h_m[i] = h;
+      if (h !== h) outside++;
+    }
+    return { h_m, voidFilled: 0, outside };
+  }
+
+  /** Pixel-centre coordinates (col, row) of a point, computed as RasterTerrain does. */
+  private pixelPosition(lat_deg: number, lon_deg: number): [number, number] {
+    const r = this.raster;
+    const crs = (this.geoCrs ??= crsFromEpsg(r.epsg)!);
+    const [x, y] = crs.geographic ? [lon_deg, lat_deg] : crs.toCrs(lat_deg, lon_deg);
+    const [x0, dx, , y0, , dy] = r.geoTransform;
+    return [(x - x0) / dx - 0.5, (y - y0) / dy - 0.5];
   }
 
   /**
