@@ -4,7 +4,8 @@
 // delta-Bullington (the level raster is Float32: 4 bytes a cell); then the same
 // delta-Bullington map as the coverage of a study built with a cache. It takes minutes, so
 // `npm run bench` runs it only when asked: `npm run bench -- --large-coverage`.
-// Run alone: node --import tsx bench/large-coverage.ts
+// Run alone: node --import tsx bench/large-coverage.ts [visibility|delta-bullington] [--no-study];
+// the study build alone (about 1–3 minutes): node --import tsx bench/large-coverage.ts --study-only
 import { mkdirSync, mkdtempSync, rmSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";

@@ -1,9 +1,13 @@
+import { readSync } from "node:fs";
+import { endianness } from "node:os";
 import { bilinearGrid } from "./bilinear-grid.ts";
 import { LruCache } from "./lru-cache.ts";
 import type { BandLayout, PixelWindow } from "./tiff-band-reader.ts";
 
-/** Rows (about) of a block of a striped band: blocks are whole strips as wide as the image. */
+/** Rows (about) of a block of a compressed striped band: blocks are whole strips as wide as the image. */
 const STRIP_BLOCK_ROWS = 16;
+/** Side of a block of an uncompressed striped band, whose rows are read in pieces (readStripSegments). */
+const SEGMENT_BLOCK = 128;
 
 /**
  * Band 1 of a GeoTIFF read on demand in blocks, for single elevations and profiles over a DEM
@@ -11,13 +15,17 @@ const STRIP_BLOCK_ROWS = 16;
  * nodata, as readBandFloat32) when a pixel in it is first read, and the most recently used
  * blocks are kept within a byte budget. Blocks follow the file's own: a tile, or a band of
  * whole strips of about STRIP_BLOCK_ROWS rows (a strip is read whole whatever part of it is
- * needed). Interpolation gives bilinearGrid's value over the whole band, bit for bit.
+ * needed) — or, for uncompressed strips in this machine's byte order, squares of
+ * SEGMENT_BLOCK pixels whose rows are read on their own (a profile across a 10 000-pixel-wide
+ * DEM then reads a few hundred kB, not every strip it crosses whole). Interpolation gives
+ * bilinearGrid's value over the whole band, bit for bit.
  */
 export class BandBlocks {
   private readonly blockW: number;
   private readonly blockH: number;
   private readonly across: number;
-  private readonly blocks: LruCache<number, Float32Array>;
+  private readonly capacity: number;
+  private blocks: LruCache<number, Float32Array>;
   /** the last block read (most points of a profile or a relief row fall in the same one) */
   private lastIndex = -1;
   private last: Float32Array | null = null;
@@ -33,10 +41,19 @@ export class BandBlocks {
     private readonly read: (window: PixelWindow) => Float32Array,
     maxBytes: number,
   ) {
-    this.blockW = layout.tiled ? layout.bw : layout.width;
-    this.blockH = layout.tiled ? layout.bh : layout.bh * Math.max(1, Math.ceil(STRIP_BLOCK_ROWS / layout.bh));
+    const squares = segmentsReadable(layout);
+    this.blockW = layout.tiled ? layout.bw : squares ? SEGMENT_BLOCK : layout.width;
+    this.blockH = layout.tiled ? layout.bh : squares ? SEGMENT_BLOCK : layout.bh * Math.max(1, Math.ceil(STRIP_BLOCK_ROWS / layout.bh));
     this.across = Math.ceil(layout.width / this.blockW);
-    this.blocks = new LruCache(Math.max(1, Math.floor(maxBytes / (4 * this.blockW * this.blockH))));
+    this.capacity = Math.max(1, Math.floor(maxBytes / (4 * this.blockW * this.blockH)));
+    this.blocks = new LruCache(this.capacity);
+  }
+
+  /** Let every kept block go (read again when needed). */
+  clear(): void {
+    this.blocks = new LruCache(this.capacity);
+    this.lastIndex = -1;
+    this.last = null;
   }
 
   /** The sample at (col, row) of the band (inside it), NaN for nodata. */
@@ -87,4 +104,43 @@ export class BandBlocks {
     this.last = b;
     return b;
   }
+}
+
+/** Whether readStripSegments reads this band: uncompressed strips, no predictor, this machine's byte order. */
+export function segmentsReadable(layout: BandLayout): boolean {
+  return !layout.tiled && !layout.deflate && layout.predictor === 1 && layout.littleEndian === (endianness() === "LE");
+}
+
+/**
+ * A window of an uncompressed striped band (segmentsReadable) read row by row, each row's
+ * part of the window on its own (one read of width × sample bytes): the values
+ * readBandFloat32 gives (Float32, samples equal to `nodata` in the band's own type as NaN).
+ * @throws Error when a row is cut short (a truncated file)
+ */
+export function readStripSegments(fd: number, layout: BandLayout, nodata: number | null, w: PixelWindow): Float32Array {
+  const { width: W, bh, kind, offsets } = layout;
+  const bps = kind === "u16" || kind === "i16" ? 2 : 4;
+  const out = new Float32Array(w.width * w.height);
+  const raw = new ArrayBuffer(w.width * bps);
+  const bytes = new Uint8Array(raw);
+  const samples = kind === "u16" ? new Uint16Array(raw) : kind === "i16" ? new Int16Array(raw) : kind === "i32" ? new Int32Array(raw) : new Float32Array(raw);
+  // nodata in the band's own type, as readBandFloat32 compares it
+  const nd = nodata === null || Number.isNaN(nodata) ? null : kind === "f32" ? Math.fround(nodata) : Number.isInteger(nodata) ? nodata : null;
+  for (let r = 0; r < w.height; r++) {
+    const row = w.row0 + r;
+    const strip = Math.floor(row / bh);
+    const at = offsets[strip] + ((row - strip * bh) * W + w.col0) * bps;
+    let got = 0;
+    while (got < bytes.length) {
+      const n = readSync(fd, bytes, got, bytes.length - got, at + got);
+      if (n === 0) throw new Error(`row ${row} is cut short (${got} of ${bytes.length} bytes)`);
+      got += n;
+    }
+    const o = r * w.width;
+    for (let c = 0; c < w.width; c++) {
+      const v = samples[c];
+      out[o + c] = v === nd ? NaN : v;
+    }
+  }
+  return out;
 }

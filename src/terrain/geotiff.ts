@@ -3,7 +3,7 @@ import { closeSync, fstatSync, openSync, readFileSync } from "node:fs";
 import { readFile } from "node:fs/promises";
 import { makeRasterGrid, RasterTerrain, type RasterTerrainOptions } from "./raster-terrain.ts";
 import { bilinearGrid } from "./bilinear-grid.ts";
-import { BandBlocks } from "./band-blocks.ts";
+import { BandBlocks, readStripSegments, segmentsReadable } from "./band-blocks.ts";
 import { crsFromEpsg, type Crs } from "../geo/crs-from-epsg.ts";
 import { bandLayout, decodeBands, readBandFloat32, readBandFloat32AsInt16, readBandInt16, waitForBands, type BandLayout, type PixelWindow, type TiffBandSource } from "./tiff-band-reader.ts";
 import { readTiffDirectory } from "./tiff-directory.ts";
@@ -41,9 +41,12 @@ const RASTER_PIXEL_IS_POINT = 2;
  * @param options.deferPixels decode the band only when `raster.data` is first read (the fast
  *   path only); single elevations and `readWindow` read just the pixels they need meanwhile
  * @param options.blocks for a band of at least `minPixels` pixels (fast path only): decode
- *   nothing when opening; elevations and profiles read the band in blocks (BandBlocks), keeping
- *   at most `maxBytes` of them, and `readWindow` reads its window from the file — a study's DEM
- *   far larger than its links need stays on disk beside a coverage grid. Same values.
+ *   nothing when opening. Elevations and profiles read the band in blocks (BandBlocks, at most
+ *   `maxBytes` kept) when it is tiled or uncompressed; Deflate strips, which blocks would
+ *   inflate again for every profile, are decoded whole on first use instead. Reading a
+ *   coverage grid's window (`readWindow`) lets the blocks or the decoded band go and reads the
+ *   window from the file (Int16 when it can): a study's DEM far larger than its links need is
+ *   not held beside its coverage grid. Same values.
  * @throws TerrainError when the file is missing, unreadable, not georeferenced or in another CRS
  */
 export async function openGeoTiff(path: string, options: { label?: string; deferPixels?: boolean; blocks?: { minPixels: number; maxBytes: number } } = {}): Promise<RasterTerrain> {
@@ -58,6 +61,7 @@ export async function openGeoTiff(path: string, options: { label?: string; defer
   let raster: RasterGrid | null = null;
   let pixels: DeferredPixels | null = null;
   let blocks: BandBlocks | null = null;
+  let large = false;
   try {
     const head = readGeoTiffHeader(path, label);
     if (head !== null) {
@@ -65,8 +69,9 @@ export async function openGeoTiff(path: string, options: { label?: string; defer
       raster = makeRasterGrid(head.width, head.height, head.gt, head.epsg, EMPTY, path);
       const px = pixels;
       Object.defineProperty(raster, "data", { enumerable: true, get: () => px.all() });
-      if (options.blocks && head.width * head.height >= options.blocks.minPixels) blocks = px.blocks(options.blocks.maxBytes);
-      else if (!options.deferPixels) px.all();
+      large = !!options.blocks && head.width * head.height >= options.blocks.minPixels;
+      if (large && (head.layout.tiled || !head.layout.deflate)) blocks = px.blocks(options.blocks!.maxBytes);
+      else if (!large && !options.deferPixels) px.all();
     }
   } catch (e) {
     if (e instanceof TerrainError) throw e;
@@ -82,7 +87,7 @@ export async function openGeoTiff(path: string, options: { label?: string; defer
     raster = await parseGeoTiff(bytes, path, label);
   }
   const res = `${fmtRes(raster)}`;
-  return new GeoTiffTerrain(path, raster, pixels, blocks, {
+  return new GeoTiffTerrain(path, raster, pixels, { blocks, large }, {
     kind: "geotiff",
     description: `GeoTIFF ${label} (EPSG:${raster.epsg}, ${raster.width}×${raster.height}, ${res})`,
     synthetic: false,
@@ -151,7 +156,13 @@ class DeferredPixels {
 
   /** The band read in blocks on demand (BandBlocks), at most maxBytes of them kept decoded. */
   blocks(maxBytes: number): BandBlocks {
-    return new BandBlocks(this.layout, (w) => this.decode((fd) => readBandFloat32(fd, this.layout, this.nodata, w, new Float32Array(w.width * w.height))), maxBytes);
+    const segments = segmentsReadable(this.layout);
+    return new BandBlocks(this.layout, (w) => this.decode((fd) => (segments ? readStripSegments(fd, this.layout, this.nodata, w) : readBandFloat32(fd, this.layout, this.nodata, w, new Float32Array(w.width * w.height)))), maxBytes);
+  }
+
+  /** Let the decoded band go (decoded again when asked for). */
+  release(): void {
+    this.data = null;
   }
 
   all(): Float32Array {
@@ -212,10 +223,15 @@ class GeoTiffTerrain extends RasterTerrain {
     private readonly path: string,
     raster: RasterGrid,
     private readonly pixels: DeferredPixels | null,
-    private readonly blocks: BandBlocks | null,
+    /** openGeoTiff's `blocks` mode: `large` when the band met minPixels, and its blocks if it is read in blocks */
+    private readonly mode: { blocks: BandBlocks | null; large: boolean },
     options: RasterTerrainOptions,
   ) {
     super(raster, options);
+  }
+
+  private get blocks(): BandBlocks | null {
+    return this.mode.blocks;
   }
 
   override fingerprint(): string {
@@ -234,7 +250,8 @@ class GeoTiffTerrain extends RasterTerrain {
    * reads, at the same fractional position (an integer shift of the coordinates is exact).
    */
   override elevation(lat_deg: number, lon_deg: number): number {
-    if (this.pixels === null || this.pixels.decoded) return super.elevation(lat_deg, lon_deg);
+    // a large band of Deflate strips is decoded on first use (openGeoTiff's `blocks`)
+    if (this.pixels === null || this.pixels.decoded || (this.mode.large && !this.blocks)) return super.elevation(lat_deg, lon_deg);
     if (this.blocks) return this.blocks.bilinear(...this.pixelPosition(lat_deg, lon_deg));
     const r = this.raster;
     const crs = crsFromEpsg(r.epsg)!;
@@ -289,6 +306,9 @@ class GeoTiffTerrain extends RasterTerrain {
    * (≈ 45 M cells) feels.
    */
   readWindow(window: PixelWindow, share?: ShareDecode, int16 = false): Float32Array | Int16Array {
+    // a coverage grid holds its own elevations from now: what was kept for profiles can go
+    this.blocks?.clear();
+    if (this.mode.large) this.pixels?.release();
     // Shared only when blocks are compressed: inflating is work that threads divide, while
     // copying uncompressed blocks is bound by first writes to fresh memory, which measured
     // slower from three threads at once (0.44 s) than from one (0.33 s) for 89 MB here.

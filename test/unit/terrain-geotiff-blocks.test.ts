@@ -21,10 +21,14 @@ const X0 = 350_000;
 const Y0 = 5_100_000 + H * 30;
 const value = (r: number, c: number) => ((r === 11 && c === 40) || (r === 50 && c < 3) || (r > 80 && c > 150) ? -9999 : Math.round(300 + 200 * Math.sin(r / 9) * Math.cos(c / 13) + ((r * 31 + c * 17) % 23)));
 
-const LAYOUTS: { name: string; type: string; args: string[] }[] = [
-  { name: "int16-strips", type: "Int16", args: [] },
-  { name: "int16-deflate-strips-of-7", type: "Int16", args: ["-co", "COMPRESS=DEFLATE", "-co", "PREDICTOR=2", "-co", "BLOCKYSIZE=7"] },
-  { name: "float32-tiled", type: "Float32", args: ["-co", "TILED=YES", "-co", "BLOCKXSIZE=32", "-co", "BLOCKYSIZE=16"] },
+/** `blocks`: read in blocks; otherwise (Deflate strips) decoded whole on first use. */
+const LAYOUTS: { name: string; type: string; args: string[]; blocks: boolean }[] = [
+  { name: "int16-strips", type: "Int16", args: [], blocks: true },
+  { name: "float32-strips-of-5", type: "Float32", args: ["-co", "BLOCKYSIZE=5"], blocks: true },
+  { name: "int32-strips", type: "Int32", args: [], blocks: true },
+  { name: "float32-tiled", type: "Float32", args: ["-co", "TILED=YES", "-co", "BLOCKXSIZE=32", "-co", "BLOCKYSIZE=16"], blocks: true },
+  { name: "int16-deflate-tiled", type: "Int16", args: ["-co", "TILED=YES", "-co", "BLOCKXSIZE=16", "-co", "BLOCKYSIZE=16", "-co", "COMPRESS=DEFLATE"], blocks: true },
+  { name: "int16-deflate-strips-of-7", type: "Int16", args: ["-co", "COMPRESS=DEFLATE", "-co", "PREDICTOR=2", "-co", "BLOCKYSIZE=7"], blocks: false },
 ];
 
 beforeAll(() => {
@@ -55,7 +59,7 @@ describe("GeoTIFF read in blocks: the decoded band's elevations, bit for bit", (
       const lat = points.map(([c, r]) => at(c, r)[0]);
       const lon = points.map(([c, r]) => at(c, r)[1]);
       const got = blocks.sample(lat, lon);
-      expect((blocks as unknown as { pixelsInMemory: boolean }).pixelsInMemory).toBe(false); // nothing decoded whole
+      expect((blocks as unknown as { pixelsInMemory: boolean }).pixelsInMemory).toBe(!l.blocks); // nothing decoded whole, but Deflate strips
       const want = whole.sample(lat, lon);
       expect(got.outside).toBe(want.outside);
       expect(want.outside).toBeGreaterThan(100); // outside the raster and on nodata: NaN in both
@@ -64,18 +68,22 @@ describe("GeoTIFF read in blocks: the decoded band's elevations, bit for bit", (
         if (i % 7 === 0) expect(Object.is(blocks.elevation(lat[i], lon[i]), whole.elevation(lat[i], lon[i])), `elevation at ${points[i]}`).toBe(true);
       }
       expect(blocks.whyOutside(...at(-3, 5))).toBe(whole.whyOutside(...at(-3, 5)));
-      expect((blocks as unknown as { pixelsInMemory: boolean }).pixelsInMemory).toBe(false);
+      expect((blocks as unknown as { pixelsInMemory: boolean }).pixelsInMemory).toBe(!l.blocks);
     });
   }
 
-  it("a coverage grid's window is read from the file, as Int16 from an Int16 band (not a Float32 copy of a decoded band)", async () => {
-    const t = (await openGeoTiff(join(dir, "int16-strips.tif"), { blocks: { minPixels: 1, maxBytes: 1 << 20 } })) as unknown as { readWindow(w: object, share: undefined, int16: boolean): Float32Array | Int16Array; pixelsInMemory: boolean };
-    t.readWindow({ col0: 0, row0: 0, width: 3, height: 3 }, undefined, false); // (a Float32 one too)
-    const w = t.readWindow({ col0: 38, row0: 10, width: 4, height: 3 }, undefined, true);
-    expect(w).toBeInstanceOf(Int16Array);
-    expect(Array.from(w)).toEqual([10, 11, 12].flatMap((r) => [38, 39, 40, 41].map((c) => (value(r, c) === -9999 ? INT16_NODATA : value(r, c)))));
-    expect(t.pixelsInMemory).toBe(false);
-  });
+  for (const name of ["int16-strips", "int16-deflate-strips-of-7"]) {
+    it(`a coverage grid's window is read from the file, as Int16 from an Int16 band, letting a decoded band go (${name})`, async () => {
+      const t = (await openGeoTiff(join(dir, `${name}.tif`), { blocks: { minPixels: 1, maxBytes: 1 << 20 } })) as unknown as { readWindow(w: object, share: undefined, int16: boolean): Float32Array | Int16Array; pixelsInMemory: boolean; elevation(lat: number, lon: number): number };
+      const h = t.elevation(...at(40.3, 12.6)); // Deflate strips: the band decoded whole
+      t.readWindow({ col0: 0, row0: 0, width: 3, height: 3 }, undefined, false); // (a Float32 one too)
+      const w = t.readWindow({ col0: 38, row0: 10, width: 4, height: 3 }, undefined, true);
+      expect(w).toBeInstanceOf(Int16Array);
+      expect(Array.from(w)).toEqual([10, 11, 12].flatMap((r) => [38, 39, 40, 41].map((c) => (value(r, c) === -9999 ? INT16_NODATA : value(r, c)))));
+      expect(t.pixelsInMemory).toBe(false); // not decoded, or let go
+      expect(Object.is(t.elevation(...at(40.3, 12.6)), h)).toBe(true); // and decoded again (or read in blocks) when asked
+    });
+  }
 
   it("a band smaller than minPixels is decoded whole when opened, as before", async () => {
     const t = (await openGeoTiff(join(dir, "int16-strips.tif"), { blocks: { minPixels: W * H + 1, maxBytes: 1 << 20 } })) as unknown as { pixelsInMemory: boolean };
