@@ -28,6 +28,8 @@ export class BandBlocks {
   private blocks: LruCache<number, Float32Array>;
   /** the last block read (most points of a profile or a relief row fall in the same one) */
   private lastIndex = -1;
+  /** pixels read so far, blocks read again included */
+  loadedPixels = 0;
   private last: Float32Array | null = null;
   private readonly quad = new Float64Array(4);
 
@@ -98,6 +100,7 @@ export class BandBlocks {
       const row0 = by * this.blockH;
       const window = { col0, row0, width: Math.min(this.blockW, W - col0), height: Math.min(this.blockH, H - row0) };
       b = this.read(window);
+      this.loadedPixels += b.length;
       this.blocks.set(i, b);
     }
     this.lastIndex = i;

@@ -42,8 +42,9 @@ const RASTER_PIXEL_IS_POINT = 2;
  *   path only); single elevations and `readWindow` read just the pixels they need meanwhile
  * @param options.blocks for a band of at least `minPixels` pixels (fast path only): decode
  *   nothing when opening. Elevations and profiles read the band in blocks (BandBlocks, at most
- *   `maxBytes` kept) when it is tiled or uncompressed; Deflate strips, which blocks would
- *   inflate again for every profile, are decoded whole on first use instead. Reading a
+ *   `maxBytes` kept) — but over Deflate strips, which blocks inflate again for every profile
+ *   crossing them, once the profiles have read as many pixels as the band holds, it is decoded
+ *   whole for the next ones (a few links stay cheap, many cost at most twice a decode). Reading a
  *   coverage grid's window (`readWindow`) lets the blocks or the decoded band go and reads the
  *   window from the file (Int16 when it can): a study's DEM far larger than its links need is
  *   not held beside its coverage grid. Same values.
@@ -61,7 +62,6 @@ export async function openGeoTiff(path: string, options: { label?: string; defer
   let raster: RasterGrid | null = null;
   let pixels: DeferredPixels | null = null;
   let blocks: BandBlocks | null = null;
-  let large = false;
   try {
     const head = readGeoTiffHeader(path, label);
     if (head !== null) {
@@ -69,9 +69,8 @@ export async function openGeoTiff(path: string, options: { label?: string; defer
       raster = makeRasterGrid(head.width, head.height, head.gt, head.epsg, EMPTY, path);
       const px = pixels;
       Object.defineProperty(raster, "data", { enumerable: true, get: () => px.all() });
-      large = !!options.blocks && head.width * head.height >= options.blocks.minPixels;
-      if (large && (head.layout.tiled || !head.layout.deflate)) blocks = px.blocks(options.blocks!.maxBytes);
-      else if (!large && !options.deferPixels) px.all();
+      if (options.blocks && head.width * head.height >= options.blocks.minPixels) blocks = px.blocks(options.blocks!.maxBytes);
+      else if (!options.deferPixels) px.all();
     }
   } catch (e) {
     if (e instanceof TerrainError) throw e;
@@ -87,7 +86,7 @@ export async function openGeoTiff(path: string, options: { label?: string; defer
     raster = await parseGeoTiff(bytes, path, label);
   }
   const res = `${fmtRes(raster)}`;
-  return new GeoTiffTerrain(path, raster, pixels, { blocks, large }, {
+  return new GeoTiffTerrain(path, raster, pixels, { blocks, decodeForProfiles: !!pixels && !pixels.tiled && pixels.compressed }, {
     kind: "geotiff",
     description: `GeoTIFF ${label} (EPSG:${raster.epsg}, ${raster.width}×${raster.height}, ${res})`,
     synthetic: false,
@@ -129,6 +128,11 @@ class DeferredPixels {
   /** Whether the band's blocks are compressed (Deflate). */
   get compressed(): boolean {
     return this.layout.deflate;
+  }
+
+  /** Whether the band is stored in tiles (not strips). */
+  get tiled(): boolean {
+    return this.layout.tiled;
   }
 
   /** Whether the band holds Int16 samples (a window can then be read as Int16: half the memory). */
@@ -223,8 +227,8 @@ class GeoTiffTerrain extends RasterTerrain {
     private readonly path: string,
     raster: RasterGrid,
     private readonly pixels: DeferredPixels | null,
-    /** openGeoTiff's `blocks` mode: `large` when the band met minPixels, and its blocks if it is read in blocks */
-    private readonly mode: { blocks: BandBlocks | null; large: boolean },
+    /** openGeoTiff's `blocks`: the band's blocks when it is read so, and whether many profiles decode it whole instead (Deflate strips) */
+    private readonly mode: { blocks: BandBlocks | null; decodeForProfiles: boolean },
     options: RasterTerrainOptions,
   ) {
     super(raster, options);
@@ -250,8 +254,7 @@ class GeoTiffTerrain extends RasterTerrain {
    * reads, at the same fractional position (an integer shift of the coordinates is exact).
    */
   override elevation(lat_deg: number, lon_deg: number): number {
-    // a large band of Deflate strips is decoded on first use (openGeoTiff's `blocks`)
-    if (this.pixels === null || this.pixels.decoded || (this.mode.large && !this.blocks)) return super.elevation(lat_deg, lon_deg);
+    if (this.pixels === null || this.pixels.decoded) return super.elevation(lat_deg, lon_deg);
     if (this.blocks) return this.blocks.bilinear(...this.pixelPosition(lat_deg, lon_deg));
     const r = this.raster;
     const crs = crsFromEpsg(r.epsg)!;
@@ -276,6 +279,8 @@ class GeoTiffTerrain extends RasterTerrain {
   override sample(lat_deg: ArrayLike<number>, lon_deg: ArrayLike<number>): { h_m: Float64Array; voidFilled: number; outside: number } {
     const blocks = this.blocks;
     if (blocks === null || this.pixels === null || this.pixels.decoded) return super.sample(lat_deg, lon_deg);
+    // Deflate strips: decoded whole once blocks have read the band's worth (openGeoTiff's `blocks`)
+    if (this.mode.decodeForProfiles && blocks.loadedPixels >= this.raster.width * this.raster.height) return super.sample(lat_deg, lon_deg);
     const n = Math.min(lat_deg.length, lon_deg.length);
     const h_m = new Float64Array(n);
     let outside = 0;
@@ -307,8 +312,10 @@ class GeoTiffTerrain extends RasterTerrain {
    */
   readWindow(window: PixelWindow, share?: ShareDecode, int16 = false): Float32Array | Int16Array {
     // a coverage grid holds its own elevations from now: what was kept for profiles can go
-    this.blocks?.clear();
-    if (this.mode.large) this.pixels?.release();
+    if (this.blocks) {
+      this.blocks.clear();
+      this.pixels?.release();
+    }
     // Shared only when blocks are compressed: inflating is work that threads divide, while
     // copying uncompressed blocks is bound by first writes to fresh memory, which measured
     // slower from three threads at once (0.44 s) than from one (0.33 s) for 89 MB here.

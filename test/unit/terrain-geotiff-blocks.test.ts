@@ -21,7 +21,7 @@ const X0 = 350_000;
 const Y0 = 5_100_000 + H * 30;
 const value = (r: number, c: number) => ((r === 11 && c === 40) || (r === 50 && c < 3) || (r > 80 && c > 150) ? -9999 : Math.round(300 + 200 * Math.sin(r / 9) * Math.cos(c / 13) + ((r * 31 + c * 17) % 23)));
 
-/** `blocks`: read in blocks; otherwise (Deflate strips) decoded whole on first use. */
+/** `blocks`: profiles always read in blocks; otherwise (Deflate strips) the band is decoded whole once blocks have read its worth. */
 const LAYOUTS: { name: string; type: string; args: string[]; blocks: boolean }[] = [
   { name: "int16-strips", type: "Int16", args: [], blocks: true },
   { name: "float32-strips-of-5", type: "Float32", args: ["-co", "BLOCKYSIZE=5"], blocks: true },
@@ -58,9 +58,16 @@ describe("GeoTIFF read in blocks: the decoded band's elevations, bit for bit", (
       for (const [c, r] of [[40, 11], [40.4, 11.6], [39.6, 10.5], [1, 50], [3.5, 50.5], [151, 81], [150.5, 80.5]]) points.push([c, r]);
       const lat = points.map(([c, r]) => at(c, r)[0]);
       const lon = points.map(([c, r]) => at(c, r)[1]);
-      const got = blocks.sample(lat, lon);
-      expect((blocks as unknown as { pixelsInMemory: boolean }).pixelsInMemory).toBe(!l.blocks); // nothing decoded whole, but Deflate strips
+      // single elevations read blocks in every layout (a fresh terrain: nothing decoded yet)
+      const single = await openGeoTiff(path, { blocks: { minPixels: 1, maxBytes: 1 } });
+      for (let i = 0; i < points.length; i += 3) expect(Object.is(single.elevation(lat[i], lon[i]), whole.elevation(lat[i], lon[i])), `elevation at ${points[i]}`).toBe(true);
+      expect((single as unknown as { pixelsInMemory: boolean }).pixelsInMemory).toBe(false);
+      let got = blocks.sample(lat, lon);
+      expect((blocks as unknown as { pixelsInMemory: boolean }).pixelsInMemory).toBe(false); // nothing decoded whole
       const want = whole.sample(lat, lon);
+      for (let i = 0; i < points.length; i++) expect(Object.is(got.h_m[i], want.h_m[i]), `sample at (col, row) ${points[i]}: ${got.h_m[i]} vs ${want.h_m[i]}`).toBe(true);
+      // the blocks have read far more than the band (one kept): Deflate strips are decoded whole now
+      got = blocks.sample(lat, lon);
       expect(got.outside).toBe(want.outside);
       expect(want.outside).toBeGreaterThan(100); // outside the raster and on nodata: NaN in both
       for (let i = 0; i < points.length; i++) {
@@ -74,8 +81,11 @@ describe("GeoTIFF read in blocks: the decoded band's elevations, bit for bit", (
 
   for (const name of ["int16-strips", "int16-deflate-strips-of-7"]) {
     it(`a coverage grid's window is read from the file, as Int16 from an Int16 band, letting a decoded band go (${name})`, async () => {
-      const t = (await openGeoTiff(join(dir, `${name}.tif`), { blocks: { minPixels: 1, maxBytes: 1 << 20 } })) as unknown as { readWindow(w: object, share: undefined, int16: boolean): Float32Array | Int16Array; pixelsInMemory: boolean; elevation(lat: number, lon: number): number };
-      const h = t.elevation(...at(40.3, 12.6)); // Deflate strips: the band decoded whole
+      const t = (await openGeoTiff(join(dir, `${name}.tif`), { blocks: { minPixels: 1, maxBytes: 1 } })) as unknown as { readWindow(w: object, share: undefined, int16: boolean): Float32Array | Int16Array; pixelsInMemory: boolean; elevation(lat: number, lon: number): number; sample(lat: number[], lon: number[]): { h_m: Float64Array } };
+      const across = Array.from({ length: 4 * H }, (_, i) => at((i * 37) % W, i / 4)); // every row: the band's worth of blocks at least
+      for (let k = 0; k < 2; k++) t.sample(across.map((p) => p[0]), across.map((p) => p[1])); // Deflate strips: decoded whole for the second
+      expect(t.pixelsInMemory).toBe(name.includes("deflate"));
+      const h = t.sample([at(40.3, 12.6)[0]], [at(40.3, 12.6)[1]]).h_m[0];
       t.readWindow({ col0: 0, row0: 0, width: 3, height: 3 }, undefined, false); // (a Float32 one too)
       const w = t.readWindow({ col0: 38, row0: 10, width: 4, height: 3 }, undefined, true);
       expect(w).toBeInstanceOf(Int16Array);
