@@ -19,9 +19,10 @@ export type TerrainSpec =
  * coverage grid is read) and a coverage grid reads its own window from the file, as Int16 when
  * it can (openGeoTiff's `blocks`). A 150 km coverage at 30 m on a 10 000 × 10 000 DEM otherwise
  * held the whole band as Float32 (400 MB) beside the grid. Smaller files are decoded whole,
- * once: the fastest for many links. A 100 km profile on a 10 000² DEM costs about 18 ms in
- * blocks of uncompressed strips, 20 ms of 256² Deflate tiles, up to 0.4 s of Deflate strips
- * (every strip it crosses is inflated whole) against 3 ms decoded (plus 0.8–3 s to decode it).
+ * once: the fastest for many links. A 100 km profile on a 10 000² DEM costs about 10–18 ms in
+ * blocks of uncompressed strips or of 256² Deflate tiles, 0.3 s of Deflate strips (every strip
+ * it crosses is inflated whole: after the band's worth, openGeoTiff decodes it whole), against
+ * 3 ms decoded (after 0.8–3 s of decoding).
  */
 const LARGE_GEOTIFF = { minPixels: 16 * 1024 * 1024, maxBytes: 128 * 1024 * 1024 };
 
