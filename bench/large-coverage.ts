@@ -4,8 +4,9 @@
 // delta-Bullington (the level raster is Float32: 4 bytes a cell); then the same
 // delta-Bullington map as the coverage of a study built with a cache. It takes minutes, so
 // `npm run bench` runs it only when asked: `npm run bench -- --large-coverage`.
-// Run alone: node --import tsx bench/large-coverage.ts
-import { mkdirSync, mkdtempSync, renameSync, rmSync, writeFileSync } from "node:fs";
+// Run alone: node --import tsx bench/large-coverage.ts [visibility|delta-bullington] [--no-study];
+// the study build alone (about 1–3 minutes): node --import tsx bench/large-coverage.ts --study-only
+import { mkdirSync, mkdtempSync, rmSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { fileURLToPath } from "node:url";
@@ -15,6 +16,12 @@ import { timed, writeDem } from "./coverage.ts";
 
 const ROOT = fileURLToPath(new URL("..", import.meta.url));
 const r3 = (x: number) => Math.round(x * 1000) / 1000;
+
+/** Method flags of the one-off `ridgeline coverage` runs. */
+const METHODS: Record<string, string[]> = {
+  visibility: ["--method", "visibility"],
+  "delta-bullington": ["--method", "delta-bullington", "--tx-power-dbm", "43", "--thresholds-dbm", "-100,-90,-80"],
+};
 
 /** The 150 km / 30 m coverage, line of sight and delta-Bullington; figures as plain JSON. */
 export async function benchLargeCoverage(options: { radius_km?: number; resolution_m?: number; methods?: string[]; study?: boolean } = {}): Promise<Record<string, unknown>> {
@@ -26,8 +33,9 @@ export async function benchLargeCoverage(options: { radius_km?: number; resoluti
     const x0 = 500_000 - (n * res) / 2;
     const y0 = 5_000_000 + (n * res) / 2;
     const demPath = join(dir, "dem.tif");
+    const methodList = options.methods ?? Object.keys(METHODS);
     const tg = performance.now();
-    writeDem(demPath, n, res, x0, y0);
+    if (methodList.length) writeDem(demPath, n, res, x0, y0);
     const generate_s = (performance.now() - tg) / 1000;
     const oc = (n - 1) / 2;
     const [lat, lon] = crsFromEpsg(32632)!.fromCrs(x0 + (oc + 0.5) * res, y0 - (oc + 0.5) * res);
@@ -35,15 +43,11 @@ export async function benchLargeCoverage(options: { radius_km?: number; resoluti
     const out: Record<string, unknown> = {
       grid: `${n} × ${n} = ${((n * n) / 1e6).toFixed(1)} M cells (UTM 32N, ${res} m), Int16 DEM (generated)`,
       tiles: coverageTileCount(radius_km * 1000, res),
-      generate_dem_s: r3(generate_s),
+      ...(methodList.length ? { generate_dem_s: r3(generate_s) } : {}),
       target_max_rss_mib: 1536,
     };
-    const methods: Record<string, string[]> = {
-      visibility: ["--method", "visibility"],
-      "delta-bullington": ["--method", "delta-bullington", "--tx-power-dbm", "43", "--thresholds-dbm", "-100,-90,-80"],
-    };
-    for (const m of options.methods ?? Object.keys(methods)) {
-      const run = timed(join(ROOT, "bin/ridgeline.js"), ["coverage", ...common, ...methods[m], "--out", join(dir, `${m}.tif`)]);
+    for (const m of methodList) {
+      const run = timed(join(ROOT, "bin/ridgeline.js"), ["coverage", ...common, ...METHODS[m], "--out", join(dir, `${m}.tif`)]);
       if (run.status !== 0) throw new Error(`ridgeline coverage --method ${m} failed:\n${run.stderr}`);
       const summary = /Wrote .*?: (.*)\n/.exec(run.stderr)?.[1] ?? "";
       const compute = /compute ([\d.]+) s/.exec(summary);
@@ -62,19 +66,41 @@ export async function benchLargeCoverage(options: { radius_km?: number; resoluti
     // keeps the map's cache entry (level raster and the grid's elevations, for a composite)
     // and renders its page.
     if (options.study !== false) {
-      const studyDir = join(dir, "studies", "wide");
-      mkdirSync(studyDir, { recursive: true });
-      renameSync(demPath, join(studyDir, "dem.tif"));
-      const [latB, lonB] = crsFromEpsg(32632)!.fromCrs(x0 + (oc + Math.round(n / 20) + 0.5) * res, y0 - (oc + Math.round(n / 30) + 0.5) * res);
-      writeFileSync(join(studyDir, "study.yaml"), wideStudyYaml(lat, lon, latB, lonB, radius_km, res));
-      const run = timed(join(ROOT, "bin/ridgeline.js"), ["build", "--studies-dir", join(dir, "studies"), "--out", join(dir, "site"), "--cache-dir", join(dir, "cache")]);
-      if (run.status !== 0) throw new Error(`ridgeline build of the 150 km study failed:\n${run.stderr}`);
-      out["study_build_delta_bullington_with_cache"] = { wall_s: r3(run.wall_s), cpu_s: r3(run.cpu_s), max_rss_mib: Math.round(run.max_rss_mib) };
+      rmSync(demPath, { force: true });
+      out["study_build_delta_bullington_with_cache"] = benchWideStudyBuild(dir, radius_km, res);
     }
     return out;
   } finally {
     rmSync(dir, { recursive: true, force: true });
   }
+}
+
+/**
+ * Write the bench's study (the DEM and study.yaml) into `<dir>/studies/wide` and build it with
+ * a cache into `<dir>/site`, timed as a whole `ridgeline build` process.
+ */
+export function benchWideStudyBuild(dir: string, radius_km = 150, res = 30): { wall_s: number; cpu_s: number; max_rss_mib: number } {
+  writeWideStudy(join(dir, "studies"), radius_km, res);
+  const run = timed(join(ROOT, "bin/ridgeline.js"), ["build", "--studies-dir", join(dir, "studies"), "--out", join(dir, "site"), "--cache-dir", join(dir, "cache")]);
+  if (run.status !== 0) throw new Error(`ridgeline build of the ${radius_km} km study failed:\n${run.stderr}`);
+  return { wall_s: r3(run.wall_s), cpu_s: r3(run.cpu_s), max_rss_mib: Math.round(run.max_rss_mib) };
+}
+
+/**
+ * The bench's study in `<studiesDir>/wide`: the generated Int16 DEM (the one-off runs' DEM)
+ * and a study.yaml whose one coverage is their delta-Bullington map, with one short link.
+ */
+export function writeWideStudy(studiesDir: string, radius_km = 150, res = 30): void {
+  const n = 2 * Math.ceil((radius_km * 1000) / res) + 3;
+  const x0 = 500_000 - (n * res) / 2;
+  const y0 = 5_000_000 + (n * res) / 2;
+  const oc = (n - 1) / 2;
+  const studyDir = join(studiesDir, "wide");
+  mkdirSync(studyDir, { recursive: true });
+  writeDem(join(studyDir, "dem.tif"), n, res, x0, y0);
+  const [lat, lon] = crsFromEpsg(32632)!.fromCrs(x0 + (oc + 0.5) * res, y0 - (oc + 0.5) * res);
+  const [latB, lonB] = crsFromEpsg(32632)!.fromCrs(x0 + (oc + Math.round(n / 20) + 0.5) * res, y0 - (oc + Math.round(n / 30) + 0.5) * res);
+  writeFileSync(join(studyDir, "study.yaml"), wideStudyYaml(lat, lon, latB, lonB, radius_km, res));
 }
 
 /** A study whose one coverage is the bench's map (delta-Bullington), with one short link. */
@@ -99,6 +125,9 @@ coverage:
 }
 
 if (process.argv[1] && fileURLToPath(import.meta.url) === process.argv[1]) {
-  const methods = process.argv.slice(2).filter((a) => !a.startsWith("-"));
-  process.stdout.write(`${JSON.stringify(await benchLargeCoverage(methods.length ? { methods } : {}), null, 2)}\n`);
+  // node --import tsx bench/large-coverage.ts [visibility|delta-bullington …] [--no-study] [--study-only]
+  const args = process.argv.slice(2);
+  const methods = args.includes("--study-only") ? [] : args.filter((a) => !a.startsWith("-"));
+  const options = { ...(methods.length || args.includes("--study-only") ? { methods } : {}), study: !args.includes("--no-study") };
+  process.stdout.write(`${JSON.stringify(await benchLargeCoverage(options), null, 2)}\n`);
 }

@@ -1,3 +1,4 @@
+import { readFileSync } from "node:fs";
 import { endianness } from "node:os";
 
 /**
@@ -53,21 +54,45 @@ function fnv1a(bytes: Uint8Array, from: number, to: number): number {
   return h >>> 0;
 }
 
-/** Encode a value (objects, arrays, strings, numbers including NaN/±∞/−0, booleans, null, typed arrays). */
+/**
+ * A file's bytes as a value of an entry: encoded as the Uint8Array of its bytes would be, but
+ * read from the file only as the entry is written (encodeEntryParts gives it as a part of its
+ * own; ResultCache.putLarge copies it in pieces) — a coverage map's level GeoTIFF, hundreds of
+ * MB, is not held in memory for it. The file must keep `byteLength` bytes until then.
+ */
+export class FileBytes {
+  constructor(
+    readonly path: string,
+    readonly byteLength: number,
+  ) {}
+}
+
+/** A part of an entry's bytes: in memory, or a file's bytes (FileBytes). */
+export type EntryPart = Uint8Array | FileBytes;
+
+/** Encode a value (objects, arrays, strings, numbers including NaN/±∞/−0, booleans, null, typed arrays, FileBytes). */
 export function encodeEntry(value: unknown): Buffer {
-  const parts = encodeEntryParts(value);
+  const parts = encodeEntryParts(value).map((p) => (p instanceof FileBytes ? fileBytes(p) : p));
   return parts.length === 1 ? (parts[0] as Buffer) : Buffer.concat(parts);
+}
+
+/** The bytes of a FileBytes, read now. */
+function fileBytes(f: FileBytes): Buffer {
+  const b = readFileSync(f.path);
+  if (b.byteLength !== f.byteLength) throw new Error(`cache entry: ${f.path} holds ${b.byteLength} bytes, expected ${f.byteLength}`);
+  return b;
 }
 
 /**
  * The bytes of encodeEntry(value) as consecutive parts: the head (shape, scalars, numbers) and
- * each typed array's own bytes, not copied (views of the value's arrays), with padding. For
- * writing a large entry (a coverage map's rasters) without a second copy of it in memory.
+ * each typed array's own bytes, not copied (views of the value's arrays), or a FileBytes, with
+ * padding. For writing a large entry (a coverage map's rasters and files) without a second
+ * copy of it in memory.
  */
-export function encodeEntryParts(value: unknown): Uint8Array[] {
+export function encodeEntryParts(value: unknown): EntryPart[] {
   const numbers: number[] = [];
   const scalars: unknown[] = [];
-  const blobs: Uint8Array[] = [];
+  const blobs: EntryPart[] = [];
   const shapeOf = (v: unknown): unknown => {
     switch (typeof v) {
       case "number":
@@ -88,6 +113,11 @@ export function encodeEntryParts(value: unknown): Uint8Array[] {
     if (v === null) {
       scalars.push(null);
       return 1;
+    }
+    if (v instanceof FileBytes) {
+      numbers.push(v.byteLength);
+      blobs.push(v);
+      return ["b", "Uint8Array"];
     }
     if (ArrayBuffer.isView(v)) {
       const type = v.constructor.name;
@@ -124,7 +154,7 @@ export function encodeEntryParts(value: unknown): Uint8Array[] {
   out.writeUInt32LE(fnv1a(out, HEADER, HEADER + shape.byteLength), 20);
   text.copy(out, HEADER + shape.byteLength);
   new Float64Array(out.buffer, out.byteOffset + numbersAt, numbers.length).set(numbers);
-  const parts: Uint8Array[] = [out];
+  const parts: EntryPart[] = [out];
   for (const b of blobs) {
     parts.push(b);
     if (pad8(b.byteLength) > b.byteLength) parts.push(new Uint8Array(pad8(b.byteLength) - b.byteLength));

@@ -1,7 +1,7 @@
 import { closeSync, existsSync, fstatSync, mkdirSync, openSync, readFileSync, readSync, renameSync, rmSync, writeFileSync, writeSync } from "node:fs";
 import { readFile } from "node:fs/promises";
 import { join, resolve } from "node:path";
-import { decodeEntry, encodeEntry, encodeEntryParts } from "./entry-codec.ts";
+import { decodeEntry, encodeEntry, encodeEntryParts, FileBytes, type EntryPart } from "./entry-codec.ts";
 import { decodePack, encodePack, PACK_HEADER_BYTES, packIndexEnd, packKeys } from "./entry-pack.ts";
 
 /** Default cache folder, relative to the project root (the working directory). */
@@ -70,10 +70,11 @@ export class ResultCache {
 
   /**
    * Store a large value as put does, written piece by piece (encodeEntryParts): its typed
-   * arrays are not copied into one buffer first.
+   * arrays are not copied into one buffer first, and its FileBytes are copied from their files
+   * a few MB at a time. A file shorter than it was said to be leaves the entry unwritten.
    */
   putLarge(kind: string, key: string, value: unknown): void {
-    let parts: Uint8Array[];
+    let parts: EntryPart[];
     try {
       parts = encodeEntryParts(value);
     } catch {
@@ -142,7 +143,7 @@ export class ResultCache {
     this.writeFile("pack", name, encodePack(entries));
   }
 
-  private writeFile(kind: string, key: string, bytes: Uint8Array | Uint8Array[]): void {
+  private writeFile(kind: string, key: string, bytes: Uint8Array | EntryPart[]): void {
     const file = this.file(kind, key);
     const tmp = `${file}.tmp-${process.pid}-${tmpCounter++}`;
     try {
@@ -157,12 +158,36 @@ export class ResultCache {
   }
 }
 
-/** Write byte ranges one after the other into a new file. */
-function writeParts(path: string, parts: Uint8Array[]): void {
+/** Write byte ranges (or files' bytes) one after the other into a new file. */
+function writeParts(path: string, parts: EntryPart[]): void {
   const fd = openSync(path, "w");
   try {
-    for (const p of parts) for (let at = 0; at < p.byteLength; ) at += writeSync(fd, p, at, p.byteLength - at);
+    for (const p of parts) {
+      if (p instanceof FileBytes) copyFileBytes(p, fd);
+      else for (let at = 0; at < p.byteLength; ) at += writeSync(fd, p, at, p.byteLength - at);
+    }
   } finally {
     closeSync(fd);
   }
 }
+
+/** Copy a FileBytes' file to fd in pieces; throws when the file does not hold its byteLength bytes. */
+function copyFileBytes(f: FileBytes, fd: number): void {
+  const buf = Buffer.allocUnsafe(Math.min(COPY_PIECE_BYTES, Math.max(1, f.byteLength)));
+  const from = openSync(f.path, "r");
+  try {
+    let at = 0;
+    while (at < f.byteLength) {
+      const n = readSync(from, buf, 0, Math.min(buf.length, f.byteLength - at), at);
+      if (n === 0) break;
+      for (let w = 0; w < n; ) w += writeSync(fd, buf, w, n - w);
+      at += n;
+    }
+    if (at !== f.byteLength || readSync(from, buf, 0, 1, at) !== 0) throw new Error(`cache entry: ${f.path} does not hold ${f.byteLength} bytes`);
+  } finally {
+    closeSync(from);
+  }
+}
+
+/** Piece size for copying a file into an entry. */
+const COPY_PIECE_BYTES = 4 << 20;

@@ -1,7 +1,7 @@
-import { mkdirSync, readFileSync, writeFileSync } from "node:fs";
+import { mkdirSync, statSync, writeFileSync } from "node:fs";
 import { availableParallelism } from "node:os";
 import { join } from "node:path";
-import { decodeEntry } from "../cache/entry-codec.ts";
+import { decodeEntry, FileBytes } from "../cache/entry-codec.ts";
 import type { ResultCache } from "../cache/result-cache.ts";
 import type { CoverageInput, Study } from "../study/study.ts";
 import type { Terrain } from "../terrain/terrain.ts";
@@ -56,18 +56,24 @@ interface StoredFile {
   bytes: Uint8Array;
 }
 
+/** An output file as an entry is written: its bytes are copied from the file (FileBytes). */
+interface FileToStore {
+  name: string;
+  bytes: FileBytes;
+}
+
 /** A coverage entry's cache entry (the SVG is rebuilt from the figure: coverageMapSvg is pure). */
-interface CoverageEntry {
+interface CoverageEntry<F = StoredFile> {
   result: CoverageResult;
   figure: CoverageFigure;
   extra?: { suffix: string; figure: CoverageFigure }[];
-  files: StoredFile[];
+  files: F[];
   /** what the composite needs of a level coverage; null for visibility */
   member: Omit<CompositeMember, "result"> | null;
 }
 
 /** The composite's cache entry: its map, or why there is none. */
-type CompositeEntry = { warning: string } | { result: CoverageResult; figure: CoverageFigure; files: StoredFile[] };
+type CompositeEntry<F = StoredFile> = { warning: string } | { result: CoverageResult; figure: CoverageFigure; files: F[] };
 
 /**
  * Every coverage map of a study, each read from the cache or computed, then the multi-site
@@ -110,7 +116,7 @@ export async function cachedStudyCoverage(study: Study, o: CachedCoverageOptions
         const m = compositeMemberOf(a);
         member = m && { ...m, result };
         if (keys[i]) {
-          const stored: CoverageEntry = { result, figure: a.figure, extra: a.extra.map((x) => ({ suffix: x.suffix, figure: x.figure })), files: readFiles(o.outDir, result.files), member: m && { thresholds_dbm: m.thresholds_dbm, grid: m.grid, values: m.values, dem: m.dem } };
+          const stored: CoverageEntry<FileToStore> = { result, figure: a.figure, extra: a.extra.map((x) => ({ suffix: x.suffix, figure: x.figure })), files: readFiles(o.outDir, result.files), member: m && { thresholds_dbm: m.thresholds_dbm, grid: m.grid, values: m.values, dem: m.dem } };
           cache!.putLarge("coverage", keys[i], stored); // written piece by piece: its rasters are not copied again
         }
         run.cache.misses++;
@@ -161,7 +167,7 @@ async function addComposite(run: CachedStudyCoverage, study: Study, members: Com
   const { compute_s: _clock, ...result } = comp.result;
   run.results.push(result);
   run.composite = comp.outputs;
-  if (key) o.cache!.put("coverage", key, { result, figure: comp.outputs.figure, files: readFiles(o.outDir, result.files) } satisfies CompositeEntry);
+  if (key) o.cache!.putLarge("coverage", key, { result, figure: comp.outputs.figure, files: readFiles(o.outDir, result.files) } satisfies CompositeEntry<FileToStore>);
   run.cache.misses++;
 }
 
@@ -185,12 +191,12 @@ function bestServers(results: CoverageResult[]): void {
   for (const r of results) for (const s of r.p1812?.served_sites ?? []) s.best_server = best.get(s.site)!.id;
 }
 
-/** The bytes of the files a map wrote (names relative to dir). */
-function readFiles(dir: string, files: Record<string, string>): StoredFile[] {
-  return Object.values(files).map((name) => {
-    const b = readFileSync(join(dir, name));
-    return { name, bytes: new Uint8Array(b.buffer, b.byteOffset, b.byteLength) }; // a Uint8Array, not a Buffer, for the entry codec
-  });
+/**
+ * The files a map wrote (names relative to dir), for its entry: copied from the files as the
+ * entry is written (FileBytes), not read into memory (a 150 km map's level GeoTIFF is 260 MB).
+ */
+function readFiles(dir: string, files: Record<string, string>): FileToStore[] {
+  return Object.values(files).map((name) => ({ name, bytes: new FileBytes(join(dir, name), statSync(join(dir, name)).size) }));
 }
 
 const FILE_NAME = /^[A-Za-z0-9][A-Za-z0-9._-]*$/;

@@ -1,4 +1,4 @@
-import { elevationsFloat32 } from "./elevation-window.ts";
+import type { Elevations } from "./elevation-window.ts";
 import type { ComputedCoverage } from "./compute-coverage.ts";
 import type { ThresholdArea } from "./coverage-result.ts";
 
@@ -6,8 +6,8 @@ import type { ThresholdArea } from "./coverage-result.ts";
 export interface CoverageRaster {
   title: string;
   values: Float32Array | Uint8Array;
-  /** elevations on the same grid (for the map's hillshade) */
-  dem: Float32Array;
+  /** elevations on the same grid (for the map's hillshade; Float32 with NaN nodata or Int16, elevation-window.ts) */
+  dem: Elevations;
   width: number;
   height: number;
   geoTransform: [number, number, number, number, number, number];
@@ -82,7 +82,7 @@ export function coverageRaster(c: ComputedCoverage, title: string, areas: Thresh
   return {
     title,
     values: c.values,
-    dem: elevationsFloat32(c.dem),
+    dem: c.dem, // not copied: the map samples a few of its cells
     width: g.width,
     height: g.height,
     geoTransform: g.geoTransform,

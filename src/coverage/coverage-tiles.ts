@@ -81,17 +81,29 @@ export function tileUnits(job: CoverageJob, index: number, count: number): [numb
  * The box of grid cells that units from…to−1 can own: Hata rows whole; for radials, per face
  * of the sweep (radial-sweep.ts), the wedge between its first and last radial's ownership
  * bounds from the site to the radius plus the sweep's margin, widened by a cell on each side.
+ * The bounding box of tileFaceBoxes.
  */
-export function tileBox(job: CoverageJob, from: number, to: number): { col0: number; row0: number; width: number; height: number } {
+export function tileBox(job: CoverageJob, from: number, to: number): Box {
+  return boundingBox(tileFaceBoxes(job, from, to));
+}
+
+/**
+ * The boxes whose union holds every cell units from…to−1 can own: one per face of the sweep
+ * the units reach (each with the site's cell), or Hata's rows. A tile that ends one face and
+ * starts the next owns two wedges far apart (a 150 km map's tiles 4 and 14 span the whole grid
+ * together, 381 MB of Float32, but about 150 MB apart).
+ */
+export function tileFaceBoxes(job: CoverageJob, from: number, to: number): Box[] {
   const W = job.width;
   const H = job.height;
-  if (to <= from) return { col0: 0, row0: 0, width: 0, height: 0 };
-  if (job.method === "hata") return { col0: 0, row0: from, width: W, height: to - from };
+  if (to <= from) return [];
+  if (job.method === "hata") return [{ col0: 0, row0: from, width: W, height: to - from }];
   const rc = job.rc;
   const perFace = 2 * rc + 1;
   let minStep = Infinity;
   for (let r = 0; r < H; r++) minStep = Math.min(minStep, Math.abs(job.east_per_col_m[r]), Math.abs(job.north_per_row_m[r]));
   const { margin } = siteMetric(job);
+  const boxes: Box[] = [];
   let c0 = Infinity;
   let c1 = -Infinity;
   let r0 = Infinity;
@@ -102,8 +114,17 @@ export function tileBox(job: CoverageJob, from: number, to: number): { col0: num
     r0 = Math.min(r0, row);
     r1 = Math.max(r1, row);
   };
-  add(Math.floor(job.site_col), Math.floor(job.site_row));
-  add(Math.ceil(job.site_col), Math.ceil(job.site_row));
+  const start = () => {
+    c0 = r0 = Infinity;
+    c1 = r1 = -Infinity;
+    add(Math.floor(job.site_col), Math.floor(job.site_row));
+    add(Math.ceil(job.site_col), Math.ceil(job.site_row));
+  };
+  const close = () => {
+    const col0 = Math.max(0, c0);
+    const row0 = Math.max(0, r0);
+    boxes.push({ col0, row0, width: Math.max(0, Math.min(W - 1, c1) - col0 + 1), height: Math.max(0, Math.min(H - 1, r1) - row0 + 1) });
+  };
   for (let face = Math.floor(from / perFace); face * perFace < to; face++) {
     const tA = Math.max(from, face * perFace) - face * perFace - rc;
     const tB = Math.min(to, (face + 1) * perFace) - 1 - face * perFace - rc;
@@ -116,49 +137,112 @@ export function tileBox(job: CoverageJob, from: number, to: number): { col0: num
     const bHi = Math.ceil(ax.bs + Math.max(0, daMax * sHi)) + 1;
     const aLo = Math.floor(ax.sgn > 0 ? ax.as : ax.as - daMax) - 1;
     const aHi = Math.ceil(ax.sgn > 0 ? ax.as + daMax : ax.as) + 1;
+    start();
     if (ax.xMajor) (add(aLo, bLo), add(aHi, bHi));
     else (add(bLo, aLo), add(bHi, aHi));
+    close();
   }
-  const col0 = Math.max(0, c0);
-  const row0 = Math.max(0, r0);
-  const col1 = Math.min(W - 1, c1);
-  const row1 = Math.min(H - 1, r1);
+  if (boxes.length === 0) (start(), close()); // the site's cells alone
+  return boxes;
+}
+
+type Box = { col0: number; row0: number; width: number; height: number };
+
+/** The smallest box holding every box (empty boxes count too, as in tileBox before). */
+function boundingBox(boxes: Box[]): Box {
+  if (boxes.length === 0) return { col0: 0, row0: 0, width: 0, height: 0 };
+  const col0 = Math.min(...boxes.map((b) => b.col0));
+  const row0 = Math.min(...boxes.map((b) => b.row0));
+  const col1 = Math.max(...boxes.map((b) => b.col0 + b.width - 1));
+  const row1 = Math.max(...boxes.map((b) => b.row0 + b.height - 1));
   return { col0, row0, width: Math.max(0, col1 - col0 + 1), height: Math.max(0, row1 - row0 + 1) };
 }
 
 type Raster = Float32Array | Uint8Array;
-type Box = { col0: number; row0: number; width: number; height: number };
-
-function readBox<T extends Raster>(a: T, W: number, b: Box): T {
-  const out = (a instanceof Float32Array ? new Float32Array(b.width * b.height) : new Uint8Array(b.width * b.height)) as T;
-  for (let r = 0; r < b.height; r++) out.set(a.subarray((b.row0 + r) * W + b.col0, (b.row0 + r) * W + b.col0 + b.width), r * b.width);
-  return out;
-}
-
-function fillBox(a: Raster, W: number, b: Box, value: number): void {
-  for (let r = 0; r < b.height; r++) a.fill(value, (b.row0 + r) * W + b.col0, (b.row0 + r) * W + b.col0 + b.width);
-}
 
 /**
- * The runs of cells in the box whose value (or probability) is not nodata, and their values:
- * what a tile keeps of the box it was computed in.
+ * Per row of `box`, the columns its boxes cover there: [start, end) pairs, ascending, touching
+ * or overlapping ones merged (so that a run of cells never breaks at a boxes' seam).
  */
-function packRuns(out: Raster, prob: Float32Array | null, W: number, b: Box, nodata: number): { runs: Int32Array; values: Raster; probability: Float32Array | null } {
+function rowSpans(boxes: Box[], box: Box): number[][] {
+  const spans: number[][] = [];
+  for (let r = box.row0; r < box.row0 + box.height; r++) {
+    const cut = boxes
+      .filter((b) => b.width > 0 && r >= b.row0 && r < b.row0 + b.height)
+      .map((b) => [b.col0, b.col0 + b.width])
+      .sort((x, y) => x[0] - y[0]);
+    const row: number[] = [];
+    for (const [a, b] of cut) {
+      if (row.length && a <= row[row.length - 1]) row[row.length - 1] = Math.max(row[row.length - 1], b);
+      else row.push(a, b);
+    }
+    spans.push(row);
+  }
+  return spans;
+}
+
+/** Calls f(first, end) for each row span of the box, as row-major grid indices [first, end). */
+function eachSpan(W: number, box: Box, spans: number[][], f: (first: number, end: number) => void): void {
+  for (let r = 0; r < spans.length; r++) {
+    const at = (box.row0 + r) * W;
+    const row = spans[r];
+    for (let k = 0; k < row.length; k += 2) f(at + row[k], at + row[k + 1]);
+  }
+}
+
+/** The cells within the spans whose value differs from `nodata`, as runs (index, length) and values: what a tile sets aside and puts back. */
+function keepRuns<T extends Raster>(a: T, W: number, box: Box, spans: number[][], nodata: number): { runs: number[]; values: T } {
   const runs: number[] = [];
   let cells = 0;
-  for (let r = 0; r < b.height; r++) {
-    const at = (b.row0 + r) * W + b.col0;
+  eachSpan(W, box, spans, (first, end) => {
     let start = -1;
-    for (let c = 0; c <= b.width; c++) {
-      const has = c < b.width && (out[at + c] !== nodata || (prob !== null && prob[at + c] !== PROBABILITY_NODATA));
-      if (has && start < 0) start = c;
+    for (let i = first; i <= end; i++) {
+      const has = i < end && a[i] !== nodata;
+      if (has && start < 0) start = i;
       else if (!has && start >= 0) {
-        runs.push(at + start, c - start);
-        cells += c - start;
+        runs.push(start, i - start);
+        cells += i - start;
         start = -1;
       }
     }
+  });
+  const values = (a instanceof Float32Array ? new Float32Array(cells) : new Uint8Array(cells)) as T;
+  let p = 0;
+  for (let k = 0; k < runs.length; k += 2) {
+    values.set(a.subarray(runs[k], runs[k] + runs[k + 1]), p);
+    p += runs[k + 1];
   }
+  return { runs, values };
+}
+
+/** Put set-aside runs back. */
+function putRuns(a: Raster, kept: { runs: number[]; values: Raster }): void {
+  let p = 0;
+  for (let k = 0; k < kept.runs.length; k += 2) {
+    a.set(kept.values.subarray(p, p + kept.runs[k + 1]), kept.runs[k]);
+    p += kept.runs[k + 1];
+  }
+}
+
+/**
+ * The runs of cells in the box's spans whose value (or probability) is not nodata, and their
+ * values: what a tile keeps of the box it was computed in.
+ */
+function packRuns(out: Raster, prob: Float32Array | null, W: number, box: Box, spans: number[][], nodata: number): { runs: Int32Array; values: Raster; probability: Float32Array | null } {
+  const runs: number[] = [];
+  let cells = 0;
+  eachSpan(W, box, spans, (first, end) => {
+    let start = -1;
+    for (let i = first; i <= end; i++) {
+      const has = i < end && (out[i] !== nodata || (prob !== null && prob[i] !== PROBABILITY_NODATA));
+      if (has && start < 0) start = i;
+      else if (!has && start >= 0) {
+        runs.push(start, i - start);
+        cells += i - start;
+        start = -1;
+      }
+    }
+  });
   const values = out instanceof Float32Array ? new Float32Array(cells) : new Uint8Array(cells);
   const probability = prob ? new Float32Array(cells) : null;
   let p = 0;
@@ -168,17 +252,6 @@ function packRuns(out: Raster, prob: Float32Array | null, W: number, b: Box, nod
     p += runs[i + 1];
   }
   return { runs: Int32Array.from(runs), values, probability };
-}
-
-/** Write the box's values into the grid where they are not nodata (another tile's cells, or the tile's own). */
-function writeBox(a: Raster, W: number, b: Box, values: Raster, nodata: number): void {
-  for (let r = 0; r < b.height; r++) {
-    const at = (b.row0 + r) * W + b.col0;
-    for (let c = 0; c < b.width; c++) {
-      const v = values[r * b.width + c];
-      if (v !== nodata) a[at + c] = v;
-    }
-  }
 }
 
 function rasters(job: CoverageJob): { out: Raster; nodata: number; prob: Float32Array | null } {
@@ -196,21 +269,28 @@ const emptyTally = (n: number): TallyData => mergeTallies([], n);
  */
 export async function computeCoverageTile(job: CoverageJob, index: number, count: number, o: { pool?: CoveragePool | null; onProgress?: CoverageProgress; extract: boolean }): Promise<CoverageTile> {
   const [from, to] = tileUnits(job, index, count);
-  const box = o.extract ? tileBox(job, from, to) : { col0: 0, row0: 0, width: 0, height: 0 };
+  const boxes = o.extract ? tileFaceBoxes(job, from, to) : [];
+  const box = boundingBox(boxes);
+  // Only the cells of the face boxes are set aside (those the tile's radials can reach), and
+  // only those holding a value: a tile computed after others keeps theirs, not a copy of its
+  // whole box (which once held 381 MB for a tile spanning two faces of a 150 km map).
+  const spans = o.extract ? rowSpans(boxes, box) : [];
   const { out, nodata, prob } = rasters(job);
   const W = job.width;
-  const kept = o.extract ? readBox(out, W, box) : null;
-  const keptProb = o.extract && prob ? readBox(prob, W, box) : null;
+  const kept = o.extract ? keepRuns(out, W, box, spans, nodata) : null;
+  const keptProb = o.extract && prob ? keepRuns(prob, W, box, spans, PROBABILITY_NODATA) : null;
   if (o.extract) {
-    fillBox(out, W, box, nodata);
-    if (prob) fillBox(prob, W, box, PROBABILITY_NODATA);
+    eachSpan(W, box, spans, (first, end) => {
+      out.fill(nodata, first, end);
+      prob?.fill(PROBABILITY_NODATA, first, end);
+    });
   }
   const n = job.thresholds_dbm.length;
   const tally = from >= to ? emptyTally(n) : o.pool ? await o.pool.run(job, o.onProgress, [from, to]) : await runInThisThread(job, o.onProgress, [from, to]);
-  const packed = o.extract ? packRuns(out, prob, W, box, nodata) : { runs: new Int32Array(0), values: new Float32Array(0), probability: null };
+  const packed = o.extract ? packRuns(out, prob, W, box, spans, nodata) : { runs: new Int32Array(0), values: new Float32Array(0), probability: null };
   const tile: CoverageTile = { index, count, from, to, ...box, ...packed, tally };
-  if (kept) writeBox(out, W, box, kept, nodata);
-  if (keptProb) writeBox(prob!, W, box, keptProb, PROBABILITY_NODATA);
+  if (kept) putRuns(out, kept);
+  if (keptProb) putRuns(prob!, keptProb);
   return tile;
 }
 

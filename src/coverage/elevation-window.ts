@@ -21,14 +21,6 @@ export function elevationAt(dem: Elevations, i: number): number {
   return v === INT16_NODATA ? NaN : v;
 }
 
-/** The elevations as Float32 with NaN nodata (the array itself when it already is). */
-export function elevationsFloat32(dem: Elevations): Float32Array {
-  if (dem instanceof Float32Array) return dem;
-  const out = new Float32Array(dem.length);
-  for (let i = 0; i < dem.length; i++) out[i] = dem[i] === INT16_NODATA ? NaN : dem[i];
-  return out;
-}
-
 /**
  * The elevations of a coverage grid in a SharedArrayBuffer, read from the terrain once and
  * shared by every worker thread.

@@ -3,7 +3,8 @@ import { closeSync, fstatSync, openSync, readFileSync } from "node:fs";
 import { readFile } from "node:fs/promises";
 import { makeRasterGrid, RasterTerrain, type RasterTerrainOptions } from "./raster-terrain.ts";
 import { bilinearGrid } from "./bilinear-grid.ts";
-import { crsFromEpsg } from "../geo/crs-from-epsg.ts";
+import { BandBlocks, readStripSegments, segmentsReadable } from "./band-blocks.ts";
+import { crsFromEpsg, type Crs } from "../geo/crs-from-epsg.ts";
 import { bandLayout, decodeBands, readBandFloat32, readBandFloat32AsInt16, readBandInt16, waitForBands, type BandLayout, type PixelWindow, type TiffBandSource } from "./tiff-band-reader.ts";
 import { readTiffDirectory } from "./tiff-directory.ts";
 import type { RasterGrid } from "./terrain.ts";
@@ -39,9 +40,17 @@ const RASTER_PIXEL_IS_POINT = 2;
  * @param options.label how messages name the file (default: the path)
  * @param options.deferPixels decode the band only when `raster.data` is first read (the fast
  *   path only); single elevations and `readWindow` read just the pixels they need meanwhile
+ * @param options.blocks for a band of at least `minPixels` pixels (fast path only): decode
+ *   nothing when opening. Elevations and profiles read the band in blocks (BandBlocks, at most
+ *   `maxBytes` kept) — but over Deflate strips, which blocks inflate again for every profile
+ *   crossing them, once the profiles have read as many pixels as the band holds, it is decoded
+ *   whole for the next ones (a few links stay cheap, many cost at most twice a decode). Reading a
+ *   coverage grid's window (`readWindow`) lets the blocks or the decoded band go and reads the
+ *   window from the file (Int16 when it can): a study's DEM far larger than its links need is
+ *   not held beside its coverage grid. Same values.
  * @throws TerrainError when the file is missing, unreadable, not georeferenced or in another CRS
  */
-export async function openGeoTiff(path: string, options: { label?: string; deferPixels?: boolean } = {}): Promise<RasterTerrain> {
+export async function openGeoTiff(path: string, options: { label?: string; deferPixels?: boolean; blocks?: { minPixels: number; maxBytes: number } } = {}): Promise<RasterTerrain> {
   const label = options.label ?? path;
   const unreadable = (e: unknown) =>
     new TerrainError(
@@ -52,6 +61,7 @@ export async function openGeoTiff(path: string, options: { label?: string; defer
     );
   let raster: RasterGrid | null = null;
   let pixels: DeferredPixels | null = null;
+  let blocks: BandBlocks | null = null;
   try {
     const head = readGeoTiffHeader(path, label);
     if (head !== null) {
@@ -59,7 +69,8 @@ export async function openGeoTiff(path: string, options: { label?: string; defer
       raster = makeRasterGrid(head.width, head.height, head.gt, head.epsg, EMPTY, path);
       const px = pixels;
       Object.defineProperty(raster, "data", { enumerable: true, get: () => px.all() });
-      if (!options.deferPixels) px.all();
+      if (options.blocks && head.width * head.height >= options.blocks.minPixels) blocks = px.blocks(options.blocks!.maxBytes);
+      else if (!options.deferPixels) px.all();
     }
   } catch (e) {
     if (e instanceof TerrainError) throw e;
@@ -75,7 +86,7 @@ export async function openGeoTiff(path: string, options: { label?: string; defer
     raster = await parseGeoTiff(bytes, path, label);
   }
   const res = `${fmtRes(raster)}`;
-  return new GeoTiffTerrain(path, raster, pixels, {
+  return new GeoTiffTerrain(path, raster, pixels, { blocks, decodeForProfiles: !!pixels && !pixels.tiled && pixels.compressed }, {
     kind: "geotiff",
     description: `GeoTIFF ${label} (EPSG:${raster.epsg}, ${raster.width}×${raster.height}, ${res})`,
     synthetic: false,
@@ -119,6 +130,11 @@ class DeferredPixels {
     return this.layout.deflate;
   }
 
+  /** Whether the band is stored in tiles (not strips). */
+  get tiled(): boolean {
+    return this.layout.tiled;
+  }
+
   /** Whether the band holds Int16 samples (a window can then be read as Int16: half the memory). */
   get int16(): boolean {
     return this.layout.kind === "i16";
@@ -140,6 +156,17 @@ class DeferredPixels {
       closeSync(fd);
     }
     return waitForBands(src, w, ctrl) ? out : null;
+  }
+
+  /** The band read in blocks on demand (BandBlocks), at most maxBytes of them kept decoded. */
+  blocks(maxBytes: number): BandBlocks {
+    const segments = segmentsReadable(this.layout);
+    return new BandBlocks(this.layout, (w) => this.decode((fd) => (segments ? readStripSegments(fd, this.layout, this.nodata, w) : readBandFloat32(fd, this.layout, this.nodata, w, new Float32Array(w.width * w.height)))), maxBytes);
+  }
+
+  /** Let the decoded band go (decoded again when asked for). */
+  release(): void {
+    this.data = null;
   }
 
   all(): Float32Array {
@@ -195,13 +222,20 @@ class DeferredPixels {
  */
 class GeoTiffTerrain extends RasterTerrain {
   private hashed: string | null = null;
+  private geoCrs: Crs | null = null;
   constructor(
     private readonly path: string,
     raster: RasterGrid,
     private readonly pixels: DeferredPixels | null,
+    /** openGeoTiff's `blocks`: the band's blocks when it is read so, and whether many profiles decode it whole instead (Deflate strips) */
+    private readonly mode: { blocks: BandBlocks | null; decodeForProfiles: boolean },
     options: RasterTerrainOptions,
   ) {
     super(raster, options);
+  }
+
+  private get blocks(): BandBlocks | null {
+    return this.mode.blocks;
   }
 
   override fingerprint(): string {
@@ -221,6 +255,7 @@ class GeoTiffTerrain extends RasterTerrain {
    */
   override elevation(lat_deg: number, lon_deg: number): number {
     if (this.pixels === null || this.pixels.decoded) return super.elevation(lat_deg, lon_deg);
+    if (this.blocks) return this.blocks.bilinear(...this.pixelPosition(lat_deg, lon_deg));
     const r = this.raster;
     const crs = crsFromEpsg(r.epsg)!;
     const [x, y] = crs.geographic ? [lon_deg, lat_deg] : crs.toCrs(lat_deg, lon_deg);
@@ -240,6 +275,32 @@ class GeoTiffTerrain extends RasterTerrain {
     return bilinearGrid(this.pixels.window(w), w.width, w.height, col - c0, row - r0);
   }
 
+  /** Profiles as RasterTerrain samples them; before the band is decoded, through its blocks when it has them. */
+  override sample(lat_deg: ArrayLike<number>, lon_deg: ArrayLike<number>): { h_m: Float64Array; voidFilled: number; outside: number } {
+    const blocks = this.blocks;
+    if (blocks === null || this.pixels === null || this.pixels.decoded) return super.sample(lat_deg, lon_deg);
+    // Deflate strips: decoded whole once blocks have read the band's worth (openGeoTiff's `blocks`)
+    if (this.mode.decodeForProfiles && blocks.loadedPixels >= this.raster.width * this.raster.height) return super.sample(lat_deg, lon_deg);
+    const n = Math.min(lat_deg.length, lon_deg.length);
+    const h_m = new Float64Array(n);
+    let outside = 0;
+    for (let i = 0; i < n; i++) {
+      const h = blocks.bilinear(...this.pixelPosition(lat_deg[i], lon_deg[i]));
+      h_m[i] = h;
+      if (h !== h) outside++;
+    }
+    return { h_m, voidFilled: 0, outside };
+  }
+
+  /** Pixel-centre coordinates (col, row) of a point, computed as RasterTerrain does. */
+  private pixelPosition(lat_deg: number, lon_deg: number): [number, number] {
+    const r = this.raster;
+    const crs = (this.geoCrs ??= crsFromEpsg(r.epsg)!);
+    const [x, y] = crs.geographic ? [lon_deg, lat_deg] : crs.toCrs(lat_deg, lon_deg);
+    const [x0, dx, , y0, , dy] = r.geoTransform;
+    return [(x - x0) / dx - 0.5, (y - y0) / dy - 0.5];
+  }
+
   /**
    * Elevations of a window of the raster's own pixels (Float32 on a SharedArrayBuffer, NaN
    * nodata), read straight from the file when the band is not decoded yet — with `share`,
@@ -250,6 +311,11 @@ class GeoTiffTerrain extends RasterTerrain {
    * (≈ 45 M cells) feels.
    */
   readWindow(window: PixelWindow, share?: ShareDecode, int16 = false): Float32Array | Int16Array {
+    // a coverage grid holds its own elevations from now: what was kept for profiles can go
+    if (this.blocks) {
+      this.blocks.clear();
+      this.pixels?.release();
+    }
     // Shared only when blocks are compressed: inflating is work that threads divide, while
     // copying uncompressed blocks is bound by first writes to fresh memory, which measured
     // slower from three threads at once (0.44 s) than from one (0.33 s) for 89 MB here.

@@ -1,9 +1,9 @@
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
-import { mkdtempSync, rmSync } from "node:fs";
+import { mkdtempSync, rmSync, writeFileSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
-import { decodeEntry, encodeEntry, encodeEntryParts } from "../../src/cache/entry-codec.ts";
+import { decodeEntry, encodeEntry, encodeEntryParts, FileBytes } from "../../src/cache/entry-codec.ts";
 import { ResultCache } from "../../src/cache/result-cache.ts";
 import { decodePack, encodePack, packKeys } from "../../src/cache/entry-pack.ts";
 
@@ -49,13 +49,41 @@ describe("cache entry codec", () => {
       fc.assert(
         fc.property(tree, (v) => {
           const whole = encodeEntry(v);
-          expect(Buffer.concat(encodeEntryParts(v)).equals(whole)).toBe(true);
+          expect(Buffer.concat(encodeEntryParts(v) as Uint8Array[]).equals(whole)).toBe(true); // no FileBytes in v
           const key = (n++).toString(16).padStart(16, "0");
           cache.putLarge("t", key, v);
           expect(cache.getBytes("t", key)?.equals(whole)).toBe(true);
         }),
         { numRuns: 100 },
       );
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
+  });
+
+  it("stores a file's bytes (FileBytes) as the Uint8Array of them, copied in pieces, and no entry for a file that changed size", () => {
+    const dir = mkdtempSync(join(tmpdir(), "ridgeline-entry-file-"));
+    try {
+      const cache = new ResultCache(dir);
+      // 9 MB and some: more than two pieces of the copy, and a length that needs padding
+      for (const size of [0, 5, (9 << 20) + 3]) {
+        const bytes = Uint8Array.from({ length: size }, (_, i) => (i * 31 + (i >> 9)) & 255);
+        const path = join(dir, `f${size}.bin`);
+        writeFileSync(path, bytes);
+        const key = `f${size.toString(16)}`.padEnd(16, "0");
+        const value = { name: "a.tif", bytes: new FileBytes(path, size), after: [1.5, "x"] };
+        const expected = encodeEntry({ name: "a.tif", bytes, after: [1.5, "x"] });
+        expect(encodeEntry(value).equals(expected)).toBe(true);
+        cache.putLarge("t", key, value);
+        expect(cache.getBytes("t", key)?.equals(expected)).toBe(true);
+        expect(sameValue(decodeEntry(cache.getBytes("t", key)!), { name: "a.tif", bytes, after: [1.5, "x"] })).toBe(true);
+      }
+      const path = join(dir, "short.bin");
+      writeFileSync(path, new Uint8Array(10));
+      cache.putLarge("t", "5a".padEnd(16, "0"), { bytes: new FileBytes(path, 11) });
+      cache.putLarge("t", "5b".padEnd(16, "0"), { bytes: new FileBytes(path, 9) });
+      expect(cache.getBytes("t", "5a".padEnd(16, "0"))).toBeUndefined();
+      expect(cache.getBytes("t", "5b".padEnd(16, "0"))).toBeUndefined();
     } finally {
       rmSync(dir, { recursive: true, force: true });
     }

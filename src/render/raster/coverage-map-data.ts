@@ -1,6 +1,7 @@
 import sharp from "sharp";
 import type { CoverageMapData } from "../coverage-map.ts";
 import { hillshade } from "./hillshade.ts";
+import { elevationAt, type Elevations } from "../../coverage/elevation-window.ts";
 import { overlayRgba, type OverlayStyle } from "./coverage-overlay.ts";
 
 /** What the map needs of a computed coverage. */
@@ -8,7 +9,8 @@ export interface CoverageMapInput {
   title: string;
   /** coverage raster and its elevations, row-major, same grid */
   values: ArrayLike<number>;
-  dem: ArrayLike<number>;
+  /** Float32 with NaN nodata, or Int16 with INT16_NODATA (elevation-window.ts) */
+  dem: Elevations;
   width: number;
   height: number;
   /** ground metres per cell across and down (at the site) */
@@ -46,9 +48,13 @@ export async function coverageMapData(m: CoverageMapInput): Promise<CoverageMapD
   const sy = m.height / h;
   // terrain sampled at the map's pixels (nearest cell), then shaded at that spacing
   const z = new Float64Array(w * h);
+  const int16 = m.dem instanceof Int16Array;
   for (let r = 0; r < h; r++) {
     const rr = Math.min(m.height - 1, Math.floor((r + 0.5) * sy));
-    for (let c = 0; c < w; c++) z[r * w + c] = m.dem[rr * m.width + Math.min(m.width - 1, Math.floor((c + 0.5) * sx))];
+    for (let c = 0; c < w; c++) {
+      const i = rr * m.width + Math.min(m.width - 1, Math.floor((c + 0.5) * sx));
+      z[r * w + c] = int16 ? elevationAt(m.dem, i) : m.dem[i];
+    }
   }
   const { shade, valid } = hillshade(z, w, h, { dx_m: m.cell_m[0] * sx, dy_m: m.cell_m[1] * sy });
   const base = new Uint8Array(w * h * 4);
