@@ -155,6 +155,10 @@ function faceWavefront(fv: Float64Array, iv: Int32Array, iv2: Int32Array, st: Fl
   const tA = iv2[0], tB = iv2[1], uniformArea = iv2[2] === 1;
   const n = T1 - T0;
   const active = new Int32Array(n); // the radials that take their samples in the current block
+  const kRange = new Int32Array(2 * TILE); // per column of the block: the cells it visits, from, to
+  const dark = new Uint8Array(((bmax / TILE) | 0) + 1); // per tile across: 1 when its cells in the block are all not visible
+  const eMaj = eMajor < 0 ? -eMajor : eMajor;
+  const eMin = eMinor < 0 ? -eMinor : eMinor;
   let alive = n;
   // radials below iLo and from iHi on have ended (the outermost end first, as they leave the grid or the radius first)
   let iLo = 0;
@@ -174,6 +178,7 @@ function faceWavefront(fv: Float64Array, iv: Int32Array, iv2: Int32Array, st: Fl
     const da0 = (a0 - as) * sgn;
     // which radials may raise their horizon in this block: the others keep it as it is
     let nActive = 0;
+    let mayEnd = 0;
     for (let i = iLo; i < iHi; i++) {
       const j = 3 * i;
       const horizon = st[j + 2];
@@ -209,8 +214,73 @@ function faceWavefront(fv: Float64Array, iv: Int32Array, iv2: Int32Array, st: Fl
       const up0 = (top - hts) / d0;
       const upL = (top - hts) / (daL * st[j + 1]);
       const bound = (up0 > upL ? up0 : upL) - d0 * k2;
+      if (top === Infinity) mayEnd = 1; // a tile holding nodata: its sample may end the radial in this block
       if (bound < horizon - 1e-9 * (1 + (horizon < 0 ? -horizon : horizon))) continue;
       active[nActive++] = i;
+    }
+
+    // --- the cells each column of the block visits (k from kFrom to kTo), and the tiles
+    // whose cells all come out not visible (`dark`): every cell of the tile in the block is
+    // inside the radius and owned by a radial of this chunk that has not ended, the
+    // highest cell of the tile is below every such radial's horizon at the block's start
+    // (a horizon only rises, and with no nodata tile on the block's samples none ends in
+    // the block), so the comparison of each cell gives 0; they are written without it ---
+    let kMin = bmax;
+    let kMax = 0;
+    for (let m = m0; m <= mB; m++) {
+      const da = (aStart + sgn * m - as) * sgn;
+      let kFrom = Math.floor(bs + ((T0 - 0.5) * da) / rcf) - 1;
+      let kTo = Math.ceil(bs + ((T1 - 0.5) * da) / rcf) + 1;
+      if (kFrom < 0) kFrom = 0;
+      if (kTo > bmax) kTo = bmax;
+      // only the face's cells: |k − bs| ≤ da on the x faces, < da on the y faces (an interval of k)
+      while (kFrom <= kTo && (xMajor ? bs - kFrom > da : bs - kFrom >= da)) kFrom++;
+      while (kTo >= kFrom && (xMajor ? kTo - bs > da : kTo - bs >= da)) kTo--;
+      kRange[2 * (m - m0)] = kFrom;
+      kRange[2 * (m - m0) + 1] = kTo;
+      if (kFrom < kMin) kMin = kFrom;
+      if (kTo > kMax) kMax = kTo;
+    }
+    if (kMin <= kMax) {
+      const daB = da0 + (mB - m0);
+      const nearMajor = da0 * eMaj;
+      const farMajor = daB * eMaj;
+      for (let tb = (kMin / TILE) | 0, tbEnd = (kMax / TILE) | 0; tb <= tbEnd; tb++) {
+        dark[tb] = 0;
+        const top = tiles[ta * tA + tb * tB];
+        if (mayEnd === 1 || !uniformArea || !(top < Infinity)) continue;
+        const x0 = tb * TILE - bs; // the tile's cells, across (cells from the site)
+        const x1 = (tb * TILE + TILE - 1 > bmax ? bmax : tb * TILE + TILE - 1) - bs;
+        // the radials that can own them: t within ½ of x·rc/da at the tile's corners
+        const c00 = (x0 * rcf) / da0;
+        const c01 = (x0 * rcf) / daB;
+        const c10 = (x1 * rcf) / da0;
+        const c11 = (x1 * rcf) / daB;
+        const tLo = Math.floor(c00 < c01 ? (c00 < c10 ? (c00 < c11 ? c00 : c11) : c10 < c11 ? c10 : c11) : c01 < c10 ? (c01 < c11 ? c01 : c11) : c10 < c11 ? c10 : c11) - 1;
+        const tHi = Math.ceil(c00 > c01 ? (c00 > c10 ? (c00 > c11 ? c00 : c11) : c10 > c11 ? c10 : c11) : c01 > c10 ? (c01 > c11 ? c01 : c11) : c10 > c11 ? c10 : c11) + 1;
+        if (tLo < T0 || tHi >= T1) continue;
+        let h0 = Infinity;
+        for (let t = tLo; t <= tHi; t++) {
+          const h = st[3 * (t - T0) + 2];
+          if (h < h0) h0 = h;
+          else if (h !== h) h0 = NaN; // ended: its cells stay unvisited
+        }
+        if (h0 !== h0) continue;
+        // nearest and farthest cell (m), as a cell's d is at least dMin
+        const xNear = x0 > 0 ? x0 : x1 < 0 ? -x1 : 0;
+        const xFar = -x0 > x1 ? -x0 : x1;
+        let dNear = Math.sqrt(nearMajor * nearMajor + xNear * eMin * (xNear * eMin));
+        let dFar = Math.sqrt(farMajor * farMajor + xFar * eMin * (xFar * eMin));
+        if (dNear < dMin) dNear = dMin;
+        if (dFar < dMin) dFar = dMin;
+        if (dFar * (1 + 1e-12) >= R) continue; // a cell may lie outside the radius
+        // (h + hr − d²·k2 − hts)/d is at most (top + hr − hts)/d − dNear·k2 over the tile
+        const c = top + hr - hts;
+        const upNear = c / dNear;
+        const upFar = c / dFar;
+        const bound = (upNear > upFar ? upNear : upFar) - dNear * k2;
+        if (bound < h0 - 1e-9 * (1 + (h0 < 0 ? -h0 : h0))) dark[tb] = 1;
+      }
     }
 
     for (let m = m0; m <= mB; m++) {
@@ -223,45 +293,52 @@ function faceWavefront(fv: Float64Array, iv: Int32Array, iv2: Int32Array, st: Fl
       // visited when the owning radial reaches this column (as sweepRays: it has not ended
       // before), against its horizon over the columns before ---
       const invDa = 1 / da;
-      let kFrom = Math.floor(bs + ((T0 - 0.5) * da) / rcf) - 1;
-      let kTo = Math.ceil(bs + ((T1 - 0.5) * da) / rcf) + 1;
-      if (kFrom < 0) kFrom = 0;
-      if (kTo > bmax) kTo = bmax;
-      // only the face's cells: |k − bs| ≤ da on the x faces, < da on the y faces (an interval of k)
-      while (kFrom <= kTo && (xMajor ? bs - kFrom > da : bs - kFrom >= da)) kFrom++;
-      while (kTo >= kFrom && (xMajor ? kTo - bs > da : kTo - bs >= da)) kTo--;
-      for (let k = kFrom; k <= kTo; k++) {
-        const db = k - bs;
-        const x = db * rcf;
-        // a guess, moved by one when the exact test says so (written without a branch that the
-        // warm-up might never take: its first use would send the loop back to the interpreter)
-        let t = Math.round(x * invDa);
-        t += (x >= (t + 0.5) * da ? 1 : 0) - (x < (t - 0.5) * da ? 1 : 0); // (x·invDa is within 1e-8 of x/da: one step is all it can be off)
-        if (t < T0 || t >= T1) continue;
-        // (the radial's sample here is inside the grid, as the cell it owns is within half a
-        // cell of it, and inside the radius plus margin when the cell is inside the radius)
-        const horizon = st[3 * (t - T0) + 2];
-        if (horizon !== horizon) continue; // the radial ended before this column
-        const minor = db * eMinor;
-        const dc0 = Math.sqrt(major2 + minor * minor); // east² + north², summed in either order: the same bits as sweepRays
-        if (dc0 > R) continue;
-        const d = dc0 < dMin ? dMin : dc0;
-        const idx = aOffset + k * bStride;
-        const hc = dem[idx];
-        if (hc === -32768 || hc !== hc) {
-          // nodata (INT16_NODATA, or NaN in Float32 elevations)
-          failed++;
+      const kFrom = kRange[2 * (m - m0)];
+      const kTo = kRange[2 * (m - m0) + 1];
+      for (let k0 = kFrom; k0 <= kTo; ) {
+        const tb = (k0 / TILE) | 0;
+        const kEnd = tb * TILE + TILE - 1 < kTo ? tb * TILE + TILE - 1 : kTo;
+        if (dark[tb] === 1) {
+          // a dark tile's cells (see above): not visible
+          for (let k = k0; k <= kEnd; k++) out[aOffset + k * bStride] = 0;
+          cells += kEnd - k0 + 1;
+          k0 = kEnd + 1;
           continue;
         }
-        const v = hc + hr - d * d * k2 - hts > horizon * d ? 1 : 0; // as HorizonVisitor.cell
-        out[idx] = v;
-        cells++;
-        nVisible += v;
-        if (!uniformArea) {
-          const cellArea = area[xMajor ? k : a];
-          sum += cellArea;
-          visible += v * cellArea;
+        for (let k = k0; k <= kEnd; k++) {
+          const db = k - bs;
+          const x = db * rcf;
+          // a guess, moved by one when the exact test says so (written without a branch that the
+          // warm-up might never take: its first use would send the loop back to the interpreter)
+          let t = Math.round(x * invDa);
+          t += (x >= (t + 0.5) * da ? 1 : 0) - (x < (t - 0.5) * da ? 1 : 0); // (x·invDa is within 1e-8 of x/da: one step is all it can be off)
+          if (t < T0 || t >= T1) continue;
+          // (the radial's sample here is inside the grid, as the cell it owns is within half a
+          // cell of it, and inside the radius plus margin when the cell is inside the radius)
+          const horizon = st[3 * (t - T0) + 2];
+          if (horizon !== horizon) continue; // the radial ended before this column
+          const minor = db * eMinor;
+          const dc0 = Math.sqrt(major2 + minor * minor); // east² + north², summed in either order: the same bits as sweepRays
+          if (dc0 > R) continue;
+          const d = dc0 < dMin ? dMin : dc0;
+          const idx = aOffset + k * bStride;
+          const hc = dem[idx];
+          if (hc === -32768 || hc !== hc) {
+            // nodata (INT16_NODATA, or NaN in Float32 elevations)
+            failed++;
+            continue;
+          }
+          const v = hc + hr - d * d * k2 - hts > horizon * d ? 1 : 0; // as HorizonVisitor.cell
+          out[idx] = v;
+          cells++;
+          nVisible += v;
+          if (!uniformArea) {
+            const cellArea = area[xMajor ? k : a];
+            sum += cellArea;
+            visible += v * cellArea;
+          }
         }
+        k0 = kEnd + 1;
       }
       // --- the active radials' samples in this column (as sweepRays) join their horizons; a
       // nodata sample ends the radial ---
