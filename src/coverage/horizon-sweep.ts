@@ -157,8 +157,8 @@ function faceWavefront(fv: Float64Array, iv: Int32Array, iv2: Int32Array, st: Fl
   const active = new Int32Array(n); // the radials that take their samples in the current block
   const kRange = new Int32Array(2 * TILE); // per column of the block: the cells it visits, from, to
   const dark = new Uint8Array(((bmax / TILE) | 0) + 1); // per tile across: 1 when its cells in the block are all not visible
-  const eMaj = eMajor < 0 ? -eMajor : eMajor;
-  const eMin = eMinor < 0 ? -eMinor : eMinor;
+  const eMaj = Math.abs(eMajor); // (no branch the warm-up might not take: see below)
+  const eMin = Math.abs(eMinor);
   let alive = n;
   // radials below iLo and from iHi on have ended (the outermost end first, as they leave the grid or the radius first)
   let iLo = 0;
@@ -267,8 +267,8 @@ function faceWavefront(fv: Float64Array, iv: Int32Array, iv2: Int32Array, st: Fl
         }
         if (h0 !== h0) continue;
         // nearest and farthest cell (m), as a cell's d is at least dMin
-        const xNear = x0 > 0 ? x0 : x1 < 0 ? -x1 : 0;
-        const xFar = -x0 > x1 ? -x0 : x1;
+        const xNear = Math.max(0, x0, -x1);
+        const xFar = Math.max(-x0, x1);
         let dNear = Math.sqrt(nearMajor * nearMajor + xNear * eMin * (xNear * eMin));
         let dFar = Math.sqrt(farMajor * farMajor + xFar * eMin * (xFar * eMin));
         if (dNear < dMin) dNear = dMin;
@@ -279,7 +279,7 @@ function faceWavefront(fv: Float64Array, iv: Int32Array, iv2: Int32Array, st: Fl
         const upNear = c / dNear;
         const upFar = c / dFar;
         const bound = (upNear > upFar ? upNear : upFar) - dNear * k2;
-        if (bound < h0 - 1e-9 * (1 + (h0 < 0 ? -h0 : h0))) dark[tb] = 1;
+        if (bound < h0 - 1e-9 * (1 + Math.abs(h0))) dark[tb] = 1;
       }
     }
 
@@ -462,29 +462,44 @@ function tileRowMax(dem: Float32Array | Int16Array, offset: number, W: number, r
  * Run the sweep on a small made-up grid until the engine has optimised it for every face, so
  * that a thread about to sweep a large grid does not spend its first chunks in unoptimised
  * code and deoptimise at each new face (about 0.1 s per thread on a 100 km grid). For a pool
- * thread that would otherwise wait while the terrain is read. Int16 elevations, as read from
- * an Int16 GeoTIFF. Returns the visible share, so the work cannot be optimised away.
+ * thread that would otherwise wait while the terrain is read. `elements`: the type of the
+ * elevations the real grid will have (Int16 as read from an Int16 GeoTIFF, else Float32), so
+ * that the loads are optimised for it. Returns the visible share, so the work cannot be
+ * optimised away.
  */
-export function warmUpHorizonSweep(passes = 4): number {
-  const n = 81;
+export function warmUpHorizonSweep(passes = 2, elements: "int16" | "float32" = "int16"): number {
+  const n = 161; // wide enough for dark tiles (see faceWavefront) beyond the wall below
   const c = (n - 1) / 2;
-  const dem = new Int16Array(n * n);
-  for (let i = 0; i < dem.length; i++) dem[i] = 100 + ((i * 7919) % 61); // rough made-up relief
+  const dem = elements === "int16" ? new Int16Array(n * n) : new Float32Array(n * n);
+  for (let i = 0; i < dem.length; i++) dem[i] = 100 + ((i * 7919) % 61) + (elements === "int16" ? 0 : 0.25); // rough made-up relief
+  // a wall around half of the site, so that tiles behind it are dark (every branch of the
+  // loop is taken here: a branch first taken on the real grid would send it back to the
+  // interpreter in the middle of a chunk)
+  for (let r = 0; r < n; r++) {
+    for (let col = 0; col < n; col++) {
+      const ring = Math.max(Math.abs(col - c), Math.abs(r - c));
+      if (ring >= 5 && ring <= 6 && (col > c || r < c)) dem[r * n + col] = 400;
+    }
+  }
   // and a hole inside the radius, so that the nodata branches (a cell that fails, a sample
   // that ends its radial) are known too
-  for (const [c0, r0] of [[52, 47], [30, 25]]) for (let r = r0; r < r0 + 2; r++) for (let c = c0; c < c0 + 3; c++) dem[r * n + c] = INT16_NODATA;
+  const nodata = elements === "int16" ? INT16_NODATA : NaN;
+  for (const [c0, r0] of [[52, 47], [30, 25]]) for (let r = r0; r < r0 + 2; r++) for (let col = c0; col < c0 + 3; col++) dem[r * n + col] = nodata;
   const cell = 30;
-  const g: SweepGeometry = { width: n, height: n, site_col: c, site_row: c, radius_m: c * cell, east_per_col_m: new Float64Array(n).fill(cell), north_per_row_m: new Float64Array(n).fill(-cell) };
+  // the site on a cell centre and between centres (a real grid's site seldom is on one)
+  const sites = [[c, c], [c + 0.37, c - 0.29]].map(([col, row]): SweepGeometry => ({ width: n, height: n, site_col: col, site_row: row, radius_m: c * cell - 30, east_per_col_m: new Float64Array(n).fill(cell), north_per_row_m: new Float64Array(n).fill(-cell) }));
   const rc = c + 1;
   const out = new Uint8Array(n * n);
   const area = new Float64Array(n).fill(cell * cell);
   const tally = new CoverageTally(Float64Array.of(1));
   const rays = 4 * (2 * rc + 1);
   const p: HorizonParams = { hts_m: 160, receiver_m: 2, k2: 1 / (2 * 8_494_666) };
-  const tiles = horizonTileTable(n, n);
   for (let k = 0; k < passes; k++) {
     // chunks of a few radials, as the pool hands them out, some straddling faces
-    for (let q = 0; q < rays; q += 37) horizonSweep(g, dem, rc, q, Math.min(rays, q + 37), p, out, area, tally, tiles);
+    for (const g of sites) {
+      const tiles = horizonTileTable(n, n);
+      for (let q = 0; q < rays; q += 37) horizonSweep(g, dem, rc, q, Math.min(rays, q + 37), p, out, area, tally, tiles);
+    }
   }
   const t = tally.data();
   return t.area_m2 > 0 ? t.at_least_m2[0] / t.area_m2 : 0;
