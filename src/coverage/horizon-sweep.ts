@@ -77,8 +77,7 @@ export function horizonSweep(g: SweepGeometry, dem: Float32Array | Int16Array, r
     }
   }
   // one area for every cell (a projected grid): the tally counts cells and multiplies at the end
-  let uniformArea = true;
-  for (let r = 1; r < H; r++) if (area[r] !== area[0]) uniformArea = false;
+  const uniformArea = sameValues(area, H);
   const iv2 = new Int32Array(3);
   fillTileTable(tiles, dem, g);
   for (let face = Math.floor(q0 / perFace); face * perFace < q1; face++) {
@@ -97,30 +96,9 @@ export function horizonSweep(g: SweepGeometry, dem: Float32Array | Int16Array, r
     // length per column (m) and its horizon — the steepest (z − hts)/d of its samples so far,
     // z = h − d²·k2 — or NaN once it has ended (left the grid or the radius, or met nodata)
     const st = new Float64Array(3 * (to - from));
-    // and the last column at which it samples: past it the radial has left the grid or the
-    // radius plus the margin (both grow with the column, so the first such column is found
-    // by halving, with the test sweepRays makes)
+    // and the last column at which it samples
     const last = new Int32Array(to - from);
-    for (let i = 0; i < to - from; i++) {
-      const s = (from + i) / rc;
-      const step = xMajor ? Math.hypot(metric.ex, s * metric.ny) : Math.hypot(s * metric.ex, metric.ny);
-      st[3 * i] = s;
-      st[3 * i + 1] = step;
-      st[3 * i + 2] = -Infinity;
-      const ends = (m: number) => {
-        const da = (axes.aStart + axes.sgn * m - axes.as) * axes.sgn;
-        const b = axes.bs + da * s;
-        return b < -0.5 || b > axes.bmax + 0.5 || da * step - metric.margin > g.radius_m;
-      };
-      let lo = 0;
-      let hi = axes.mMax + 1; // past the grid's edge
-      while (hi - lo > 1) {
-        const mid = (lo + hi) >> 1;
-        if (ends(mid)) hi = mid;
-        else lo = mid;
-      }
-      last[i] = lo;
-    }
+    radialSetup(fv, iv, st, last, metric.ex, metric.ny);
     const tilesAcross = Math.ceil(W / HORIZON_TILE);
     iv2[0] = xMajor ? 1 : tilesAcross; // tile index step along the major axis, the minor axis
     iv2[1] = xMajor ? tilesAcross : 1;
@@ -130,6 +108,42 @@ export function horizonSweep(g: SweepGeometry, dem: Float32Array | Int16Array, r
     const [cells, area_m2, visible, nVisible, failed] = sums;
     const some = cells > 0; // (each comparison below is made on every call, the warm-up's too)
     tally.addSums({ cells, area_m2, at_least_m2: [visible], failed, min: some ? (nVisible < cells ? 0 : 1) : Infinity, max: some ? (nVisible > 0 ? 1 : 0) : -Infinity, reliability_m2: [0] });
+  }
+}
+
+/** Whether a[0…n−1] are all equal (a loop of its own: see radialSetup). */
+function sameValues(a: Float64Array, n: number): boolean {
+  for (let r = 1; r < n; r++) if (a[r] !== a[0]) return false;
+  return true;
+}
+
+/**
+ * Each radial's slope, step length and horizon (−∞) into `st`, and its last column into
+ * `last`: past it the radial has left the grid or the radius plus the margin (both grow with
+ * the column, so the first such column is found by halving, with the test sweepRays makes).
+ * A function of its own, so that horizonSweep, which runs once per chunk, never becomes hot
+ * enough to be compiled with the wavefront inlined (compiling costs each thread tens of ms).
+ * @param ex metres per column, @param ny metres per row (at the site)
+ */
+function radialSetup(fv: Float64Array, iv: Int32Array, st: Float64Array, last: Int32Array, ex: number, ny: number): void {
+  const R = fv[0], margin = fv[1], as = fv[6], bs = fv[7], rcf = fv[10];
+  const xMajor = iv[0] === 1, sgn = iv[1], bmax = iv[2], aStart = iv[6], mMax = iv[7], T0 = iv[8], T1 = iv[9];
+  for (let i = 0; i < T1 - T0; i++) {
+    const s = (T0 + i) / rcf;
+    const step = xMajor ? Math.hypot(ex, s * ny) : Math.hypot(s * ex, ny);
+    st[3 * i] = s;
+    st[3 * i + 1] = step;
+    st[3 * i + 2] = -Infinity;
+    let lo = 0;
+    let hi = mMax + 1; // past the grid's edge
+    while (hi - lo > 1) {
+      const mid = (lo + hi) >> 1;
+      const da = (aStart + sgn * mid - as) * sgn;
+      const b = bs + da * s;
+      if (b < -0.5 || b > bmax + 0.5 || da * step - margin > R) hi = mid;
+      else lo = mid;
+    }
+    last[i] = lo;
   }
 }
 
@@ -430,10 +444,10 @@ function fillTileTable(tiles: Float32Array, dem: Float32Array | Int16Array, g: S
       const tcHi = Math.min(across - 1, Math.floor((Math.ceil(g.site_col + half) + 1) / TILE));
       if (tcLo <= tcHi) {
         row.fill(-Infinity, tcLo, tcHi + 1);
-        for (let r = r0; r < r1; r++) tileRowMax(dem, r * W, W, row, tcLo, tcHi);
+        tileRowsMax(dem, r0, r1, W, row, tcLo, tcHi);
       }
     }
-    for (let tc = 0; tc < across; tc++) tiles[tr * across + tc] = row[tc];
+    tiles.set(row, tr * across); // (no loop here: this function is not worth compiling)
     Atomics.add(ctrl, 1, 1);
     Atomics.notify(ctrl, 1);
   }
@@ -444,17 +458,20 @@ function fillTileTable(tiles: Float32Array, dem: Float32Array | Int16Array, g: S
   }
 }
 
-/** Raise row[tc] to the highest of the cells of tile columns tcLo…tcHi in one grid row (+∞ at nodata). */
-function tileRowMax(dem: Float32Array | Int16Array, offset: number, W: number, row: Float64Array, tcLo: number, tcHi: number): void {
-  for (let tc = tcLo, c0 = tcLo * TILE; tc <= tcHi && c0 < W; tc++, c0 += TILE) {
-    let top = row[tc];
-    const c1 = c0 + TILE < W ? c0 + TILE : W;
-    for (let c = c0; c < c1; c++) {
-      const v = dem[offset + c];
-      if (v === -32768 || v !== v) top = Infinity;
-      else if (v > top) top = v;
+/** Raise row[tc] to the highest of the cells of tile columns tcLo…tcHi in grid rows r0…r1−1 (+∞ at nodata). */
+function tileRowsMax(dem: Float32Array | Int16Array, r0: number, r1: number, W: number, row: Float64Array, tcLo: number, tcHi: number): void {
+  for (let r = r0; r < r1; r++) {
+    const offset = r * W;
+    for (let tc = tcLo, c0 = tcLo * TILE; tc <= tcHi && c0 < W; tc++, c0 += TILE) {
+      let top = row[tc];
+      const c1 = c0 + TILE < W ? c0 + TILE : W;
+      for (let c = c0; c < c1; c++) {
+        const v = dem[offset + c];
+        if (v === -32768 || v !== v) top = Infinity;
+        else if (v > top) top = v;
+      }
+      row[tc] = top;
     }
-    row[tc] = top;
   }
 }
 
@@ -470,30 +487,21 @@ function tileRowMax(dem: Float32Array | Int16Array, offset: number, W: number, r
 export function warmUpHorizonSweep(passes = 2, elements: "int16" | "float32" = "int16"): number {
   const n = 161; // wide enough for dark tiles (see faceWavefront) beyond the wall below
   const c = (n - 1) / 2;
-  const dem = elements === "int16" ? new Int16Array(n * n) : new Float32Array(n * n);
-  for (let i = 0; i < dem.length; i++) dem[i] = 100 + ((i * 7919) % 61) + (elements === "int16" ? 0 : 0.25); // rough made-up relief
-  // a wall around half of the site, so that tiles behind it are dark (every branch of the
-  // loop is taken here: a branch first taken on the real grid would send it back to the
-  // interpreter in the middle of a chunk)
-  for (let r = 0; r < n; r++) {
-    for (let col = 0; col < n; col++) {
-      const ring = Math.max(Math.abs(col - c), Math.abs(r - c));
-      if (ring >= 5 && ring <= 6 && (col > c || r < c)) dem[r * n + col] = 400;
-    }
-  }
-  // and a hole inside the radius, so that the nodata branches (a cell that fails, a sample
-  // that ends its radial) are known too
-  const nodata = elements === "int16" ? INT16_NODATA : NaN;
-  for (const [c0, r0] of [[52, 47], [30, 25]]) for (let r = r0; r < r0 + 2; r++) for (let col = c0; col < c0 + 3; col++) dem[r * n + col] = nodata;
+  const dem = warmUpRelief(n, elements);
   const cell = 30;
   // the site on a cell centre and between centres (a real grid's site seldom is on one)
-  const sites = [[c, c], [c + 0.37, c - 0.29]].map(([col, row]): SweepGeometry => ({ width: n, height: n, site_col: col, site_row: row, radius_m: c * cell - 30, east_per_col_m: new Float64Array(n).fill(cell), north_per_row_m: new Float64Array(n).fill(-cell) }));
+  const sites = [[c + 0.37, c - 0.29], [c, c]].map(([col, row]): SweepGeometry => ({ width: n, height: n, site_col: col, site_row: row, radius_m: c * cell - 30, east_per_col_m: new Float64Array(n).fill(cell), north_per_row_m: new Float64Array(n).fill(-cell) }));
   const rc = c + 1;
   const out = new Uint8Array(n * n);
   const area = new Float64Array(n).fill(cell * cell);
   const tally = new CoverageTally(Float64Array.of(1));
   const rays = 4 * (2 * rc + 1);
   const p: HorizonParams = { hts_m: 160, receiver_m: 2, k2: 1 / (2 * 8_494_666) };
+  // first a few short calls on every face in turn (a small radius), so that the engine's
+  // first optimised code already knows all four: each face it learns later costs a compile
+  const near = { ...sites[0], radius_m: 12 * cell };
+  const perFace = 2 * rc + 1;
+  for (let j = 0; j < 4; j++) for (const face of [0, 2, 1, 3]) horizonSweep(near, dem, rc, face * perFace + j * 37, face * perFace + j * 37 + 37, p, out, area, tally, horizonTileTable(n, n));
   for (let k = 0; k < passes; k++) {
     // chunks of a few radials, as the pool hands them out, some straddling faces
     for (const g of sites) {
@@ -503,4 +511,28 @@ export function warmUpHorizonSweep(passes = 2, elements: "int16" | "float32" = "
   }
   const t = tally.data();
   return t.area_m2 > 0 ? t.at_least_m2[0] / t.area_m2 : 0;
+}
+
+/**
+ * The warm-up's made-up elevations (a function of its own, so that its loops do not get the
+ * warm-up itself compiled): rough relief, a wall around half of the centre, so that tiles
+ * behind it are dark (every branch of the loop is taken in the warm-up: a branch first taken
+ * on the real grid would send it back to the interpreter in the middle of a chunk), and holes
+ * inside the radius, so that the nodata branches (a cell that fails, a sample that ends its
+ * radial) are known too.
+ */
+function warmUpRelief(n: number, elements: "int16" | "float32"): Int16Array | Float32Array {
+  const c = (n - 1) / 2;
+  const dem = elements === "int16" ? new Int16Array(n * n) : new Float32Array(n * n);
+  for (let i = 0; i < dem.length; i++) dem[i] = 100 + ((i * 7919) % 61) + (elements === "int16" ? 0 : 0.25);
+  for (let r = 0; r < n; r++) {
+    for (let col = 0; col < n; col++) {
+      const ring = Math.max(Math.abs(col - c), Math.abs(r - c));
+      if (ring >= 5 && ring <= 6 && (col > c || r < c)) dem[r * n + col] = 400;
+    }
+  }
+  const nodata = elements === "int16" ? INT16_NODATA : NaN;
+  for (const [c0, r0] of [[52, 47], [30, 25]]) for (let r = r0; r < r0 + 2; r++) for (let col = c0; col < c0 + 3; col++) dem[r * n + col] = nodata;
+  dem[(c + 3) * n + c + 8] = nodata; // one cell: the radials pass it (a sample takes the nearer cell), the cell fails
+  return dem;
 }
