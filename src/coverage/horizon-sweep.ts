@@ -171,6 +171,7 @@ function faceWavefront(fv: Float64Array, iv: Int32Array, iv2: Int32Array, st: Fl
   const active = new Int32Array(n); // the radials that take their samples in the current block
   const kRange = new Int32Array(2 * TILE); // per column of the block: the cells it visits, from, to
   const dark = new Uint8Array(((bmax / TILE) | 0) + 1); // per tile across: 1 when its cells in the block are all not visible
+  const low = new Float64Array(dark.length); // per tile across: cells below this are not visible (−∞: test each cell)
   const eMaj = Math.abs(eMajor); // (no branch the warm-up might not take: see below)
   const eMin = Math.abs(eMinor);
   let alive = n;
@@ -238,7 +239,9 @@ function faceWavefront(fv: Float64Array, iv: Int32Array, iv2: Int32Array, st: Fl
     // inside the radius and owned by a radial of this chunk that has not ended, the
     // highest cell of the tile is below every such radial's horizon at the block's start
     // (a horizon only rises, and with no nodata tile on the block's samples none ends in
-    // the block), so the comparison of each cell gives 0; they are written without it ---
+    // the block), so the comparison of each cell gives 0; they are written without it.
+    // Where the same holds but for the highest cell, a cell below the tile's `low` is not
+    // visible either, which a single comparison tells ---
     let kMin = bmax;
     let kMax = 0;
     for (let m = m0; m <= mB; m++) {
@@ -250,6 +253,21 @@ function faceWavefront(fv: Float64Array, iv: Int32Array, iv2: Int32Array, st: Fl
       // only the face's cells: |k − bs| ≤ da on the x faces, < da on the y faces (an interval of k)
       while (kFrom <= kTo && (xMajor ? bs - kFrom > da : bs - kFrom >= da)) kFrom++;
       while (kTo >= kFrom && (xMajor ? kTo - bs > da : kTo - bs >= da)) kTo--;
+      // and only the cells this chunk's radials own (the owner, as the cells below find it,
+      // grows with k): the tiles at the chunk's edges are then dark for their part in it
+      const invDa = 1 / da;
+      for (; kFrom <= kTo; kFrom++) {
+        const x = (kFrom - bs) * rcf;
+        let t = Math.round(x * invDa);
+        t += (x >= (t + 0.5) * da ? 1 : 0) - (x < (t - 0.5) * da ? 1 : 0);
+        if (t >= T0) break;
+      }
+      for (; kTo >= kFrom; kTo--) {
+        const x = (kTo - bs) * rcf;
+        let t = Math.round(x * invDa);
+        t += (x >= (t + 0.5) * da ? 1 : 0) - (x < (t - 0.5) * da ? 1 : 0);
+        if (t < T1) break;
+      }
       kRange[2 * (m - m0)] = kFrom;
       kRange[2 * (m - m0) + 1] = kTo;
       if (kFrom < kMin) kMin = kFrom;
@@ -261,6 +279,7 @@ function faceWavefront(fv: Float64Array, iv: Int32Array, iv2: Int32Array, st: Fl
       const farMajor = daB * eMaj;
       for (let tb = (kMin / TILE) | 0, tbEnd = (kMax / TILE) | 0; tb <= tbEnd; tb++) {
         dark[tb] = 0;
+        low[tb] = -Infinity;
         const top = tiles[ta * tA + tb * tB];
         if (mayEnd === 1 || !uniformArea || !(top < Infinity)) continue;
         const x0 = tb * TILE - bs; // the tile's cells, across (cells from the site)
@@ -270,11 +289,11 @@ function faceWavefront(fv: Float64Array, iv: Int32Array, iv2: Int32Array, st: Fl
         const c01 = (x0 * rcf) / daB;
         const c10 = (x1 * rcf) / da0;
         const c11 = (x1 * rcf) / daB;
-        const tLo = Math.floor(c00 < c01 ? (c00 < c10 ? (c00 < c11 ? c00 : c11) : c10 < c11 ? c10 : c11) : c01 < c10 ? (c01 < c11 ? c01 : c11) : c10 < c11 ? c10 : c11) - 1;
-        const tHi = Math.ceil(c00 > c01 ? (c00 > c10 ? (c00 > c11 ? c00 : c11) : c10 > c11 ? c10 : c11) : c01 > c10 ? (c01 > c11 ? c01 : c11) : c10 > c11 ? c10 : c11) + 1;
-        if (tLo < T0 || tHi >= T1) continue;
+        const tLo = Math.floor(Math.min(c00, c01, c10, c11)) - 1;
+        const tHi = Math.ceil(Math.max(c00, c01, c10, c11)) + 1;
+        // (the cells visited are those of radials T0…T1−1: see kRange)
         let h0 = Infinity;
-        for (let t = tLo; t <= tHi; t++) {
+        for (let t = tLo < T0 ? T0 : tLo, tEnd = tHi >= T1 ? T1 - 1 : tHi; t <= tEnd; t++) {
           const h = st[3 * (t - T0) + 2];
           if (h < h0) h0 = h;
           else if (h !== h) h0 = NaN; // ended: its cells stay unvisited
@@ -292,8 +311,21 @@ function faceWavefront(fv: Float64Array, iv: Int32Array, iv2: Int32Array, st: Fl
         const c = top + hr - hts;
         const upNear = c / dNear;
         const upFar = c / dFar;
-        const bound = (upNear > upFar ? upNear : upFar) - dNear * k2;
-        if (bound < h0 - 1e-9 * (1 + Math.abs(h0))) dark[tb] = 1;
+        const bound = Math.max(upNear, upFar) - dNear * k2;
+        if (bound < h0 - 1e-9 * (1 + Math.abs(h0))) {
+          dark[tb] = 1;
+          continue;
+        }
+        // otherwise a cell is not visible when hc < h0·d + d²·k2 + hts − hr for every d of the
+        // tile (its horizon is at least h0): the least of that parabola in d over [dNear, dFar],
+        // less a margin far above the rounding of the comparison, is the tile's `low`
+        const dStar = k2 > 0 ? -h0 / (2 * k2) : dNear;
+        const dIn = Math.min(Math.max(dStar, dNear), dFar); // (Math.min/max: no branch the warm-up might miss)
+        const gNear = (h0 + dNear * k2) * dNear;
+        const gFar = (h0 + dFar * k2) * dFar;
+        const gIn = (h0 + dIn * k2) * dIn;
+        const gMin = Math.min(gNear, gFar, gIn) + hts - hr;
+        low[tb] = gMin - 1e-6 * (1 + Math.abs(gMin));
       }
     }
 
@@ -319,7 +351,17 @@ function faceWavefront(fv: Float64Array, iv: Int32Array, iv2: Int32Array, st: Fl
           k0 = kEnd + 1;
           continue;
         }
+        const lowHere = low[tb];
         for (let k = k0; k <= kEnd; k++) {
+          const idx = aOffset + k * bStride;
+          const hc = dem[idx];
+          if (hc < lowHere) {
+            // below what any radial of the tile could see (see above; never nodata: a tile
+            // holding nodata has low = −∞)
+            out[idx] = 0;
+            cells++;
+            continue;
+          }
           const db = k - bs;
           const x = db * rcf;
           // a guess, moved by one when the exact test says so (written without a branch that the
@@ -335,8 +377,6 @@ function faceWavefront(fv: Float64Array, iv: Int32Array, iv2: Int32Array, st: Fl
           const dc0 = Math.sqrt(major2 + minor * minor); // east² + north², summed in either order: the same bits as sweepRays
           if (dc0 > R) continue;
           const d = dc0 < dMin ? dMin : dc0;
-          const idx = aOffset + k * bStride;
-          const hc = dem[idx];
           if (hc === -32768 || hc !== hc) {
             // nodata (INT16_NODATA, or NaN in Float32 elevations)
             failed++;
