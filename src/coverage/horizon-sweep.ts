@@ -524,7 +524,7 @@ function tileRowsMax(dem: Float32Array | Int16Array, r0: number, r1: number, W: 
  * that the loads are optimised for it. Returns the visible share, so the work cannot be
  * optimised away.
  */
-export function warmUpHorizonSweep(passes = 2, elements: "int16" | "float32" = "int16"): number {
+export function warmUpHorizonSweep(passes = 1, elements: "int16" | "float32" = "int16"): number {
   const n = 161; // wide enough for dark tiles (see faceWavefront) beyond the wall below
   const c = (n - 1) / 2;
   const dem = warmUpRelief(n, elements);
