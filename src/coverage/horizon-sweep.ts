@@ -52,7 +52,9 @@ export function horizonSweepApplies(g: SweepGeometry): boolean {
  * interpolation between two cells, so it is never above the higher one; a tile holding
  * nodata bounds nothing (+∞), so a sample that would end its radial is always taken. Over
  * rough ground seen from a low mast most blocks are skipped (nine in ten on the benchmark's
- * 100 km grid); the cells are all visited as before.
+ * 100 km grid). Cells are bounded by tile in the same way (faceWavefront: "dark" tiles and
+ * each tile's `low`), which writes 0 without the per-cell comparison only where that
+ * comparison is sure to give 0: every cell gets the value it had.
  * @param out visibility raster (1 visible, 0 not), written for the cells these radials own
  * @param area ground area of a cell per row (m²)
  * @param tiles the grid's horizonTileTable, filled by the first sweep given it (the threads
