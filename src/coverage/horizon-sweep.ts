@@ -193,6 +193,49 @@ function faceWavefront(fv: Float64Array, iv: Int32Array, iv2: Int32Array, st: Fl
     let mB = sgn > 0 ? m0 + (ta * TILE + TILE - 1 - a0) : m0 + (a0 - ta * TILE);
     if (mB > mMax) mB = mMax;
     const da0 = (a0 - as) * sgn;
+    // the cells each column of the block visits, k from kFrom to kTo (see below)
+    let kMin = bmax;
+    let fullBlock = 1;
+    let kMax = 0;
+    for (let m = m0; m <= mB; m++) {
+      const da = (aStart + sgn * m - as) * sgn;
+      let kFrom = Math.floor(bs + ((T0 - 0.5) * da) / rcf) - 1;
+      let kTo = Math.ceil(bs + ((T1 - 0.5) * da) / rcf) + 1;
+      if (kFrom < 0) kFrom = 0;
+      if (kTo > bmax) kTo = bmax;
+      // only the face's cells: |k − bs| ≤ da on the x faces, < da on the y faces (an interval of k)
+      while (kFrom <= kTo && (xMajor ? bs - kFrom > da : bs - kFrom >= da)) kFrom++;
+      while (kTo >= kFrom && (xMajor ? kTo - bs > da : kTo - bs >= da)) kTo--;
+      // and only the cells this chunk's radials own (the owner, as the cells below find it,
+      // grows with k): the tiles at the chunk's edges are then dark for their part in it
+      const invDa = 1 / da;
+      for (; kFrom <= kTo; kFrom++) {
+        const x = (kFrom - bs) * rcf;
+        let t = Math.round(x * invDa);
+        t += (x >= (t + 0.5) * da ? 1 : 0) - (x < (t - 0.5) * da ? 1 : 0);
+        if (t >= T0) break;
+      }
+      for (; kTo >= kFrom; kTo--) {
+        const x = (kTo - bs) * rcf;
+        let t = Math.round(x * invDa);
+        t += (x >= (t + 0.5) * da ? 1 : 0) - (x < (t - 0.5) * da ? 1 : 0);
+        if (t < T1) break;
+      }
+      if (kFrom > kTo) fullBlock = 0;
+      kRange[2 * (m - m0)] = kFrom;
+      kRange[2 * (m - m0) + 1] = kTo;
+      if (kFrom < kMin) kMin = kFrom;
+      if (kTo > kMax) kMax = kTo;
+    }
+    // the highest tile the block's samples can read (they lie within a cell of the cells
+    // their radials own, so within kMin − 3 … kMax + 3): a radial whose bound from it cannot
+    // raise its horizon is passed over before its own tiles are looked up (the same decision,
+    // as the bound only grows with the height)
+    let blockTop = Infinity;
+    if (fullBlock === 1 && kMin <= kMax) {
+      blockTop = -Infinity;
+      for (let tb = ((kMin - 3 < 0 ? 0 : kMin - 3) / TILE) | 0, tbEnd = ((kMax + 3 > bmax ? bmax : kMax + 3) / TILE) | 0; tb <= tbEnd; tb++) blockTop = Math.max(blockTop, tiles[ta * tA + tb * tB]);
+    }
     // which radials may raise their horizon in this block: the others keep it as it is
     let nActive = 0;
     let mayEnd = 0;
@@ -210,6 +253,13 @@ function faceWavefront(fv: Float64Array, iv: Int32Array, iv2: Int32Array, st: Fl
       }
       const mL = mB < end ? mB : end;
       const daL = da0 + (mL - m0);
+      if (blockTop < Infinity) {
+        const d0b = da0 * st[j + 1];
+        const up0b = (blockTop - hts) / d0b;
+        const upLb = (blockTop - hts) / (daL * st[j + 1]);
+        const boundB = (up0b > upLb ? up0b : upLb) - d0b * k2;
+        if (boundB < horizon - 1e-9 * (1 + (horizon < 0 ? -horizon : horizon))) continue;
+      }
       const s = st[j];
       const b0 = bs + da0 * s;
       const bL = bs + daL * s;
@@ -244,37 +294,6 @@ function faceWavefront(fv: Float64Array, iv: Int32Array, iv2: Int32Array, st: Fl
     // the block), so the comparison of each cell gives 0; they are written without it.
     // Where the same holds but for the highest cell, a cell below the tile's `low` is not
     // visible either, which a single comparison tells ---
-    let kMin = bmax;
-    let kMax = 0;
-    for (let m = m0; m <= mB; m++) {
-      const da = (aStart + sgn * m - as) * sgn;
-      let kFrom = Math.floor(bs + ((T0 - 0.5) * da) / rcf) - 1;
-      let kTo = Math.ceil(bs + ((T1 - 0.5) * da) / rcf) + 1;
-      if (kFrom < 0) kFrom = 0;
-      if (kTo > bmax) kTo = bmax;
-      // only the face's cells: |k − bs| ≤ da on the x faces, < da on the y faces (an interval of k)
-      while (kFrom <= kTo && (xMajor ? bs - kFrom > da : bs - kFrom >= da)) kFrom++;
-      while (kTo >= kFrom && (xMajor ? kTo - bs > da : kTo - bs >= da)) kTo--;
-      // and only the cells this chunk's radials own (the owner, as the cells below find it,
-      // grows with k): the tiles at the chunk's edges are then dark for their part in it
-      const invDa = 1 / da;
-      for (; kFrom <= kTo; kFrom++) {
-        const x = (kFrom - bs) * rcf;
-        let t = Math.round(x * invDa);
-        t += (x >= (t + 0.5) * da ? 1 : 0) - (x < (t - 0.5) * da ? 1 : 0);
-        if (t >= T0) break;
-      }
-      for (; kTo >= kFrom; kTo--) {
-        const x = (kTo - bs) * rcf;
-        let t = Math.round(x * invDa);
-        t += (x >= (t + 0.5) * da ? 1 : 0) - (x < (t - 0.5) * da ? 1 : 0);
-        if (t < T1) break;
-      }
-      kRange[2 * (m - m0)] = kFrom;
-      kRange[2 * (m - m0) + 1] = kTo;
-      if (kFrom < kMin) kMin = kFrom;
-      if (kTo > kMax) kMax = kTo;
-    }
     if (kMin <= kMax) {
       const daB = da0 + (mB - m0);
       const nearMajor = da0 * eMaj;
