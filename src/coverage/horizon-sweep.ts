@@ -59,8 +59,11 @@ export function horizonSweepApplies(g: SweepGeometry): boolean {
  * @param area ground area of a cell per row (m²)
  * @param tiles the grid's horizonTileTable, filled by the first sweep given it (the threads
  *   sharing one table fill it together); default a new one
+ * @param zeroed `out` was filled by fillLineOfSightRaster (0 inside the radius, 255 outside)
+ *   rather than with 255: the sweep then writes only visible cells and, inside the radius,
+ *   the cells it computes no value for (255), with the same raster as a result
  */
-export function horizonSweep(g: SweepGeometry, dem: Float32Array | Int16Array, rc: number, q0: number, q1: number, p: HorizonParams, out: Uint8Array, area: Float64Array, tally: CoverageTally, tiles: Float32Array = horizonTileTable(g.width, g.height)): void {
+export function horizonSweep(g: SweepGeometry, dem: Float32Array | Int16Array, rc: number, q0: number, q1: number, p: HorizonParams, out: Uint8Array, area: Float64Array, tally: CoverageTally, tiles: Float32Array = horizonTileTable(g.width, g.height), zeroed = false): void {
   const xs = g.site_col;
   const ys = g.site_row;
   const W = g.width;
@@ -71,8 +74,10 @@ export function horizonSweep(g: SweepGeometry, dem: Float32Array | Int16Array, r
   if (q0 === 0 && Number.isInteger(xs) && Number.isInteger(ys) && xs >= 0 && xs < W && ys >= 0 && ys < H) {
     // the cell holding the site, with no samples before it (as sweepRays)
     const hc = dem[ys * W + xs];
-    if (hc === INT16_NODATA || hc !== hc) tally.fail();
-    else {
+    if (hc === INT16_NODATA || hc !== hc) {
+      tally.fail();
+      if (zeroed) out[ys * W + xs] = 255;
+    } else {
       const v = hc + p.receiver_m - dMin * dMin * p.k2 - p.hts_m > -Infinity * dMin ? 1 : 0;
       out[ys * W + xs] = v;
       tally.add(v, area[ys]);
@@ -80,7 +85,8 @@ export function horizonSweep(g: SweepGeometry, dem: Float32Array | Int16Array, r
   }
   // one area for every cell (a projected grid): the tally counts cells and multiplies at the end
   const uniformArea = sameValues(area, H);
-  const iv2 = new Int32Array(3);
+  const iv2 = new Int32Array(4);
+  iv2[3] = zeroed ? 1 : 0;
   fillTileTable(tiles, dem, g);
   for (let face = Math.floor(q0 / perFace); face * perFace < q1; face++) {
     const from = Math.max(q0, face * perFace) - face * perFace - rc;
@@ -110,6 +116,44 @@ export function horizonSweep(g: SweepGeometry, dem: Float32Array | Int16Array, r
     const [cells, area_m2, visible, nVisible, failed] = sums;
     const some = cells > 0; // (each comparison below is made on every call, the warm-up's too)
     tally.addSums({ cells, area_m2, at_least_m2: [visible], failed, min: some ? (nVisible < cells ? 0 : 1) : Infinity, max: some ? (nVisible > 0 ? 1 : 0) : -Infinity, reliability_m2: [0] });
+  }
+}
+
+/**
+ * Prepare a fresh, zero-filled visibility raster for horizonSweep's `zeroed` mode: `value`
+ * (nodata) at every cell outside the radius — a cell whose distance from the site, computed
+ * as the sweep computes it (√(Δeast² + Δnorth²) with the site row's metric), exceeds the
+ * radius — leaving 0 inside, which the sweep keeps for every cell it finds not visible. Only
+ * the rows' outer parts are written: the rest of a fresh buffer is never touched unless a cell
+ * there is visible (pages never written cost nothing).
+ */
+export function fillLineOfSightRaster(out: Uint8Array, g: SweepGeometry, value: number): void {
+  const { ex, ny } = siteMetric(g);
+  const W = g.width;
+  const R = g.radius_m;
+  const xs = g.site_col;
+  const inside = (c: number, dy2: number) => {
+    const dx = (c - xs) * ex;
+    return Math.sqrt(dx * dx + dy2) <= R;
+  };
+  for (let r = 0; r < g.height; r++) {
+    const dy = (r - g.site_row) * ny;
+    const dy2 = dy * dy;
+    const half = Math.sqrt(Math.max(0, R * R - dy2)) / Math.abs(ex);
+    // the row's cells inside form one interval about the site: find its ends exactly
+    let a = Math.max(0, Math.floor(xs - half) - 2);
+    const stop = Math.min(W - 1, Math.ceil(xs + half) + 2);
+    while (a <= stop && !inside(a, dy2)) a++;
+    if (a > stop) {
+      out.fill(value, r * W, r * W + W);
+      continue;
+    }
+    while (a > 0 && inside(a - 1, dy2)) a--;
+    let b = Math.min(W - 1, Math.ceil(xs + half) + 2);
+    while (b > a && !inside(b, dy2)) b--;
+    while (b < W - 1 && inside(b + 1, dy2)) b++;
+    out.fill(value, r * W, r * W + a);
+    out.fill(value, r * W + b + 1, r * W + W);
   }
 }
 
@@ -168,7 +212,7 @@ function radialSetup(fv: Float64Array, iv: Int32Array, st: Float64Array, last: I
 function faceWavefront(fv: Float64Array, iv: Int32Array, iv2: Int32Array, st: Float64Array, last: Int32Array, dem: Float32Array | Int16Array, tiles: Float32Array, out: Uint8Array, area: Float64Array, sums: Float64Array): void {
   const R = fv[0], dMin = fv[2], hts = fv[3], hr = fv[4], k2 = fv[5], as = fv[6], bs = fv[7], eMajor = fv[8], eMinor = fv[9], rcf = fv[10];
   const xMajor = iv[0] === 1, sgn = iv[1], bmax = iv[2], aStride = iv[3], bStride = iv[4], bNext = iv[5], aStart = iv[6], mMax = iv[7], T0 = iv[8], T1 = iv[9];
-  const tA = iv2[0], tB = iv2[1], uniformArea = iv2[2] === 1;
+  const tA = iv2[0], tB = iv2[1], uniformArea = iv2[2] === 1, zeroed = iv2[3] === 1;
   const n = T1 - T0;
   const active = new Int32Array(n); // the radials that take their samples in the current block
   const kRange = new Int32Array(2 * TILE); // per column of the block: the cells it visits, from, to
@@ -186,7 +230,8 @@ function faceWavefront(fv: Float64Array, iv: Int32Array, iv2: Int32Array, st: Fl
   let nVisible = 0;
   let failed = 0;
 
-  for (let m0 = 1; m0 <= mMax && alive > 0; ) {
+  let nodataEnds = 0; // radials ended by nodata: their cells inside the radius are set to 255 when `zeroed`
+  for (let m0 = 1; m0 <= mMax && (alive > 0 || (zeroed && nodataEnds > 0)); ) {
     // --- a block: the columns m0…mB of one tile column ---
     const a0 = aStart + sgn * m0;
     const ta = (a0 / TILE) | 0;
@@ -366,8 +411,8 @@ function faceWavefront(fv: Float64Array, iv: Int32Array, iv2: Int32Array, st: Fl
         const tb = (k0 / TILE) | 0;
         const kEnd = tb * TILE + TILE - 1 < kTo ? tb * TILE + TILE - 1 : kTo;
         if (dark[tb] === 1) {
-          // a dark tile's cells (see above): not visible
-          for (let k = k0; k <= kEnd; k++) out[aOffset + k * bStride] = 0;
+          // a dark tile's cells (see above): not visible (0 already when `zeroed`)
+          if (!zeroed) for (let k = k0; k <= kEnd; k++) out[aOffset + k * bStride] = 0;
           cells += kEnd - k0 + 1;
           k0 = kEnd + 1;
           continue;
@@ -379,7 +424,7 @@ function faceWavefront(fv: Float64Array, iv: Int32Array, iv2: Int32Array, st: Fl
           if (hc < lowHere) {
             // below what any radial of the tile could see (see above; never nodata: a tile
             // holding nodata has low = −∞)
-            out[idx] = 0;
+            if (!zeroed) out[idx] = 0;
             cells++;
             continue;
           }
@@ -393,14 +438,20 @@ function faceWavefront(fv: Float64Array, iv: Int32Array, iv2: Int32Array, st: Fl
           // (the radial's sample here is inside the grid, as the cell it owns is within half a
           // cell of it, and inside the radius plus margin when the cell is inside the radius)
           const horizon = st[3 * (t - T0) + 2];
-          if (horizon !== horizon) continue; // the radial ended before this column
           const minor = db * eMinor;
+          if (horizon !== horizon) {
+            // the radial ended before this column: no value (inside the radius only after
+            // nodata, as past a radial's last column its cells are outside the radius)
+            if (zeroed && Math.sqrt(major2 + minor * minor) <= R) out[idx] = 255;
+            continue;
+          }
           const dc0 = Math.sqrt(major2 + minor * minor); // east² + north², summed in either order: the same bits as sweepRays
           if (dc0 > R) continue;
           const d = dc0 < dMin ? dMin : dc0;
           if (hc === -32768 || hc !== hc) {
             // nodata (INT16_NODATA, or NaN in Float32 elevations)
             failed++;
+            if (zeroed) out[idx] = 255;
             continue;
           }
           const v = hc + hr - d * d * k2 - hts > horizon * d ? 1 : 0; // as HorizonVisitor.cell
@@ -438,6 +489,7 @@ function faceWavefront(fv: Float64Array, iv: Int32Array, iv2: Int32Array, st: Fl
         if (hs !== hs) {
           st[j + 2] = NaN;
           alive--;
+          nodataEnds++;
           continue;
         }
         const z = hs - ds * ds * k2 - hts;
@@ -562,13 +614,15 @@ export function warmUpHorizonSweep(passes = 1, elements: "int16" | "float32" = "
   // first optimised code already knows all four: each face it learns later costs a compile
   const near = { ...sites[0], radius_m: 12 * cell };
   const perFace = 2 * rc + 1;
-  for (let j = 0; j < 4; j++) for (const face of [0, 2, 1, 3]) horizonSweep(near, dem, rc, face * perFace + j * 37, face * perFace + j * 37 + 37, p, out, area, tally, horizonTileTable(n, n));
+  for (let j = 0; j < 4; j++) for (const face of [0, 2, 1, 3]) horizonSweep(near, dem, rc, face * perFace + j * 37, face * perFace + j * 37 + 37, p, out, area, tally, horizonTileTable(n, n), true);
   for (let k = 0; k < passes; k++) {
     // chunks of a few radials, as the pool hands them out, some straddling faces
-    for (const g of sites) {
+    // (as `ridgeline coverage` computes, into a raster holding 0 inside the radius — the
+    // feedback the first compile gets — then the second site as other callers do)
+    sites.forEach((g, i) => {
       const tiles = horizonTileTable(n, n);
-      for (let q = 0; q < rays; q += 37) horizonSweep(g, dem, rc, q, Math.min(rays, q + 37), p, out, area, tally, tiles);
-    }
+      for (let q = 0; q < rays; q += 37) horizonSweep(g, dem, rc, q, Math.min(rays, q + 37), p, out, area, tally, tiles, i === 0);
+    });
   }
   const t = tally.data();
   return t.area_m2 > 0 ? t.at_least_m2[0] / t.area_m2 : 0;
@@ -593,7 +647,8 @@ function warmUpRelief(n: number, elements: "int16" | "float32"): Int16Array | Fl
     }
   }
   const nodata = elements === "int16" ? INT16_NODATA : NaN;
-  for (const [c0, r0] of [[52, 47], [30, 25]]) for (let r = r0; r < r0 + 2; r++) for (let col = c0; col < c0 + 3; col++) dem[r * n + col] = nodata;
+  // (one of them south-west of the centre, outside the wall, where radials reach it and end)
+  for (const [c0, r0] of [[52, 47], [30, 25], [50, 100]]) for (let r = r0; r < r0 + 2; r++) for (let col = c0; col < c0 + 3; col++) dem[r * n + col] = nodata;
   dem[(c + 3) * n + c + 8] = nodata; // one cell: the radials pass it (a sample takes the nearer cell), the cell fails
   return dem;
 }
