@@ -26,14 +26,15 @@ const parts: Record<string, () => Promise<unknown>> = {
   lazy_tiles: benchLazyTiles,
   large_coverage: () => benchLargeCoverage(),
   coverage_p1812: () => benchCoverage({ only: "p1812" }),
+  coverage_visibility: () => benchCoverage({ visibilityOnly: true }),
 };
 
 /**
  * Parts a plain `npm run bench` leaves out: the 150 km coverage takes minutes (run it with
  * `npm run bench -- --large-coverage`); coverage_p1812 is inside `coverage` (run it alone with
- * `--part coverage_p1812`).
+ * `--part coverage_p1812`), and so is the comparison with gdal_viewshed (alone: `--part coverage_visibility`).
  */
-const onRequest: Record<string, string | null> = { large_coverage: "--large-coverage", coverage_p1812: null };
+const onRequest: Record<string, string | null> = { large_coverage: "--large-coverage", coverage_p1812: null, coverage_visibility: null };
 
 const at = process.argv.indexOf("--part");
 if (at >= 0) {

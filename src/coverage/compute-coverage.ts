@@ -14,7 +14,7 @@ import { validateCoverageRequest, type CoverageRequest, type FieldNames } from "
 import type { TallyData } from "./coverage-tally.ts";
 import { elevationWindow, type Elevations } from "./elevation-window.ts";
 import { raysPerHalfFace } from "./radial-sweep.ts";
-import { horizonTileTable, lineOfSightOnly } from "./horizon-sweep.ts";
+import { fillLineOfSightRaster, horizonSweepApplies, horizonTileTable, lineOfSightOnly } from "./horizon-sweep.ts";
 import { CoverageError } from "./coverage-error.ts";
 import { p1812Job } from "./p1812-setup.ts";
 
@@ -84,9 +84,15 @@ export async function runCoverage(prepared: PreparedCoverage, options: Pick<Comp
   const out = new SharedArrayBuffer(isLevel ? cells * 4 : cells);
   const values = isLevel ? new Float32Array(out) : new Uint8Array(out);
   const nodata = isLevel ? LEVEL_NODATA : VISIBILITY_NODATA;
-  if (options.pool && !options.tiles) await options.pool.fill(values, nodata); // with tiles at hand, not worth waiting for the threads
-  else values.fill(nodata);
   const job: CoverageJob = { ...base, out };
+  // line of sight straight into this raster: nodata outside the radius, the fresh buffer's
+  // zeros inside (horizon-sweep.ts: the sweep writes only what differs)
+  const zeroed = !options.tiles && lineOfSightOnly(base.method, base.clearance_f1) && horizonSweepApplies(base);
+  if (zeroed) {
+    fillLineOfSightRaster(values as Uint8Array, base, nodata);
+    job.out_zeroed = true;
+  } else if (options.pool && !options.tiles) await options.pool.fill(values, nodata); // with tiles at hand, not worth waiting for the threads
+  else values.fill(nodata);
   // made here, with the result, so that it always belongs to these elevations
   if (lineOfSightOnly(base.method, base.clearance_f1)) job.dem_tile_max = horizonTileTable(base.width, base.height).buffer as SharedArrayBuffer;
   const t1 = performance.now();

@@ -54,6 +54,12 @@ export interface CoverageJob extends SweepGeometry {
    * which belongs to `dem` (a job given other elevations must not carry it); absent, each thread makes its own
    */
   dem_tile_max?: SharedArrayBuffer;
+  /**
+   * Line of sight computed straight into the map's raster: `out` already holds 0 at every cell
+   * inside the radius and nodata outside (horizon-sweep.ts, `fillLineOfSightRaster`), so the
+   * sweep writes only the cells that differ (visible ones, and nodata where it computes none).
+   */
+  out_zeroed?: boolean;
   /** p1812 only: the method's statistics, clutter classes and the location-probability raster */
   p1812?: P1812Job;
 }

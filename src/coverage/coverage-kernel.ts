@@ -36,7 +36,7 @@ export function createChunkRunner(job: CoverageJob): { run(from: number, to: num
     return {
       run(from, to) {
         tally.reset();
-        horizonSweep(job, dem, job.rc, from, to, params, out, job.cell_area_m2, tally, tiles);
+        horizonSweep(job, dem, job.rc, from, to, params, out, job.cell_area_m2, tally, tiles, job.out_zeroed === true);
         return tally.data();
       },
     };

@@ -50,6 +50,15 @@ export class CoveragePool {
   }
 
   /**
+   * Have each thread run the line-of-sight sweep on a small made-up grid of elevations of this
+   * type (warmUpHorizonSweep), as `start` does with `warmUp`, for a caller that learns the
+   * elevations' type (from the terrain's header) after starting the threads.
+   */
+  warmUp(elements: "int16" | "float32"): void {
+    for (const w of this.workers) w.postMessage({ type: "warm-up", elements } satisfies ToWorker);
+  }
+
+  /**
    * Have every thread decode shares of a GeoTIFF window too (see decodeBands); the caller
    * decodes its own shares and waits for theirs. Threads still loading join when ready.
    */

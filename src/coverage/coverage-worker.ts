@@ -11,7 +11,7 @@ import { warmUpHorizonSweep } from "./horizon-sweep.ts";
 export type ToWorker =
   | { type: "job"; job: CoverageJob }
   | { type: "chunk"; from: number; to: number }
-  | { type: "warm-up" }
+  | { type: "warm-up"; elements?: "int16" | "float32" }
   | { type: "fill"; values: Float32Array | Uint8Array; value: number; from: number; to: number }
   | { type: "decode"; src: TiffBandSource; window: PixelWindow; out: Float32Array | Int16Array; ctrl: Int32Array };
 
@@ -32,7 +32,7 @@ port.on("message", (m: ToWorker) => {
       if (fd !== null) closeSync(fd);
     }
   } else if (m.type === "warm-up") {
-    warmUpHorizonSweep();
+    warmUpHorizonSweep(undefined, m.elements ?? "int16");
   } else if (m.type === "fill") {
     m.values.fill(m.value, m.from, m.to);
     port.postMessage({ type: "filled" });

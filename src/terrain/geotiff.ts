@@ -248,6 +248,11 @@ class GeoTiffTerrain extends RasterTerrain {
     return this.pixels === null || this.pixels.decoded;
   }
 
+  /** Whether readWindow(…, int16 = true) gives Int16 for this band's type (Float32 bands of whole metres aside, which only reading tells). */
+  get windowsInt16(): boolean {
+    return this.pixels !== null && this.pixels.int16;
+  }
+
   /**
    * Bilinear elevation as RasterTerrain computes it; before the band is decoded, from the 4×4
    * pixels around the point (clamped to the raster), which hold every pixel the interpolation

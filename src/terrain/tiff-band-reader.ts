@@ -100,6 +100,7 @@ export function readBandFloat32(fd: number, layout: BandLayout, nodata: number |
   const kind = layout.kind;
   // Nodata in the band's own type: integers only match an integer, Float32 its rounding.
   const nd = nodata === null || Number.isNaN(nodata) ? null : kind === "f32" ? Math.fround(nodata) : Number.isInteger(nodata) ? nodata : null;
+  if (kind === "f32" && readRowsDirect(fd, layout, win, out, nd === null ? undefined : (from, to) => markNodata(out, from, to, nd))) return out;
   decodeWindow(fd, layout, win, (samples, src, dst, n) => {
     if (kind === "i32") {
       // Int32 → Float32 rounds: compare with nodata before converting
@@ -128,6 +129,7 @@ export function readBandInt16(fd: number, layout: BandLayout, nodata: number | n
   const win = window ?? { col0: 0, row0: 0, width: layout.width, height: layout.height };
   const out = into ?? new Int16Array(new SharedArrayBuffer(win.width * win.height * 2));
   const nd = nodata !== null && Number.isInteger(nodata) && nodata !== INT16_NODATA ? nodata : null;
+  if (readRowsDirect(fd, layout, win, out, nd === null ? undefined : (from, to) => markInt16Nodata(out, from, to, nd))) return out;
   decodeWindow(fd, layout, win, (samples, src, dst, n) => {
     out.set((samples as Int16Array).subarray(src, src + n), dst);
     if (nd !== null) for (let i = dst; i < dst + n; i++) if (out[i] === nd) out[i] = INT16_NODATA;
@@ -172,6 +174,44 @@ function wholeToInt16(samples: Float32Array, src: number, out: Int16Array, dst: 
   }
   return true;
 }
+
+/**
+ * Read a window of an uncompressed, unpredicted band in strips whose samples are stored as
+ * `out` holds them (little-endian Int16 into an Int16Array, Float32 into a Float32Array) with
+ * one read per window row straight from the file into `out`: no block buffer and no copy of
+ * it (on a SharedArrayBuffer that copy is a slow element-wise move). False, reading nothing,
+ * for any other layout (decodeWindow then reads it).
+ * @param onRow called with the samples just read, out[from…to) (while they are in the cache)
+ * @throws Error when a strip is shorter than its rows
+ */
+function readRowsDirect(fd: number, layout: BandLayout, win: PixelWindow, out: Int16Array | Float32Array, onRow?: (from: number, to: number) => void): boolean {
+  const bps = out.BYTES_PER_ELEMENT;
+  const kind = out instanceof Int16Array ? "i16" : "f32";
+  if (layout.kind !== kind || layout.deflate || layout.predictor !== 1 || layout.tiled || !layout.littleEndian || !LITTLE_ENDIAN_HOST) return false;
+  const bytes = new Uint8Array(out.buffer, out.byteOffset, out.byteLength);
+  const { width: W, bh, offsets, counts } = layout;
+  for (let r = 0; r < win.height; r++) {
+    const row = win.row0 + r;
+    const a = win.spans ? win.spans[2 * r] : 0;
+    const b = win.spans ? win.spans[2 * r + 1] : win.width;
+    if (b <= a) continue;
+    const strip = Math.floor(row / bh);
+    const at = ((row - strip * bh) * W + win.col0 + a) * bps; // within the strip
+    const n = (b - a) * bps;
+    if (at + n > counts[strip]) throw new Error(`block ${strip} holds ${counts[strip]} bytes, expected at least ${at + n}`);
+    const got = readInto(fd, bytes.subarray((r * win.width + a) * bps, (r * win.width + b) * bps), offsets[strip] + at);
+    if (got < n) throw new Error(`block ${strip} holds ${got} bytes from ${at}, expected ${n}`);
+    onRow?.(r * win.width + a, r * win.width + b);
+  }
+  return true;
+}
+
+/** Replace every value equal to `nd` in out[from…to) by INT16_NODATA. */
+function markInt16Nodata(out: Int16Array, from: number, to: number, nd: number): void {
+  for (let i = from; i < to; i++) if (out[i] === nd) out[i] = INT16_NODATA;
+}
+
+const LITTLE_ENDIAN_HOST = new Uint8Array(Uint16Array.of(1).buffer)[0] === 1;
 
 /** Copies n samples of one row of a decoded block, from samples[src…] to the window at dst. */
 type CopyRow = (samples: ArrayLike<number>, src: number, dst: number, n: number) => void;

@@ -7,7 +7,7 @@ import type { CoverageJob } from "../../src/coverage/coverage-job.ts";
 import { CoverageTally } from "../../src/coverage/coverage-tally.ts";
 import { computeCoverage } from "../../src/coverage/compute-coverage.ts";
 import { CoveragePool } from "../../src/coverage/coverage-pool.ts";
-import { horizonSweep, horizonSweepApplies, warmUpHorizonSweep } from "../../src/coverage/horizon-sweep.ts";
+import { fillLineOfSightRaster, horizonSweep, horizonSweepApplies, warmUpHorizonSweep } from "../../src/coverage/horizon-sweep.ts";
 import { HorizonVisitor } from "../../src/coverage/level-visitors.ts";
 import { rayCount, sweepRays } from "../../src/coverage/radial-sweep.ts";
 import { mulberry32 } from "../../src/terrain/mulberry32.ts";
@@ -54,15 +54,17 @@ function job(col: number, row: number, k: number, radius_m: number, int16 = fals
 }
 
 /** Visibility raster and tally of radials split at `cuts` (sorted), by one sweep or the other. */
-function run(j: CoverageJob, which: "general" | "wavefront", cuts: number[]): { raster: Uint8Array; tally: ReturnType<CoverageTally["data"]> } {
+function run(j: CoverageJob, which: "general" | "wavefront" | "wavefront-zeroed", cuts: number[]): { raster: Uint8Array; tally: ReturnType<CoverageTally["data"]> } {
   const raster = new Uint8Array(j.out).fill(255);
+  // as `ridgeline coverage` computes: 0 inside the radius, nodata outside, then only what differs written
+  if (which === "wavefront-zeroed") fillLineOfSightRaster(raster.fill(0), j, 255);
   const dem = j.dem_int16 ? new Int16Array(j.dem) : new Float32Array(j.dem);
   const total = new CoverageTally(j.thresholds_dbm);
   const bounds = [0, ...cuts, rayCount(j.rc)];
   for (let c = 0; c + 1 < bounds.length; c++) {
     const part = new CoverageTally(j.thresholds_dbm);
     if (which === "general") sweepRays(j, dem, j.rc, bounds[c], bounds[c + 1], new HorizonVisitor(j, part));
-    else horizonSweep(j, dem, j.rc, bounds[c], bounds[c + 1], { hts_m: j.site_ground_m + j.antenna_m, receiver_m: j.receiver_m, k2: j.ae_m === Infinity ? 0 : 1 / (2 * j.ae_m) }, raster, j.cell_area_m2, part);
+    else horizonSweep(j, dem, j.rc, bounds[c], bounds[c + 1], { hts_m: j.site_ground_m + j.antenna_m, receiver_m: j.receiver_m, k2: j.ae_m === Infinity ? 0 : 1 / (2 * j.ae_m) }, raster, j.cell_area_m2, part, undefined, which === "wavefront-zeroed");
     total.addSums(part.data());
   }
   return { raster: raster.slice(), tally: total.data() };
@@ -86,9 +88,9 @@ describe("wavefront line-of-sight sweep", () => {
         const splits = [[], [Math.floor(n / 4), Math.floor(n / 2)], Array.from(new Set(Array.from({ length: 7 }, () => 1 + Math.floor(rnd() * (n - 1))))).sort((a, b) => a - b)];
         const ref = run(j, "general", []);
         expect(ref.tally.cells).toBeGreaterThan(1000);
-        for (const cuts of splits) {
-          const got = run(j, "wavefront", cuts);
-          expect(Buffer.compare(Buffer.from(got.raster), Buffer.from(ref.raster)), `chunks at ${cuts.join(", ")}`).toBe(0);
+        for (const [cuts, which] of splits.flatMap((cuts) => [[cuts, "wavefront"], [cuts, "wavefront-zeroed"]] as const)) {
+          const got = run(j, which, cuts);
+          expect(Buffer.compare(Buffer.from(got.raster), Buffer.from(ref.raster)), `${which}, chunks at ${cuts.join(", ")}`).toBe(0);
           expect([got.tally.cells, got.tally.failed, got.tally.min, got.tally.max]).toEqual([ref.tally.cells, ref.tally.failed, ref.tally.min, ref.tally.max]);
           expect(Math.abs(got.tally.area_m2 - ref.tally.area_m2)).toBeLessThan(1e-9 * ref.tally.area_m2);
           expect(Math.abs(got.tally.at_least_m2[0] - ref.tally.at_least_m2[0])).toBeLessThan(1e-9 * ref.tally.area_m2);

@@ -63,7 +63,8 @@ export async function coverageCommand(argv: string[]): Promise<number> {
   const nThreads = threads ?? (estimate < 2e6 ? 0 : availableParallelism());
   const [{ CoveragePool }, { lineOfSightOnly }] = await Promise.all([import("../../coverage/coverage-pool.ts"), import("../../coverage/horizon-sweep.ts")]);
   const clearance_f1 = num("clearance-f1", 0, (x) => x >= 0 && x <= 5, "a fraction of the first Fresnel radius from 0 to 5");
-  const pool = nThreads > 0 ? CoveragePool.start(nThreads, lineOfSightOnly(method, clearance_f1) ? { warmUp: "line-of-sight" } : {}) : null;
+  // (the line-of-sight sweep is warmed up once the terrain's header tells the elevations' type)
+  const pool = nThreads > 0 ? CoveragePool.start(nThreads) : null;
   if (TIMINGS) void pool?.whenReady().then(() => mark("threads ready"));
   // Heavy modules load only for this command (nothing below may throw before the try that closes the pool, but a failing import).
   const [{ prepareCoverage, runCoverage }, { CoverageError }, { parseTerrainArg, openTerrain }, { TerrainError }, { writeGeoTiff }, { coverageResult }, { crsFromEpsg }] = await Promise.all([
@@ -146,6 +147,7 @@ export async function coverageCommand(argv: string[]): Promise<number> {
       const terrain = await openCoverageTerrain(parseTerrainArg(v("terrain")!), openTerrain, openGeoTiff);
       open_s = (performance.now() - tOpen) / 1000;
       mark("terrain opened");
+      if (lineOfSightOnly(method, clearance_f1)) pool?.warmUp((terrain as { windowsInt16?: boolean }).windowsInt16 ? "int16" : "float32");
       // a GeoTIFF read window by window holds no pixels: nothing for a collection to free
       inMemory = (terrain as { pixelsInMemory?: boolean }).pixelsInMemory !== false;
       if (inMemory) collectGarbage(); // the reader's file bytes and decoding buffers
