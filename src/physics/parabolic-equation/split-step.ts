@@ -51,6 +51,8 @@ export interface ParabolicEquationInput {
   memory_limit_bytes?: number;
   /** refuse grids needing more transform points × range steps than this (default PE_DEFAULT_WORK_LIMIT_CELL_STEPS) */
   work_limit_cell_steps?: number;
+  /** refuse a field above the ground stronger than free space by more than this (dB; default PE_FREE_SPACE_EXCESS_LIMIT_DB) as a numerical instability */
+  free_space_excess_limit_db?: number;
 }
 
 /** The field over the height–distance plane, dB relative to free space on the beam axis. */
@@ -312,16 +314,12 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
   };
   // the free-space check (PE_FREE_SPACE_EXCESS_LIMIT_DB) from a distance that does not move with the grid
   const checkFromX = trapping ? Infinity : EXCESS_CHECK_FROM_STEPS * grid.dx_reference_m;
+  const excessLimit = input.free_space_excess_limit_db ?? PE_FREE_SPACE_EXCESS_LIMIT_DB;
   /** the refusal of a field that exceeds free space by more than is physically possible */
   const unstable = (excessDb: number, x: number, aboveGround: number): ParabolicEquationResult => {
-    const brewster = alpha && input.polarization === "v" && Math.hypot(alpha.re, alpha.im) * dz < 1;
     return {
       status: "refused",
-      reason:
-        `numerical instability: the field reaches ${excessDb.toFixed(0)} dB above free space at ${(x / 1000).toFixed(2)} km, ${aboveGround.toFixed(0)} m above the ground, more than the +${PE_FREE_SPACE_EXCESS_LIMIT_DB} dB that a ground reflection and terrain focusing can give; ` +
-        (brewster
-          ? `with vertical polarisation the grid's height step (${(dz * 1000).toFixed(0)} mm) resolves the ground's Brewster angle (|α|·Δz = ${(Math.hypot(alpha.re, alpha.im) * dz).toFixed(2)} < 1), where the impedance boundary's transform is not stable: use the default grid, a height step of at least ${(1000 / Math.hypot(alpha.re, alpha.im)).toFixed(0)} mm or a maximum angle of 15°`
-          : `use the default grid or a smaller maximum angle`),
+      reason: `numerical instability: the field reaches ${excessDb.toFixed(1)} dB above free space at ${(x / 1000).toFixed(2)} km, ${aboveGround.toFixed(0)} m above the ground, more than the +${excessLimit} dB that a ground reflection and terrain focusing can give; check the ground constants, or use the default grid or a smaller maximum angle`,
       excess_loss_db: NaN,
       ...common,
       field: null,
@@ -391,7 +389,7 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
     // terrain focusing can make it: a numerical instability, refused (PE_FREE_SPACE_EXCESS_LIMIT_DB)
     if (peak > 0) {
       const excessDb = 10 * Math.log10(peak) - 20 * Math.log10(gaussianAxisAmplitude(x, sigma, k));
-      if (excessDb > PE_FREE_SPACE_EXCESS_LIMIT_DB) return unstable(excessDb, x, (peakAt + q) * dz + b - groundAt(d[0] + x));
+      if (excessDb > excessLimit) return unstable(excessDb, x, (peakAt + q) * dz + b - groundAt(d[0] + x));
     }
     // ground above the array's first cell at this plane cuts off the field below it (a
     // Kirchhoff screen); the ground lies on its row, which becomes the array's first cell
@@ -419,7 +417,7 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
     }
   }
   const excess_loss_db = -relDbExact(zR - b, D);
-  if (!trapping && -excess_loss_db > PE_FREE_SPACE_EXCESS_LIMIT_DB) return unstable(-excess_loss_db, D, input.rx_antenna_m);
+  if (!trapping && -excess_loss_db > excessLimit) return unstable(-excess_loss_db, D, input.rx_antenna_m);
   let height_gain: ParabolicEquationResult["height_gain"] = null;
   if (input.height_gain && input.height_gain.step_m > 0) {
     const { half_range_m: h, step_m } = input.height_gain;
