@@ -133,8 +133,9 @@ export interface ParabolicEquationResult {
  * Validity: angles to PE_MAX_ANGLE_DEG (15°); forward scattering only (no back-scatter from
  * terrain); the two-dimensional field of a line source scaled to a point source by the
  * free-space reference (common practice). Grid choice: pe-grid.ts.
- * Bad numbers give status "bad-input"; a grid over the memory limit, status "refused"
- * (no throwing).
+ * Bad numbers give status "bad-input"; a grid over the memory limit, status "refused"; a field
+ * above the ground stronger than free space by more than PE_FREE_SPACE_EXCESS_LIMIT_DB (outside
+ * a duct), status "refused" as a numerical instability (no throwing).
  */
 export function parabolicEquationField(input: ParabolicEquationInput): ParabolicEquationResult {
   const lambda = wavelengthM(input.frequency_ghz);
