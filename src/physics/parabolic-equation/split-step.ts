@@ -9,6 +9,24 @@ import { makeVerticalPropagator } from "./vertical-propagator.ts";
 /** The frame's correction towards the ground's row, at most this fraction of the frame's slope limit per range step (see the doc comment). */
 const ALIGN_SLOPE = 0.25;
 
+/**
+ * A field above the ground stronger than free space by more than this (dB) is refused as a
+ * numerical instability, never reported. The coherent sum of the direct ray and one ground
+ * reflection with |R| = 1 reaches +6.02 dB (two-ray model, common practice); concave terrain
+ * focuses more, the more so in the solver's two-dimensional geometry: the demo's twelve links
+ * reach +13.1 dB by this check's measure (harr-kvtw, on its default and its halved grid alike;
+ * measured 2026-12-05), so the margin is 14 dB over the two-ray sum, about 7 dB over the most
+ * the demo's terrain gives. The measure is lenient: the free-space amplitude on the beam's axis
+ * at the horizontal distance, not the slant one. Not applied in an atmosphere with a trapping
+ * layer (M falling with height), where a duct holds the field above free space by an amount
+ * that grows with range (common practice). The blow-ups this guards against were 23 dB at
+ * 0.1 km growing to 138 dB (test/unit/parabolic-equation-instability.test.ts).
+ */
+export const PE_FREE_SPACE_EXCESS_LIMIT_DB = 20;
+
+/** The free-space check starts this many default range steps from the source (the aperture's near field and the first steps' transients are left out). */
+const EXCESS_CHECK_FROM_STEPS = 10;
+
 export interface ParabolicEquationInput {
   /** profile distances from the transmitter (m), ascending */
   d_m: ArrayLike<number>;
@@ -33,6 +51,8 @@ export interface ParabolicEquationInput {
   memory_limit_bytes?: number;
   /** refuse grids needing more transform points × range steps than this (default PE_DEFAULT_WORK_LIMIT_CELL_STEPS) */
   work_limit_cell_steps?: number;
+  /** refuse a field above the ground stronger than free space by more than this (dB; default PE_FREE_SPACE_EXCESS_LIMIT_DB) as a numerical instability */
+  free_space_excess_limit_db?: number;
 }
 
 /** The field over the height–distance plane, dB relative to free space on the beam axis. */
@@ -113,8 +133,9 @@ export interface ParabolicEquationResult {
  * Validity: angles to PE_MAX_ANGLE_DEG (15°); forward scattering only (no back-scatter from
  * terrain); the two-dimensional field of a line source scaled to a point source by the
  * free-space reference (common practice). Grid choice: pe-grid.ts.
- * Bad numbers give status "bad-input"; a grid over the memory limit, status "refused"
- * (no throwing).
+ * Bad numbers give status "bad-input"; a grid over the memory limit, status "refused"; a field
+ * above the ground stronger than free space by more than PE_FREE_SPACE_EXCESS_LIMIT_DB (outside
+ * a duct), status "refused" as a numerical instability (no throwing).
  */
 export function parabolicEquationField(input: ParabolicEquationInput): ParabolicEquationResult {
   const lambda = wavelengthM(input.frequency_ghz);
@@ -223,8 +244,11 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
   const sMin = Math.floor(fMin / dz) - margin;
   const screenRe = new Float64Array(Math.ceil(gTop / dz) - sMin + N + margin + 6);
   const screenIm = new Float64Array(screenRe.length);
+  let trapping = false;
   for (let a = 0; a < screenRe.length; a++) {
-    const ph = k * dx * mExcess((a + sMin) * dz); // Levy 2000: refraction phase screen exp(ik·Δx·(m − 1))
+    const mHere = mExcess((a + sMin) * dz);
+    if (a > 0 && mHere < mExcess((a - 1 + sMin) * dz)) trapping = true; // M falling with height: a duct
+    const ph = k * dx * mHere; // Levy 2000: refraction phase screen exp(ik·Δx·(m − 1))
     screenRe[a] = Math.cos(ph);
     screenIm[a] = Math.sin(ph);
   }
@@ -289,6 +313,20 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
     const r = Math.hypot(x, b + zRel - zT);
     return 20 * Math.log10(amp / gaussianAxisAmplitude(r, sigma, k)); // F relative to free space on the beam axis
   };
+  // the free-space check (PE_FREE_SPACE_EXCESS_LIMIT_DB) from a distance that does not move with the grid
+  const checkFromX = trapping ? Infinity : EXCESS_CHECK_FROM_STEPS * grid.dx_reference_m;
+  const excessLimit = input.free_space_excess_limit_db ?? PE_FREE_SPACE_EXCESS_LIMIT_DB;
+  /** the refusal of a field that exceeds free space by more than is physically possible */
+  const unstable = (excessDb: number, x: number, aboveGround: number): ParabolicEquationResult => {
+    return {
+      status: "refused",
+      reason: `numerical instability: the field reaches ${excessDb.toFixed(1)} dB above free space at ${(x / 1000).toFixed(2)} km, ${aboveGround.toFixed(0)} m above the ground, more than the +${excessLimit} dB that a ground reflection and terrain focusing can give; check the ground constants, or use the default grid or a smaller maximum angle`,
+      excess_loss_db: NaN,
+      ...common,
+      field: null,
+      height_gain: null,
+    };
+  };
   // q: the row of the array's first cell (the ground's row, or the lower of two neighbouring
   // planes' rows); array cell j is (j + q)·Δz above the floor
   let q = 0;
@@ -311,6 +349,11 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
     const jA = Math.min(N, Math.max(0, Math.ceil((topAt(d[0] + x - dx) - b) / dz) - q));
     const jEnd = Math.min(N + 1, jA + L);
     const c = i < steps ? -k * (slopeOf(i + 1) - slopeOf(i)) * dz : 0;
+    // the ground's row at this plane: cells below it are cut after this pass
+    const cut = Math.min(N + 1, row[i] - q);
+    const checkFrom = x >= checkFromX ? Math.max(0, cut) : jA;
+    let peak = 0;
+    let peakAt = 0;
     const er = Math.cos(c);
     const ei = Math.sin(c);
     let cr = 1;
@@ -326,17 +369,31 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
       const fr = t * (sr * cr - si * ci);
       const fi = t * (sr * ci + si * cr);
       const re = ur[j];
-      ur[j] = re * fr - ui[j] * fi;
-      ui[j] = re * fi + ui[j] * fr;
+      const nre = re * fr - ui[j] * fi;
+      const nim = re * fi + ui[j] * fr;
+      ur[j] = nre;
+      ui[j] = nim;
+      if (j >= checkFrom && j < jA) {
+        const a2 = nre * nre + nim * nim;
+        if (a2 > peak) {
+          peak = a2;
+          peakAt = j;
+        }
+      }
       const nr = cr * er - ci * ei;
       ci = cr * ei + ci * er;
       cr = nr;
     }
     ur.fill(0, jEnd);
     ui.fill(0, jEnd);
+    // the field above the ground stronger than free space by more than ground reflection and
+    // terrain focusing can make it: a numerical instability, refused (PE_FREE_SPACE_EXCESS_LIMIT_DB)
+    if (peak > 0) {
+      const excessDb = 10 * Math.log10(peak) - 20 * Math.log10(gaussianAxisAmplitude(x, sigma, k));
+      if (excessDb > excessLimit) return unstable(excessDb, x, (peakAt + q) * dz + b - groundAt(d[0] + x));
+    }
     // ground above the array's first cell at this plane cuts off the field below it (a
     // Kirchhoff screen); the ground lies on its row, which becomes the array's first cell
-    const cut = Math.min(N + 1, row[i] - q);
     if (cut > 0) {
       ur.fill(0, 0, cut);
       ui.fill(0, 0, cut);
@@ -361,6 +418,7 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
     }
   }
   const excess_loss_db = -relDbExact(zR - b, D);
+  if (!trapping && -excess_loss_db > excessLimit) return unstable(-excess_loss_db, D, input.rx_antenna_m);
   let height_gain: ParabolicEquationResult["height_gain"] = null;
   if (input.height_gain && input.height_gain.step_m > 0) {
     const { half_range_m: h, step_m } = input.height_gain;
