@@ -1,6 +1,7 @@
-import { readFileSync } from "node:fs";
+import { fileURLToPath } from "node:url";
 import { describe, expect, it } from "vitest";
 import { parabolicEquationField, PE_FREE_SPACE_EXCESS_LIMIT_DB, type ParabolicEquationInput } from "../../src/physics/parabolic-equation/split-step.ts";
+import { readProfileCsv } from "../../src/terrain/profile-csv.ts";
 import { expectClose } from "../helpers/expect-close.ts";
 
 // Regression: on a smooth convex UHF slope (synthetic demo terrain, test/fixtures/wave-uhf-slope)
@@ -11,14 +12,11 @@ import { expectClose } from "../helpers/expect-close.ts";
 // field has the spectral propagator's; with |α|·Δz < 1 the mode pairs with waves inside the band
 // (near the Brewster angle) and the phase between them left a residue: a beam 65 m above the
 // ground grew 5.5× in one step. Values: this solver, 2026-12-05 (before → after the fix).
-const rows = readFileSync(new URL("../fixtures/wave-uhf-slope/harrow-top-135deg-2km.csv", import.meta.url), "utf8")
-  .trim()
-  .split("\n")
-  .slice(1)
-  .map((l) => l.split(",").map(Number));
+// the fixture is a surveyed profile CSV (distance_m,elevation_m), read by the project's own reader
+const profile = readProfileCsv(fileURLToPath(new URL("../fixtures/wave-uhf-slope/harrow-top-135deg-2km.csv", import.meta.url)));
 const base: ParabolicEquationInput = {
-  d_m: rows.map((r) => r[0]),
-  ground_m: rows.map((r) => r[1]),
+  d_m: profile.d_m,
+  ground_m: profile.h_m,
   frequency_ghz: 0.4585,
   tx_antenna_m: 30,
   rx_antenna_m: 3,
@@ -31,7 +29,7 @@ const base: ParabolicEquationInput = {
 const DZ30 = 0.654;
 /** the default grid's range step on this profile (9.9 m) */
 const DX = parabolicEquationField(base).grid.dx_m;
-const flat = rows.map(() => 800);
+const flat = new Float64Array(profile.d_m.length).fill(800);
 
 describe("wave solution: vertical polarisation on refined wide-angle grids no longer blows up", () => {
   it.each([
@@ -87,7 +85,7 @@ describe("wave solution: a field far above free space is refused, never reported
   });
   it("not applied under a trapping layer (a duct holds the field above free space)", () => {
     // a 40 m surface duct over ground at the datum (M falls 12 units; the table is above the datum)
-    const r = parabolicEquationField({ ...pec, ground_m: rows.map(() => 0), refractivity: { kind: "profile", height_m: [0, 40], m_units: [350, 338] }, free_space_excess_limit_db: 3 });
+    const r = parabolicEquationField({ ...pec, ground_m: new Float64Array(profile.d_m.length), refractivity: { kind: "profile", height_m: [0, 40], m_units: [350, 338] }, free_space_excess_limit_db: 3 });
     expect(r.status).toBe("ok");
   });
 });
