@@ -1,8 +1,6 @@
-import { readSync } from "node:fs";
-import { endianness } from "node:os";
 import { bilinearGrid } from "./bilinear-grid.ts";
 import { LruCache } from "./lru-cache.ts";
-import type { BandLayout, PixelWindow } from "./tiff-band-reader.ts";
+import { readRowPiece, rowPiecesReadable, type BandLayout, type PixelWindow } from "./tiff-band-reader.ts";
 
 /** Rows (about) of a block of a compressed striped band: blocks are whole strips as wide as the image. */
 const STRIP_BLOCK_ROWS = 16;
@@ -43,7 +41,7 @@ export class BandBlocks {
     private readonly read: (window: PixelWindow) => Float32Array,
     maxBytes: number,
   ) {
-    const squares = segmentsReadable(layout);
+    const squares = rowPiecesReadable(layout);
     this.blockW = layout.tiled ? layout.bw : squares ? SEGMENT_BLOCK : layout.width;
     this.blockH = layout.tiled ? layout.bh : squares ? SEGMENT_BLOCK : layout.bh * Math.max(1, Math.ceil(STRIP_BLOCK_ROWS / layout.bh));
     this.across = Math.ceil(layout.width / this.blockW);
@@ -109,19 +107,14 @@ export class BandBlocks {
   }
 }
 
-/** Whether readStripSegments reads this band: uncompressed strips, no predictor, this machine's byte order. */
-export function segmentsReadable(layout: BandLayout): boolean {
-  return !layout.tiled && !layout.deflate && layout.predictor === 1 && layout.littleEndian === (endianness() === "LE");
-}
-
 /**
- * A window of an uncompressed striped band (segmentsReadable) read row by row, each row's
+ * A window of an uncompressed striped band (rowPiecesReadable) read row by row, each row's
  * part of the window on its own (one read of width × sample bytes): the values
  * readBandFloat32 gives (Float32, samples equal to `nodata` in the band's own type as NaN).
  * @throws Error when a row is cut short (a truncated file)
  */
 export function readStripSegments(fd: number, layout: BandLayout, nodata: number | null, w: PixelWindow): Float32Array {
-  const { width: W, bh, kind, offsets } = layout;
+  const { kind } = layout;
   const bps = kind === "u16" || kind === "i16" ? 2 : 4;
   const out = new Float32Array(w.width * w.height);
   const raw = new ArrayBuffer(w.width * bps);
@@ -130,15 +123,7 @@ export function readStripSegments(fd: number, layout: BandLayout, nodata: number
   // nodata in the band's own type, as readBandFloat32 compares it
   const nd = nodata === null || Number.isNaN(nodata) ? null : kind === "f32" ? Math.fround(nodata) : Number.isInteger(nodata) ? nodata : null;
   for (let r = 0; r < w.height; r++) {
-    const row = w.row0 + r;
-    const strip = Math.floor(row / bh);
-    const at = offsets[strip] + ((row - strip * bh) * W + w.col0) * bps;
-    let got = 0;
-    while (got < bytes.length) {
-      const n = readSync(fd, bytes, got, bytes.length - got, at + got);
-      if (n === 0) throw new Error(`row ${row} is cut short (${got} of ${bytes.length} bytes)`);
-      got += n;
-    }
+    readRowPiece(fd, layout, w.row0 + r, w.col0, bytes, bps);
     const o = r * w.width;
     for (let c = 0; c < w.width; c++) {
       const v = samples[c];

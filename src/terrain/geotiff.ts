@@ -3,9 +3,9 @@ import { closeSync, fstatSync, openSync, readFileSync } from "node:fs";
 import { readFile } from "node:fs/promises";
 import { makeRasterGrid, RasterTerrain, type RasterTerrainOptions } from "./raster-terrain.ts";
 import { bilinearGrid } from "./bilinear-grid.ts";
-import { BandBlocks, readStripSegments, segmentsReadable } from "./band-blocks.ts";
+import { BandBlocks, readStripSegments } from "./band-blocks.ts";
 import { crsFromEpsg, type Crs } from "../geo/crs-from-epsg.ts";
-import { bandLayout, decodeBands, readBandFloat32, readBandFloat32AsInt16, readBandInt16, waitForBands, type BandLayout, type PixelWindow, type TiffBandSource } from "./tiff-band-reader.ts";
+import { bandLayout, decodeBands, readBandFloat32, readBandFloat32AsInt16, readBandInt16, rowPiecesReadable, waitForBands, type BandLayout, type PixelWindow, type TiffBandSource } from "./tiff-band-reader.ts";
 import { readTiffDirectory } from "./tiff-directory.ts";
 import type { RasterGrid } from "./terrain.ts";
 import { TerrainError } from "./terrain-error.ts";
@@ -160,7 +160,7 @@ class DeferredPixels {
 
   /** The band read in blocks on demand (BandBlocks), at most maxBytes of them kept decoded. */
   blocks(maxBytes: number): BandBlocks {
-    const segments = segmentsReadable(this.layout);
+    const segments = rowPiecesReadable(this.layout);
     return new BandBlocks(this.layout, (w) => this.decode((fd) => (segments ? readStripSegments(fd, this.layout, this.nodata, w) : readBandFloat32(fd, this.layout, this.nodata, w, new Float32Array(w.width * w.height)))), maxBytes);
   }
 

@@ -176,20 +176,40 @@ function wholeToInt16(samples: Float32Array, src: number, out: Int16Array, dst: 
 }
 
 /**
- * Read a window of an uncompressed, unpredicted band in strips whose samples are stored as
- * `out` holds them (little-endian Int16 into an Int16Array, Float32 into a Float32Array) with
- * one read per window row straight from the file into `out`: no block buffer and no copy of
- * it (on a SharedArrayBuffer that copy is a slow element-wise move). False, reading nothing,
- * for any other layout (decodeWindow then reads it).
+ * Whether a band's rows can be read in pieces straight from the file, each piece one read of
+ * its bytes as they are stored: uncompressed strips, no predictor, this machine's byte order.
+ */
+export function rowPiecesReadable(layout: BandLayout): boolean {
+  return !layout.tiled && !layout.deflate && layout.predictor === 1 && layout.littleEndian === LITTLE_ENDIAN_HOST;
+}
+
+/**
+ * Read samples col0 … col0 + into.length / (sample bytes) of one row of a rowPiecesReadable
+ * band into `into` (its bytes as stored).
+ * @throws Error when the file ends before the piece does (a truncated file)
+ */
+export function readRowPiece(fd: number, layout: BandLayout, row: number, col0: number, into: Uint8Array, bps: number): void {
+  const strip = Math.floor(row / layout.bh);
+  const at = layout.offsets[strip] + ((row - strip * layout.bh) * layout.width + col0) * bps;
+  const got = readInto(fd, into, at);
+  if (got < into.length) throw new Error(`row ${row} is cut short (${got} of ${into.length} bytes)`);
+}
+
+/**
+ * Read a window of a rowPiecesReadable band whose samples are stored as `out` holds them
+ * (Int16 into an Int16Array, Float32 into a Float32Array) with one read per window row straight
+ * from the file into `out`: no block buffer and no copy of it (on a SharedArrayBuffer that copy
+ * is a slow element-wise move). False, reading nothing, for any other layout (decodeWindow then
+ * reads it).
  * @param onRow called with the samples just read, out[from…to) (while they are in the cache)
  * @throws Error when a strip is shorter than its rows
  */
 function readRowsDirect(fd: number, layout: BandLayout, win: PixelWindow, out: Int16Array | Float32Array, onRow?: (from: number, to: number) => void): boolean {
   const bps = out.BYTES_PER_ELEMENT;
   const kind = out instanceof Int16Array ? "i16" : "f32";
-  if (layout.kind !== kind || layout.deflate || layout.predictor !== 1 || layout.tiled || !layout.littleEndian || !LITTLE_ENDIAN_HOST) return false;
+  if (layout.kind !== kind || !rowPiecesReadable(layout)) return false;
   const bytes = new Uint8Array(out.buffer, out.byteOffset, out.byteLength);
-  const { width: W, bh, offsets, counts } = layout;
+  const { width: W, bh, counts } = layout;
   for (let r = 0; r < win.height; r++) {
     const row = win.row0 + r;
     const a = win.spans ? win.spans[2 * r] : 0;
@@ -197,10 +217,8 @@ function readRowsDirect(fd: number, layout: BandLayout, win: PixelWindow, out: I
     if (b <= a) continue;
     const strip = Math.floor(row / bh);
     const at = ((row - strip * bh) * W + win.col0 + a) * bps; // within the strip
-    const n = (b - a) * bps;
-    if (at + n > counts[strip]) throw new Error(`block ${strip} holds ${counts[strip]} bytes, expected at least ${at + n}`);
-    const got = readInto(fd, bytes.subarray((r * win.width + a) * bps, (r * win.width + b) * bps), offsets[strip] + at);
-    if (got < n) throw new Error(`block ${strip} holds ${got} bytes from ${at}, expected ${n}`);
+    if (at + (b - a) * bps > counts[strip]) throw new Error(`block ${strip} holds ${counts[strip]} bytes, expected at least ${at + (b - a) * bps}`);
+    readRowPiece(fd, layout, row, win.col0 + a, bytes.subarray((r * win.width + a) * bps, (r * win.width + b) * bps), bps);
     onRow?.(r * win.width + a, r * win.width + b);
   }
   return true;
