@@ -1,6 +1,7 @@
 import { createHash } from "node:crypto";
-import { closeSync, openSync, readSync, statSync } from "node:fs";
+import { statSync } from "node:fs";
 import { resolve } from "node:path";
+import { forEachFilePiece } from "./file-pieces.ts";
 import type { ResultCache } from "./result-cache.ts";
 
 /** A file's bytes must be this much older than now before its digest is remembered (s). */
@@ -33,11 +34,6 @@ const piece = Buffer.allocUnsafe(1 << 20);
 /** sha256 (hex) of a file's bytes, read a piece at a time. */
 function hashFile(abs: string): string {
   const h = createHash("sha256");
-  const fd = openSync(abs, "r");
-  try {
-    for (let n; (n = readSync(fd, piece, 0, piece.length, null)) > 0; ) h.update(piece.subarray(0, n));
-  } finally {
-    closeSync(fd);
-  }
+  forEachFilePiece(abs, piece, (b) => h.update(b));
   return h.digest("hex");
 }

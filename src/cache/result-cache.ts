@@ -3,6 +3,7 @@ import { readFile } from "node:fs/promises";
 import { join, resolve } from "node:path";
 import { decodeEntry, encodeEntry, encodeEntryParts, FileBytes, type EntryPart } from "./entry-codec.ts";
 import { decodePack, encodePack, PACK_HEADER_BYTES, packIndexEnd, packKeys } from "./entry-pack.ts";
+import { forEachFilePiece } from "./file-pieces.ts";
 
 /** Default cache folder, relative to the project root (the working directory). */
 export const DEFAULT_CACHE_DIR = ".ridgeline-cache";
@@ -174,19 +175,13 @@ function writeParts(path: string, parts: EntryPart[]): void {
 /** Copy a FileBytes' file to fd in pieces; throws when the file does not hold its byteLength bytes. */
 function copyFileBytes(f: FileBytes, fd: number): void {
   const buf = Buffer.allocUnsafe(Math.min(COPY_PIECE_BYTES, Math.max(1, f.byteLength)));
-  const from = openSync(f.path, "r");
-  try {
-    let at = 0;
-    while (at < f.byteLength) {
-      const n = readSync(from, buf, 0, Math.min(buf.length, f.byteLength - at), at);
-      if (n === 0) break;
-      for (let w = 0; w < n; ) w += writeSync(fd, buf, w, n - w);
-      at += n;
-    }
-    if (at !== f.byteLength || readSync(from, buf, 0, 1, at) !== 0) throw new Error(`cache entry: ${f.path} does not hold ${f.byteLength} bytes`);
-  } finally {
-    closeSync(from);
-  }
+  let at = 0;
+  const total = forEachFilePiece(f.path, buf, (piece) => {
+    const n = Math.min(piece.length, f.byteLength - at); // never more than the entry said
+    for (let w = 0; w < n; ) w += writeSync(fd, piece, w, n - w);
+    at += n;
+  });
+  if (total !== f.byteLength) throw new Error(`cache entry: ${f.path} does not hold ${f.byteLength} bytes`);
 }
 
 /** Piece size for copying a file into an entry. */
