@@ -22,12 +22,22 @@ import { loadStudy } from "../../src/study/load-study.ts";
 // measured on these three and did not bring them within 0.2 dB; the figures are there); for
 // those three the test holds the measured change, rounded up, so that a regression shows. Before (main, 2026-12-04): 0.05-0.48 dB on seven links, 0.86, 0.91, 2.04,
 // 3.76 and 10.67 dB on the others.
-// A grid rule alone was measured on these three and not kept (DEVELOPERS.md, third pass): θmax
+// A grid rule alone was measured on the three of that time, with the flat ground's propagator in
+// the tilted frame, and not kept (DEVELOPERS.md, third pass): θmax
 // at twice the steepest lit slope halves mill-harr, mill-aldr and five others within 0.2 dB but
 // not kvtw-grey, grey-lowf, mill-thrn or lowf-oxle, at 4.5× the CPU, and refuses the 50 km
 // 18 GHz link; widening only the three puts all twelve within 0.2 dB at about +1.4 s of CPU,
 // and no geometric measure tried picks them alone. `bench/wave-convergence.ts` prints this
 // table for any θmax or refinement.
+// Since the tilted frame has its own propagator (vertical-propagator.ts, frameEvenPhase; the
+// flat ground's phase used in a tilted frame was wrong by about (3/4)·k·θ²·s² per metre, up to
+// 16 dB on a uniform slope: parabolic-equation.test.ts), 2026-12-05, in dB: pell-grey 0.00,
+// harr-aldr −0.01, lowf-oxle 0.00, kvtw-lowf 0.01, mill-harr −0.07 (was 0.42), mill-thrn −0.08,
+// mill-cobb 0.09, harr-kvtw 0.12, kvtw-grey −0.195 (within the goal by 0.005); NOT within it:
+// pell-kvtw −0.33 (was 0.04: 0.11 on the default grid, −0.22, −0.28, −0.30 on grids 2, 3, 4
+// times finer, so the default Δz is what is short; its answer depends on the angles at the
+// angular filter's edge, where the frame tilted towards its falling beam puts the horizontal),
+// grey-lowf 2.67 (was 1.71) and mill-aldr 3.11 (was 4.44).
 const study = loadStudy("content/studies/kestrel-vale/study.yaml");
 study.design.wave_solution = false;
 const terrain = await openStudyTerrain(study);
@@ -35,7 +45,7 @@ const terrain = await openStudyTerrain(study);
 /** The goal (issue #15's acceptance). */
 const GOAL_DB = 0.2;
 /** Links not yet within the goal: the bound held (measured change rounded up, dB). */
-const NOT_YET: Record<string, number> = { "mill-harr": 0.6, "grey-lowf": 2, "mill-aldr": 5 };
+const NOT_YET: Record<string, number> = { "pell-kvtw": 0.4, "grey-lowf": 3, "mill-aldr": 3.5 };
 
 describe("wave solution: grid halving (Δz and Δx) on the demo's links", () => {
   it.each(study.links.map((l) => [l.id, l, NOT_YET[l.id] ?? GOAL_DB] as const))("%s changes by less than its bound (0.2 dB, the goal, unless listed as not yet within it)", (_id, link, bound) => {

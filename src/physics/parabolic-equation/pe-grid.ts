@@ -1,3 +1,5 @@
+import { propagatorTablesBytes } from "./vertical-propagator.ts";
+
 /**
  * Grid of the split-step parabolic-equation solver and how it is chosen.
  *
@@ -83,7 +85,7 @@ export interface PeGridInput {
   overrides?: { dz_m?: number; dx_m?: number; max_angle_deg?: number };
 }
 
-/** Bytes per FFT half-size point: 2N complex points in three Float64 buffers (data, out, propagator), fft.js's tables (~3 doubles per point), the field and its helpers (~10 doubles per height). */
+/** Bytes per FFT half-size point: 2N complex points in three Float64 buffers (data, out, propagator), fft.js's tables (~3 doubles per point), the field and its helpers (~10 doubles per height); the propagator's tables per class of frame slope are added (propagatorTablesBytes). */
 const BYTES_PER_N = 2 * (3 * 16 + 24) + 10 * 8;
 
 /** The grid for a path (see the module comment). NaN fields for bad input. */
@@ -168,7 +170,7 @@ export function choosePeGrid(input: PeGridInput): PeGridChoice {
   const absorber_cells = Math.max(16, Math.ceil((0.5 * tallest) / dz_m));
   const cells = Math.ceil(tallest / dz_m) + absorber_cells + 2;
   const N = cells <= 4 ? 4 : 2 ** Math.ceil(Math.log2(cells));
-  const memory_bytes = N * BYTES_PER_N + input.figure_cells * 4;
+  const memory_bytes = N * BYTES_PER_N + propagatorTablesBytes(N) + input.figure_cells * 4;
   let zTop = -Infinity;
   for (let i = 0; i < n; i++) zTop = Math.max(zTop, top_m[i]);
   return {

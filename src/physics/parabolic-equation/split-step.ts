@@ -4,7 +4,7 @@ import { gaussianAxisAmplitude, gaussianSourceSigmaM } from "./aperture-source.t
 import { impedanceAlpha, type PeGround } from "./ground-impedance.ts";
 import { effectiveRadiusFromRefractivity, modifiedRefractivity, type RefractivityModel } from "./modified-refractivity.ts";
 import { choosePeGrid, PE_DEFAULT_MEMORY_LIMIT_BYTES, PE_DEFAULT_WORK_LIMIT_CELL_STEPS, PE_MAX_ANGLE_DEG, type PeGridChoice } from "./pe-grid.ts";
-import { makeVerticalPropagator } from "./vertical-propagator.ts";
+import { frameGauge, makeVerticalPropagator } from "./vertical-propagator.ts";
 
 /** The frame's correction towards the ground's row, at most this fraction of the frame's slope limit per range step (see the doc comment). */
 const ALIGN_SLOPE = 0.25;
@@ -111,9 +111,17 @@ export interface ParabolicEquationResult {
  * the frame's slope, and the field is mostly at angles between the horizontal (grazing
  * reflections) and the aim (the beam), so a frame tilted by up to the aim keeps it in the band
  * (a frame limited to ±s_max cut a ground running along a falling line of sight into stairs:
- * harr-kvtw moved 3 dB under grid halving, 0.09 dB now). A change of slope Δs tilts the field
- * by exp(−ik·Δs·z') and the impedance condition stays ∂v/∂z' + αv = 0 (exact in the narrow-angle limit for
- * piecewise-linear floors). Where the ground is no steeper than that, it is flat in the frame
+ * harr-kvtw moved 3 dB under grid halving, 0.09 dB now). In a frame of slope s = tan ψ the
+ * field is carried as v = u·exp(−ik·sin ψ·z') (so v's vertical wavenumber 0 runs along the
+ * floor; a change of slope multiplies v by exp(−ik·Δ(sin ψ)·z'), exactly), each range step
+ * propagates v with the frame's own phase, the even part of the exact plane-wave phase in the
+ * sheared frame (frameEvenPhase in vertical-propagator.ts, one table per class of slope): the
+ * flat ground's √(k² − p²) − k used in a tilted frame, as before, was wrong by about
+ * (3/4)·k·θ²·s² per metre at angle θ to the frame and put a uniform slope up to 16 dB off the
+ * same field over flat ground rotated (test/reference/parabolic-equation.test.ts); the odd part,
+ * about k·sin ψ·θ³/2 per metre, the ground's transforms cannot carry (they pair p with −p), and
+ * it is what is left (up to 1 dB there with unequal antenna heights). The impedance condition
+ * on the normal η = z'·cos ψ, ∂u/∂η + αu = 0, is ∂v/∂z' + α·cos ψ·v = 0 in the frame. Where the ground is no steeper than that, it is flat in the frame
  * and exactly on a row: no height is rounded (sub-cell terrain). Where it is steeper, the rest
  * of the slope is a staircase of Kirchhoff screens in the frame (the field below the ground's
  * row is cut at each range plane, which also makes a thin obstacle a knife edge), and the
@@ -330,17 +338,19 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
   // q: the row of the array's first cell (the ground's row, or the lower of two neighbouring
   // planes' rows); array cell j is (j + q)·Δz above the floor
   let q = 0;
-  // the floor's slope over range step i: the frame (shift map) tilts the field by
-  // exp(−ik·Δs·z') where it changes, so that in the frame angles are measured from the local
-  // ground; the impedance condition on the normal derivative, ∂u/∂z − s·∂u/∂x ≈ ∂u/∂z − ik·s·u,
-  // is then ∂v/∂z' + αv = 0 unchanged
+  // the floor's slope over range step i: the frame (shift map) multiplies the field by
+  // exp(−ik·Δ(sin ψ)·z') where it changes (frameGauge), so that in the frame angles are
+  // measured from the local ground; the propagator and the impedance condition take the slope
+  // for the step (vertical-propagator.ts)
   const slopeOf = (i: number) => (bf[i] - bf[i - 1]) / dx;
+  /** the gauge's vertical wavenumber k·sin ψ of the frame over range step i (frameGauge) */
+  const gaugeOf = (i: number) => frameGauge(slopeOf(i), k).kSigma;
   // the tilt before the first step (the later ones are applied with the refraction screen)
-  tilt(ur, ui, -k * slopeOf(1) * dz, q, N);
+  tilt(ur, ui, -gaugeOf(1) * dz, q, N);
   for (let i = 1; i <= steps; i++) {
     const x = i * dx;
     const bNext = bf[i];
-    step(ur, ui);
+    step(ur, ui, slopeOf(i));
     // one pass over the field: the refraction screen exp(ik·Δx·(m − 1)), the absorbing layer
     // above the region of interest, and the next step's tilt exp(ic·(j + q)), c = −k·Δs·Δz (by
     // recurrence: one rotation per cell instead of a cos and a sin; rounding drift about
@@ -348,7 +358,7 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
     const off = Math.round(b / dz) + q - sMin;
     const jA = Math.min(N, Math.max(0, Math.ceil((topAt(d[0] + x - dx) - b) / dz) - q));
     const jEnd = Math.min(N + 1, jA + L);
-    const c = i < steps ? -k * (slopeOf(i + 1) - slopeOf(i)) * dz : 0;
+    const c = i < steps ? -(gaugeOf(i + 1) - gaugeOf(i)) * dz : 0;
     // the ground's row at this plane: cells below it are cut after this pass
     const cut = Math.min(N + 1, row[i] - q);
     const checkFrom = x >= checkFromX ? Math.max(0, cut) : jA;

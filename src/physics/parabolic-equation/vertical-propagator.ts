@@ -60,18 +60,22 @@ export interface VerticalPropagatorOptions {
  * Reference: G. D. Dockery & J. R. Kuttler, "An improved impedance-boundary algorithm for
  * Fourier split-step solutions of the parabolic wave equation", IEEE Trans. Antennas Propag.
  * 44(12), 1996 (from memory; the recursions and projection are derived afresh above).
- * @returns step(ur, ui, α?), which overwrites its arguments (α: a mixed boundary's coefficient
- *   for this step, default the one given here)
+ * In a terrain-following frame of slope s (split-step.ts) the phase is the frame's own,
+ * frameEvenPhase (the Feit–Fleck phase above when s = 0), from a table per class of slope
+ * (FRAME_SLOPE_CLASS_STEP; tables made when first asked for, the least recently used refilled
+ * beyond propagatorTablesBytes), and the mixed boundary's coefficient is α·cos ψ (the normal
+ * derivative in the frame's vertical coordinate).
+ * @returns step(ur, ui, s?, α?), which overwrites its arguments (s: the frame's slope over this
+ *   step, default 0; α: a mixed boundary's coefficient on the ground's normal for this step,
+ *   default the one given here)
  */
-export function makeVerticalPropagator(o: VerticalPropagatorOptions): (ur: Float64Array, ui: Float64Array, alpha?: Complex) => void {
+export function makeVerticalPropagator(o: VerticalPropagatorOptions): (ur: Float64Array, ui: Float64Array, slope?: number, alpha?: Complex) => void {
   const { n, dz_m: dz, dx_m: dx, k_rad_m: k } = o;
   const m2 = 2 * n;
   const cosine = o.boundary.kind === "neumann";
   const fft = cosine ? (o.fft ?? new FFT(m2)) : null;
   const data = new Float64Array(cosine ? 2 * m2 : 0);
   const out = new Float64Array(cosine ? 2 * m2 : 0);
-  const pr = new Float64Array(m2);
-  const pi = new Float64Array(m2);
   const pLimit = Math.min(o.p_limit_rad_m ?? Infinity, Math.PI / dz);
   /** the angular filter's factor for vertical wavenumber p (rad/m) */
   const filterAt = (p: number): number => {
@@ -79,47 +83,79 @@ export function makeVerticalPropagator(o: VerticalPropagatorOptions): (ur: Float
     const filter = t <= SPECTRAL_FILTER_FROM ? 1 : t >= 1 ? 0 : 0.5 * (1 + Math.cos((Math.PI * (t - SPECTRAL_FILTER_FROM)) / (1 - SPECTRAL_FILTER_FROM)));
     return filter ** (o.filter_exponent ?? 1);
   };
-  for (let q = 0; q < m2; q++) {
-    const p = (Math.PI * (q <= n ? q : q - m2)) / (n * dz);
-    const ph = p >= k || p <= -k ? 0 : (dx * -(p * p)) / (Math.sqrt(k * k - p * p) + k); // Feit–Fleck: Δx·(√(k² − p²) − k), cancellation-free
-    const f = filterAt(p);
-    pr[q] = f * Math.cos(ph);
-    pi[q] = f * Math.sin(ph);
-  }
+  // the angular filter's factor at each transform point (the same for every class of slope)
+  const count = cosine ? m2 : n;
+  const filt = new Float64Array(count);
+  for (let q = 0; q < count; q++) filt[q] = filterAt((Math.PI * (q <= n ? q : q - m2)) / (n * dz));
+  /** the propagator's factors for frame-slope class `cls` into (ar, ai)[0..count−1], times `scale` */
+  const fillTable = (cls: number, scale: number, ar: Float64Array, ai: Float64Array) => {
+    const { kSigma, kCos } = frameGauge(cls * FRAME_SLOPE_CLASS_STEP, k);
+    for (let q = 0; q < count; q++) {
+      const f = scale * filt[q];
+      if (f === 0) continue; // beyond the angular filter: left zero
+      const p = (Math.PI * (q <= n ? q : q - m2)) / (n * dz);
+      const ph = dx * frameEvenPhase(p, k, kSigma, kCos); // Feit–Fleck in the tilted frame (frameEvenPhase)
+      ar[q] = f * Math.cos(ph);
+      ai[q] = f * Math.sin(ph);
+    }
+  };
+  // the propagator per class of frame slope, made when first asked for and kept (a few
+  // dozen classes on a mountainous path); the cosine transform's has 2n factors, the sine
+  // transform's n with the inverse's factor 2/n folded in (the sine transform is its own
+  // inverse up to 2/n)
+  const tables = new Map<number, { re: Float64Array; im: Float64Array }>();
+  const maxTables = Math.floor(propagatorTablesBytes(n) / (16 * count));
+  const tableFor = (cls: number): { re: Float64Array; im: Float64Array } => {
+    let t = tables.get(cls);
+    if (t) {
+      // most recently used last (a Map keeps insertion order)
+      tables.delete(cls);
+      tables.set(cls, t);
+      return t;
+    }
+    if (tables.size >= maxTables) {
+      // the least recently used table's arrays are refilled for this class
+      const [oldest, reuse] = tables.entries().next().value!;
+      tables.delete(oldest);
+      t = reuse;
+      t.re.fill(0);
+      t.im.fill(0);
+    } else t = { re: new Float64Array(count), im: new Float64Array(count) };
+    fillTable(cls, cosine ? 1 : 2 / n, t.re, t.im);
+    tables.set(cls, t);
+    return t;
+  };
   /** data ← propagate(data) in the spectral domain. */
-  const spectral = () => {
+  const spectral = (tr: Float64Array, ti: Float64Array) => {
     fft!.transform(out, data);
     for (let q = 0; q < m2; q++) {
       const re = out[2 * q];
       const im = out[2 * q + 1];
-      out[2 * q] = re * pr[q] - im * pi[q];
-      out[2 * q + 1] = re * pi[q] + im * pr[q];
+      out[2 * q] = re * tr[q] - im * ti[q];
+      out[2 * q + 1] = re * ti[q] + im * tr[q];
     }
     fft!.inverseTransform(data, out);
   };
   const sine = cosine ? null : makeSineTransform(n);
   const sr = new Float64Array(n + 1);
   const si = new Float64Array(n + 1);
-  // the propagator with the inverse's factor 2/n folded in (the sine transform is its own
-  // inverse up to 2/n)
-  const sPr = Float64Array.from(pr.subarray(0, n), (v) => (2 / n) * v);
-  const sPi = Float64Array.from(pi.subarray(0, n), (v) => (2 / n) * v);
   /** (ar + i·ai)[1..n−1] ← propagate by the sine transform (values at 0 and n taken as 0). */
-  const sinePropagate = (ar: Float64Array, ai: Float64Array) => {
-    sine!(ar, ai, sr, si, sPr, sPi); // the propagator applied as the transform is unpacked
+  const sinePropagate = (ar: Float64Array, ai: Float64Array, cls: number) => {
+    const t = tableFor(cls);
+    sine!(ar, ai, sr, si, t.re, t.im); // the propagator applied as the transform is unpacked
     sine!(sr, si, ar, ai);
   };
   if (o.boundary.kind === "dirichlet") {
-    return (ur, ui) => {
+    return (ur, ui, slope) => {
       ur[0] = 0;
       ui[0] = 0;
-      sinePropagate(ur, ui);
+      sinePropagate(ur, ui, slopeClass(slope));
       ur[n] = 0;
       ui[n] = 0;
     };
   }
   if (o.boundary.kind === "neumann") {
-    return (ur, ui) => {
+    return (ur, ui, slope) => {
       for (let j = 0; j <= n; j++) {
         data[2 * j] = j === n ? 0 : ur[j];
         data[2 * j + 1] = j === n ? 0 : ui[j];
@@ -128,7 +164,8 @@ export function makeVerticalPropagator(o: VerticalPropagatorOptions): (ur: Float
           data[2 * (m2 - j) + 1] = ui[j];
         }
       }
-      spectral();
+      const t = tableFor(slopeClass(slope));
+      spectral(t.re, t.im);
       for (let j = 0; j < n; j++) {
         ur[j] = data[2 * j];
         ui[j] = data[2 * j + 1];
@@ -140,11 +177,11 @@ export function makeVerticalPropagator(o: VerticalPropagatorOptions): (ur: Float
   // mixed: discrete mixed Fourier transform; the mode's constants depend on α (which the
   // terrain-following frame changes with the slope), so they are made per α and kept
   const setups = new Map<string, ModeSetup>();
-  const setupFor = (alpha: Complex): ModeSetup => {
-    const key = `${alpha.re.toPrecision(7)},${alpha.im.toPrecision(7)}`;
+  const setupFor = (alpha: Complex, cls: number): ModeSetup => {
+    const key = `${alpha.re.toPrecision(7)},${alpha.im.toPrecision(7)},${cls}`;
     let m = setups.get(key);
     if (!m) {
-      m = modeSetup(alpha, n, dz, dx, k, filterAt);
+      m = modeSetup(alpha, cls * FRAME_SLOPE_CLASS_STEP, n, dz, dx, k, filterAt);
       if (setups.size > 256) setups.clear();
       setups.set(key, m);
     }
@@ -169,15 +206,17 @@ export function makeVerticalPropagator(o: VerticalPropagatorOptions): (ur: Float
     proj.re = (sr * nr + si * ni) / d2;
     proj.im = (si * nr - sr * ni) / d2;
   };
-  return (ur, ui, alphaNow) => {
+  return (ur, ui, slope, alphaNow) => {
     const alpha = alphaNow ?? fixed;
-    const setup = setupFor(alpha);
+    const cls = slopeClass(slope);
+    const setup = setupFor(alpha, cls);
+    const table = tableFor(cls);
     const { powRe, powIm, J, modeRe, modeIm } = setup;
     // scalars in locals: the loops below are the closure's whole cost
     const rr = setup.rho.re;
     const ri = setup.rho.im;
-    const ar = alpha.re;
-    const ai = alpha.im;
+    const ar = setup.alpha.re;
+    const ai = setup.alpha.im;
     const h = 1 / twoDz;
     ur[n] = 0;
     ui[n] = 0;
@@ -196,7 +235,7 @@ export function makeVerticalPropagator(o: VerticalPropagatorOptions): (ur: Float
     wi[n] = 0;
     // w propagated by the sine transform, and v (in wr/wi: wr[j] holds v_j) by the forward
     // recursion v_{j+1} = ρ·v_j + 2Δz·w_j from v_1 = 0, run as the inverse transform is unpacked
-    sine!(wr, wi, sr, si, sPr, sPi);
+    sine!(wr, wi, sr, si, table.re, table.im);
     rec.rhoRe = rr;
     rec.rhoIm = ri;
     sine!(sr, si, wr, wi, undefined, undefined, rec);
@@ -227,6 +266,8 @@ export function makeVerticalPropagator(o: VerticalPropagatorOptions): (ur: Float
 }
 
 interface ModeSetup {
+  /** the boundary's coefficient in the frame, ∂v/∂z' + α'v = 0 */
+  alpha: Complex;
   rho: Complex;
   powRe: number[];
   powIm: number[];
@@ -238,7 +279,11 @@ interface ModeSetup {
 }
 
 /** The discrete mode of the mixed transform for one α: ρ, its powers, norm and propagator. */
-function modeSetup(alpha: Complex, n: number, dz: number, dx: number, k: number, filterAt: (p: number) => number): ModeSetup {
+function modeSetup(alphaGround: Complex, slope: number, n: number, dz: number, dx: number, k: number, filterAt: (p: number) => number): ModeSetup {
+  // in a frame of slope s the vertical coordinate z' is the normal one stretched by
+  // 1/cos ψ (η = z'·cos ψ, tan ψ = s), so ∂u/∂η + αu = 0 reads ∂u/∂z' + α·cos ψ·u = 0
+  const { kSigma, kCos } = frameGauge(slope, k);
+  const alpha = { re: (alphaGround.re * kCos) / k, im: (alphaGround.im * kCos) / k };
   const a = { re: alpha.re * dz, im: alpha.im * dz };
   const root = csqrt({ re: 1 + a.re * a.re - a.im * a.im, im: 2 * a.re * a.im });
   let rho = { re: -a.re + root.re, im: -a.im + root.im };
@@ -269,12 +314,84 @@ function modeSetup(alpha: Complex, n: number, dz: number, dx: number, k: number,
   const li = Math.atan2(rho.im, rho.re) / dz;
   const lamRe = lr * lr - li * li;
   const lamIm = 2 * lr * li;
-  let kz = csqrt({ re: k * k + lamRe, im: lamIm });
-  if (kz.im < 0) kz = { re: -kz.re, im: -kz.im };
-  // the angular filter at the mode's vertical wavenumber p = Re √(−λm)
+  // the mode's vertical wavenumber p = √(−λm), and its phase per metre, the frame's even
+  // phase (frameEvenPhase) continued to complex p: ½(√(k² − (p + kσ)²) + √(k² − (p − kσ)²)) − k·cos ψ,
+  // each root with Im ≥ 0 (decaying); with s = 0, √(k² + λm) − k
   const pm = csqrt({ re: -lamRe, im: -lamIm });
-  const decay = Math.exp(-dx * kz.im) * filterAt(pm.re);
-  return { rho, powRe, powIm, J: powRe.length, nr, ni, modeRe: decay * Math.cos(dx * (kz.re - k)), modeIm: decay * Math.sin(dx * (kz.re - k)) };
+  let kzRe = 0;
+  let kzIm = 0;
+  for (const sg of [1, -1]) {
+    const qr = pm.re + sg * kSigma;
+    const qi = pm.im;
+    let kz = csqrt({ re: k * k - (qr * qr - qi * qi), im: -2 * qr * qi });
+    if (kz.im < 0) kz = { re: -kz.re, im: -kz.im };
+    kzRe += 0.5 * kz.re;
+    kzIm += 0.5 * kz.im;
+  }
+  // the angular filter at the mode's vertical wavenumber Re p
+  const decay = Math.exp(-dx * kzIm) * filterAt(pm.re);
+  const ph = dx * (kzRe - kCos);
+  return { alpha, rho, powRe, powIm, J: powRe.length, nr, ni, modeRe: decay * Math.cos(ph), modeIm: decay * Math.sin(ph) };
+}
+
+/**
+ * Spacing of the frame-slope classes that share one propagator (see frameEvenPhase): the
+ * frame's slope over a step is rounded to it. Measured on the demo's links against 2.5·10⁻⁴:
+ * 1·10⁻³ moves no answer by more than 0.02 dB, 2·10⁻³ by 0.03 dB, 4·10⁻³ by 0.04 dB.
+ */
+export const FRAME_SLOPE_CLASS_STEP = 1e-3;
+/**
+ * Bytes the propagator tables of the frame-slope classes may take together for a transform
+ * half-size n: up to 96 tables, no more than 16 MiB, but at least 8 tables (a table is 16
+ * bytes per point, n points for the sine transforms, 2n for the cosine one; counted as 2n
+ * here). Beyond it the least recently used table is refilled for the class asked for. A
+ * mountainous demo path's frame visits about 80 classes; the 50 km, 18 GHz link (n = 32768)
+ * keeps 32 tables.
+ */
+export function propagatorTablesBytes(n: number): number {
+  const table = 32 * n;
+  return Math.max(8 * table, Math.min(16 * 1024 * 1024, 96 * table));
+}
+
+/** The class of a frame slope (its index in steps of FRAME_SLOPE_CLASS_STEP). */
+function slopeClass(slope: number | undefined): number {
+  return slope ? Math.round(slope / FRAME_SLOPE_CLASS_STEP) : 0;
+}
+
+/**
+ * The terrain-following frame's gauge for a frame of slope s = tan ψ: the field in the frame
+ * is v = u·exp(−ik·sin ψ·z'), so that v's vertical wavenumber 0 is the wave running along the
+ * frame's floor (kσ = k·sin ψ; kCos = k·cos ψ).
+ */
+export function frameGauge(slope: number, k: number): { kSigma: number; kCos: number } {
+  const c = 1 / Math.sqrt(1 + slope * slope);
+  return { kSigma: k * slope * c, kCos: k * c };
+}
+
+/**
+ * Phase per metre of range of the frame component of vertical wavenumber p (rad/m), the even
+ * part of the exact one: in a frame z' = z − s·x (s constant) a plane wave of physical vertical
+ * wavenumber b = p + kσ has range wavenumber √(k² − b²) + s·b, so with the gauge of frameGauge
+ *   D(p) = √(k² − (p + kσ)²) + s·(p + kσ)
+ * exactly (Helmholtz equation, no approximation). The transforms that hold the ground condition
+ * (sine, cosine, mixed) pair p with −p and so carry only D's even part,
+ *   D_e(p) = ½(√(k² − (p + kσ)²) + √(k² − (p − kσ)²)) (+ a constant, dropped: k·cos ψ taken off),
+ * whose p² term, −p²/(2k·cos³ψ), is the Fresnel spreading of the rotated frame (normal
+ * coordinate η = z'·cos ψ, range ξ = x/cos ψ); the odd part, D − D_e, starts at p³ (the sin ψ
+ * gauge makes its p¹ term zero: v's p = 0 runs exactly along the floor), about −k·sin ψ·θ³/2 at
+ * angle θ in the frame. With s = 0 this is the Feit–Fleck √(k² − p²) − k. The wide-angle
+ * propagator without the frame's terms (what the solver used before) is wrong by about
+ * −(3/2)·k·θ²·s²/2 per metre at angle θ, which moved with the frame's slope between grids.
+ * Cancellation-free: √(k² − q²) − k·cos ψ = (k²sin²ψ − q²)/(√(k² − q²) + k·cos ψ).
+ * Evanescent parts (|p ± kσ| ≥ k, far outside the angular filter) are given no phase.
+ */
+export function frameEvenPhase(p: number, k: number, kSigma: number, kCos: number): number {
+  const a = p + kSigma;
+  const b = p - kSigma;
+  const s2 = kSigma * kSigma;
+  const ra = a < k && a > -k ? (s2 - a * a) / (Math.sqrt(k * k - a * a) + kCos) : 0;
+  const rb = b < k && b > -k ? (s2 - b * b) / (Math.sqrt(k * k - b * b) + kCos) : 0;
+  return 0.5 * (ra + rb);
 }
 
 /**
