@@ -34,6 +34,12 @@ export interface ComputedCoverage {
   /** method, model choices and the grid, in sentences for the report */
   assumptions: string[];
   timing: { terrain_s: number; compute_s: number; threads: number };
+  /**
+   * Set when runCoverage was asked for `outsideOnWrite` and could honour it: the cells outside
+   * the radius are still 0 in `values`, and the writer sets them to nodata strip by strip
+   * (fillLineOfSightRaster with row0, row1, value VISIBILITY_NODATA)
+   */
+  outside_pending?: boolean;
   /** the job the threads ran (its constants; the buffers are `dem` and `values`) */
   job: CoverageJob;
 }
@@ -76,8 +82,11 @@ export async function computeCoverage(terrain: Terrain, req: CoverageRequest, op
  * Allocate the result (filled with nodata) and compute a prepared coverage, tile by tile
  * (coverage-tiles.ts), taking the tiles `options.tiles` holds. The terrain is no longer needed
  * at this point: a caller that holds nothing else of it can let it go first.
+ * @param options.outsideOnWrite for a caller that only writes the raster to a file: a line of
+ *   sight raster computed straight into `values` may leave its cells outside the radius 0, for
+ *   the writer to set (see ComputedCoverage.outside_pending)
  */
-export async function runCoverage(prepared: PreparedCoverage, options: Pick<ComputeOptions, "pool" | "onProgress" | "tiles"> = {}): Promise<ComputedCoverage> {
+export async function runCoverage(prepared: PreparedCoverage, options: Pick<ComputeOptions, "pool" | "onProgress" | "tiles"> & { outsideOnWrite?: boolean } = {}): Promise<ComputedCoverage> {
   const { terrain_s, job: base, ...rest } = prepared;
   const cells = rest.grid.width * rest.grid.height;
   const isLevel = base.method !== "visibility";
@@ -89,7 +98,9 @@ export async function runCoverage(prepared: PreparedCoverage, options: Pick<Comp
   // zeros inside (horizon-sweep.ts: the sweep writes only what differs)
   const zeroed = !options.tiles && lineOfSightOnly(base.method, base.clearance_f1) && horizonSweepApplies(base);
   if (zeroed) {
-    fillLineOfSightRaster(values as Uint8Array, base, nodata);
+    // for a caller that only writes the raster, the cells outside the radius are set as it is
+    // written (outside_pending): their pages of this raster are then never touched
+    if (!options.outsideOnWrite) fillLineOfSightRaster(values as Uint8Array, base, nodata);
     job.out_zeroed = true;
   } else if (options.pool && !options.tiles) await options.pool.fill(values, nodata); // with tiles at hand, not worth waiting for the threads
   else values.fill(nodata);
@@ -103,7 +114,7 @@ export async function runCoverage(prepared: PreparedCoverage, options: Pick<Comp
   if (tally.failed > 0) {
     rest.warnings.push(`${tally.failed} cells inside the radius could not be computed (no terrain data on their profile or under them) and are left as nodata.`);
   }
-  return { ...rest, values, job, tally, timing: { terrain_s, compute_s, threads: options.pool ? options.pool.size : 1 } };
+  return { ...rest, values, job, tally, timing: { terrain_s, compute_s, threads: options.pool ? options.pool.size : 1 }, ...(zeroed && options.outsideOnWrite ? { outside_pending: true } : {}) };
 }
 
 /**

@@ -125,9 +125,13 @@ export function horizonSweep(g: SweepGeometry, dem: Float32Array | Int16Array, r
  * as the sweep computes it (√(Δeast² + Δnorth²) with the site row's metric), exceeds the
  * radius — leaving 0 inside, which the sweep keeps for every cell it finds not visible. Only
  * the rows' outer parts are written: the rest of a fresh buffer is never touched unless a cell
- * there is visible (pages never written cost nothing).
+ * there is visible (pages never written cost nothing). The sweep never writes a cell outside
+ * the radius, so the same fill made after it, strip by strip as the raster is written
+ * (`row0`, `row1`), gives the same raster without writing the outer parts in memory at all.
+ * @param out rows row0 … row1 − 1 of the raster (out[0] is row0's first cell)
+ * @param row0 first row `out` holds (default 0), @param row1 row past the last (default all)
  */
-export function fillLineOfSightRaster(out: Uint8Array, g: SweepGeometry, value: number): void {
+export function fillLineOfSightRaster(out: Uint8Array, g: SweepGeometry, value: number, row0 = 0, row1 = g.height): void {
   const { ex, ny } = siteMetric(g);
   const W = g.width;
   const R = g.radius_m;
@@ -136,24 +140,25 @@ export function fillLineOfSightRaster(out: Uint8Array, g: SweepGeometry, value: 
     const dx = (c - xs) * ex;
     return Math.sqrt(dx * dx + dy2) <= R;
   };
-  for (let r = 0; r < g.height; r++) {
+  for (let r = row0; r < row1; r++) {
     const dy = (r - g.site_row) * ny;
     const dy2 = dy * dy;
     const half = Math.sqrt(Math.max(0, R * R - dy2)) / Math.abs(ex);
+    const at = (r - row0) * W;
     // the row's cells inside form one interval about the site: find its ends exactly
     let a = Math.max(0, Math.floor(xs - half) - 2);
     const stop = Math.min(W - 1, Math.ceil(xs + half) + 2);
     while (a <= stop && !inside(a, dy2)) a++;
     if (a > stop) {
-      out.fill(value, r * W, r * W + W);
+      out.fill(value, at, at + W);
       continue;
     }
     while (a > 0 && inside(a - 1, dy2)) a--;
     let b = Math.min(W - 1, Math.ceil(xs + half) + 2);
     while (b > a && !inside(b, dy2)) b--;
     while (b < W - 1 && inside(b + 1, dy2)) b++;
-    out.fill(value, r * W, r * W + a);
-    out.fill(value, r * W + b + 1, r * W + W);
+    out.fill(value, at, at + a);
+    out.fill(value, at + b + 1, at + W);
   }
 }
 
@@ -455,7 +460,8 @@ function faceWavefront(fv: Float64Array, iv: Int32Array, iv2: Int32Array, st: Fl
             continue;
           }
           const v = hc + hr - d * d * k2 - hts > horizon * d ? 1 : 0; // as HorizonVisitor.cell
-          out[idx] = v;
+          // (when `zeroed` the cell is 0 already: a 0 written would only touch its page)
+          if (v === 1 || !zeroed) out[idx] = v;
           cells++;
           nVisible += v;
           if (!uniformArea) {

@@ -148,18 +148,24 @@ export function readBandInt16(fd: number, layout: BandLayout, nodata: number | n
 export function readBandFloat32AsInt16(fd: number, layout: BandLayout, nodata: number | null, window?: PixelWindow): Int16Array | null {
   if (layout.kind !== "f32") throw new Error(`readBandFloat32AsInt16: the band holds ${layout.kind} samples`);
   const win = window ?? { col0: 0, row0: 0, width: layout.width, height: layout.height };
-  const out = new Int16Array(new SharedArrayBuffer(win.width * win.height * 2));
   const nd = nodata === null || Number.isNaN(nodata) ? NaN : Math.fround(nodata);
   const notWhole = new Error("not whole metres");
+  // allocated once the first piece has been found whole: a band of fractional metres usually
+  // tells at its first samples, and then no window of Int16 is made (and no page of it written)
+  let out: Int16Array | null = null;
   try {
     decodeWindow(fd, layout, win, (samples, src, dst, n) => {
+      if (out === null) {
+        if (!wholeToInt16(samples as Float32Array, src, new Int16Array(n), 0, n, nd)) throw notWhole;
+        out = new Int16Array(new SharedArrayBuffer(win.width * win.height * 2));
+      }
       if (!wholeToInt16(samples as Float32Array, src, out, dst, n, nd)) throw notWhole;
     });
   } catch (e) {
     if (e === notWhole) return null;
     throw e;
   }
-  return out;
+  return out ?? new Int16Array(new SharedArrayBuffer(win.width * win.height * 2));
 }
 
 /** Copy n Float32 samples to Int16 (NaN and `nd` as INT16_NODATA); false at the first sample that is not a whole number from −32767 to 32767. */

@@ -54,18 +54,30 @@ function job(col: number, row: number, k: number, radius_m: number, int16 = fals
 }
 
 /** Visibility raster and tally of radials split at `cuts` (sorted), by one sweep or the other. */
-function run(j: CoverageJob, which: "general" | "wavefront" | "wavefront-zeroed", cuts: number[]): { raster: Uint8Array; tally: ReturnType<CoverageTally["data"]> } {
+function run(j: CoverageJob, which: "general" | "wavefront" | "wavefront-zeroed" | "wavefront-zeroed-outside-after", cuts: number[]): { raster: Uint8Array; tally: ReturnType<CoverageTally["data"]> } {
   const raster = new Uint8Array(j.out).fill(255);
-  // as `ridgeline coverage` computes: 0 inside the radius, nodata outside, then only what differs written
+  // 0 inside the radius, nodata outside, then only what differs written
   if (which === "wavefront-zeroed") fillLineOfSightRaster(raster.fill(0), j, 255);
+  // as `ridgeline coverage` computes: all 0, only what differs written, nodata outside the radius set strip by strip as the file is written
+  if (which === "wavefront-zeroed-outside-after") raster.fill(0);
   const dem = j.dem_int16 ? new Int16Array(j.dem) : new Float32Array(j.dem);
   const total = new CoverageTally(j.thresholds_dbm);
   const bounds = [0, ...cuts, rayCount(j.rc)];
   for (let c = 0; c + 1 < bounds.length; c++) {
     const part = new CoverageTally(j.thresholds_dbm);
     if (which === "general") sweepRays(j, dem, j.rc, bounds[c], bounds[c + 1], new HorizonVisitor(j, part));
-    else horizonSweep(j, dem, j.rc, bounds[c], bounds[c + 1], { hts_m: j.site_ground_m + j.antenna_m, receiver_m: j.receiver_m, k2: j.ae_m === Infinity ? 0 : 1 / (2 * j.ae_m) }, raster, j.cell_area_m2, part, undefined, which === "wavefront-zeroed");
+    else horizonSweep(j, dem, j.rc, bounds[c], bounds[c + 1], { hts_m: j.site_ground_m + j.antenna_m, receiver_m: j.receiver_m, k2: j.ae_m === Infinity ? 0 : 1 / (2 * j.ae_m) }, raster, j.cell_area_m2, part, undefined, which.startsWith("wavefront-zeroed"));
     total.addSums(part.data());
+  }
+  if (which === "wavefront-zeroed-outside-after") {
+    // strips of 7 rows (the last one shorter), each filled in a copy as geotiff-writer's fillStrip does
+    const W = j.width;
+    for (let r0 = 0; r0 < j.height; r0 += 7) {
+      const r1 = Math.min(j.height, r0 + 7);
+      const strip = raster.slice(r0 * W, r1 * W);
+      fillLineOfSightRaster(strip, j, 255, r0, r1);
+      raster.set(strip, r0 * W);
+    }
   }
   return { raster: raster.slice(), tally: total.data() };
 }
@@ -88,7 +100,7 @@ describe("wavefront line-of-sight sweep", () => {
         const splits = [[], [Math.floor(n / 4), Math.floor(n / 2)], Array.from(new Set(Array.from({ length: 7 }, () => 1 + Math.floor(rnd() * (n - 1))))).sort((a, b) => a - b)];
         const ref = run(j, "general", []);
         expect(ref.tally.cells).toBeGreaterThan(1000);
-        for (const [cuts, which] of splits.flatMap((cuts) => [[cuts, "wavefront"], [cuts, "wavefront-zeroed"]] as const)) {
+        for (const [cuts, which] of splits.flatMap((cuts) => [[cuts, "wavefront"], [cuts, "wavefront-zeroed"], [cuts, "wavefront-zeroed-outside-after"]] as const)) {
           const got = run(j, which, cuts);
           expect(Buffer.compare(Buffer.from(got.raster), Buffer.from(ref.raster)), `${which}, chunks at ${cuts.join(", ")}`).toBe(0);
           expect([got.tally.cells, got.tally.failed, got.tally.min, got.tally.max]).toEqual([ref.tally.cells, ref.tally.failed, ref.tally.min, ref.tally.max]);
