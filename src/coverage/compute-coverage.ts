@@ -14,7 +14,8 @@ import { validateCoverageRequest, type CoverageRequest, type FieldNames } from "
 import type { TallyData } from "./coverage-tally.ts";
 import { elevationWindow, type Elevations } from "./elevation-window.ts";
 import { raysPerHalfFace } from "./radial-sweep.ts";
-import { fillLineOfSightRaster, horizonSweepApplies, horizonTileTable, lineOfSightOnly } from "./horizon-sweep.ts";
+import { fillLineOfSightRaster, horizonSweepApplies, horizonTileTable, horizonTileTableRows, lineOfSightOnly } from "./horizon-sweep.ts";
+import type { RowProgress } from "../terrain/tiff-band-reader.ts";
 import { CoverageError } from "./coverage-error.ts";
 import { p1812Job } from "./p1812-setup.ts";
 
@@ -63,6 +64,12 @@ export interface ComputeOptions {
   elevationsInsideRadiusOnly?: boolean;
   /** where the map's tiles are found and kept (coverage-tiles.ts); none: every tile is computed */
   tiles?: CoverageTileStore | null;
+  /**
+   * Geometric line of sight: have these threads fill the sweep's horizon tile table while the
+   * elevations are read (CoveragePool.fillTileTable), when they are read row by row straight
+   * from a GeoTIFF; the table then goes with the prepared job
+   */
+  tileTableWhileReading?: CoveragePool | null;
 }
 
 /** A coverage laid out and ready to compute: everything but the result buffer. */
@@ -105,7 +112,7 @@ export async function runCoverage(prepared: PreparedCoverage, options: Pick<Comp
   } else if (options.pool && !options.tiles) await options.pool.fill(values, nodata); // with tiles at hand, not worth waiting for the threads
   else values.fill(nodata);
   // made here, with the result, so that it always belongs to these elevations
-  if (lineOfSightOnly(base.method, base.clearance_f1)) job.dem_tile_max = horizonTileTable(base.width, base.height).buffer as SharedArrayBuffer;
+  if (lineOfSightOnly(base.method, base.clearance_f1) && !job.dem_tile_max) job.dem_tile_max = horizonTileTable(base.width, base.height).buffer as SharedArrayBuffer;
   const t1 = performance.now();
   const progress: CoverageProgress = (d, t) => options.onProgress?.("compute", d, t);
   const count = coverageTileCount(rest.request.radius_m, rest.request.resolution_m);
@@ -126,7 +133,24 @@ export function prepareCoverage(terrain: Terrain, req: CoverageRequest, options:
   const pattern = validateCoverageRequest(req, options.names, options.patternField);
   const t0 = performance.now();
   const { grid, warnings } = planCoverageGrid(terrain, req.site, req.radius_m, req.resolution_m, { maxCells: options.maxCells });
-  const dem = elevationWindow(terrain, grid, (d, t) => options.onProgress?.("terrain", d, t), options.shareDecode, { insideRadiusOnly: options.elevationsInsideRadiusOnly });
+  // the threads take the elevations' rows for the tile table as they are read (when the reader reports them)
+  const pool = options.tileTableWhileReading;
+  const tiles = pool && lineOfSightOnly(req.method, req.clearance_f1) && horizonSweepApplies({ ...grid, radius_m: req.radius_m }) ? horizonTileTable(grid.width, grid.height) : null;
+  const progress: RowProgress | undefined = tiles
+    ? {
+        started: (out) => {
+          horizonTileTableRows(tiles, 0, true);
+          pool!.fillTileTable(tiles, out, { ...grid, radius_m: req.radius_m });
+        },
+        rows: (done) => horizonTileTableRows(tiles, done, true),
+      }
+    : undefined;
+  let dem: Elevations;
+  try {
+    dem = elevationWindow(terrain, grid, (d, t) => options.onProgress?.("terrain", d, t), options.shareDecode, { insideRadiusOnly: options.elevationsInsideRadiusOnly, progress });
+  } finally {
+    if (tiles) horizonTileTableRows(tiles, grid.height, false); // read, or failed: the threads wait no longer
+  }
   const t1 = performance.now();
   const site_ground_m = terrain.elevation(req.site.lat_deg, req.site.lon_deg);
   const f = req.frequency_ghz;
@@ -187,6 +211,7 @@ export function prepareCoverage(terrain: Terrain, req: CoverageRequest, options:
     azimuth_offset_deg: grid.azimuth_offset_deg,
     dem: dem.buffer as SharedArrayBuffer,
     dem_int16: dem instanceof Int16Array,
+    ...(tiles ? { dem_tile_max: tiles.buffer as SharedArrayBuffer } : {}),
     site_ground_m,
     antenna_m: req.antenna_m,
     receiver_m: req.receiver_m,

@@ -1,5 +1,5 @@
 import type { ShareDecode } from "../terrain/geotiff.ts";
-import { INT16_NODATA, type PixelWindow } from "../terrain/tiff-band-reader.ts";
+import { INT16_NODATA, type PixelWindow, type RowProgress } from "../terrain/tiff-band-reader.ts";
 import type { Terrain } from "../terrain/terrain.ts";
 import { cellCentreLatLon, type CoverageGrid } from "./coverage-grid.ts";
 import { uniformMetric } from "./radial-sweep.ts";
@@ -34,20 +34,22 @@ export function elevationAt(dem: Elevations, i: number): number {
  *   for L = 500 m at 46°N (test/coverage/coverage-grid.test.ts).
  * @param onRow optional progress callback (rows done, rows)
  * @param share hands a GeoTIFF window decode to worker threads as well (CoveragePool.shareDecode)
+ * @param options.progress told of the rows as a GeoTIFF window is read straight from the file
+ *   (see RowProgress; not called for other sources, nor for a window kept from before)
  * @param options.insideRadiusOnly read a GeoTIFF window only within the coverage radius plus
  *   three cells — all the sweeps and Hata read (samples end 1.5 cells past the radius, and
  *   interpolate with the next cell) — leaving the corners of the square zero: about a fifth
  *   less memory written. Not for callers that use the elevations outside the radius (the
  *   shaded relief of a map).
  */
-export function elevationWindow(terrain: Terrain, grid: CoverageGrid, onRow?: (done: number, total: number) => void, share?: ShareDecode, options: { insideRadiusOnly?: boolean } = {}): Elevations {
+export function elevationWindow(terrain: Terrain, grid: CoverageGrid, onRow?: (done: number, total: number) => void, share?: ShareDecode, options: { insideRadiusOnly?: boolean; progress?: RowProgress } = {}): Elevations {
   const keep = keptWindows.get(terrain);
   if (keep) {
     const key = JSON.stringify([grid.epsg, grid.geoTransform, grid.width, grid.height, grid.source, grid.radius_m, !!options.insideRadiusOnly]);
     let dem = keep.find((w) => w.key === key)?.dem;
     if (!dem) {
       keptWindows.delete(terrain); // read it as usual
-      dem = elevationWindow(terrain, grid, onRow, share, options);
+      dem = elevationWindow(terrain, grid, onRow, share, { insideRadiusOnly: options.insideRadiusOnly });
       keptWindows.set(terrain, [{ key, dem }, ...keep].slice(0, KEEP_WINDOWS));
     }
     onRow?.(grid.height, grid.height);
@@ -56,10 +58,10 @@ export function elevationWindow(terrain: Terrain, grid: CoverageGrid, onRow?: (d
   const { width: W, height: H } = grid;
   const src = grid.source;
   // A terrain that reads windows of its raster itself (GeoTIFF) decodes only the grid's pixels, once.
-  const readWindow = (terrain as { readWindow?: (w: PixelWindow, share: ShareDecode | undefined, int16: boolean) => Elevations }).readWindow;
+  const readWindow = (terrain as { readWindow?: (w: PixelWindow, share: ShareDecode | undefined, int16: boolean, progress?: RowProgress) => Elevations }).readWindow;
   if (src.kind === "raster" && typeof readWindow === "function") {
     const spans = options.insideRadiusOnly ? radiusSpans(grid) : undefined;
-    const out = readWindow.call(terrain, { col0: src.col0, row0: src.row0, width: W, height: H, ...(spans ? { spans } : {}) }, share, true);
+    const out = readWindow.call(terrain, { col0: src.col0, row0: src.row0, width: W, height: H, ...(spans ? { spans } : {}) }, share, true, options.progress);
     onRow?.(H, H);
     return out;
   }

@@ -521,25 +521,67 @@ function faceWavefront(fv: Float64Array, iv: Int32Array, iv2: Int32Array, st: Fl
 export const HORIZON_TILE = 16;
 const TILE = HORIZON_TILE;
 
+/** Bytes before the maxima in a horizon tile table's buffer: its four Int32 counters. */
+const TABLE_HEADER = 16;
+
 /**
  * The table of the highest elevation in each HORIZON_TILE × HORIZON_TILE tile of a grid
  * (row-major tiles), for horizonSweep, on a SharedArrayBuffer so that the threads of one job
- * share it: two Int32 counters (tile rows taken, tile rows filled), then the Float32 maxima
- * (+∞ for a tile holding nodata). The first sweep fills it (fillTileTable).
+ * share it: four Int32 counters (tile rows taken, tile rows filled, 1 while the elevations
+ * are still being read, grid rows read so far), then the Float32 maxima (+∞ for a tile
+ * holding nodata). The first sweep fills it (fillTileTable), or threads fill it while the
+ * elevations are read (fillHorizonTileTable, horizonTileTableRows).
  */
 export function horizonTileTable(width: number, height: number): Float32Array {
-  return new Float32Array(new SharedArrayBuffer(8 + 4 * Math.ceil(width / TILE) * Math.ceil(height / TILE)), 8);
+  return new Float32Array(new SharedArrayBuffer(TABLE_HEADER + 4 * Math.ceil(width / TILE) * Math.ceil(height / TILE)), TABLE_HEADER);
+}
+
+/** The tile table held by a buffer from horizonTileTable (`.buffer`), e.g. one sent to another thread. */
+export function horizonTileTableOf(buffer: SharedArrayBuffer): Float32Array {
+  return new Float32Array(buffer, TABLE_HEADER);
+}
+
+/**
+ * Tell the threads filling a tile table (fillHorizonTileTable) how many grid rows of the
+ * elevations are read: `reading` true with the first count, before they start (they then wait
+ * for the rows each tile row needs), false with the last (every row there is, whether the read
+ * ended or failed: they no longer wait).
+ */
+export function horizonTileTableRows(tiles: Float32Array, rows: number, reading: boolean): void {
+  const ctrl = new Int32Array(tiles.buffer, 0, 4);
+  Atomics.store(ctrl, 3, rows);
+  Atomics.store(ctrl, 2, reading ? 1 : 0);
+  Atomics.notify(ctrl, 3);
+}
+
+/**
+ * Fill a grid's horizon tile table on this thread, with any others doing the same (see
+ * fillTileTable), as its elevations are read: a tile row is taken up once the grid rows it
+ * covers are read (horizonTileTableRows). The sweeps given the table then find it filled.
+ */
+export function fillHorizonTileTable(tiles: Float32Array, dem: Float32Array | Int16Array, g: SweepGeometry): void {
+  fillTileTable(tiles, dem, g);
+}
+
+/** Wait until grid rows 0 … rows − 1 are read, or the elevations are no longer being read (see horizonTileTableRows). */
+function awaitRows(ctrl: Int32Array, rows: number): void {
+  while (Atomics.load(ctrl, 2) === 1) {
+    const got = Atomics.load(ctrl, 3);
+    if (got >= rows) return;
+    Atomics.wait(ctrl, 3, got, 100);
+  }
 }
 
 /**
  * Fill a horizon tile table unless it is filled: every thread that calls this takes tile rows
- * from the shared counter and fills them, then waits for the rows others are filling. Only the
+ * from the shared counter and fills them (each once its grid rows are read, when the table is
+ * filled while they are: see horizonTileTableRows), then waits for the rows others are filling. Only the
  * tiles within the radius plus three cells are read (the samples end 1.5 cells past it and
  * interpolate with the next cell); the others are +∞, which bounds nothing, so the table never
  * decides more than the cells it has read. Elevations (Int16 or Float32) are exact in Float32.
  */
 function fillTileTable(tiles: Float32Array, dem: Float32Array | Int16Array, g: SweepGeometry): void {
-  const ctrl = new Int32Array(tiles.buffer, 0, 2);
+  const ctrl = new Int32Array(tiles.buffer, 0, 4);
   const W = g.width;
   const H = g.height;
   const across = Math.ceil(W / TILE);
@@ -555,6 +597,7 @@ function fillTileTable(tiles: Float32Array, dem: Float32Array | Int16Array, g: S
     row.fill(Infinity);
     const r0 = tr * TILE;
     const r1 = Math.min(H, r0 + TILE);
+    awaitRows(ctrl, r1); // (returns at once unless the elevations are still being read)
     // the tile columns the disc reaches in these rows
     const dy = (g.site_row < r0 ? r0 - g.site_row : g.site_row > r1 - 1 ? g.site_row - (r1 - 1) : 0) * ny;
     if (dy <= reach) {

@@ -2,12 +2,12 @@ import { mkdtempSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { prepareCoverage } from "../../src/coverage/compute-coverage.ts";
+import { prepareCoverage, runCoverage } from "../../src/coverage/compute-coverage.ts";
 import type { CoverageJob } from "../../src/coverage/coverage-job.ts";
 import { CoverageTally } from "../../src/coverage/coverage-tally.ts";
 import { computeCoverage } from "../../src/coverage/compute-coverage.ts";
 import { CoveragePool } from "../../src/coverage/coverage-pool.ts";
-import { fillLineOfSightRaster, horizonSweep, horizonSweepApplies, warmUpHorizonSweep } from "../../src/coverage/horizon-sweep.ts";
+import { fillHorizonTileTable, fillLineOfSightRaster, horizonSweep, horizonSweepApplies, horizonTileTable, horizonTileTableOf, warmUpHorizonSweep } from "../../src/coverage/horizon-sweep.ts";
 import { HorizonVisitor } from "../../src/coverage/level-visitors.ts";
 import { rayCount, sweepRays } from "../../src/coverage/radial-sweep.ts";
 import { mulberry32 } from "../../src/terrain/mulberry32.ts";
@@ -111,6 +111,37 @@ describe("wavefront line-of-sight sweep", () => {
       });
     }
   }
+
+  it("threads that fill the tile table while the elevations are read, and nodata outside the radius set strip by strip as `ridgeline coverage` writes: the same raster and tally", async () => {
+    const [lat, lon] = cellLatLon(DEM, 118, 36); // beside the nodata hole
+    const req = request({ site: { lat_deg: lat, lon_deg: lon }, method: "visibility", radius_m: 2600 });
+    const pool = CoveragePool.start(2, { warmUp: "line-of-sight" });
+    try {
+      const a = await computeCoverage(terrain, req, { pool });
+      expect(a.outside_pending).toBeUndefined();
+      const prepared = prepareCoverage(terrain, req, { tileTableWhileReading: pool, elevationsInsideRadiusOnly: true });
+      expect(prepared.job.dem_tile_max).toBeInstanceOf(SharedArrayBuffer);
+      const b = await runCoverage(prepared, { pool, outsideOnWrite: true });
+      expect(b.outside_pending).toBe(true);
+      const W = b.grid.width;
+      const got = new Uint8Array(b.values as Uint8Array);
+      for (let r0 = 0; r0 < b.grid.height; r0 += 16) {
+        const r1 = Math.min(b.grid.height, r0 + 16);
+        fillLineOfSightRaster(got.subarray(r0 * W, r1 * W), b.job, 255, r0, r1);
+      }
+      expect(Buffer.compare(Buffer.from(got), Buffer.from(a.values.buffer as ArrayBuffer))).toBe(0);
+      expect(b.tally).toEqual(a.tally);
+      expect(a.tally.failed).toBeGreaterThan(0);
+      // the table the threads filled is the one this thread makes from the same elevations
+      const own = horizonTileTable(b.grid.width, b.grid.height);
+      fillHorizonTileTable(own, prepared.dem, b.job);
+      const theirs = horizonTileTableOf(prepared.job.dem_tile_max!);
+      expect(Buffer.compare(Buffer.from(theirs.buffer, theirs.byteOffset, theirs.byteLength), Buffer.from(own.buffer, own.byteOffset, own.byteLength))).toBe(0);
+      expect(theirs.some((v) => v === Infinity) && theirs.some((v) => v > 0 && v < Infinity)).toBe(true);
+    } finally {
+      await pool.close();
+    }
+  });
 
   it("a pool whose threads warmed up on a made-up grid computes the same raster as this thread", async () => {
     expect(warmUpHorizonSweep(2)).toBeGreaterThan(0);

@@ -152,7 +152,7 @@ export async function coverageCommand(argv: string[]): Promise<number> {
       inMemory = (terrain as { pixelsInMemory?: boolean }).pixelsInMemory !== false;
       if (inMemory) collectGarbage(); // the reader's file bytes and decoding buffers
       // only the raster is written: the elevations outside the radius are not needed
-      prepared = prepareCoverage(terrain, request, { names, patternField: "--pattern", shareDecode: pool ? (...a) => pool.shareDecode(...a) : undefined, elevationsInsideRadiusOnly: true });
+      prepared = prepareCoverage(terrain, request, { names, patternField: "--pattern", shareDecode: pool ? (...a) => pool.shareDecode(...a) : undefined, elevationsInsideRadiusOnly: true, tileTableWhileReading: pool });
       mark("grid elevations");
     } catch (e) {
       if (e instanceof TerrainError) throw new UsageError(`--terrain: ${e.message}`);
