@@ -8,7 +8,8 @@ import { uniformMetric } from "./radial-sweep.ts";
 const MESH_M = 500;
 
 /**
- * A coverage grid's elevations (m, row-major): Float32 with NaN for nodata, or — read from an
+ * A coverage grid's elevations (m, row-major): Float32 with NaN for nodata (or −32768, see
+ * elevationWindow's insideRadiusOnly), or — read from an
  * Int16 raster, or from a Float32 one whose samples are all whole metres — Int16 with
  * INT16_NODATA (−32768) for nodata, the same values in half the memory. Read single values with `elevationAt`; hot loops compare with INT16_NODATA
  * themselves (−32768 is never a height on Earth, so the test is the same for both types).
@@ -39,8 +40,10 @@ export function elevationAt(dem: Elevations, i: number): number {
  * @param options.insideRadiusOnly read a GeoTIFF window only within the coverage radius plus
  *   three cells — all the sweeps and Hata read (samples end 1.5 cells past the radius, and
  *   interpolate with the next cell) — leaving the corners of the square zero: about a fifth
- *   less memory written. Not for callers that use the elevations outside the radius (the
- *   shaded relief of a map).
+ *   less memory written; and a Float32 band whose nodata is −32768 keeps those samples as read
+ *   (nodata as INT16_NODATA in Float32, which every reader here takes as nodata) rather than
+ *   NaN, which saves a pass over every sample. Not for callers that use the elevations outside
+ *   the radius or hand them on (the shaded relief of a map).
  */
 export function elevationWindow(terrain: Terrain, grid: CoverageGrid, onRow?: (done: number, total: number) => void, share?: ShareDecode, options: { insideRadiusOnly?: boolean; progress?: RowProgress } = {}): Elevations {
   const keep = keptWindows.get(terrain);
@@ -61,7 +64,8 @@ export function elevationWindow(terrain: Terrain, grid: CoverageGrid, onRow?: (d
   const readWindow = (terrain as { readWindow?: (w: PixelWindow, share: ShareDecode | undefined, int16: boolean, progress?: RowProgress) => Elevations }).readWindow;
   if (src.kind === "raster" && typeof readWindow === "function") {
     const spans = options.insideRadiusOnly ? radiusSpans(grid) : undefined;
-    const out = readWindow.call(terrain, { col0: src.col0, row0: src.row0, width: W, height: H, ...(spans ? { spans } : {}) }, share, true, options.progress);
+    const only = options.insideRadiusOnly === true;
+    const out = readWindow.call(terrain, { col0: src.col0, row0: src.row0, width: W, height: H, ...(spans ? { spans } : {}), ...(only ? { int16NodataKept: true } : {}) }, share, true, options.progress);
     onRow?.(H, H);
     return out;
   }
