@@ -14,7 +14,7 @@ import { validateCoverageRequest, type CoverageRequest, type FieldNames } from "
 import type { TallyData } from "./coverage-tally.ts";
 import { elevationWindow, type Elevations } from "./elevation-window.ts";
 import { raysPerHalfFace } from "./radial-sweep.ts";
-import { fillHorizonTileTable, fillLineOfSightRaster, horizonSweepApplies, horizonTileTable, horizonTileTableRows, lineOfSightOnly } from "./horizon-sweep.ts";
+import { fillLineOfSightRaster, horizonSweepApplies, horizonTileTable, horizonTileTableRows, lineOfSightOnly } from "./horizon-sweep.ts";
 import type { RowProgress } from "../terrain/tiff-band-reader.ts";
 import { CoverageError } from "./coverage-error.ts";
 import { p1812Job } from "./p1812-setup.ts";
@@ -136,11 +136,11 @@ export function prepareCoverage(terrain: Terrain, req: CoverageRequest, options:
   // the threads take the elevations' rows for the tile table as they are read (when the reader reports them)
   const pool = options.tileTableWhileReading;
   const tiles = pool && lineOfSightOnly(req.method, req.clearance_f1) && horizonSweepApplies({ ...grid, radius_m: req.radius_m }) ? horizonTileTable(grid.width, grid.height) : null;
-  let started = false;
+  // (this thread does not take tile rows itself once it has read them: when the threads are
+  // still warming up, it would take them all, in code not yet optimised, while they wait)
   const progress: RowProgress | undefined = tiles
     ? {
         started: (out) => {
-          started = true;
           horizonTileTableRows(tiles, 0, true);
           pool!.fillTileTable(tiles, out, { ...grid, radius_m: req.radius_m });
         },
@@ -153,8 +153,6 @@ export function prepareCoverage(terrain: Terrain, req: CoverageRequest, options:
   } finally {
     if (tiles) horizonTileTableRows(tiles, grid.height, false); // read, or failed: the threads wait no longer
   }
-  // this thread, done reading, takes the tile rows the threads have not taken yet
-  if (tiles && started) fillHorizonTileTable(tiles, dem, { ...grid, radius_m: req.radius_m });
   const t1 = performance.now();
   const site_ground_m = terrain.elevation(req.site.lat_deg, req.site.lon_deg);
   const f = req.frequency_ghz;
