@@ -26,7 +26,7 @@ export interface PixelWindow {
  * Told how far a window read straight from the file has come (readRowsDirect), so that other
  * threads can work on the rows already read: `started` with the window's buffer before its
  * first row is read, `rows` with the count of window rows complete (nodata marked) — every
- * HORIZON-sized group of rows or so, and once at the end with all of them.
+ * 16 rows, and once at the end with all of them.
  */
 export interface RowProgress {
   started(out: Float32Array | Int16Array): void;
