@@ -14,7 +14,8 @@ import { validateCoverageRequest, type CoverageRequest, type FieldNames } from "
 import type { TallyData } from "./coverage-tally.ts";
 import { elevationWindow, type Elevations } from "./elevation-window.ts";
 import { raysPerHalfFace } from "./radial-sweep.ts";
-import { fillLineOfSightRaster, horizonSweepApplies, horizonTileTable, lineOfSightOnly } from "./horizon-sweep.ts";
+import { fillLineOfSightRaster, horizonSweepApplies, horizonTileTable, horizonTileTableRows, lineOfSightOnly } from "./horizon-sweep.ts";
+import type { RowProgress } from "../terrain/tiff-band-reader.ts";
 import { CoverageError } from "./coverage-error.ts";
 import { p1812Job } from "./p1812-setup.ts";
 
@@ -34,6 +35,12 @@ export interface ComputedCoverage {
   /** method, model choices and the grid, in sentences for the report */
   assumptions: string[];
   timing: { terrain_s: number; compute_s: number; threads: number };
+  /**
+   * Set when runCoverage was asked for `outsideOnWrite` and could honour it: the cells outside
+   * the radius are still 0 in `values`, and the writer sets them to nodata strip by strip
+   * (fillLineOfSightRaster with row0, row1, value VISIBILITY_NODATA)
+   */
+  outside_pending?: boolean;
   /** the job the threads ran (its constants; the buffers are `dem` and `values`) */
   job: CoverageJob;
 }
@@ -57,6 +64,12 @@ export interface ComputeOptions {
   elevationsInsideRadiusOnly?: boolean;
   /** where the map's tiles are found and kept (coverage-tiles.ts); none: every tile is computed */
   tiles?: CoverageTileStore | null;
+  /**
+   * Geometric line of sight: have these threads fill the sweep's horizon tile table while the
+   * elevations are read (CoveragePool.fillTileTable), when they are read row by row straight
+   * from a GeoTIFF; the table then goes with the prepared job
+   */
+  tileTableWhileReading?: CoveragePool | null;
 }
 
 /** A coverage laid out and ready to compute: everything but the result buffer. */
@@ -76,8 +89,11 @@ export async function computeCoverage(terrain: Terrain, req: CoverageRequest, op
  * Allocate the result (filled with nodata) and compute a prepared coverage, tile by tile
  * (coverage-tiles.ts), taking the tiles `options.tiles` holds. The terrain is no longer needed
  * at this point: a caller that holds nothing else of it can let it go first.
+ * @param options.outsideOnWrite for a caller that only writes the raster to a file: a line of
+ *   sight raster computed straight into `values` may leave its cells outside the radius 0, for
+ *   the writer to set (see ComputedCoverage.outside_pending)
  */
-export async function runCoverage(prepared: PreparedCoverage, options: Pick<ComputeOptions, "pool" | "onProgress" | "tiles"> = {}): Promise<ComputedCoverage> {
+export async function runCoverage(prepared: PreparedCoverage, options: Pick<ComputeOptions, "pool" | "onProgress" | "tiles"> & { outsideOnWrite?: boolean } = {}): Promise<ComputedCoverage> {
   const { terrain_s, job: base, ...rest } = prepared;
   const cells = rest.grid.width * rest.grid.height;
   const isLevel = base.method !== "visibility";
@@ -89,12 +105,14 @@ export async function runCoverage(prepared: PreparedCoverage, options: Pick<Comp
   // zeros inside (horizon-sweep.ts: the sweep writes only what differs)
   const zeroed = !options.tiles && lineOfSightOnly(base.method, base.clearance_f1) && horizonSweepApplies(base);
   if (zeroed) {
-    fillLineOfSightRaster(values as Uint8Array, base, nodata);
+    // for a caller that only writes the raster, the cells outside the radius are set as it is
+    // written (outside_pending): their pages of this raster are then never touched
+    if (!options.outsideOnWrite) fillLineOfSightRaster(values as Uint8Array, base, nodata);
     job.out_zeroed = true;
   } else if (options.pool && !options.tiles) await options.pool.fill(values, nodata); // with tiles at hand, not worth waiting for the threads
   else values.fill(nodata);
   // made here, with the result, so that it always belongs to these elevations
-  if (lineOfSightOnly(base.method, base.clearance_f1)) job.dem_tile_max = horizonTileTable(base.width, base.height).buffer as SharedArrayBuffer;
+  if (lineOfSightOnly(base.method, base.clearance_f1) && !job.dem_tile_max) job.dem_tile_max = horizonTileTable(base.width, base.height).buffer as SharedArrayBuffer;
   const t1 = performance.now();
   const progress: CoverageProgress = (d, t) => options.onProgress?.("compute", d, t);
   const count = coverageTileCount(rest.request.radius_m, rest.request.resolution_m);
@@ -103,7 +121,7 @@ export async function runCoverage(prepared: PreparedCoverage, options: Pick<Comp
   if (tally.failed > 0) {
     rest.warnings.push(`${tally.failed} cells inside the radius could not be computed (no terrain data on their profile or under them) and are left as nodata.`);
   }
-  return { ...rest, values, job, tally, timing: { terrain_s, compute_s, threads: options.pool ? options.pool.size : 1 } };
+  return { ...rest, values, job, tally, timing: { terrain_s, compute_s, threads: options.pool ? options.pool.size : 1 }, ...(zeroed && options.outsideOnWrite ? { outside_pending: true } : {}) };
 }
 
 /**
@@ -115,7 +133,26 @@ export function prepareCoverage(terrain: Terrain, req: CoverageRequest, options:
   const pattern = validateCoverageRequest(req, options.names, options.patternField);
   const t0 = performance.now();
   const { grid, warnings } = planCoverageGrid(terrain, req.site, req.radius_m, req.resolution_m, { maxCells: options.maxCells });
-  const dem = elevationWindow(terrain, grid, (d, t) => options.onProgress?.("terrain", d, t), options.shareDecode, { insideRadiusOnly: options.elevationsInsideRadiusOnly });
+  // the threads take the elevations' rows for the tile table as they are read (when the reader reports them)
+  const pool = options.tileTableWhileReading;
+  const tiles = pool && lineOfSightOnly(req.method, req.clearance_f1) && horizonSweepApplies({ ...grid, radius_m: req.radius_m }) ? horizonTileTable(grid.width, grid.height) : null;
+  // (this thread does not take tile rows itself once it has read them: when the threads are
+  // still warming up, it would take them all, in code not yet optimised, while they wait)
+  const progress: RowProgress | undefined = tiles
+    ? {
+        started: (out) => {
+          horizonTileTableRows(tiles, 0, true);
+          pool!.fillTileTable(tiles, out, { ...grid, radius_m: req.radius_m });
+        },
+        rows: (done) => horizonTileTableRows(tiles, done, true),
+      }
+    : undefined;
+  let dem: Elevations;
+  try {
+    dem = elevationWindow(terrain, grid, (d, t) => options.onProgress?.("terrain", d, t), options.shareDecode, { insideRadiusOnly: options.elevationsInsideRadiusOnly, progress });
+  } finally {
+    if (tiles) horizonTileTableRows(tiles, grid.height, false); // read, or failed: the threads wait no longer
+  }
   const t1 = performance.now();
   const site_ground_m = terrain.elevation(req.site.lat_deg, req.site.lon_deg);
   const f = req.frequency_ghz;
@@ -176,6 +213,7 @@ export function prepareCoverage(terrain: Terrain, req: CoverageRequest, options:
     azimuth_offset_deg: grid.azimuth_offset_deg,
     dem: dem.buffer as SharedArrayBuffer,
     dem_int16: dem instanceof Int16Array,
+    ...(tiles ? { dem_tile_max: tiles.buffer as SharedArrayBuffer } : {}),
     site_ground_m,
     antenna_m: req.antenna_m,
     receiver_m: req.receiver_m,

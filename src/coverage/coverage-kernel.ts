@@ -1,6 +1,6 @@
 import type { CoverageJob } from "./coverage-job.ts";
 import { elevationAt, type Elevations } from "./elevation-window.ts";
-import { horizonSweep, horizonSweepApplies, horizonTileTable, lineOfSightOnly } from "./horizon-sweep.ts";
+import { horizonSweep, horizonSweepApplies, horizonTileTable, horizonTileTableOf, lineOfSightOnly } from "./horizon-sweep.ts";
 import { CoverageTally, type TallyData } from "./coverage-tally.ts";
 import { ClearanceVisitor, DeltaBullingtonVisitor, HorizonVisitor, patternLoss } from "./level-visitors.ts";
 import { P1812Visitor } from "./p1812-visitor.ts";
@@ -32,7 +32,7 @@ export function createChunkRunner(job: CoverageJob): { run(from: number, to: num
     // geometric line of sight on a projected grid: the same sweep in one loop (horizon-sweep.ts)
     const params = { hts_m: job.site_ground_m + job.antenna_m, receiver_m: job.receiver_m, k2: job.ae_m === Infinity ? 0 : 1 / (2 * job.ae_m) };
     const out = new Uint8Array(job.out);
-    const tiles = job.dem_tile_max ? new Float32Array(job.dem_tile_max, 8) : horizonTileTable(job.width, job.height);
+    const tiles = job.dem_tile_max ? horizonTileTableOf(job.dem_tile_max) : horizonTileTable(job.width, job.height);
     return {
       run(from, to) {
         tally.reset();

@@ -5,6 +5,7 @@ import { coverageUnits, createChunkRunner } from "./coverage-kernel.ts";
 import { mergeTallies, type TallyData } from "./coverage-tally.ts";
 import { coverageWorkerCode } from "./worker-code.ts";
 import type { ToWorker } from "./coverage-worker.ts";
+import type { SweepGeometry } from "./radial-sweep.ts";
 
 /** Progress callback: units done of units total. */
 export type CoverageProgress = (done: number, total: number) => void;
@@ -64,6 +65,17 @@ export class CoveragePool {
    */
   shareDecode(src: TiffBandSource, window: PixelWindow, out: Float32Array | Int16Array, ctrl: Int32Array): void {
     for (const w of this.workers) w.postMessage({ type: "decode", src, window, out, ctrl } satisfies ToWorker);
+  }
+
+  /**
+   * Have every thread fill a line-of-sight job's horizon tile table as the elevations are
+   * read into `dem` (fillHorizonTileTable; the reader reports its rows with
+   * horizonTileTableRows), after its warm-up: the table is then ready, or nearly, when the
+   * last row is read, instead of being made at the start of the sweep.
+   */
+  fillTileTable(tiles: Float32Array, dem: Float32Array | Int16Array, g: SweepGeometry): void {
+    const geometry: SweepGeometry = { width: g.width, height: g.height, site_col: g.site_col, site_row: g.site_row, radius_m: g.radius_m, east_per_col_m: g.east_per_col_m, north_per_row_m: g.north_per_row_m };
+    for (const w of this.workers) w.postMessage({ type: "tile-table", tiles: tiles.buffer as SharedArrayBuffer, dem, geometry } satisfies ToWorker);
   }
 
   /**

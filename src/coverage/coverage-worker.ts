@@ -5,7 +5,8 @@ import { parentPort } from "node:worker_threads";
 import { decodeBands, type PixelWindow, type TiffBandSource } from "../terrain/tiff-band-reader.ts";
 import type { CoverageJob } from "./coverage-job.ts";
 import { createChunkRunner } from "./coverage-kernel.ts";
-import { warmUpHorizonSweep } from "./horizon-sweep.ts";
+import { fillHorizonTileTable, horizonTileTableOf, warmUpHorizonSweep } from "./horizon-sweep.ts";
+import type { SweepGeometry } from "./radial-sweep.ts";
 
 /** Messages from the pool to a worker. */
 export type ToWorker =
@@ -13,7 +14,8 @@ export type ToWorker =
   | { type: "chunk"; from: number; to: number }
   | { type: "warm-up"; elements?: "int16" | "float32" }
   | { type: "fill"; values: Float32Array | Uint8Array; value: number; from: number; to: number }
-  | { type: "decode"; src: TiffBandSource; window: PixelWindow; out: Float32Array | Int16Array; ctrl: Int32Array };
+  | { type: "decode"; src: TiffBandSource; window: PixelWindow; out: Float32Array | Int16Array; ctrl: Int32Array }
+  | { type: "tile-table"; tiles: SharedArrayBuffer; dem: Float32Array | Int16Array; geometry: SweepGeometry };
 
 const port = parentPort!;
 let runner: ReturnType<typeof createChunkRunner> | null = null;
@@ -31,6 +33,9 @@ port.on("message", (m: ToWorker) => {
     } finally {
       if (fd !== null) closeSync(fd);
     }
+  } else if (m.type === "tile-table") {
+    fillHorizonTileTable(horizonTileTableOf(m.tiles), m.dem, m.geometry);
+    if (process.env.RIDGELINE_TIMINGS === "1") process.stderr.write(`[timing] ${((performance.timeOrigin + performance.now()) / 1000).toFixed(3)} (epoch s) thread filled its tile rows\n`);
   } else if (m.type === "warm-up") {
     warmUpHorizonSweep(undefined, m.elements ?? "int16");
   } else if (m.type === "fill") {

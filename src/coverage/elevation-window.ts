@@ -1,5 +1,5 @@
 import type { ShareDecode } from "../terrain/geotiff.ts";
-import { INT16_NODATA, type PixelWindow } from "../terrain/tiff-band-reader.ts";
+import { INT16_NODATA, type PixelWindow, type RowProgress } from "../terrain/tiff-band-reader.ts";
 import type { Terrain } from "../terrain/terrain.ts";
 import { cellCentreLatLon, type CoverageGrid } from "./coverage-grid.ts";
 import { uniformMetric } from "./radial-sweep.ts";
@@ -8,7 +8,8 @@ import { uniformMetric } from "./radial-sweep.ts";
 const MESH_M = 500;
 
 /**
- * A coverage grid's elevations (m, row-major): Float32 with NaN for nodata, or — read from an
+ * A coverage grid's elevations (m, row-major): Float32 with NaN for nodata (or −32768, see
+ * elevationWindow's insideRadiusOnly), or — read from an
  * Int16 raster, or from a Float32 one whose samples are all whole metres — Int16 with
  * INT16_NODATA (−32768) for nodata, the same values in half the memory. Read single values with `elevationAt`; hot loops compare with INT16_NODATA
  * themselves (−32768 is never a height on Earth, so the test is the same for both types).
@@ -34,20 +35,24 @@ export function elevationAt(dem: Elevations, i: number): number {
  *   for L = 500 m at 46°N (test/coverage/coverage-grid.test.ts).
  * @param onRow optional progress callback (rows done, rows)
  * @param share hands a GeoTIFF window decode to worker threads as well (CoveragePool.shareDecode)
+ * @param options.progress told of the rows as a GeoTIFF window is read straight from the file
+ *   (see RowProgress; not called for other sources, nor for a window kept from before)
  * @param options.insideRadiusOnly read a GeoTIFF window only within the coverage radius plus
  *   three cells — all the sweeps and Hata read (samples end 1.5 cells past the radius, and
  *   interpolate with the next cell) — leaving the corners of the square zero: about a fifth
- *   less memory written. Not for callers that use the elevations outside the radius (the
- *   shaded relief of a map).
+ *   less memory written; and a Float32 band whose nodata is −32768 keeps those samples as read
+ *   (nodata as INT16_NODATA in Float32, which every reader here takes as nodata) rather than
+ *   NaN, which saves a pass over every sample. Not for callers that use the elevations outside
+ *   the radius or hand them on (the shaded relief of a map).
  */
-export function elevationWindow(terrain: Terrain, grid: CoverageGrid, onRow?: (done: number, total: number) => void, share?: ShareDecode, options: { insideRadiusOnly?: boolean } = {}): Elevations {
+export function elevationWindow(terrain: Terrain, grid: CoverageGrid, onRow?: (done: number, total: number) => void, share?: ShareDecode, options: { insideRadiusOnly?: boolean; progress?: RowProgress } = {}): Elevations {
   const keep = keptWindows.get(terrain);
   if (keep) {
     const key = JSON.stringify([grid.epsg, grid.geoTransform, grid.width, grid.height, grid.source, grid.radius_m, !!options.insideRadiusOnly]);
     let dem = keep.find((w) => w.key === key)?.dem;
     if (!dem) {
       keptWindows.delete(terrain); // read it as usual
-      dem = elevationWindow(terrain, grid, onRow, share, options);
+      dem = elevationWindow(terrain, grid, onRow, share, { insideRadiusOnly: options.insideRadiusOnly });
       keptWindows.set(terrain, [{ key, dem }, ...keep].slice(0, KEEP_WINDOWS));
     }
     onRow?.(grid.height, grid.height);
@@ -56,10 +61,11 @@ export function elevationWindow(terrain: Terrain, grid: CoverageGrid, onRow?: (d
   const { width: W, height: H } = grid;
   const src = grid.source;
   // A terrain that reads windows of its raster itself (GeoTIFF) decodes only the grid's pixels, once.
-  const readWindow = (terrain as { readWindow?: (w: PixelWindow, share: ShareDecode | undefined, int16: boolean) => Elevations }).readWindow;
+  const readWindow = (terrain as { readWindow?: (w: PixelWindow, share: ShareDecode | undefined, int16: boolean, progress?: RowProgress) => Elevations }).readWindow;
   if (src.kind === "raster" && typeof readWindow === "function") {
     const spans = options.insideRadiusOnly ? radiusSpans(grid) : undefined;
-    const out = readWindow.call(terrain, { col0: src.col0, row0: src.row0, width: W, height: H, ...(spans ? { spans } : {}) }, share, true);
+    const only = options.insideRadiusOnly === true;
+    const out = readWindow.call(terrain, { col0: src.col0, row0: src.row0, width: W, height: H, ...(spans ? { spans } : {}), ...(only ? { int16NodataKept: true } : {}) }, share, true, options.progress);
     onRow?.(H, H);
     return out;
   }

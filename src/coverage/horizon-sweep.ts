@@ -125,9 +125,13 @@ export function horizonSweep(g: SweepGeometry, dem: Float32Array | Int16Array, r
  * as the sweep computes it (√(Δeast² + Δnorth²) with the site row's metric), exceeds the
  * radius — leaving 0 inside, which the sweep keeps for every cell it finds not visible. Only
  * the rows' outer parts are written: the rest of a fresh buffer is never touched unless a cell
- * there is visible (pages never written cost nothing).
+ * there is visible (pages never written cost nothing). The sweep never writes a cell outside
+ * the radius, so the same fill made after it, strip by strip as the raster is written
+ * (`row0`, `row1`), gives the same raster without writing the outer parts in memory at all.
+ * @param out rows row0 … row1 − 1 of the raster (out[0] is row0's first cell)
+ * @param row0 first row `out` holds (default 0), @param row1 row past the last (default all)
  */
-export function fillLineOfSightRaster(out: Uint8Array, g: SweepGeometry, value: number): void {
+export function fillLineOfSightRaster(out: Uint8Array, g: SweepGeometry, value: number, row0 = 0, row1 = g.height): void {
   const { ex, ny } = siteMetric(g);
   const W = g.width;
   const R = g.radius_m;
@@ -136,24 +140,25 @@ export function fillLineOfSightRaster(out: Uint8Array, g: SweepGeometry, value: 
     const dx = (c - xs) * ex;
     return Math.sqrt(dx * dx + dy2) <= R;
   };
-  for (let r = 0; r < g.height; r++) {
+  for (let r = row0; r < row1; r++) {
     const dy = (r - g.site_row) * ny;
     const dy2 = dy * dy;
     const half = Math.sqrt(Math.max(0, R * R - dy2)) / Math.abs(ex);
+    const at = (r - row0) * W;
     // the row's cells inside form one interval about the site: find its ends exactly
     let a = Math.max(0, Math.floor(xs - half) - 2);
     const stop = Math.min(W - 1, Math.ceil(xs + half) + 2);
     while (a <= stop && !inside(a, dy2)) a++;
     if (a > stop) {
-      out.fill(value, r * W, r * W + W);
+      out.fill(value, at, at + W);
       continue;
     }
     while (a > 0 && inside(a - 1, dy2)) a--;
     let b = Math.min(W - 1, Math.ceil(xs + half) + 2);
     while (b > a && !inside(b, dy2)) b--;
     while (b < W - 1 && inside(b + 1, dy2)) b++;
-    out.fill(value, r * W, r * W + a);
-    out.fill(value, r * W + b + 1, r * W + W);
+    out.fill(value, at, at + a);
+    out.fill(value, at + b + 1, at + W);
   }
 }
 
@@ -455,7 +460,8 @@ function faceWavefront(fv: Float64Array, iv: Int32Array, iv2: Int32Array, st: Fl
             continue;
           }
           const v = hc + hr - d * d * k2 - hts > horizon * d ? 1 : 0; // as HorizonVisitor.cell
-          out[idx] = v;
+          // (when `zeroed` the cell is 0 already: a 0 written would only touch its page)
+          if (v === 1 || !zeroed) out[idx] = v;
           cells++;
           nVisible += v;
           if (!uniformArea) {
@@ -515,25 +521,69 @@ function faceWavefront(fv: Float64Array, iv: Int32Array, iv2: Int32Array, st: Fl
 export const HORIZON_TILE = 16;
 const TILE = HORIZON_TILE;
 
+/** Bytes before the maxima in a horizon tile table's buffer: its four Int32 counters. */
+const TABLE_HEADER = 16;
+
 /**
  * The table of the highest elevation in each HORIZON_TILE × HORIZON_TILE tile of a grid
  * (row-major tiles), for horizonSweep, on a SharedArrayBuffer so that the threads of one job
- * share it: two Int32 counters (tile rows taken, tile rows filled), then the Float32 maxima
- * (+∞ for a tile holding nodata). The first sweep fills it (fillTileTable).
+ * share it: four Int32 counters (tile rows taken, tile rows filled, 1 while the elevations
+ * are still being read, grid rows read so far), then the Float32 maxima (+∞ for a tile
+ * holding nodata). The first sweep fills it (fillTileTable), or threads fill it while the
+ * elevations are read (fillHorizonTileTable, horizonTileTableRows).
  */
 export function horizonTileTable(width: number, height: number): Float32Array {
-  return new Float32Array(new SharedArrayBuffer(8 + 4 * Math.ceil(width / TILE) * Math.ceil(height / TILE)), 8);
+  return new Float32Array(new SharedArrayBuffer(TABLE_HEADER + 4 * Math.ceil(width / TILE) * Math.ceil(height / TILE)), TABLE_HEADER);
+}
+
+/** The tile table held by a buffer from horizonTileTable (`.buffer`), e.g. one sent to another thread. */
+export function horizonTileTableOf(buffer: SharedArrayBuffer): Float32Array {
+  return new Float32Array(buffer, TABLE_HEADER);
+}
+
+/**
+ * Tell the threads filling a tile table (fillHorizonTileTable) how many grid rows of the
+ * elevations are read: `reading` true with the first count, before they start (they then wait
+ * for the rows each tile row needs), false with the last (every row there is, whether the read
+ * ended or failed: they no longer wait).
+ */
+export function horizonTileTableRows(tiles: Float32Array, rows: number, reading: boolean): void {
+  const ctrl = new Int32Array(tiles.buffer, 0, 4);
+  Atomics.store(ctrl, 3, rows);
+  Atomics.store(ctrl, 2, reading ? 1 : 0);
+  // waking a waiting thread costs this one a system call and, on a busy machine, its core:
+  // the threads are woken every 128 rows (8 tile rows) and at the end
+  if (!reading || (rows & 127) === 0) Atomics.notify(ctrl, 3);
+}
+
+/**
+ * Fill a grid's horizon tile table on this thread, with any others doing the same (see
+ * fillTileTable), as its elevations are read: a tile row is taken up once the grid rows it
+ * covers are read (horizonTileTableRows). The sweeps given the table then find it filled.
+ */
+export function fillHorizonTileTable(tiles: Float32Array, dem: Float32Array | Int16Array, g: SweepGeometry): void {
+  fillTileTable(tiles, dem, g);
+}
+
+/** Wait until grid rows 0 … rows − 1 are read, or the elevations are no longer being read (see horizonTileTableRows). */
+function awaitRows(ctrl: Int32Array, rows: number): void {
+  while (Atomics.load(ctrl, 2) === 1) {
+    const got = Atomics.load(ctrl, 3);
+    if (got >= rows) return;
+    Atomics.wait(ctrl, 3, got, 50);
+  }
 }
 
 /**
  * Fill a horizon tile table unless it is filled: every thread that calls this takes tile rows
- * from the shared counter and fills them, then waits for the rows others are filling. Only the
+ * from the shared counter and fills them (each once its grid rows are read, when the table is
+ * filled while they are: see horizonTileTableRows), then waits for the rows others are filling. Only the
  * tiles within the radius plus three cells are read (the samples end 1.5 cells past it and
  * interpolate with the next cell); the others are +∞, which bounds nothing, so the table never
  * decides more than the cells it has read. Elevations (Int16 or Float32) are exact in Float32.
  */
 function fillTileTable(tiles: Float32Array, dem: Float32Array | Int16Array, g: SweepGeometry): void {
-  const ctrl = new Int32Array(tiles.buffer, 0, 2);
+  const ctrl = new Int32Array(tiles.buffer, 0, 4);
   const W = g.width;
   const H = g.height;
   const across = Math.ceil(W / TILE);
@@ -549,6 +599,7 @@ function fillTileTable(tiles: Float32Array, dem: Float32Array | Int16Array, g: S
     row.fill(Infinity);
     const r0 = tr * TILE;
     const r1 = Math.min(H, r0 + TILE);
+    awaitRows(ctrl, r1); // (returns at once unless the elevations are still being read)
     // the tile columns the disc reaches in these rows
     const dy = (g.site_row < r0 ? r0 - g.site_row : g.site_row > r1 - 1 ? g.site_row - (r1 - 1) : 0) * ny;
     if (dy <= reach) {
@@ -577,13 +628,15 @@ function tileRowsMax(dem: Float32Array | Int16Array, r0: number, r1: number, W: 
     const offset = r * W;
     for (let tc = tcLo, c0 = tcLo * TILE; tc <= tcHi && c0 < W; tc++, c0 += TILE) {
       let top = row[tc];
+      let nodata = 0;
       const c1 = c0 + TILE < W ? c0 + TILE : W;
       for (let c = c0; c < c1; c++) {
+        // no branch per cell: the highest (NaN, nodata in Float32, carries through) and whether −32768 (nodata in Int16) occurs
         const v = dem[offset + c];
-        if (v === -32768 || v !== v) top = Infinity;
-        else if (v > top) top = v;
+        top = Math.max(top, v);
+        nodata |= v === -32768 ? 1 : 0;
       }
-      row[tc] = top;
+      row[tc] = nodata === 1 || top !== top ? Infinity : top;
     }
   }
 }

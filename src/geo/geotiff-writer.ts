@@ -17,6 +17,11 @@ export interface GeoTiffRaster {
   unit?: string;
   /** "deflate" (zlib, Adobe Deflate) or "none" (default) */
   compression?: "none" | "deflate";
+  /**
+   * Completes each strip before it is written, in a copy (`data` is left as it is): `strip`
+   * holds rows row0 … row1 − 1 (strip[0] is row0's first sample)
+   */
+  fillStrip?: (strip: Uint8Array, row0: number, row1: number) => void;
 }
 
 // TIFF 6.0 field types
@@ -46,6 +51,8 @@ export function writeGeoTiff(path: string, r: GeoTiffRaster): void {
   const nStrips = Math.ceil(H / rowsPerStrip);
   const bytes = new Uint8Array(data.buffer, data.byteOffset, data.byteLength);
   const deflate = r.compression === "deflate";
+  if (r.fillStrip && bps !== 8) throw new RangeError("fillStrip is for rasters of bytes");
+  const scratch = r.fillStrip ? new Uint8Array(rowsPerStrip * rowBytes) : null; // one strip, reused
   const tmp = `${path}.partial-${process.pid}`;
   const fd = openSync(tmp, "w");
   try {
@@ -56,7 +63,13 @@ export function writeGeoTiff(path: string, r: GeoTiffRaster): void {
     for (let s = 0; s < nStrips; s++) {
       const a = s * rowsPerStrip * rowBytes;
       const b = Math.min(H, (s + 1) * rowsPerStrip) * rowBytes;
-      const chunk = deflate ? deflateSync(bytes.subarray(a, b), { level: 6 }) : bytes.subarray(a, b);
+      let strip = bytes.subarray(a, b);
+      if (scratch) {
+        strip = scratch.subarray(0, b - a);
+        strip.set(bytes.subarray(a, b));
+        r.fillStrip!(strip, s * rowsPerStrip, Math.min(H, (s + 1) * rowsPerStrip));
+      }
+      const chunk = deflate ? deflateSync(strip, { level: 6 }) : strip;
       offsets.push(pos);
       counts.push(chunk.byteLength);
       writeAll(fd, chunk, pos);

@@ -5,7 +5,7 @@ import { makeRasterGrid, RasterTerrain, type RasterTerrainOptions } from "./rast
 import { bilinearGrid } from "./bilinear-grid.ts";
 import { BandBlocks, readStripSegments } from "./band-blocks.ts";
 import { crsFromEpsg, type Crs } from "../geo/crs-from-epsg.ts";
-import { bandLayout, decodeBands, readBandFloat32, readBandFloat32AsInt16, readBandInt16, rowPiecesReadable, waitForBands, type BandLayout, type PixelWindow, type TiffBandSource } from "./tiff-band-reader.ts";
+import { bandLayout, decodeBands, readBandFloat32, readBandFloat32AsInt16, readBandInt16, rowPiecesReadable, waitForBands, type BandLayout, type PixelWindow, type RowProgress, type TiffBandSource } from "./tiff-band-reader.ts";
 import { readTiffDirectory } from "./tiff-directory.ts";
 import type { RasterGrid } from "./terrain.ts";
 import { TerrainError } from "./terrain-error.ts";
@@ -175,13 +175,13 @@ class DeferredPixels {
   }
 
   window(w: PixelWindow): Float32Array;
-  window(w: PixelWindow, int16: boolean): Float32Array | Int16Array;
-  window(w: PixelWindow, int16 = false): Float32Array | Int16Array {
+  window(w: PixelWindow, int16: boolean, progress?: RowProgress): Float32Array | Int16Array;
+  window(w: PixelWindow, int16 = false, progress?: RowProgress): Float32Array | Int16Array {
     if (this.data === null) {
-      if (int16 && this.int16) return this.read(w, true);
+      if (int16 && this.int16) return this.read(w, true, progress);
       // a Float32 band of whole metres reads as Int16 too: the same values in half the memory
-      if (int16 && this.layout.kind === "f32") return this.decode((fd) => readBandFloat32AsInt16(fd, this.layout, this.nodata, w)) ?? this.read(w);
-      return this.read(w);
+      if (int16 && this.layout.kind === "f32") return this.decode((fd) => readBandFloat32AsInt16(fd, this.layout, this.nodata, w)) ?? this.read(w, false, progress);
+      return this.read(w, false, progress);
     }
     const out = new Float32Array(new SharedArrayBuffer(w.width * w.height * 4));
     const W = this.layout.width;
@@ -193,9 +193,9 @@ class DeferredPixels {
   }
 
   private read(w?: PixelWindow): Float32Array;
-  private read(w: PixelWindow, int16: true): Int16Array;
-  private read(w?: PixelWindow, int16 = false): Float32Array | Int16Array {
-    return this.decode((fd) => (int16 ? readBandInt16(fd, this.layout, this.nodata, w) : readBandFloat32(fd, this.layout, this.nodata, w)));
+  private read(w: PixelWindow, int16: boolean, progress?: RowProgress): Float32Array | Int16Array;
+  private read(w?: PixelWindow, int16 = false, progress?: RowProgress): Float32Array | Int16Array {
+    return this.decode((fd) => (int16 ? readBandInt16(fd, this.layout, this.nodata, w, undefined, progress) : readBandFloat32(fd, this.layout, this.nodata, w, undefined, progress)));
   }
 
   /** Run a decoder on the open file; a failure becomes a TerrainError naming the file. */
@@ -313,9 +313,11 @@ class GeoTiffTerrain extends RasterTerrain {
    * `int16` and an Int16 band read that way — or an uncompressed or single-thread Float32 band
    * whose window holds only whole metres (readBandFloat32AsInt16) — an Int16Array instead
    * (nodata INT16_NODATA): the same values in half the memory, which a 100 km coverage grid
-   * (≈ 45 M cells) feels.
+   * (≈ 45 M cells) feels. `progress` is told of the rows as they are read when the window is
+   * read row by row straight from the file (uncompressed strips; see RowProgress), and not
+   * called otherwise.
    */
-  readWindow(window: PixelWindow, share?: ShareDecode, int16 = false): Float32Array | Int16Array {
+  readWindow(window: PixelWindow, share?: ShareDecode, int16 = false, progress?: RowProgress): Float32Array | Int16Array {
     // a coverage grid holds its own elevations from now: what was kept for profiles can go
     if (this.blocks) {
       this.blocks.clear();
@@ -328,7 +330,7 @@ class GeoTiffTerrain extends RasterTerrain {
       // shared by other threads; on a failed band, read it again here to report the error
       return this.pixels.windowShared(window, share, int16) ?? this.pixels.window(window);
     }
-    if (this.pixels !== null) return this.pixels.window(window, int16);
+    if (this.pixels !== null) return this.pixels.window(window, int16, progress);
     const { width: W, data } = this.raster;
     const out = new Float32Array(new SharedArrayBuffer(window.width * window.height * 4));
     for (let r = 0; r < window.height; r++) {

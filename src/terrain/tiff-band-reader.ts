@@ -14,6 +14,23 @@ export interface PixelWindow {
    * that need only part of each row, e.g. the disc of a coverage radius in its square.
    */
   spans?: Int32Array;
+  /**
+   * Optional: a Float32 band whose nodata is −32768 (INT16_NODATA) keeps those samples as they
+   * are instead of NaN, which saves a pass over every sample; for readers that take −32768 as
+   * nodata in either type (the coverage sweeps: elevation-window.ts, Elevations)
+   */
+  int16NodataKept?: boolean;
+}
+
+/**
+ * Told how far a window read straight from the file has come (readRowsDirect), so that other
+ * threads can work on the rows already read: `started` with the window's buffer before its
+ * first row is read, `rows` with the count of window rows complete (nodata marked) — every
+ * 16 rows, and once at the end with all of them.
+ */
+export interface RowProgress {
+  started(out: Float32Array | Int16Array): void;
+  rows(done: number): void;
 }
 
 type SampleKind = "u16" | "i16" | "i32" | "f32";
@@ -94,13 +111,13 @@ export const INT16_NODATA = -32768;
  * @param into where to write the window (row-major, window.width × window.height; default a new array)
  * @throws Error when a block is truncated or its compressed stream is corrupt
  */
-export function readBandFloat32(fd: number, layout: BandLayout, nodata: number | null, window?: PixelWindow, into?: Float32Array): Float32Array {
+export function readBandFloat32(fd: number, layout: BandLayout, nodata: number | null, window?: PixelWindow, into?: Float32Array, progress?: RowProgress): Float32Array {
   const win = window ?? { col0: 0, row0: 0, width: layout.width, height: layout.height };
   const out = into ?? new Float32Array(new SharedArrayBuffer(win.width * win.height * 4));
   const kind = layout.kind;
   // Nodata in the band's own type: integers only match an integer, Float32 its rounding.
-  const nd = nodata === null || Number.isNaN(nodata) ? null : kind === "f32" ? Math.fround(nodata) : Number.isInteger(nodata) ? nodata : null;
-  if (kind === "f32" && readRowsDirect(fd, layout, win, out, nd === null ? undefined : (from, to) => markNodata(out, from, to, nd))) return out;
+  const nd = nodata === null || Number.isNaN(nodata) || (win.int16NodataKept && kind === "f32" && nodata === INT16_NODATA) ? null : kind === "f32" ? Math.fround(nodata) : Number.isInteger(nodata) ? nodata : null;
+  if (kind === "f32" && readRowsDirect(fd, layout, win, out, nd === null ? undefined : (from, to) => markNodata(out, from, to, nd), progress)) return out;
   decodeWindow(fd, layout, win, (samples, src, dst, n) => {
     if (kind === "i32") {
       // Int32 → Float32 rounds: compare with nodata before converting
@@ -124,12 +141,12 @@ export function readBandFloat32(fd: number, layout: BandLayout, nodata: number |
  * INT16_NODATA (−32768), which therefore always means nodata. As readBandFloat32 otherwise.
  * @throws Error for a band that is not Int16, a truncated block or a corrupt stream
  */
-export function readBandInt16(fd: number, layout: BandLayout, nodata: number | null, window?: PixelWindow, into?: Int16Array): Int16Array {
+export function readBandInt16(fd: number, layout: BandLayout, nodata: number | null, window?: PixelWindow, into?: Int16Array, progress?: RowProgress): Int16Array {
   if (layout.kind !== "i16") throw new Error(`readBandInt16: the band holds ${layout.kind} samples`);
   const win = window ?? { col0: 0, row0: 0, width: layout.width, height: layout.height };
   const out = into ?? new Int16Array(new SharedArrayBuffer(win.width * win.height * 2));
   const nd = nodata !== null && Number.isInteger(nodata) && nodata !== INT16_NODATA ? nodata : null;
-  if (readRowsDirect(fd, layout, win, out, nd === null ? undefined : (from, to) => markInt16Nodata(out, from, to, nd))) return out;
+  if (readRowsDirect(fd, layout, win, out, nd === null ? undefined : (from, to) => markInt16Nodata(out, from, to, nd), progress)) return out;
   decodeWindow(fd, layout, win, (samples, src, dst, n) => {
     out.set((samples as Int16Array).subarray(src, src + n), dst);
     if (nd !== null) for (let i = dst; i < dst + n; i++) if (out[i] === nd) out[i] = INT16_NODATA;
@@ -148,18 +165,24 @@ export function readBandInt16(fd: number, layout: BandLayout, nodata: number | n
 export function readBandFloat32AsInt16(fd: number, layout: BandLayout, nodata: number | null, window?: PixelWindow): Int16Array | null {
   if (layout.kind !== "f32") throw new Error(`readBandFloat32AsInt16: the band holds ${layout.kind} samples`);
   const win = window ?? { col0: 0, row0: 0, width: layout.width, height: layout.height };
-  const out = new Int16Array(new SharedArrayBuffer(win.width * win.height * 2));
   const nd = nodata === null || Number.isNaN(nodata) ? NaN : Math.fround(nodata);
   const notWhole = new Error("not whole metres");
+  // allocated once the first piece has been found whole: a band of fractional metres usually
+  // tells at its first samples, and then no window of Int16 is made (and no page of it written)
+  let out: Int16Array | null = null;
   try {
     decodeWindow(fd, layout, win, (samples, src, dst, n) => {
+      if (out === null) {
+        if (!wholeToInt16(samples as Float32Array, src, new Int16Array(n), 0, n, nd)) throw notWhole;
+        out = new Int16Array(new SharedArrayBuffer(win.width * win.height * 2));
+      }
       if (!wholeToInt16(samples as Float32Array, src, out, dst, n, nd)) throw notWhole;
     });
   } catch (e) {
     if (e === notWhole) return null;
     throw e;
   }
-  return out;
+  return out ?? new Int16Array(new SharedArrayBuffer(win.width * win.height * 2));
 }
 
 /** Copy n Float32 samples to Int16 (NaN and `nd` as INT16_NODATA); false at the first sample that is not a whole number from −32767 to 32767. */
@@ -202,12 +225,14 @@ export function readRowPiece(fd: number, layout: BandLayout, row: number, col0: 
  * is a slow element-wise move). False, reading nothing, for any other layout (decodeWindow then
  * reads it).
  * @param onRow called with the samples just read, out[from…to) (while they are in the cache)
+ * @param progress told of the rows read (see RowProgress)
  * @throws Error when a strip is shorter than its rows
  */
-function readRowsDirect(fd: number, layout: BandLayout, win: PixelWindow, out: Int16Array | Float32Array, onRow?: (from: number, to: number) => void): boolean {
+function readRowsDirect(fd: number, layout: BandLayout, win: PixelWindow, out: Int16Array | Float32Array, onRow?: (from: number, to: number) => void, progress?: RowProgress): boolean {
   const bps = out.BYTES_PER_ELEMENT;
   const kind = out instanceof Int16Array ? "i16" : "f32";
   if (layout.kind !== kind || !rowPiecesReadable(layout)) return false;
+  progress?.started(out);
   const bytes = new Uint8Array(out.buffer, out.byteOffset, out.byteLength);
   const { width: W, bh, counts } = layout;
   for (let r = 0; r < win.height; r++) {
@@ -220,7 +245,9 @@ function readRowsDirect(fd: number, layout: BandLayout, win: PixelWindow, out: I
     if (at + (b - a) * bps > counts[strip]) throw new Error(`block ${strip} holds ${counts[strip]} bytes, expected at least ${at + (b - a) * bps}`);
     readRowPiece(fd, layout, row, win.col0 + a, bytes.subarray((r * win.width + a) * bps, (r * win.width + b) * bps), bps);
     onRow?.(r * win.width + a, r * win.width + b);
+    if ((r & 15) === 15) progress?.rows(r + 1);
   }
+  progress?.rows(win.height);
   return true;
 }
 

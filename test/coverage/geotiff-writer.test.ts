@@ -59,6 +59,37 @@ describe("GeoTIFF writer: GDAL reads what we write", () => {
     pts.forEach(([c, r], i) => expectClose(got[i], raster.data[r * raster.width + c], { abs: 0, rel: 1e-12 }, `pixel ${c},${r}`));
   });
 
+  it.each(["none", "deflate"] as const)("fillStrip completes each strip in a copy (%s): GDAL reads the completed rows, the array is unchanged", (compression) => {
+    // 4099 columns of bytes: 255 rows per strip of at most 1 MiB, so 600 rows make three strips, the last one short
+    const W = 4099;
+    const H = 600;
+    const rnd = mulberry32(17);
+    const data = new Uint8Array(W * H).map(() => (rnd() < 0.5 ? 1 : 0));
+    const before = data.slice();
+    const seen: [number, number][] = [];
+    const path = join(dir, `fill-strip-${compression}.tif`);
+    writeGeoTiff(path, {
+      width: W,
+      height: H,
+      data,
+      geoTransform: [412000, 30, 0, 5_030_000, 0, -30],
+      epsg: 32632,
+      nodata: 255,
+      compression,
+      fillStrip: (strip, row0, row1) => {
+        seen.push([row0, row1]);
+        expect(strip.length).toBe((row1 - row0) * W);
+        for (let r = row0; r < row1; r++) strip.fill(100 + (r % 50), (r - row0) * W, (r - row0) * W + 3); // the first three cells of each row
+      },
+    });
+    expect(seen).toEqual([[0, 255], [255, 510], [510, 600]]);
+    expect(Buffer.compare(Buffer.from(data), Buffer.from(before))).toBe(0);
+    const pts: [number, number][] = [];
+    for (const r of [0, 1, 254, 255, 256, 509, 510, 511, 599]) pts.push([0, r], [2, r], [3, r], [W - 1, r]);
+    const got = gdalValues(path, pts);
+    pts.forEach(([c, r], i) => expect(got[i], `pixel ${c},${r}`).toBe(c < 3 ? 100 + (r % 50) : data[r * W + c]));
+  });
+
   it("a failed write leaves no file under the target name", () => {
     const path = join(dir, "bad.tif");
     expect(() => writeGeoTiff(path, { ...cases[0].raster, width: 10 })).toThrow(RangeError);

@@ -2,12 +2,12 @@ import { mkdtempSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { prepareCoverage } from "../../src/coverage/compute-coverage.ts";
+import { prepareCoverage, runCoverage } from "../../src/coverage/compute-coverage.ts";
 import type { CoverageJob } from "../../src/coverage/coverage-job.ts";
 import { CoverageTally } from "../../src/coverage/coverage-tally.ts";
 import { computeCoverage } from "../../src/coverage/compute-coverage.ts";
 import { CoveragePool } from "../../src/coverage/coverage-pool.ts";
-import { fillLineOfSightRaster, horizonSweep, horizonSweepApplies, warmUpHorizonSweep } from "../../src/coverage/horizon-sweep.ts";
+import { fillHorizonTileTable, fillLineOfSightRaster, horizonSweep, horizonSweepApplies, horizonTileTable, horizonTileTableOf, warmUpHorizonSweep } from "../../src/coverage/horizon-sweep.ts";
 import { HorizonVisitor } from "../../src/coverage/level-visitors.ts";
 import { rayCount, sweepRays } from "../../src/coverage/radial-sweep.ts";
 import { mulberry32 } from "../../src/terrain/mulberry32.ts";
@@ -54,18 +54,30 @@ function job(col: number, row: number, k: number, radius_m: number, int16 = fals
 }
 
 /** Visibility raster and tally of radials split at `cuts` (sorted), by one sweep or the other. */
-function run(j: CoverageJob, which: "general" | "wavefront" | "wavefront-zeroed", cuts: number[]): { raster: Uint8Array; tally: ReturnType<CoverageTally["data"]> } {
+function run(j: CoverageJob, which: "general" | "wavefront" | "wavefront-zeroed" | "wavefront-zeroed-outside-after", cuts: number[]): { raster: Uint8Array; tally: ReturnType<CoverageTally["data"]> } {
   const raster = new Uint8Array(j.out).fill(255);
-  // as `ridgeline coverage` computes: 0 inside the radius, nodata outside, then only what differs written
+  // 0 inside the radius, nodata outside, then only what differs written
   if (which === "wavefront-zeroed") fillLineOfSightRaster(raster.fill(0), j, 255);
+  // as `ridgeline coverage` computes: all 0, only what differs written, nodata outside the radius set strip by strip as the file is written
+  if (which === "wavefront-zeroed-outside-after") raster.fill(0);
   const dem = j.dem_int16 ? new Int16Array(j.dem) : new Float32Array(j.dem);
   const total = new CoverageTally(j.thresholds_dbm);
   const bounds = [0, ...cuts, rayCount(j.rc)];
   for (let c = 0; c + 1 < bounds.length; c++) {
     const part = new CoverageTally(j.thresholds_dbm);
     if (which === "general") sweepRays(j, dem, j.rc, bounds[c], bounds[c + 1], new HorizonVisitor(j, part));
-    else horizonSweep(j, dem, j.rc, bounds[c], bounds[c + 1], { hts_m: j.site_ground_m + j.antenna_m, receiver_m: j.receiver_m, k2: j.ae_m === Infinity ? 0 : 1 / (2 * j.ae_m) }, raster, j.cell_area_m2, part, undefined, which === "wavefront-zeroed");
+    else horizonSweep(j, dem, j.rc, bounds[c], bounds[c + 1], { hts_m: j.site_ground_m + j.antenna_m, receiver_m: j.receiver_m, k2: j.ae_m === Infinity ? 0 : 1 / (2 * j.ae_m) }, raster, j.cell_area_m2, part, undefined, which.startsWith("wavefront-zeroed"));
     total.addSums(part.data());
+  }
+  if (which === "wavefront-zeroed-outside-after") {
+    // strips of 7 rows (the last one shorter), each filled in a copy as geotiff-writer's fillStrip does
+    const W = j.width;
+    for (let r0 = 0; r0 < j.height; r0 += 7) {
+      const r1 = Math.min(j.height, r0 + 7);
+      const strip = raster.slice(r0 * W, r1 * W);
+      fillLineOfSightRaster(strip, j, 255, r0, r1);
+      raster.set(strip, r0 * W);
+    }
   }
   return { raster: raster.slice(), tally: total.data() };
 }
@@ -88,7 +100,7 @@ describe("wavefront line-of-sight sweep", () => {
         const splits = [[], [Math.floor(n / 4), Math.floor(n / 2)], Array.from(new Set(Array.from({ length: 7 }, () => 1 + Math.floor(rnd() * (n - 1))))).sort((a, b) => a - b)];
         const ref = run(j, "general", []);
         expect(ref.tally.cells).toBeGreaterThan(1000);
-        for (const [cuts, which] of splits.flatMap((cuts) => [[cuts, "wavefront"], [cuts, "wavefront-zeroed"]] as const)) {
+        for (const [cuts, which] of splits.flatMap((cuts) => [[cuts, "wavefront"], [cuts, "wavefront-zeroed"], [cuts, "wavefront-zeroed-outside-after"]] as const)) {
           const got = run(j, which, cuts);
           expect(Buffer.compare(Buffer.from(got.raster), Buffer.from(ref.raster)), `${which}, chunks at ${cuts.join(", ")}`).toBe(0);
           expect([got.tally.cells, got.tally.failed, got.tally.min, got.tally.max]).toEqual([ref.tally.cells, ref.tally.failed, ref.tally.min, ref.tally.max]);
@@ -99,6 +111,37 @@ describe("wavefront line-of-sight sweep", () => {
       });
     }
   }
+
+  it("threads that fill the tile table while the elevations are read, and nodata outside the radius set strip by strip as `ridgeline coverage` writes: the same raster and tally", async () => {
+    const [lat, lon] = cellLatLon(DEM, 118, 36); // beside the nodata hole
+    const req = request({ site: { lat_deg: lat, lon_deg: lon }, method: "visibility", radius_m: 2600 });
+    const pool = CoveragePool.start(2, { warmUp: "line-of-sight" });
+    try {
+      const a = await computeCoverage(terrain, req, { pool });
+      expect(a.outside_pending).toBeUndefined();
+      const prepared = prepareCoverage(terrain, req, { tileTableWhileReading: pool, elevationsInsideRadiusOnly: true });
+      expect(prepared.job.dem_tile_max).toBeInstanceOf(SharedArrayBuffer);
+      const b = await runCoverage(prepared, { pool, outsideOnWrite: true });
+      expect(b.outside_pending).toBe(true);
+      const W = b.grid.width;
+      const got = new Uint8Array(b.values as Uint8Array);
+      for (let r0 = 0; r0 < b.grid.height; r0 += 16) {
+        const r1 = Math.min(b.grid.height, r0 + 16);
+        fillLineOfSightRaster(got.subarray(r0 * W, r1 * W), b.job, 255, r0, r1);
+      }
+      expect(Buffer.compare(Buffer.from(got), Buffer.from(a.values.buffer as ArrayBuffer))).toBe(0);
+      expect(b.tally).toEqual(a.tally);
+      expect(a.tally.failed).toBeGreaterThan(0);
+      // the table the threads filled is the one this thread makes from the same elevations
+      const own = horizonTileTable(b.grid.width, b.grid.height);
+      fillHorizonTileTable(own, prepared.dem, b.job);
+      const theirs = horizonTileTableOf(prepared.job.dem_tile_max!);
+      expect(Buffer.compare(Buffer.from(theirs.buffer, theirs.byteOffset, theirs.byteLength), Buffer.from(own.buffer, own.byteOffset, own.byteLength))).toBe(0);
+      expect(theirs.some((v) => v === Infinity) && theirs.some((v) => v > 0 && v < Infinity)).toBe(true);
+    } finally {
+      await pool.close();
+    }
+  });
 
   it("a pool whose threads warmed up on a made-up grid computes the same raster as this thread", async () => {
     expect(warmUpHorizonSweep(2)).toBeGreaterThan(0);

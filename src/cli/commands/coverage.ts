@@ -61,7 +61,7 @@ export async function coverageCommand(argv: string[]): Promise<number> {
   // requests stay in this thread.
   const estimate = ((2 * radius_km * 1000) / resolution_m) ** 2;
   const nThreads = threads ?? (estimate < 2e6 ? 0 : availableParallelism());
-  const [{ CoveragePool }, { lineOfSightOnly }] = await Promise.all([import("../../coverage/coverage-pool.ts"), import("../../coverage/horizon-sweep.ts")]);
+  const [{ CoveragePool }, { lineOfSightOnly, fillLineOfSightRaster }] = await Promise.all([import("../../coverage/coverage-pool.ts"), import("../../coverage/horizon-sweep.ts")]);
   const clearance_f1 = num("clearance-f1", 0, (x) => x >= 0 && x <= 5, "a fraction of the first Fresnel radius from 0 to 5");
   // (the line-of-sight sweep is warmed up once the terrain's header tells the elevations' type)
   const pool = nThreads > 0 ? CoveragePool.start(nThreads) : null;
@@ -152,7 +152,7 @@ export async function coverageCommand(argv: string[]): Promise<number> {
       inMemory = (terrain as { pixelsInMemory?: boolean }).pixelsInMemory !== false;
       if (inMemory) collectGarbage(); // the reader's file bytes and decoding buffers
       // only the raster is written: the elevations outside the radius are not needed
-      prepared = prepareCoverage(terrain, request, { names, patternField: "--pattern", shareDecode: pool ? (...a) => pool.shareDecode(...a) : undefined, elevationsInsideRadiusOnly: true });
+      prepared = prepareCoverage(terrain, request, { names, patternField: "--pattern", shareDecode: pool ? (...a) => pool.shareDecode(...a) : undefined, elevationsInsideRadiusOnly: true, tileTableWhileReading: pool });
       mark("grid elevations");
     } catch (e) {
       if (e instanceof TerrainError) throw new UsageError(`--terrain: ${e.message}`);
@@ -164,7 +164,8 @@ export async function coverageCommand(argv: string[]): Promise<number> {
     const progress = process.stderr.isTTY ? (await import("../progress.ts")).progressReporter("coverage") : { update() {}, stop() {} };
     let computed;
     try {
-      computed = await runCoverage(prepared, { pool, onProgress: (phase, d, t) => phase === "compute" && progress.update(d, t) });
+      // only the file is wanted: the cells outside the radius are set to nodata as it is written
+      computed = await runCoverage(prepared, { pool, onProgress: (phase, d, t) => phase === "compute" && progress.update(d, t), outsideOnWrite: true });
     } finally {
       progress.stop();
     }
@@ -181,6 +182,7 @@ export async function coverageCommand(argv: string[]): Promise<number> {
       nodata: isLevel ? -9999 : 255,
       description: isLevel ? "received level" : "radio line of sight (1 visible, 0 not)",
       unit: isLevel ? "dBm" : "",
+      ...(computed.outside_pending ? { fillStrip: (strip: Uint8Array, row0: number, row1: number) => fillLineOfSightRaster(strip, computed.job, 255, row0, row1) } : {}),
     });
     const write_s = (performance.now() - t0) / 1000;
     mark("written");
