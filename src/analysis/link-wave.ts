@@ -2,6 +2,7 @@ import { EARTH_RADIUS_M } from "../physics/constants.ts";
 import { freeSpaceLossDb } from "../physics/free-space-loss.ts";
 import { groundConstants, type GroundClass } from "../physics/ground-constants.ts";
 import { beamwidthFromGainDeg } from "../physics/parabolic-equation/aperture-source.ts";
+import { PE_WIDENING_WORK_LIMIT_CELL_STEPS, widenedBand } from "../physics/parabolic-equation/band-check.ts";
 import type { RefractivityModel } from "../physics/parabolic-equation/modified-refractivity.ts";
 import { PE_MAX_ANGLE_DEG } from "../physics/parabolic-equation/pe-grid.ts";
 import { parabolicEquationField, type PeField } from "../physics/parabolic-equation/split-step.ts";
@@ -27,6 +28,11 @@ export interface WaveResult {
   beamwidth_deg: number;
   aim_deg: number;
   grid: { dz_m: number; dx_m: number; max_angle_deg: number; geometry_angle_deg: number; fft_points: number; range_steps: number; height_m: number; memory_mib: number };
+  /** the band check on the grid rule's band (band-check.ts): the share of the field's power the
+   * angular filter absorbed, the share of the receiver's spectrum in the band's upper half, and
+   * the rule's θmax (°) when the link was solved again with a wider band (null when not); null
+   * when not computed or the grid was given */
+  band_check: { absorbed_share: number; receiver_upper_share: number; widened_from_deg: number | null } | null;
 }
 
 /** What the page's field figure is drawn from. */
@@ -74,7 +80,7 @@ export function linkWave(
   const ground_m = obstructedHeights(profile);
   const beam = beamwidthFromGainDeg(ends.from.gain_dbi);
   const refractivity = options.refractivity ?? { kind: "k-factor", k: k0.k };
-  const r = parabolicEquationField({
+  const input: Parameters<typeof parabolicEquationField>[0] = {
     d_m: profile.d_m,
     ground_m,
     frequency_ghz,
@@ -88,7 +94,25 @@ export function linkWave(
     height_gain: options.height_gain ?? { half_range_m: 15, step_m: 0.1 },
     grid: options.grid,
     memory_limit_bytes: options.memory_limit_bytes,
-  });
+  };
+  let r = parabolicEquationField(input);
+  // the band check (band-check.ts): when the answer on the grid rule's band depends on the
+  // band's edge, the link is solved again with a wider band, within a work limit of its own;
+  // a given grid is the caller's model and is left as it is
+  const check = r.band_check;
+  let widened_from_deg: number | null = null;
+  if (!options.grid && r.status === "ok" && check?.too_narrow) {
+    const narrowDeg = r.grid.max_angle_deg;
+    const wide = widenedBand(narrowDeg, 0.299792458 / frequency_ghz);
+    const w = parabolicEquationField({ ...input, grid: wide, work_limit_cell_steps: PE_WIDENING_WORK_LIMIT_CELL_STEPS });
+    if (w.status === "ok") {
+      r = w;
+      widened_from_deg = narrowDeg;
+    } else {
+      const why = `the angular filter absorbed ${(100 * check.absorbed_share).toFixed(0)} % of the field's power, and ${(100 * check.receiver_upper_share).toFixed(1)} % of the receiver's field lies in the band's upper half`;
+      warnings.push(`Wave solution: the answer depends on the edge of the model's band of angles (θmax ${narrowDeg.toFixed(1)}°: ${why}), and the wider band (${wide.max_angle_deg.toFixed(1)}°) was not computed: ${w.reason}; the answer shown is the narrow band's, indicative only.`);
+    }
+  }
   const fsl = freeSpaceLossDb(D, frequency_ghz);
   const ok = r.status === "ok";
   if (r.status === "refused") warnings.push(`Wave solution not computed: ${r.reason}.`);
@@ -121,6 +145,7 @@ export function linkWave(
       height_m: grid.n * grid.dz_m,
       memory_mib: grid.memory_bytes / 1048576,
     },
+    band_check: check && ok ? { absorbed_share: check.absorbed_share, receiver_upper_share: check.receiver_upper_share, widened_from_deg } : null,
   };
   const ae_m = refractivity.kind === "k-factor" ? refractivity.k * EARTH_RADIUS_M : Infinity;
   const figure = ok && r.field && r.height_gain ? { field: r.field, height_gain: r.height_gain, tx_amsl_m: ends.from.antenna_amsl_m, rx_amsl_m: ends.to.antenna_amsl_m, ae_m, lambda_m: 0.299792458 / frequency_ghz } : null;

@@ -1,4 +1,5 @@
 import { wavelengthM } from "../constants.ts";
+import { bandCheck, receiverUpperBandShare, type BandCheck } from "./band-check.ts";
 import { bandLimitedSample } from "./band-limited-sample.ts";
 import { gaussianAxisAmplitude, gaussianSourceSigmaM } from "./aperture-source.ts";
 import { impedanceAlpha, type PeGround } from "./ground-impedance.ts";
@@ -83,6 +84,8 @@ export interface ParabolicEquationResult {
   angle_limit_exceeded: boolean;
   field: PeField | null;
   height_gain: { rx_antenna_m: Float64Array; relative_db: Float64Array } | null;
+  /** whether the answer depends on the band's edge (band-check.ts); null when not solved */
+  band_check: BandCheck | null;
 }
 
 /**
@@ -165,6 +168,7 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
     angle_limit_exceeded: false,
     field: null,
     height_gain: null,
+    band_check: null,
   });
   if (!(lambda > 0) || !Number.isFinite(lambda)) return bad("frequency is not a positive number");
   if (np < 2 || g.length !== np) return bad("the profile needs at least two samples with one ground height each");
@@ -193,6 +197,7 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
       ...common,
       field: null,
       height_gain: null,
+      band_check: null,
     };
   }
   const work = 2 * grid.n * grid.steps;
@@ -205,6 +210,7 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
       ...common,
       field: null,
       height_gain: null,
+      band_check: null,
     };
   }
   const N = grid.n;
@@ -333,6 +339,7 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
       ...common,
       field: null,
       height_gain: null,
+      band_check: null,
     };
   };
   // q: the row of the array's first cell (the ground's row, or the lower of two neighbouring
@@ -428,6 +435,9 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
     }
   }
   const excess_loss_db = -relDbExact(zR - b, D);
+  // the band check (band-check.ts): what the angular filter absorbed over the march, and the
+  // receiver's local spectrum in the upper half of the band
+  const band_check = bandCheck(step.absorbed.log_kept, receiverUpperBandShare(ur, ui, (zR - b) / dz - q, dz, Math.min(k * Math.sin(thetaMax), Math.PI / dz)));
   if (!trapping && -excess_loss_db > excessLimit) return unstable(-excess_loss_db, D, input.rx_antenna_m);
   let height_gain: ParabolicEquationResult["height_gain"] = null;
   if (input.height_gain && input.height_gain.step_m > 0) {
@@ -441,7 +451,7 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
       height_gain.relative_db[c] = relDbExact(g[np - 1] + z - b, D);
     }
   }
-  return { status: "ok", reason: "", excess_loss_db, ...common, field, height_gain };
+  return { status: "ok", reason: "", excess_loss_db, ...common, field, height_gain, band_check };
 }
 
 /** Ground height (m) at distance x by linear interpolation of the profile (ends held). */

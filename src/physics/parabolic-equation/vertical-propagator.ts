@@ -69,7 +69,20 @@ export interface VerticalPropagatorOptions {
  *   step, default 0; α: a mixed boundary's coefficient on the ground's normal for this step,
  *   default the one given here)
  */
-export function makeVerticalPropagator(o: VerticalPropagatorOptions): (ur: Float64Array, ui: Float64Array, slope?: number, alpha?: Complex) => void {
+export function makeVerticalPropagator(o: VerticalPropagatorOptions): VerticalPropagator {
+  const { step, absorbed } = verticalPropagator(o);
+  return Object.assign(step, { absorbed });
+}
+
+/**
+ * One range step (see makeVerticalPropagator), and what the angular filter took: `absorbed.log_kept`
+ * sums over the steps taken ln(Σ|X·F|²/Σ|X|²), the share of the spectrum's power the filter F
+ * kept (X the spectrum the propagator multiplies: the field's for a perfectly conducting ground,
+ * the mixed transform's w = ∂u/∂z + αu for an impedance ground).
+ */
+export type VerticalPropagator = ((ur: Float64Array, ui: Float64Array, slope?: number, alpha?: Complex) => void) & { absorbed: { log_kept: number; steps: number } };
+
+function verticalPropagator(o: VerticalPropagatorOptions): { step: (ur: Float64Array, ui: Float64Array, slope?: number, alpha?: Complex) => void; absorbed: { log_kept: number; steps: number } } {
   const { n, dz_m: dz, dx_m: dx, k_rad_m: k } = o;
   const m2 = 2 * n;
   const cosine = o.boundary.kind === "neumann";
@@ -128,34 +141,51 @@ export function makeVerticalPropagator(o: VerticalPropagatorOptions): (ur: Float
   /** data ← propagate(data) in the spectral domain. */
   const spectral = (tr: Float64Array, ti: Float64Array) => {
     fft!.transform(out, data);
+    let before = 0;
+    let after = 0;
     for (let q = 0; q < m2; q++) {
       const re = out[2 * q];
       const im = out[2 * q + 1];
-      out[2 * q] = re * tr[q] - im * ti[q];
-      out[2 * q + 1] = re * ti[q] + im * tr[q];
+      const nr = re * tr[q] - im * ti[q];
+      const ni = re * ti[q] + im * tr[q];
+      out[2 * q] = nr;
+      out[2 * q + 1] = ni;
+      before += re * re + im * im;
+      after += nr * nr + ni * ni;
     }
     fft!.inverseTransform(data, out);
+    keep(before, after);
+  };
+  /** the angular filter's record: the sum over steps of ln(share of the spectrum's power it kept) */
+  const absorbed = { log_kept: 0, steps: 0 };
+  const keep = (before: number, after: number) => {
+    if (before > 0 && after > 0) absorbed.log_kept += Math.log(Math.min(1, after / before));
+    absorbed.steps++;
   };
   const sine = cosine ? null : makeSineTransform(n);
+  /** the sine transforms' propagator table carries the inverse's factor 2/n: taken out of the power kept */
+  const sineScale2 = (n / 2) ** 2;
   const sr = new Float64Array(n + 1);
   const si = new Float64Array(n + 1);
   /** (ar + i·ai)[1..n−1] ← propagate by the sine transform (values at 0 and n taken as 0). */
   const sinePropagate = (ar: Float64Array, ai: Float64Array, cls: number) => {
     const t = tableFor(cls);
     sine!(ar, ai, sr, si, t.re, t.im); // the propagator applied as the transform is unpacked
+    keep(sine!.power.before, sine!.power.after * sineScale2);
     sine!(sr, si, ar, ai);
   };
   if (o.boundary.kind === "dirichlet") {
-    return (ur, ui, slope) => {
+    const step = (ur: Float64Array, ui: Float64Array, slope?: number) => {
       ur[0] = 0;
       ui[0] = 0;
       sinePropagate(ur, ui, slopeClass(slope));
       ur[n] = 0;
       ui[n] = 0;
     };
+    return { absorbed, step };
   }
   if (o.boundary.kind === "neumann") {
-    return (ur, ui, slope) => {
+    const step = (ur: Float64Array, ui: Float64Array, slope?: number) => {
       for (let j = 0; j <= n; j++) {
         data[2 * j] = j === n ? 0 : ur[j];
         data[2 * j + 1] = j === n ? 0 : ui[j];
@@ -173,6 +203,7 @@ export function makeVerticalPropagator(o: VerticalPropagatorOptions): (ur: Float
       ur[n] = 0;
       ui[n] = 0;
     };
+    return { absorbed, step };
   }
   // mixed: discrete mixed Fourier transform; the mode's constants depend on α (which the
   // terrain-following frame changes with the slope), so they are made per α and kept
@@ -206,7 +237,7 @@ export function makeVerticalPropagator(o: VerticalPropagatorOptions): (ur: Float
     proj.re = (sr * nr + si * ni) / d2;
     proj.im = (si * nr - sr * ni) / d2;
   };
-  return (ur, ui, slope, alphaNow) => {
+  const step = (ur: Float64Array, ui: Float64Array, slope?: number, alphaNow?: Complex) => {
     const alpha = alphaNow ?? fixed;
     const cls = slopeClass(slope);
     const setup = setupFor(alpha, cls);
@@ -236,6 +267,7 @@ export function makeVerticalPropagator(o: VerticalPropagatorOptions): (ur: Float
     // w propagated by the sine transform, and v (in wr/wi: wr[j] holds v_j) by the forward
     // recursion v_{j+1} = ρ·v_j + 2Δz·w_j from v_1 = 0, run as the inverse transform is unpacked
     sine!(wr, wi, sr, si, table.re, table.im);
+    keep(sine!.power.before, sine!.power.after * sineScale2);
     rec.rhoRe = rr;
     rec.rhoIm = ri;
     sine!(sr, si, wr, wi, undefined, undefined, rec);
@@ -263,6 +295,7 @@ export function makeVerticalPropagator(o: VerticalPropagatorOptions): (ur: Float
     ur[n] = 0;
     ui[n] = 0;
   };
+  return { absorbed, step };
 }
 
 interface ModeSetup {
@@ -410,7 +443,18 @@ export function frameEvenPhase(p: number, k: number, kSigma: number, kCos: numbe
  *   v_{j+1} = ρ·v_j + c·X_j run over the output as it is unpacked, xr, xi[j] ← v_j for
  *   j = 1..n (the mixed transform's forward recursion, without a pass of its own)
  */
-export function makeSineTransform(n: number): (ar: Float64Array, ai: Float64Array, xr: Float64Array, xi: Float64Array, mr?: Float64Array, mi?: Float64Array, rec?: { rhoRe: number; rhoIm: number; c: number }) => void {
+export function makeSineTransform(n: number): ((ar: Float64Array, ai: Float64Array, xr: Float64Array, xi: Float64Array, mr?: Float64Array, mi?: Float64Array, rec?: { rhoRe: number; rhoIm: number; c: number }) => void) & { power: SpectrumPower } {
+  const power: SpectrumPower = { before: 0, after: 0 };
+  return Object.assign(sineTransform(n, power), { power });
+}
+
+/** Power of a spectrum before and after the factors a transform applied as it was unpacked (Σ|X|², Σ|X·m|²). */
+export interface SpectrumPower {
+  before: number;
+  after: number;
+}
+
+function sineTransform(n: number, power: SpectrumPower): (ar: Float64Array, ai: Float64Array, xr: Float64Array, xi: Float64Array, mr?: Float64Array, mi?: Float64Array, rec?: { rhoRe: number; rhoIm: number; c: number }) => void {
   const fft = new FFT(n);
   const sinT = new Float64Array(n);
   for (let j = 0; j < n; j++) sinT[j] = Math.sin((Math.PI * j) / n);
@@ -436,7 +480,10 @@ export function makeSineTransform(n: number): (ar: Float64Array, ai: Float64Arra
     let ob = 0;
     const half = n >> 1;
     if (mr && mi) {
-      // the same unpacking, each output multiplied by mr + i·mi as it is written
+      // the same unpacking, each output multiplied by mr + i·mi as it is written, and the
+      // spectrum's power before and after the factors summed (the angular filter's share)
+      let before = 0;
+      let after = 0;
       for (let k = 0; k < half; k++) {
         const k2 = k === 0 ? 0 : n - k;
         const zr = Z[2 * k];
@@ -449,8 +496,12 @@ export function makeSineTransform(n: number): (ar: Float64Array, ai: Float64Arra
         const ybI = -0.5 * (zr - cr);
         if (k > 0) {
           const e = 2 * k;
-          xr[e] = -yaI * mr[e] + ybI * mi[e];
-          xi[e] = -yaI * mi[e] - ybI * mr[e];
+          const er = -yaI * mr[e] + ybI * mi[e];
+          const ei = -yaI * mi[e] - ybI * mr[e];
+          xr[e] = er;
+          xi[e] = ei;
+          before += yaI * yaI + ybI * ybI;
+          after += er * er + ei * ei;
           oa += yaR;
           ob += ybR;
         } else {
@@ -458,9 +509,15 @@ export function makeSineTransform(n: number): (ar: Float64Array, ai: Float64Arra
           ob = 0.5 * ybR;
         }
         const o = 2 * k + 1;
-        xr[o] = oa * mr[o] - ob * mi[o];
-        xi[o] = oa * mi[o] + ob * mr[o];
+        const or = oa * mr[o] - ob * mi[o];
+        const oi = oa * mi[o] + ob * mr[o];
+        xr[o] = or;
+        xi[o] = oi;
+        before += oa * oa + ob * ob;
+        after += or * or + oi * oi;
       }
+      power.before = before;
+      power.after = after;
       return;
     }
     if (rec) {

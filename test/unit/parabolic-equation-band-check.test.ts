@@ -1,0 +1,81 @@
+import { describe, expect, it } from "vitest";
+import { BAND_CHECK_ABSORBED_SHARE, BAND_CHECK_RECEIVER_SHARE, bandCheck, PE_WIDENED_MAX_ANGLE_DEG, receiverUpperBandShare, RECEIVER_WINDOW_CELLS, widenedBand } from "../../src/physics/parabolic-equation/band-check.ts";
+import { parabolicEquationField } from "../../src/physics/parabolic-equation/split-step.ts";
+import { expectClose } from "../helpers/expect-close.ts";
+
+// The band check (band-check.ts): the share of the field's power the angular filter absorbs,
+// and the share of the receiver's local angular spectrum in the band's upper half. Checked
+// against plane waves of known vertical wavenumber (a plane wave e^{ipz} has all its power at p:
+// Fourier analysis, common practice) and a beam aimed inside and outside the band.
+
+describe("wave solution: the band check's measures", () => {
+  const dz = 0.1;
+  const pLimit = Math.PI / dz;
+  const plane = (p: number, n = 512) => {
+    const re = new Float64Array(n + 1);
+    const im = new Float64Array(n + 1);
+    for (let j = 0; j <= n; j++) {
+      re[j] = Math.cos(p * j * dz);
+      im[j] = Math.sin(p * j * dz);
+    }
+    return { re, im };
+  };
+  it.each([0, 0.2, 0.35])("a plane wave at %f of the band has (almost) none of its power in the upper half", (f) => {
+    const { re, im } = plane(f * pLimit);
+    expect(receiverUpperBandShare(re, im, 200.3, dz, pLimit)).toBeLessThan(1e-4);
+  });
+  it.each([0.65, 0.8, -0.7])("a plane wave at %f of the band has (almost) all of it there", (f) => {
+    const { re, im } = plane(f * pLimit);
+    expect(receiverUpperBandShare(re, im, 200.3, dz, pLimit)).toBeGreaterThan(1 - 1e-4);
+  });
+  it("a receiver near the array's ends is measured on a window moved inside it", () => {
+    const { re, im } = plane(0.8 * pLimit);
+    expect(receiverUpperBandShare(re, im, 2, dz, pLimit)).toBeGreaterThan(0.999);
+    expect(receiverUpperBandShare(re, im, 511, dz, pLimit)).toBeGreaterThan(0.999);
+    // an array shorter than the window: no measure
+    expect(receiverUpperBandShare(re.subarray(0, RECEIVER_WINDOW_CELLS), im.subarray(0, RECEIVER_WINDOW_CELLS), 5, dz, pLimit)).toBeNaN();
+  });
+  it("flags the band when either share is over its threshold", () => {
+    expect(bandCheck(Math.log(1 - BAND_CHECK_ABSORBED_SHARE) + 0.01, 0).too_narrow).toBe(false);
+    expect(bandCheck(Math.log(1 - BAND_CHECK_ABSORBED_SHARE) - 0.01, 0).too_narrow).toBe(true);
+    expect(bandCheck(0, BAND_CHECK_RECEIVER_SHARE * 0.9).too_narrow).toBe(false);
+    expect(bandCheck(0, BAND_CHECK_RECEIVER_SHARE * 1.1).too_narrow).toBe(true);
+    expectClose(bandCheck(Math.log(0.25), 0).absorbed_share, 0.75, { abs: 1e-12 });
+  });
+  it("widens θmax threefold up to the ceiling, and there refines Δz to λ/2", () => {
+    expect(widenedBand(8.1, 0.016)).toEqual({ max_angle_deg: 8.1 * 3 });
+    expect(widenedBand(15, 0.65)).toEqual({ max_angle_deg: PE_WIDENED_MAX_ANGLE_DEG, dz_m: 0.325 });
+  });
+});
+
+describe("wave solution: the band check on a beam inside and outside the band", () => {
+  // free space in effect (ground far below the beam), 10 GHz, 2 km: a 2° beam aimed 2° up (the
+  // solver narrows a beam to 0.7 θmax, but not its aim)
+  const D = 2000;
+  const n = 101;
+  const d = Float64Array.from({ length: n }, (_, i) => (i * D) / (n - 1));
+  const base = {
+    d_m: d,
+    ground_m: new Float64Array(n),
+    frequency_ghz: 10,
+    tx_antenna_m: 300,
+    rx_antenna_m: 300 + D * Math.tan((2 * Math.PI) / 180),
+    polarization: "h" as const,
+    ground: { kind: "pec" as const },
+    refractivity: { kind: "k-factor" as const, k: 1e9 },
+    beamwidth_deg: 2,
+  };
+  it("a beam well inside the band: the filter takes under 1 % and the receiver's field is in the band's lower half", () => {
+    const r = parabolicEquationField({ ...base, grid: { max_angle_deg: 15 } });
+    expect(r.status, r.reason).toBe("ok");
+    expect(r.band_check!.absorbed_share).toBeLessThan(0.01);
+    expect(r.band_check!.receiver_upper_share).toBeLessThan(1e-3);
+    expect(r.band_check!.too_narrow).toBe(false);
+  });
+  it("the same beam with θmax 2.2° (the filter from 1.65°, below its aim): the band is flagged as too narrow", () => {
+    const r = parabolicEquationField({ ...base, grid: { max_angle_deg: 2.2 } });
+    expect(r.status, r.reason).toBe("ok");
+    expect(r.band_check!.absorbed_share).toBeGreaterThan(BAND_CHECK_ABSORBED_SHARE);
+    expect(r.band_check!.too_narrow).toBe(true);
+  });
+});
