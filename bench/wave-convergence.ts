@@ -2,7 +2,9 @@
 // (src/physics/parabolic-equation/pe-grid.ts): each link on a grid and on Δz/2, Δx/2 with θmax
 // held, as test/reference/parabolic-equation-convergence.test.ts does, printed as a table with
 // the CPU time of the first grid's solution. Not part of `npm run bench` (a minute on the default
-// grids, several with wide angles). Run: `node --import tsx bench/wave-convergence.ts [options]`
+// grids, several with wide angles). Without options each link's band is the one the band check
+// chose (linkWave); with --max-angle or --refine the grid is given and not checked.
+// Run: `node --import tsx bench/wave-convergence.ts [options]`
 //   --max-angle DEG             θmax on every link (its own Δz = λ/(2 sin θmax), the frame's slope
 //                               limit with it), or id=DEG,id=DEG for some links only
 //   --refine A/B                the first grid's Δz divided by A and Δx by B (default 1/1)
@@ -36,7 +38,8 @@ const cpu = (f: () => void): number => {
   const c = process.cpuUsage(c0);
   return (c.user + c.system) / 1e6;
 };
-console.log("link        GHz    θmax°    Δz m   Δx m  heights  steps   first dB  halved dB  change dB  CPU s");
+// "rule θ°": the grid rule's θmax when the band check (band-check.ts) widened it, else "-"
+console.log("link        GHz    θmax°  rule θ°    Δz m   Δx m  heights  steps   first dB  halved dB  change dB  CPU s");
 for (const link of study.links) {
   if (only && !only.includes(link.id)) continue;
   const { result, figure } = analyzeLink(study, link, terrain);
@@ -60,6 +63,6 @@ for (const link of study.links) {
   const b = halved.wave.excess_loss_db;
   const f = (v: number | null, w: number) => (v === null ? "refused" : v.toFixed(2)).padStart(w);
   console.log(
-    `${link.id.padEnd(10)} ${result.frequency_ghz.toFixed(2).padStart(5)} ${g.max_angle_deg.toFixed(2).padStart(8)} ${g.dz_m.toFixed(3).padStart(7)} ${g.dx_m.toFixed(1).padStart(6)} ${String(g.fft_points).padStart(8)} ${String(g.range_steps).padStart(6)} ${f(a, 10)} ${f(b, 10)} ${f(a !== null && b !== null ? b - a : null, 10)} ${seconds.toFixed(2).padStart(6)}`,
+    `${link.id.padEnd(10)} ${result.frequency_ghz.toFixed(2).padStart(5)} ${g.max_angle_deg.toFixed(2).padStart(8)} ${(first.wave.band_check?.widened_from_deg?.toFixed(2) ?? "-").padStart(8)} ${g.dz_m.toFixed(3).padStart(7)} ${g.dx_m.toFixed(1).padStart(6)} ${String(g.fft_points).padStart(8)} ${String(g.range_steps).padStart(6)} ${f(a, 10)} ${f(b, 10)} ${f(a !== null && b !== null ? b - a : null, 10)} ${seconds.toFixed(2).padStart(6)}`,
   );
 }

@@ -108,6 +108,9 @@ export function linkWave(
     if (w.status === "ok") {
       r = w;
       widened_from_deg = narrowDeg;
+      if (w.band_check?.too_narrow) {
+        warnings.push(`Wave solution: the answer depends on the edge of the model's band of angles even when widened from ${narrowDeg.toFixed(1)}° to ${w.grid.max_angle_deg.toFixed(1)}° (the angular filter absorbed ${(100 * w.band_check.absorbed_share).toFixed(0)} % of the field's power, and ${(100 * w.band_check.receiver_upper_share).toFixed(1)} % of the receiver's field lies in the band's upper half); it is indicative only.`);
+      }
     } else {
       const why = `the angular filter absorbed ${(100 * check.absorbed_share).toFixed(0)} % of the field's power, and ${(100 * check.receiver_upper_share).toFixed(1)} % of the receiver's field lies in the band's upper half`;
       warnings.push(`Wave solution: the answer depends on the edge of the model's band of angles (θmax ${narrowDeg.toFixed(1)}°: ${why}), and the wider band (${wide.max_angle_deg.toFixed(1)}°) was not computed: ${w.reason}; the answer shown is the narrow band's, indicative only.`);

@@ -1,6 +1,10 @@
 import { describe, expect, it } from "vitest";
 import { BAND_CHECK_ABSORBED_SHARE, BAND_CHECK_RECEIVER_SHARE, bandCheck, PE_WIDENED_MAX_ANGLE_DEG, receiverUpperBandShare, RECEIVER_WINDOW_CELLS, widenedBand } from "../../src/physics/parabolic-equation/band-check.ts";
 import { parabolicEquationField } from "../../src/physics/parabolic-equation/split-step.ts";
+import { analyzeLink } from "../../src/analysis/analyze-link.ts";
+import { openStudyTerrain } from "../../src/analysis/analyze-study.ts";
+import { linkWave } from "../../src/analysis/link-wave.ts";
+import { loadStudy } from "../../src/study/load-study.ts";
 import { expectClose } from "../helpers/expect-close.ts";
 
 // The band check (band-check.ts): the share of the field's power the angular filter absorbs,
@@ -77,5 +81,27 @@ describe("wave solution: the band check on a beam inside and outside the band", 
     expect(r.status, r.reason).toBe("ok");
     expect(r.band_check!.absorbed_share).toBeGreaterThan(BAND_CHECK_ABSORBED_SHARE);
     expect(r.band_check!.too_narrow).toBe(true);
+  });
+});
+
+describe("wave solution: a band found too narrow whose wider grid is refused keeps the narrow answer, with a warning naming the band", () => {
+  it("pell-kvtw (demo) under a memory limit between its narrow and its wider grid", async () => {
+    const study = loadStudy("content/studies/kestrel-vale/study.yaml");
+    study.design.wave_solution = false;
+    const terrain = await openStudyTerrain(study);
+    const link = study.links.find((l) => l.id === "pell-kvtw")!;
+    const { result, figure } = analyzeLink(study, link, terrain);
+    const args = [study, figure.profile, result.ends, result.frequency_ghz, link.polarization, {}] as const;
+    const wide = linkWave(...args);
+    const narrowDeg = wide.wave.band_check!.widened_from_deg!;
+    expect(wide.wave.grid.max_angle_deg).toBeGreaterThan(narrowDeg);
+    const narrow = linkWave(...args, { grid: { max_angle_deg: narrowDeg } });
+    const limitMib = (narrow.wave.grid.memory_mib + wide.wave.grid.memory_mib) / 2;
+    const r = linkWave(...args, { memory_limit_bytes: limitMib * 1048576 });
+    expect(r.wave.status).toBe("ok");
+    expect(r.wave.grid.max_angle_deg).toBe(narrowDeg);
+    expect(r.wave.excess_loss_db).toBe(narrow.wave.excess_loss_db);
+    expect(r.wave.band_check!.widened_from_deg).toBeNull();
+    expect(r.warnings.join(" ")).toMatch(new RegExp(`band of angles \\(θmax ${narrowDeg.toFixed(1)}°.*was not computed: .*MiB`));
   });
 });
