@@ -1,3 +1,4 @@
+import fc from "fast-check";
 import { describe, expect, it } from "vitest";
 import { BAND_CHECK_ABSORBED_SHARE, BAND_CHECK_RECEIVER_SHARE, bandCheck, PE_WIDENED_MAX_ANGLE_DEG, receiverUpperBandShare, RECEIVER_WINDOW_CELLS, widenedBand } from "../../src/physics/parabolic-equation/band-check.ts";
 import { parabolicEquationField } from "../../src/physics/parabolic-equation/split-step.ts";
@@ -31,6 +32,18 @@ describe("wave solution: the band check's measures", () => {
   it.each([0.65, 0.8, -0.7])("a plane wave at %f of the band has (almost) all of it there", (f) => {
     const { re, im } = plane(f * pLimit);
     expect(receiverUpperBandShare(re, im, 200.3, dz, pLimit)).toBeGreaterThan(1 - 1e-4);
+  });
+  it("any field: the share lies in [0, 1]; a plane wave below 0.4 of the band has under 0.1 % of its power in the upper half, one above 0.6 over 99.9 %", () => {
+    fc.assert(
+      fc.property(fc.double({ min: -1, max: 1, noNaN: true }), fc.double({ min: 0, max: 500, noNaN: true }), (f, t) => {
+        const { re, im } = plane(f * pLimit);
+        const share = receiverUpperBandShare(re, im, t, dz, pLimit);
+        expect(share).toBeGreaterThanOrEqual(0);
+        expect(share).toBeLessThanOrEqual(1);
+        if (Math.abs(f) < 0.4) expect(share).toBeLessThan(1e-3);
+        if (Math.abs(f) > 0.6) expect(share).toBeGreaterThan(0.999);
+      }),
+    );
   });
   it("a receiver near the array's ends is measured on a window moved inside it", () => {
     const { re, im } = plane(0.8 * pLimit);

@@ -67,7 +67,7 @@ export interface VerticalPropagatorOptions {
  * derivative in the frame's vertical coordinate).
  * @returns step(ur, ui, s?, α?), which overwrites its arguments (s: the frame's slope over this
  *   step, default 0; α: a mixed boundary's coefficient on the ground's normal for this step,
- *   default the one given here)
+ *   default the one given here), with `absorbed`, what its angular filter took (VerticalPropagator)
  */
 export function makeVerticalPropagator(o: VerticalPropagatorOptions): VerticalPropagator {
   const { step, absorbed } = verticalPropagator(o);
@@ -80,9 +80,9 @@ export function makeVerticalPropagator(o: VerticalPropagatorOptions): VerticalPr
  * kept (X the spectrum the propagator multiplies: the field's for a perfectly conducting ground,
  * the mixed transform's w = ∂u/∂z + αu for an impedance ground).
  */
-export type VerticalPropagator = ((ur: Float64Array, ui: Float64Array, slope?: number, alpha?: Complex) => void) & { absorbed: { log_kept: number; steps: number } };
+export type VerticalPropagator = ((ur: Float64Array, ui: Float64Array, slope?: number, alpha?: Complex) => void) & { absorbed: { log_kept: number } };
 
-function verticalPropagator(o: VerticalPropagatorOptions): { step: (ur: Float64Array, ui: Float64Array, slope?: number, alpha?: Complex) => void; absorbed: { log_kept: number; steps: number } } {
+function verticalPropagator(o: VerticalPropagatorOptions): { step: (ur: Float64Array, ui: Float64Array, slope?: number, alpha?: Complex) => void; absorbed: { log_kept: number } } {
   const { n, dz_m: dz, dx_m: dx, k_rad_m: k } = o;
   const m2 = 2 * n;
   const cosine = o.boundary.kind === "neumann";
@@ -157,10 +157,9 @@ function verticalPropagator(o: VerticalPropagatorOptions): { step: (ur: Float64A
     keep(before, after);
   };
   /** the angular filter's record: the sum over steps of ln(share of the spectrum's power it kept) */
-  const absorbed = { log_kept: 0, steps: 0 };
+  const absorbed = { log_kept: 0 };
   const keep = (before: number, after: number) => {
-    if (before > 0 && after > 0) absorbed.log_kept += Math.log(Math.min(1, after / before));
-    absorbed.steps++;
+    if (before > 0) absorbed.log_kept += Math.log(Math.min(1, after / before)); // −∞ when it took everything
   };
   const sine = cosine ? null : makeSineTransform(n);
   /** the sine transforms' propagator table carries the inverse's factor 2/n: taken out of the power kept */
