@@ -1,8 +1,8 @@
-import { EARTH_RADIUS_M } from "../physics/constants.ts";
+import { EARTH_RADIUS_M, wavelengthM } from "../physics/constants.ts";
 import { freeSpaceLossDb } from "../physics/free-space-loss.ts";
 import { groundConstants, type GroundClass } from "../physics/ground-constants.ts";
 import { beamwidthFromGainDeg } from "../physics/parabolic-equation/aperture-source.ts";
-import { PE_WIDENING_WORK_LIMIT_CELL_STEPS, widenedBand } from "../physics/parabolic-equation/band-check.ts";
+import { PE_WIDENING_WORK_LIMIT_CELL_STEPS, widenedBand, type BandCheck } from "../physics/parabolic-equation/band-check.ts";
 import type { RefractivityModel } from "../physics/parabolic-equation/modified-refractivity.ts";
 import { PE_MAX_ANGLE_DEG } from "../physics/parabolic-equation/pe-grid.ts";
 import { parabolicEquationField, type PeField } from "../physics/parabolic-equation/split-step.ts";
@@ -30,9 +30,10 @@ export interface WaveResult {
   grid: { dz_m: number; dx_m: number; max_angle_deg: number; geometry_angle_deg: number; fft_points: number; range_steps: number; height_m: number; memory_mib: number };
   /** the band check on the grid rule's band (band-check.ts): the share of the field's power the
    * angular filter absorbed, the share of the receiver's spectrum in the band's upper half, and
-   * the rule's θmax (°) when the link was solved again with a wider band (null when not); null
-   * when not computed or the grid was given */
-  band_check: { absorbed_share: number; receiver_upper_share: number; widened_from_deg: number | null } | null;
+   * the rule's θmax (°) when the link was solved again with a wider band (null when not; always
+   * null with a given grid, which is not widened); the receiver's share is null when the field
+   * there is too short to measure; null when not computed */
+  band_check: { absorbed_share: number; receiver_upper_share: number | null; widened_from_deg: number | null } | null;
 }
 
 /** What the page's field figure is drawn from. */
@@ -101,18 +102,23 @@ export function linkWave(
   // a given grid is the caller's model and is left as it is
   const check = r.band_check;
   let widened_from_deg: number | null = null;
+  /** what the check measured, for a warning */
+  const shares = (c: BandCheck) => {
+    const rx = Number.isFinite(c.receiver_upper_share) ? `${(100 * c.receiver_upper_share).toFixed(1)} %` : "an unmeasured share";
+    return `the angular filter absorbed ${(100 * c.absorbed_share).toFixed(0)} % of the field's power, and ${rx} of the receiver's field lies in the band's upper half`;
+  };
   if (!options.grid && r.status === "ok" && check?.too_narrow) {
     const narrowDeg = r.grid.max_angle_deg;
-    const wide = widenedBand(narrowDeg, 0.299792458 / frequency_ghz);
+    const wide = widenedBand(narrowDeg, wavelengthM(frequency_ghz));
     const w = parabolicEquationField({ ...input, grid: wide, work_limit_cell_steps: PE_WIDENING_WORK_LIMIT_CELL_STEPS });
     if (w.status === "ok") {
       r = w;
       widened_from_deg = narrowDeg;
       if (w.band_check?.too_narrow) {
-        warnings.push(`Wave solution: the answer depends on the edge of the model's band of angles even when widened from ${narrowDeg.toFixed(1)}° to ${w.grid.max_angle_deg.toFixed(1)}° (the angular filter absorbed ${(100 * w.band_check.absorbed_share).toFixed(0)} % of the field's power, and ${(100 * w.band_check.receiver_upper_share).toFixed(1)} % of the receiver's field lies in the band's upper half); it is indicative only.`);
+        warnings.push(`Wave solution: the answer depends on the edge of the model's band of angles even when widened from ${narrowDeg.toFixed(1)}° to ${w.grid.max_angle_deg.toFixed(1)}° (${shares(w.band_check)}); it is indicative only.`);
       }
     } else {
-      const why = `the angular filter absorbed ${(100 * check.absorbed_share).toFixed(0)} % of the field's power, and ${(100 * check.receiver_upper_share).toFixed(1)} % of the receiver's field lies in the band's upper half`;
+      const why = shares(check);
       warnings.push(`Wave solution: the answer depends on the edge of the model's band of angles (θmax ${narrowDeg.toFixed(1)}°: ${why}), and the wider band (${wide.max_angle_deg.toFixed(1)}°) was not computed: ${w.reason}; the answer shown is the narrow band's, indicative only.`);
     }
   }
@@ -148,7 +154,7 @@ export function linkWave(
       height_m: grid.n * grid.dz_m,
       memory_mib: grid.memory_bytes / 1048576,
     },
-    band_check: check && ok ? { absorbed_share: check.absorbed_share, receiver_upper_share: check.receiver_upper_share, widened_from_deg } : null,
+    band_check: check && ok ? { absorbed_share: check.absorbed_share, receiver_upper_share: Number.isFinite(check.receiver_upper_share) ? check.receiver_upper_share : null, widened_from_deg } : null,
   };
   const ae_m = refractivity.kind === "k-factor" ? refractivity.k * EARTH_RADIUS_M : Infinity;
   const figure = ok && r.field && r.height_gain ? { field: r.field, height_gain: r.height_gain, tx_amsl_m: ends.from.antenna_amsl_m, rx_amsl_m: ends.to.antenna_amsl_m, ae_m, lambda_m: 0.299792458 / frequency_ghz } : null;

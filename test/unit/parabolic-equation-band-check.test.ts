@@ -49,8 +49,11 @@ describe("wave solution: the band check's measures", () => {
     const { re, im } = plane(0.8 * pLimit);
     expect(receiverUpperBandShare(re, im, 2, dz, pLimit)).toBeGreaterThan(0.999);
     expect(receiverUpperBandShare(re, im, 511, dz, pLimit)).toBeGreaterThan(0.999);
-    // an array shorter than the window: no measure
-    expect(receiverUpperBandShare(re.subarray(0, RECEIVER_WINDOW_CELLS), im.subarray(0, RECEIVER_WINDOW_CELLS), 5, dz, pLimit)).toBeNaN();
+    // an array shorter than the window: a narrower window (8 cells each side here); under 8 cells, no measure
+    expect(receiverUpperBandShare(re.subarray(0, RECEIVER_WINDOW_CELLS), im.subarray(0, RECEIVER_WINDOW_CELLS), 5, dz, pLimit)).toBeGreaterThan(0.99);
+    const low = plane(0.2 * pLimit);
+    expect(receiverUpperBandShare(low.re.subarray(0, RECEIVER_WINDOW_CELLS), low.im.subarray(0, RECEIVER_WINDOW_CELLS), 5, dz, pLimit)).toBeLessThan(0.01);
+    expect(receiverUpperBandShare(re.subarray(0, 7), im.subarray(0, 7), 3, dz, pLimit)).toBeNaN();
   });
   it("flags the band when either share is over its threshold", () => {
     expect(bandCheck(Math.log(1 - BAND_CHECK_ABSORBED_SHARE) + 0.01, 0).too_narrow).toBe(false);

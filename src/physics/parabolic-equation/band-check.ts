@@ -70,13 +70,14 @@ export function bandCheck(logKept: number, receiverUpperShare: number): BandChec
 /**
  * Share of the power of the field's local spectrum in the upper half of the band (|p| above
  * half of pLimit): cells ur/ui[0..n] (Δz apart), a Hann window of 2·RECEIVER_WINDOW_CELLS cells
- * about fractional cell t (moved inside the array near its ends), zero-padded to 256 points.
- * NaN when the array is shorter than the window or holds no field there.
+ * (fewer on an array shorter than that, at least 8) about fractional cell t (moved inside the
+ * array near its ends), zero-padded to four times its length. NaN when the array has fewer than
+ * 8 cells or holds no field there.
  */
 export function receiverUpperBandShare(ur: ArrayLike<number>, ui: ArrayLike<number>, t: number, dz_m: number, pLimit_rad_m: number): number {
   const n = ur.length - 1;
-  const W = RECEIVER_WINDOW_CELLS;
-  if (!(n >= 2 * W) || !Number.isFinite(t)) return NaN;
+  const W = Math.min(RECEIVER_WINDOW_CELLS, 2 ** Math.floor(Math.log2(Math.max(1, n / 2))));
+  if (!(W >= 4) || !Number.isFinite(t)) return NaN;
   const j0 = Math.max(0, Math.min(n - 2 * W, Math.round(t) - W));
   const c = j0 + W;
   const M = 8 * W;
