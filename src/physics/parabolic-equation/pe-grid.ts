@@ -22,7 +22,9 @@ import { propagatorTablesBytes } from "./vertical-propagator.ts";
  * terrain and refraction are followed. Convergence is measured by halving both steps with
  * θmax held (test/reference/parabolic-equation-convergence.test.ts, README validation table):
  * θmax is the model's angle limit, so the solver's angular filter stays at θmax when Δz is
- * overridden finer, and a refined grid samples the same model more finely.
+ * overridden finer, and a refined grid samples the same model more finely. After a solution on
+ * this grid, the band check (band-check.ts) may find that its answer depends on the band's edge;
+ * linkWave then solves the link again with θmax three times this rule's (up to 30°).
  */
 
 /** Largest propagation angle (°) for which the wide-angle (Feit–Fleck) split-step propagator is trusted (common practice for the split-step Fourier method; from memory). */
