@@ -121,3 +121,22 @@ describe("wave solution: a band found too narrow whose wider grid is refused kee
     expect(r.warnings.join(" ")).toMatch(new RegExp(`band of angles \\(θmax ${narrowDeg.toFixed(1)}°.*was not computed: .*MiB`));
   });
 });
+
+describe("wave solution: a clear path whose narrow band lost the beam (test/fixtures/wave-narrow-band, a fuzz case)", () => {
+  it("is widened and answers near free space (every diffraction method 0 dB), not 143 dB below it", async () => {
+    const study = loadStudy("test/fixtures/wave-narrow-band/study.yaml");
+    study.design.wave_solution = false;
+    const terrain = await openStudyTerrain(study);
+    const link = study.links[0];
+    const { result, figure } = analyzeLink(study, link, terrain);
+    expect(Object.values(result.diffraction_db_by_method ?? {}).every((v) => v === 0)).toBe(true);
+    const args = [study, figure.profile, result.ends, result.frequency_ghz, link.polarization, {}] as const;
+    const w = linkWave(...args);
+    expect(w.wave.status).toBe("ok");
+    // measured 2026-12-05: narrow band 14.7°, absorbed share 1 − 8e-10, 142.90 dB; widened 30°, λ/2: 1.33 dB
+    const narrowDeg = w.wave.band_check!.widened_from_deg!;
+    expectClose(narrowDeg, 14.66, { abs: 0.01 });
+    expect(w.wave.band_check!.absorbed_share).toBeGreaterThan(0.999);
+    expectClose(w.wave.excess_loss_db!, 1.33, { abs: 0.05 });
+  });
+});
