@@ -4,11 +4,17 @@
 // seconds (best of 3 after one warm-up run of the JIT on the first link), wall and CPU (user +
 // system of this process: on a loaded machine the wall time includes waiting for a core, the
 // CPU time does not); bench/run.ts prints them. Only this part: `npm run bench -- --part wave`.
+// Then what the links' wave solutions add to a cold build as a user sees it: whole
+// `ridgeline build --no-cache` processes of the demo's links (benchWaveBuild).
+import { cpSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
+import { availableParallelism, loadavg, tmpdir } from "node:os";
+import { join } from "node:path";
 import { analyzeLink } from "../src/analysis/analyze-link.ts";
 import { openStudyTerrain } from "../src/analysis/analyze-study.ts";
 import { linkWave } from "../src/analysis/link-wave.ts";
 import { loadStudy } from "../src/study/load-study.ts";
 import type { Study } from "../src/study/study.ts";
+import { timedBuild } from "./large-study.ts";
 
 /** Wall and CPU seconds of f, the best of n runs each. */
 function best(n: number, f: () => void): { wall: number; cpu: number } {
@@ -65,5 +71,55 @@ export async function benchWave(): Promise<Record<string, number | string>> {
     out[`link_50km_18ghz_${name}_cpu_s`] = secs.cpu;
     out[`link_50km_18ghz_${name}_grid`] = `${(p.result.distance_m / 1000).toFixed(1)} km, ${grid}`;
   }
-  return out;
+  return { ...out, ...benchWaveBuild() };
+}
+
+const median = (xs: number[]): number => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)];
+const r2 = (x: number) => Math.round(x * 100) / 100;
+
+/**
+ * What the demo's links' wave solutions add to a cold build: whole `ridgeline build --no-cache`
+ * processes of the demo study without its coverage maps (they have rows of their own), with
+ * `design.wave_solution: false` ("off"), with it on and `--threads 0` (every wave solution in
+ * the main thread, "one thread") and with it on by default (the wave threads, one per core).
+ * The three run in turn, `rounds` times, the order rotated each round; medians. Added time =
+ * median(on) − median(off), of the whole process (wall), of its CPU (all threads) and of the
+ * build's own compute phase (its summary line, before rendering).
+ */
+export function benchWaveBuild(rounds = 3): Record<string, number | string> {
+  const dir = mkdtempSync(join(tmpdir(), "ridgeline-bench-wave-"));
+  try {
+    const yaml = readFileSync("content/studies/kestrel-vale/study.yaml", "utf8");
+    const links = yaml.slice(0, yaml.search(/^coverage:/m)); // coverage is the last section
+    for (const wave of ["on", "off"]) {
+      cpSync("content/studies/kestrel-vale", join(dir, wave, "kestrel-vale"), { recursive: true });
+      writeFileSync(join(dir, wave, "kestrel-vale", "study.yaml"), wave === "on" ? links : links.replace(/^design:\n/m, "design:\n  wave_solution: false\n"));
+    }
+    const configs = { off: ["off", []], one_thread: ["on", ["--threads", "0"]], threads: ["on", []] } as const;
+    const runs: Record<string, ReturnType<typeof timedBuild>[]> = { off: [], one_thread: [], threads: [] };
+    const names = Object.keys(configs) as (keyof typeof configs)[];
+    const load_before = loadavg().map(r2);
+    for (let r = 0; r < rounds; r++) {
+      for (let k = 0; k < names.length; k++) {
+        const name = names[(k + r) % names.length];
+        const [studies, extra] = configs[name];
+        runs[name].push(timedBuild(["--studies-dir", join(dir, studies), "--out", join(dir, `site-${name}`), "--no-cache", ...extra]));
+      }
+    }
+    const m = (name: string, f: keyof ReturnType<typeof timedBuild>) => median(runs[name].map((x) => x[f]));
+    const out: Record<string, number | string> = { build_rounds: rounds, build_cores: availableParallelism(), build_load_average_before_after: `${load_before.join(" ")} / ${loadavg().map(r2).join(" ")}` };
+    for (const name of names) {
+      out[`build_${name}_wall_s`] = m(name, "wall_s");
+      out[`build_${name}_cpu_s`] = m(name, "cpu_s");
+      out[`build_${name}_compute_s`] = m(name, "compute_s");
+    }
+    for (const name of ["one_thread", "threads"]) {
+      out[`demo_added_to_cold_build_${name}_wall_s`] = r2(m(name, "wall_s") - m("off", "wall_s"));
+      out[`demo_added_to_cold_build_${name}_cpu_s`] = r2(m(name, "cpu_s") - m("off", "cpu_s"));
+      out[`demo_added_to_cold_build_${name}_compute_s`] = r2(m(name, "compute_s") - m("off", "compute_s"));
+    }
+    return out;
+  } finally {
+    rmSync(dir, { recursive: true, force: true });
+  }
 }
