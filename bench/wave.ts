@@ -79,45 +79,47 @@ const r2 = (x: number) => Math.round(x * 100) / 100;
 
 /**
  * What the demo's links' wave solutions add to a cold build: whole `ridgeline build --no-cache`
- * processes of the demo study without its coverage maps (they have rows of their own), with
- * `design.wave_solution: false` ("off"), with it on and `--threads 0` (every wave solution in
- * the main thread, "one thread") and with it on by default (the wave threads, one per core).
- * The three run in turn, `rounds` times, the order rotated each round; medians. Added time =
- * median(on) − median(off), of the whole process (wall), of its CPU (all threads) and of the
- * build's own compute phase (its summary line, before rendering).
+ * processes, with `design.wave_solution: false` ("off") and with it on. Two studies:
+ * - the demo's links alone (its coverage maps left out): off, on with `--threads 0` (every
+ *   wave solution in the main thread: "one_thread") and on by default (the wave threads, one
+ *   per core: "threads");
+ * - the whole demo (with its coverage maps, computed while the threads solve the links' waves):
+ *   off and on, both by default.
+ * Each study's builds run in turn, `rounds` times, the order rotated each round; medians.
+ * Added time = median(on) − median(off): of the whole process (wall), of its CPU (all threads),
+ * and of the build's own compute phase (its summary line; rendering, which draws the wave
+ * figures, comes after it).
  */
 export function benchWaveBuild(rounds = 3): Record<string, number | string> {
   const dir = mkdtempSync(join(tmpdir(), "ridgeline-bench-wave-"));
   try {
     const yaml = readFileSync("content/studies/kestrel-vale/study.yaml", "utf8");
-    const links = yaml.slice(0, yaml.search(/^coverage:/m)); // coverage is the last section
-    for (const wave of ["on", "off"]) {
-      cpSync("content/studies/kestrel-vale", join(dir, wave, "kestrel-vale"), { recursive: true });
-      writeFileSync(join(dir, wave, "kestrel-vale", "study.yaml"), wave === "on" ? links : links.replace(/^design:\n/m, "design:\n  wave_solution: false\n"));
+    const off = (y: string) => y.replace(/^design:\n/m, "design:\n  wave_solution: false\n");
+    const linksOnly = yaml.slice(0, yaml.search(/^coverage:/m)); // coverage is the last section
+    const studies = { links_on: linksOnly, links_off: off(linksOnly), demo_on: yaml, demo_off: off(yaml) };
+    for (const [name, text] of Object.entries(studies)) {
+      cpSync("content/studies/kestrel-vale", join(dir, name, "kestrel-vale"), { recursive: true });
+      writeFileSync(join(dir, name, "kestrel-vale", "study.yaml"), text);
     }
-    const configs = { off: ["off", []], one_thread: ["on", ["--threads", "0"]], threads: ["on", []] } as const;
-    const runs: Record<string, ReturnType<typeof timedBuild>[]> = { off: [], one_thread: [], threads: [] };
-    const names = Object.keys(configs) as (keyof typeof configs)[];
+    const out: Record<string, number | string> = { build_rounds: rounds, build_cores: availableParallelism() };
     const load_before = loadavg().map(r2);
-    for (let r = 0; r < rounds; r++) {
-      for (let k = 0; k < names.length; k++) {
-        const name = names[(k + r) % names.length];
-        const [studies, extra] = configs[name];
-        runs[name].push(timedBuild(["--studies-dir", join(dir, studies), "--out", join(dir, `site-${name}`), "--no-cache", ...extra]));
+    const series = (prefix: string, configs: Record<string, [keyof typeof studies, string[]]>, added: string[]) => {
+      const names = Object.keys(configs);
+      const runs: Record<string, ReturnType<typeof timedBuild>[]> = Object.fromEntries(names.map((n) => [n, []]));
+      for (let r = 0; r < rounds; r++) {
+        for (let k = 0; k < names.length; k++) {
+          const name = names[(k + r) % names.length];
+          const [study, extra] = configs[name];
+          runs[name].push(timedBuild(["--studies-dir", join(dir, study), "--out", join(dir, `site-${prefix}-${name}`), "--no-cache", ...extra]));
+        }
       }
-    }
-    const m = (name: string, f: keyof ReturnType<typeof timedBuild>) => median(runs[name].map((x) => x[f]));
-    const out: Record<string, number | string> = { build_rounds: rounds, build_cores: availableParallelism(), build_load_average_before_after: `${load_before.join(" ")} / ${loadavg().map(r2).join(" ")}` };
-    for (const name of names) {
-      out[`build_${name}_wall_s`] = m(name, "wall_s");
-      out[`build_${name}_cpu_s`] = m(name, "cpu_s");
-      out[`build_${name}_compute_s`] = m(name, "compute_s");
-    }
-    for (const name of ["one_thread", "threads"]) {
-      out[`demo_added_to_cold_build_${name}_wall_s`] = r2(m(name, "wall_s") - m("off", "wall_s"));
-      out[`demo_added_to_cold_build_${name}_cpu_s`] = r2(m(name, "cpu_s") - m("off", "cpu_s"));
-      out[`demo_added_to_cold_build_${name}_compute_s`] = r2(m(name, "compute_s") - m("off", "compute_s"));
-    }
+      const m = (name: string, f: keyof ReturnType<typeof timedBuild>) => median(runs[name].map((x) => x[f]));
+      for (const name of names) out[`${prefix}_build_${name}_wall_cpu_compute_s`] = `${m(name, "wall_s")} / ${m(name, "cpu_s")} / ${m(name, "compute_s")}`;
+      for (const name of added) out[`${prefix}_wave_added_${name}_wall_cpu_compute_s`] = `${r2(m(name, "wall_s") - m("off", "wall_s"))} / ${r2(m(name, "cpu_s") - m("off", "cpu_s"))} / ${r2(m(name, "compute_s") - m("off", "compute_s"))}`;
+    };
+    series("links_only", { off: ["links_off", []], one_thread: ["links_on", ["--threads", "0"]], threads: ["links_on", []] }, ["one_thread", "threads"]);
+    series("demo", { off: ["demo_off", []], on: ["demo_on", []] }, ["on"]);
+    out.build_load_average_before_after = `${load_before.join(" ")} / ${loadavg().map(r2).join(" ")}`;
     return out;
   } finally {
     rmSync(dir, { recursive: true, force: true });

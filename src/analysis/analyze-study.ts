@@ -324,45 +324,69 @@ export async function analyzeStudy(study: Study, options: AnalyzeOptions = {}): 
         await new Promise((r) => setImmediate(r)); // the threads' messages are handled: each takes its next job
       }
     }
-    for (const [slot, i] of waiting) await take(slot, i);
-  } finally {
+  } catch (e) {
     await pool?.close();
+    throw e;
   }
-  // Rewrite the packs (≈ 3.5 kB and 23 kB a link) when more than one link in 20 was not in
-  // them; until then those few are read on their own. So a one-link change does not rewrite
-  // the whole study's packs, and they are rewritten once for every few changed links, as they
-  // accumulate. The figure pack is written first, from the figure data this build computed
-  // and the old pack's (read whole now, and kept for the figures drawn later).
-  const unpacked = packed.filter(([k, b]) => pack.get(k) !== b).length;
-  if (cache && !problems.length && unpacked * 20 > packed.length) {
-    const figurePacked = packed.map(([k]) => [k, computedFigures.get(k) ?? storedFigure(k)] as const);
-    if (figurePacked.every(([, b]) => b !== undefined)) {
-      cache.writePack(figuresPack, figurePacked as [string, Buffer][]);
-      cache.writePack(resultsPack, packed);
+  // The links left waiting for their wave solutions are taken in order as the threads solve
+  // them. When every link's own analysis succeeded, that goes on while the coverage maps are
+  // computed: the threads use the cores the coverage leaves idle. A link's failure is still
+  // reported first, as in a build without threads.
+  const linksTaken = (async () => {
+    try {
+      for (const [slot, i] of waiting) await take(slot, i);
+    } finally {
+      await pool?.close();
     }
-  }
-  if (problems.length) throw new InputError(problems);
+    // Rewrite the packs (≈ 3.5 kB and 23 kB a link) when more than one link in 20 was not in
+    // them; until then those few are read on their own. So a one-link change does not rewrite
+    // the whole study's packs, and they are rewritten once for every few changed links, as they
+    // accumulate. The figure pack is written first, from the figure data this build computed
+    // and the old pack's (read whole now, and kept for the figures drawn later).
+    const unpacked = packed.filter(([k, b]) => pack.get(k) !== b).length;
+    if (cache && !problems.length && unpacked * 20 > packed.length) {
+      const figurePacked = packed.map(([k]) => [k, computedFigures.get(k) ?? storedFigure(k)] as const);
+      if (figurePacked.every(([, b]) => b !== undefined)) {
+        cache.writePack(figuresPack, figurePacked as [string, Buffer][]);
+        cache.writePack(resultsPack, packed);
+      }
+    }
+    if (problems.length) throw new InputError(problems);
+  })();
+  if (problems.length || waiting.some(([slot]) => "error" in slot)) await linksTaken;
 
   // --- Coverage maps: from the cache or computed (coverage-cache.ts; the terrain is opened only
   // for a map that must be computed), into a temporary folder that the site build copies next
   // to the study page ---
-  let coverage: StudyCoverage | null = null;
-  const warnings: string[] = [];
-  let coverageResults: StudyResult["coverage"] = [];
-  let coverageCache = { hits: 0, misses: 0 };
-  if (study.coverage?.length) {
+  const covering = (async () => {
+    if (!study.coverage?.length) return null;
     // removed when the process ends at the latest (temp-dirs.ts); at once when the maps fail
     const dir = makeTempDir(`ridgeline-coverage-${study.id}-`);
-    // loaded only for a study with coverage: it brings the raster encoders (sharp), which the
-    // link analysis, `ridgeline path` and `check` of a links-only study do not need
-    const { cachedStudyCoverage } = await import("../coverage/coverage-cache.ts");
-    let cov: Awaited<ReturnType<typeof cachedStudyCoverage>>;
     try {
-      cov = await cachedStudyCoverage(study, { outDir: dir, outputs: await options.coverageOutputs?.(), cache, terrainKey, openTerrain: open, workers: options.coverageWorkers });
+      // loaded only for a study with coverage: it brings the raster encoders (sharp), which the
+      // link analysis, `ridgeline path` and `check` of a links-only study do not need
+      const { cachedStudyCoverage } = await import("../coverage/coverage-cache.ts");
+      return { dir, cov: await cachedStudyCoverage(study, { outDir: dir, outputs: await options.coverageOutputs?.(), cache, terrainKey, openTerrain: open, workers: options.coverageWorkers }) };
     } catch (e) {
       removeTempDir(dir);
       throw e;
     }
+  })();
+  covering.catch(() => {}); // awaited below, after the links
+  try {
+    await linksTaken;
+  } catch (e) {
+    const done = await covering.catch(() => null);
+    if (done) removeTempDir(done.dir);
+    throw e;
+  }
+  let coverage: StudyCoverage | null = null;
+  const warnings: string[] = [];
+  let coverageResults: StudyResult["coverage"] = [];
+  let coverageCache = { hits: 0, misses: 0 };
+  const done = await covering;
+  if (done) {
+    const { dir, cov } = done;
     coverageResults = cov.results; // without compute time: no clock in results
     coverageCache = cov.cache;
     warnings.push(...cov.warnings);
