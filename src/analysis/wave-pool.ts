@@ -6,10 +6,11 @@ import { solveLinkWave, type LinkWaveJob, type LinkWaveOutcome } from "./link-wa
 import type { FromWaveWorker, PostedStudy, ToWaveWorker } from "./wave-worker.ts";
 
 /**
- * Fewest wave solutions a build must compute before it starts threads for them. A thread
- * costs about 0.05 s of start-up (its bundled code loaded, then compiled afresh) against about
- * 0.16 s for the demo's average link: with one or two links to solve the threads would not
- * pay for themselves, and a rebuild after a small edit solves one or two.
+ * Fewest wave solutions a build must compute before it starts threads for them. Two threads
+ * are ready 0.03-0.07 s after they are started (their bundled code loaded), and each compiles
+ * the solver afresh: its first solutions run slower, 0.1-0.2 s of CPU in all on the demo's
+ * links, against about 0.15 s for the demo's average link. With one or two links to solve the
+ * threads would not pay for themselves, and a rebuild after a small edit solves one or two.
  */
 export const WAVE_THREADS_MIN_LINKS = 3;
 
