@@ -107,6 +107,22 @@ describe("wave solutions on threads", () => {
     }
   }, 60_000);
 
+  it("solves in this thread the jobs of a thread that dies (here: stopped while solving)", async () => {
+    const study = hillStudy();
+    const terrain = await openStudyTerrain(study);
+    const jobs = study.links.slice(0, 3).map((l) => analyzeLink(study, l, terrain, { deferWave: true }).wave!);
+    const pool = WavePool.start(study, 1);
+    try {
+      const solving = jobs.map((j) => pool.solve(j));
+      void pool["threads"][0].worker.terminate(); // as if it had run out of memory
+      const outcomes = await Promise.all(solving);
+      expect(pool.size).toBe(0);
+      expect(outcomes.map((o) => JSON.stringify(o))).toEqual(jobs.map((j) => JSON.stringify(solveLinkWave(study, j))));
+    } finally {
+      await pool.close();
+    }
+  }, 60_000);
+
   it("starts threads only for enough wave solutions, one a core at most one a job, or as many as asked", () => {
     expect(waveThreads(WAVE_THREADS_MIN_LINKS - 1)).toBe(0);
     expect(waveThreads(0, 2)).toBe(0);
