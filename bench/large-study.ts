@@ -28,7 +28,7 @@ const BIN = join(ROOT, "bin", "ridgeline.js");
 const r3 = (x: number) => Math.round(x * 1000) / 1000;
 
 /** `ridgeline build` as a whole process under /usr/bin/time -v: its summary's compute and render times, wall time, peak RSS. */
-function timedBuild(args: string[]) {
+export function timedBuild(args: string[]) {
   const t0 = performance.now();
   const r = spawnSync("/usr/bin/time", ["-v", process.execPath, BIN, "build", ...args], { encoding: "utf8", cwd: ROOT, maxBuffer: 1 << 26 });
   const wall_s = (performance.now() - t0) / 1000;

@@ -25,7 +25,8 @@ export const COARSE_TERRAIN_FRACTION = 10;
 import type { ClearanceRow, LinkEndResult, LinkResult } from "./results.ts";
 import { linkLosses } from "./link-losses.ts";
 import type { HeightGainCurve } from "./link-reflection.ts";
-import { linkWave, type WaveFigureData } from "./link-wave.ts";
+import type { WaveFigureData } from "./link-wave.ts";
+import { applyLinkWave, solveLinkWave, type LinkWaveJob } from "./link-wave-job.ts";
 
 type LinkInput = Study["links"][number];
 
@@ -50,8 +51,10 @@ export function siteGroundM(site: Study["sites"][number], terrain: Terrain): num
  * losses, budget and availability. Pure computation on already validated inputs.
  * @param options.pathOf samples the geodesic (default geodesicPath; a build with a cache
  *   passes one that remembers paths, memo-geodesic.ts)
+ * @param options.deferWave leave the wave solution out and return what it is computed from
+ *   (`wave`), for the caller to solve elsewhere (wave-pool.ts) and put in with applyLinkWave
  */
-export function analyzeLink(study: Study, link: LinkInput, terrain: Terrain, options: { pathOf?: typeof geodesicPath } = {}): { result: LinkResult; figure: LinkFigureData } {
+export function analyzeLink(study: Study, link: LinkInput, terrain: Terrain, options: { pathOf?: typeof geodesicPath; deferWave?: boolean } = {}): { result: LinkResult; figure: LinkFigureData; wave?: LinkWaveJob } {
   const pathOf = options.pathOf ?? geodesicPath;
   const warnings: string[] = [];
   let clearance_reliable = true;
@@ -233,10 +236,9 @@ export function analyzeLink(study: Study, link: LinkInput, terrain: Terrain, opt
   const { result, height_gain } = linkLosses(study, link, radio, base, profile);
   const figure: LinkFigureData = { profile, lambda_m, ks, height_gain };
   if (study.design.wave_solution !== false && result.diffraction_db_by_method) {
-    const w = linkWave(study, profile, base.ends, radio.frequency_ghz, link.polarization, result.diffraction_db_by_method);
-    result.wave = w.wave;
-    result.warnings.push(...w.warnings);
-    if (w.figure) figure.wave = w.figure;
+    const wave: LinkWaveJob = { profile, ends: base.ends, frequency_ghz: radio.frequency_ghz, polarization: link.polarization, byMethod: result.diffraction_db_by_method };
+    if (options.deferWave) return { result, figure, wave };
+    applyLinkWave(result, figure, solveLinkWave(study, wave));
   }
   return { result, figure };
 }

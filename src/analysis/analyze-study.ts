@@ -18,13 +18,15 @@ import { openTerrain, type TerrainSpec } from "../terrain/open-terrain.ts";
 import type { Terrain } from "../terrain/terrain.ts";
 import { TerrainError } from "../terrain/terrain-error.ts";
 import { ProfileCsvError } from "../terrain/profile-csv-error.ts";
-import { analyzeLink, GROUND_MAX_M, GROUND_MIN_M, siteGroundM } from "./analyze-link.ts";
+import { analyzeLink, GROUND_MAX_M, GROUND_MIN_M, siteGroundM, type LinkFigureData } from "./analyze-link.ts";
 import { shownPath } from "../study/input-file.ts";
 import { chainResults } from "./chains.ts";
 import { LinkFigureMap } from "./link-figure-map.ts";
 import { gitStateAsync, TOOL_VERSION } from "./provenance.ts";
 import type { LinkResult, StudyResult } from "./results.ts";
 import { sanitizeNumbers } from "./sanitize.ts";
+import { applyLinkWave, type LinkWaveOutcome } from "./link-wave-job.ts";
+import { WavePool, waveThreads } from "./wave-pool.ts";
 import { makeTempDir, removeTempDir } from "../temp-dirs.ts";
 
 export interface AnalyzedStudy {
@@ -80,6 +82,11 @@ export interface AnalyzeOptions {
   terrainKey?: string;
   /** Threads for coverage tiles that must be computed (default: available parallelism; 0: this thread). */
   coverageWorkers?: number;
+  /**
+   * Threads for the links' wave solutions (wave-pool.ts): default one per core when at least
+   * WAVE_THREADS_MIN_LINKS links must be solved (waveThreads); 0: this thread solves them.
+   */
+  waveWorkers?: number;
 }
 
 /** Coverage maps of a study: the folder their files were written to, and each map's SVG. */
@@ -125,6 +132,11 @@ export async function openStudyTerrain(study: Study): Promise<Terrain> {
     }
     throw e;
   }
+}
+
+/** Whether a link's failure is reported as a problem of the input (the build goes on to the other links). */
+function isInputProblem(e: unknown): boolean {
+  return e instanceof TerrainError || e instanceof ProfileCsvError || e instanceof InputError;
 }
 
 /** A terrain failure as "expected …" text: its message, and its hint unless the message already says it. */
@@ -196,16 +208,16 @@ export async function analyzeStudy(study: Study, options: AnalyzeOptions = {}): 
   const keyOf = cache ? linkKeyer(study, terrainKey) : null;
   const identity = facts;
   const pathOf = cache ? memoGeodesicPath(cache) : undefined;
-  const computeLink = async (link: Study["links"][number]) => {
-    if (!cache) return analyzeLink(study, link, await open());
+  const computeLink = async (link: Study["links"][number], deferWave: boolean) => {
+    if (!cache) return analyzeLink(study, link, await open(), { deferWave });
     if (!terrain) {
       try {
-        return analyzeLink(study, link, new MemoTerrain(cache, terrainKey, identity, null), { pathOf });
+        return analyzeLink(study, link, new MemoTerrain(cache, terrainKey, identity, null), { pathOf, deferWave });
       } catch (e) {
         if (!(e instanceof TerrainQueryMiss)) throw e;
       }
     }
-    return analyzeLink(study, link, new MemoTerrain(cache, terrainKey, identity, await open()), { pathOf });
+    return analyzeLink(study, link, new MemoTerrain(cache, terrainKey, identity, await open()), { pathOf, deferWave });
   };
   const links: LinkResult[] = [];
   const problems: InputProblem[] = [];
@@ -233,19 +245,25 @@ export async function analyzeStudy(study: Study, options: AnalyzeOptions = {}): 
   const lookups = keys.map((key) => (!key ? undefined : (pack.get(key) ?? (outside <= 8 ? cache!.getBytes("link", key) : cache!.getBytesAsync("link", key)))));
   const packed: [string, Buffer][] = []; // this build's result entries, in study order, for the next build's pack
   const computedFigures = new Map<string, Buffer>(); // figure entries stored by this build, by key
-  for (const [i, link] of (options.skipLinks ? [] : study.links).entries()) {
-    const key = keys[i];
-    const lookup = lookups[i];
-    const bytes = lookup instanceof Promise ? await lookup : lookup; // a pack hit is at hand: no turn of the event loop
-    const hit = bytes ? (decodeEntry(bytes) as CachedLink | null) : null;
-    if (hit && hit.result?.id === link.id && (figureKeys.has(key!) || cache!.has("link-figure", key!))) {
-      links.push(hit.result);
+  // Each link as it was read or computed; taken into the results in study order (`take`). With
+  // wave threads (wave-pool.ts) a computed link's wave solution is still being solved on a
+  // thread while this thread goes on with the next links, and those links wait in `waiting`.
+  type Slot =
+    | { link: Study["links"][number]; key: string | null; hit: CachedLink; bytes: Buffer }
+    | { link: Study["links"][number]; key: string | null; computed: { result: LinkResult; figure: LinkFigureData }; wave: Promise<LinkWaveOutcome> | null }
+    | { link: Study["links"][number]; key: string | null; error: unknown };
+  const take = async (slot: Slot, i: number): Promise<void> => {
+    const { link, key } = slot;
+    if ("hit" in slot) {
+      links.push(slot.hit.result);
       figures.setStored(link.id, key!);
-      packed.push([key!, bytes!]);
+      packed.push([key!, slot.bytes]);
       hits++;
     } else {
       try {
-        const { result, figure } = await computeLink(link);
+        if ("error" in slot) throw slot.error;
+        const { result, figure } = slot.computed;
+        if (slot.wave) applyLinkWave(result, figure, await slot.wave);
         const warnings = [...result.warnings];
         const clean = { ...sanitizeNumbers(result, warnings, `link ${link.id}`), warnings };
         links.push(clean);
@@ -268,42 +286,107 @@ export async function analyzeStudy(study: Study, options: AnalyzeOptions = {}): 
       }
     }
     options.onProgress?.(i + 1, study.links.length);
-  }
-  // Rewrite the packs (≈ 3.5 kB and 23 kB a link) when more than one link in 20 was not in
-  // them; until then those few are read on their own. So a one-link change does not rewrite
-  // the whole study's packs, and they are rewritten once for every few changed links, as they
-  // accumulate. The figure pack is written first, from the figure data this build computed
-  // and the old pack's (read whole now, and kept for the figures drawn later).
-  const unpacked = packed.filter(([k, b]) => pack.get(k) !== b).length;
-  if (cache && !problems.length && unpacked * 20 > packed.length) {
-    const figurePacked = packed.map(([k]) => [k, computedFigures.get(k) ?? storedFigure(k)] as const);
-    if (figurePacked.every(([, b]) => b !== undefined)) {
-      cache.writePack(figuresPack, figurePacked as [string, Buffer][]);
-      cache.writePack(resultsPack, packed);
+  };
+  const waiting: [Slot, number][] = [];
+  let pool: WavePool | null = null;
+  let threadsDecided = false;
+  try {
+    for (const [i, link] of (options.skipLinks ? [] : study.links).entries()) {
+      const key = keys[i];
+      const lookup = lookups[i];
+      const bytes = lookup instanceof Promise ? await lookup : lookup; // a pack hit is at hand: no turn of the event loop
+      const hit = bytes ? (decodeEntry(bytes) as CachedLink | null) : null;
+      let slot: Slot;
+      if (hit && hit.result?.id === link.id && (figureKeys.has(key!) || cache!.has("link-figure", key!))) {
+        slot = { link, key, hit, bytes: bytes! };
+      } else {
+        if (!threadsDecided) {
+          // at the first link to compute: threads when enough wave solutions lie ahead (this
+          // link and each later one whose result is not at hand in the pack)
+          threadsDecided = true;
+          const jobs = study.design.wave_solution === false ? 0 : lookups.slice(i).filter((l) => !Buffer.isBuffer(l)).length;
+          const threads = waveThreads(jobs, options.waveWorkers);
+          if (threads > 0) pool = WavePool.start(study, threads);
+        }
+        try {
+          const { result, figure, wave } = await computeLink(link, pool !== null);
+          const solving = wave ? pool!.solve(wave) : null;
+          solving?.catch(() => {}); // its failure is reported when the link is taken, in order
+          slot = { link, key, computed: { result, figure }, wave: solving };
+        } catch (e) {
+          slot = { link, key, error: e };
+        }
+      }
+      if (!pool && !waiting.length) await take(slot, i);
+      else {
+        waiting.push([slot, i]);
+        if ("error" in slot && !isInputProblem(slot.error)) break; // the build stops at this link
+        await new Promise((r) => setImmediate(r)); // the threads' messages are handled: each takes its next job
+      }
     }
+  } catch (e) {
+    await pool?.close();
+    throw e;
   }
-  if (problems.length) throw new InputError(problems);
+  // The links left waiting for their wave solutions are taken in order as the threads solve
+  // them. When every link's own analysis succeeded, that goes on while the coverage maps are
+  // computed: the threads use the cores the coverage leaves idle. A link's failure is still
+  // reported first, as in a build without threads.
+  const linksTaken = (async () => {
+    try {
+      for (const [slot, i] of waiting) await take(slot, i);
+    } finally {
+      await pool?.close();
+    }
+    // Rewrite the packs (≈ 3.5 kB and 23 kB a link) when more than one link in 20 was not in
+    // them; until then those few are read on their own. So a one-link change does not rewrite
+    // the whole study's packs, and they are rewritten once for every few changed links, as they
+    // accumulate. The figure pack is written first, from the figure data this build computed
+    // and the old pack's (read whole now, and kept for the figures drawn later).
+    const unpacked = packed.filter(([k, b]) => pack.get(k) !== b).length;
+    if (cache && !problems.length && unpacked * 20 > packed.length) {
+      const figurePacked = packed.map(([k]) => [k, computedFigures.get(k) ?? storedFigure(k)] as const);
+      if (figurePacked.every(([, b]) => b !== undefined)) {
+        cache.writePack(figuresPack, figurePacked as [string, Buffer][]);
+        cache.writePack(resultsPack, packed);
+      }
+    }
+    if (problems.length) throw new InputError(problems);
+  })();
+  if (problems.length || waiting.some(([slot]) => "error" in slot)) await linksTaken;
 
   // --- Coverage maps: from the cache or computed (coverage-cache.ts; the terrain is opened only
   // for a map that must be computed), into a temporary folder that the site build copies next
   // to the study page ---
-  let coverage: StudyCoverage | null = null;
-  const warnings: string[] = [];
-  let coverageResults: StudyResult["coverage"] = [];
-  let coverageCache = { hits: 0, misses: 0 };
-  if (study.coverage?.length) {
+  const covering = (async () => {
+    if (!study.coverage?.length) return null;
     // removed when the process ends at the latest (temp-dirs.ts); at once when the maps fail
     const dir = makeTempDir(`ridgeline-coverage-${study.id}-`);
-    // loaded only for a study with coverage: it brings the raster encoders (sharp), which the
-    // link analysis, `ridgeline path` and `check` of a links-only study do not need
-    const { cachedStudyCoverage } = await import("../coverage/coverage-cache.ts");
-    let cov: Awaited<ReturnType<typeof cachedStudyCoverage>>;
     try {
-      cov = await cachedStudyCoverage(study, { outDir: dir, outputs: await options.coverageOutputs?.(), cache, terrainKey, openTerrain: open, workers: options.coverageWorkers });
+      // loaded only for a study with coverage: it brings the raster encoders (sharp), which the
+      // link analysis, `ridgeline path` and `check` of a links-only study do not need
+      const { cachedStudyCoverage } = await import("../coverage/coverage-cache.ts");
+      return { dir, cov: await cachedStudyCoverage(study, { outDir: dir, outputs: await options.coverageOutputs?.(), cache, terrainKey, openTerrain: open, workers: options.coverageWorkers }) };
     } catch (e) {
       removeTempDir(dir);
       throw e;
     }
+  })();
+  covering.catch(() => {}); // awaited below, after the links
+  try {
+    await linksTaken;
+  } catch (e) {
+    const done = await covering.catch(() => null);
+    if (done) removeTempDir(done.dir);
+    throw e;
+  }
+  let coverage: StudyCoverage | null = null;
+  const warnings: string[] = [];
+  let coverageResults: StudyResult["coverage"] = [];
+  let coverageCache = { hits: 0, misses: 0 };
+  const done = await covering;
+  if (done) {
+    const { dir, cov } = done;
     coverageResults = cov.results; // without compute time: no clock in results
     coverageCache = cov.cache;
     warnings.push(...cov.warnings);
@@ -393,7 +476,7 @@ export async function analyzeStudies(
   const problems: InputProblem[] = [];
   for (const s of studies) {
     try {
-      out.push(await analyzeStudy(s, { cache: options.cache, coverageOutputs: options.coverageOutputs, onProgress: (d, t) => options.onProgress?.(s.id, d, t) }));
+      out.push(await analyzeStudy(s, { cache: options.cache, coverageOutputs: options.coverageOutputs, coverageWorkers: options.coverageWorkers, waveWorkers: options.waveWorkers, onProgress: (d, t) => options.onProgress?.(s.id, d, t) }));
     } catch (e) {
       if (e instanceof InputError) problems.push(...e.problems);
       else if (e instanceof RidgelineError || e instanceof InternalError) throw e;

@@ -15,11 +15,20 @@ import { fileURLToPath, pathToFileURL } from "node:url";
  * Fallback (esbuild missing or failing): each thread registers tsx and imports the entry.
  */
 export function coverageWorkerCode(): string {
-  const entry = fileURLToPath(new URL("./coverage-worker.ts", import.meta.url));
+  return workerThreadCode(new URL("./coverage-worker.ts", import.meta.url), "coverage-worker");
+}
+
+/**
+ * The code of a worker thread whose entry is the TypeScript module `entry`, made as above (a
+ * bundle cached as `<name>.cjs` beside `<name>.json`, or tsx as the fallback). Every worker
+ * thread of the project loads its code through this (the coverage pool, the wave pool).
+ */
+export function workerThreadCode(entry: URL, name: string): string {
+  const file = fileURLToPath(entry);
   try {
-    return bundled(entry);
+    return bundled(file, name);
   } catch {
-    return viaTsx(entry);
+    return viaTsx(file);
   }
 }
 
@@ -27,12 +36,12 @@ interface Manifest {
   inputs: Record<string, string>;
 }
 
-function bundled(entry: string): string {
+function bundled(entry: string, name: string): string {
   const req = createRequire(import.meta.url);
-  const root = resolve(dirname(entry), "../..");
+  const root = resolve(dirname(entry), "../.."); // entries live in src/<folder>/
   const cacheDir = join(root, "node_modules", ".cache", "ridgeline");
-  const codePath = join(cacheDir, "coverage-worker.cjs");
-  const manifestPath = join(cacheDir, "coverage-worker.json");
+  const codePath = join(cacheDir, `${name}.cjs`);
+  const manifestPath = join(cacheDir, `${name}.json`);
   const stamp = (p: string) => {
     const s = statSync(p);
     return `${s.size}:${s.mtimeMs}`;

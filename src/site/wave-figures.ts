@@ -1,5 +1,5 @@
 import type { AnalyzedStudy } from "../analysis/analyze-study.ts";
-import { rgbaPngDataUri } from "../render/raster/rgba-png.ts";
+import { rgbaPngDataUri, WAVE_FIELD_PNG } from "../render/raster/rgba-png.ts";
 import { waveFieldRgba } from "../render/raster/wave-field-raster.ts";
 import { waveFieldLayout, waveFieldSvg } from "../render/svg/wave-field-figure.ts";
 import { waveHeightGainSvg } from "../render/svg/height-gain-chart.ts";
@@ -30,7 +30,7 @@ export async function linkWaveFieldSvg(s: AnalyzedStudy, linkId: string): Promis
     methods: link.diffraction_db_by_method ?? {},
   };
   const layout = waveFieldLayout(input);
-  const href = await rgbaPngDataUri(waveFieldRgba(w.field, layout.raster), layout.raster.width, layout.raster.height);
+  const href = await rgbaPngDataUri(waveFieldRgba(w.field, layout.raster), layout.raster.width, layout.raster.height, WAVE_FIELD_PNG);
   return waveFieldSvg(input, layout, href);
 }
 

@@ -1,6 +1,6 @@
 import { analyzeStudies, type AnalyzedStudy } from "../../analysis/analyze-study.ts";
 import { DEFAULT_CACHE_DIR, ResultCache } from "../../cache/result-cache.ts";
-import { parseArgs } from "../args.ts";
+import { numberArg, parseArgs } from "../args.ts";
 import { buildSite } from "../build-site.ts";
 import { findStudies, loadStudies } from "../../analysis/load-all.ts";
 import { progressReporter } from "../progress.ts";
@@ -19,6 +19,11 @@ export interface BuildOptions {
   queue?: string;
   /** Where queue progress lines go (default: nowhere). */
   log?: (line: string, final: boolean) => void;
+  /**
+   * Worker threads for the links' wave solutions and the coverage maps (default: one per core
+   * when the work justifies it, wave-pool.ts and coverage-cache.ts; 0: all in the main thread).
+   */
+  threads?: number;
 }
 
 /** What a build did, for the summary line and for `serve`. */
@@ -54,7 +59,7 @@ export async function runBuild(options: BuildOptions = {}): Promise<BuildReport>
       const { distributeStudies } = await import("../../queue/coordinator.ts");
       queue = await distributeStudies(loaded, cache!, target, { log: options.log });
     }
-    studies = await analyzeStudies(loaded, { cache, coverageOutputs: loadCoverageOutputStage, onProgress: (_s, d, t) => progress.update(d, t) });
+    studies = await analyzeStudies(loaded, { cache, coverageOutputs: loadCoverageOutputStage, waveWorkers: options.threads, coverageWorkers: options.threads, onProgress: (_s, d, t) => progress.update(d, t) });
   } catch (e) {
     if (scratch) removeTempDir(scratch);
     throw e;
@@ -96,9 +101,10 @@ export function buildSummary(r: BuildReport): string {
   return `Built ${n} stud${n === 1 ? "y" : "ies"}, ${r.links} links into ${r.outDir} (${cache}; compute ${r.compute_s.toFixed(2)} s${queued}, render ${r.render_s.toFixed(2)} s).`;
 }
 
-/** `ridgeline build [study-id…] [--out DIR] [--path-prefix /sub/] [--studies-dir DIR] [--cache-dir DIR] [--no-cache] [--queue URL]` */
+/** `ridgeline build [study-id…] [--out DIR] [--path-prefix /sub/] [--studies-dir DIR] [--cache-dir DIR] [--no-cache] [--queue URL] [--threads N]` */
 export async function buildCommand(argv: string[]): Promise<number> {
-  const args = parseArgs(argv, { values: ["out", "path-prefix", "studies-dir", "cache-dir", "queue"], flags: ["no-cache"] });
+  const args = parseArgs(argv, { values: ["out", "path-prefix", "studies-dir", "cache-dir", "queue", "threads"], flags: ["no-cache"] });
+  const threads = args.values.get("threads")?.[0];
   const report = await runBuild({
     ids: args.positional,
     studiesDir: args.values.get("studies-dir")?.[0],
@@ -107,6 +113,7 @@ export async function buildCommand(argv: string[]): Promise<number> {
     cacheDir: args.flags.has("no-cache") ? null : args.values.get("cache-dir")?.[0],
     queue: args.values.get("queue")?.[0],
     log: queueLog(),
+    threads: threads === undefined ? undefined : numberArg("threads", threads, (x) => Number.isInteger(x) && x >= 0 && x <= 256, "a whole number of threads from 0 to 256"),
   });
   process.stderr.write(`${buildSummary(report)}\n`);
   return 0;

@@ -5,7 +5,7 @@ import type { LinkResult } from "../../analysis/results.ts";
 import { linkWave } from "../../analysis/link-wave.ts";
 import { obstructedHeights } from "../../analysis/link-losses.ts";
 import { PE_DEFAULT_MEMORY_LIMIT_BYTES } from "../../physics/parabolic-equation/pe-grid.ts";
-import { rgbaPngDataUri } from "../../render/raster/rgba-png.ts";
+import { rgbaPngDataUri, WAVE_FIELD_PNG } from "../../render/raster/rgba-png.ts";
 import { waveFieldRgba } from "../../render/raster/wave-field-raster.ts";
 import { waveFieldLayout, waveFieldSvg, WAVE_FIGURE_STANDALONE_STYLE } from "../../render/svg/wave-field-figure.ts";
 import type { Study } from "../../study/study.ts";
@@ -52,7 +52,7 @@ export async function pathWave(study: Study, result: LinkResult, figure: LinkFig
       methods: result.diffraction_db_by_method ?? {},
     };
     const layout = waveFieldLayout(input);
-    const href = await rgbaPngDataUri(waveFieldRgba(w.figure.field, layout.raster), layout.raster.width, layout.raster.height);
+    const href = await rgbaPngDataUri(waveFieldRgba(w.figure.field, layout.raster), layout.raster.width, layout.raster.height, WAVE_FIELD_PNG);
     const svg = waveFieldSvg(input, layout, href, { style: WAVE_FIGURE_STANDALONE_STYLE });
     const png = await sharp(Buffer.from(svg), { density: 72 * layout.scale }).flatten({ background: "#ffffff" }).png().toBuffer();
     try {
