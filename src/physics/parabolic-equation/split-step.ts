@@ -437,7 +437,7 @@ export function parabolicEquationField(input: ParabolicEquationInput): Parabolic
   const excess_loss_db = -relDbExact(zR - b, D);
   // the band check (band-check.ts): what the angular filter absorbed over the march, and the
   // receiver's local spectrum in the upper half of the band
-  const band_check = bandCheck(step.absorbed.log_kept, receiverUpperBandShare(ur, ui, (zR - b) / dz - q, dz, Math.min(k * Math.sin(thetaMax), Math.PI / dz)));
+  const band_check = bandCheck(step.absorbed.log_kept, receiverUpperBandShare(ur, ui, (zR - b) / dz - q, dz, step.p_limit_rad_m));
   if (!trapping && -excess_loss_db > excessLimit) return unstable(-excess_loss_db, D, input.rx_antenna_m);
   let height_gain: ParabolicEquationResult["height_gain"] = null;
   if (input.height_gain && input.height_gain.step_m > 0) {

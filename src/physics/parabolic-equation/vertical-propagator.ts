@@ -67,11 +67,17 @@ export interface VerticalPropagatorOptions {
  * derivative in the frame's vertical coordinate).
  * @returns step(ur, ui, s?, α?), which overwrites its arguments (s: the frame's slope over this
  *   step, default 0; α: a mixed boundary's coefficient on the ground's normal for this step,
- *   default the one given here), with `absorbed`, what its angular filter took (VerticalPropagator)
+ *   default the one given here), with `absorbed`, what its angular filter took, and
+ *   `p_limit_rad_m`, the vertical wavenumber where that filter reaches 0 (VerticalPropagator)
  */
 export function makeVerticalPropagator(o: VerticalPropagatorOptions): VerticalPropagator {
   const { step, absorbed } = verticalPropagator(o);
-  return Object.assign(step, { absorbed });
+  return Object.assign(step, { absorbed, p_limit_rad_m: filterLimit(o) });
+}
+
+/** The angular filter's limit (rad/m): the one asked for, at most the grid's band π/Δz. */
+function filterLimit(o: VerticalPropagatorOptions): number {
+  return Math.min(o.p_limit_rad_m ?? Infinity, Math.PI / o.dz_m);
 }
 
 /**
@@ -80,7 +86,7 @@ export function makeVerticalPropagator(o: VerticalPropagatorOptions): VerticalPr
  * kept (X the spectrum the propagator multiplies: the field's for a perfectly conducting ground,
  * the mixed transform's w = ∂u/∂z + αu for an impedance ground).
  */
-export type VerticalPropagator = ((ur: Float64Array, ui: Float64Array, slope?: number, alpha?: Complex) => void) & { absorbed: { log_kept: number } };
+export type VerticalPropagator = ((ur: Float64Array, ui: Float64Array, slope?: number, alpha?: Complex) => void) & { absorbed: { log_kept: number }; p_limit_rad_m: number };
 
 function verticalPropagator(o: VerticalPropagatorOptions): { step: (ur: Float64Array, ui: Float64Array, slope?: number, alpha?: Complex) => void; absorbed: { log_kept: number } } {
   const { n, dz_m: dz, dx_m: dx, k_rad_m: k } = o;
@@ -89,7 +95,7 @@ function verticalPropagator(o: VerticalPropagatorOptions): { step: (ur: Float64A
   const fft = cosine ? (o.fft ?? new FFT(m2)) : null;
   const data = new Float64Array(cosine ? 2 * m2 : 0);
   const out = new Float64Array(cosine ? 2 * m2 : 0);
-  const pLimit = Math.min(o.p_limit_rad_m ?? Infinity, Math.PI / dz);
+  const pLimit = filterLimit(o);
   /** the angular filter's factor for vertical wavenumber p (rad/m) */
   const filterAt = (p: number): number => {
     const t = Math.abs(p) / pLimit; // |p| / p_max
