@@ -20,7 +20,11 @@ export interface CoverageJob extends SweepGeometry {
   cell_area_m2: Float64Array;
   /** add to a grid azimuth to get the true azimuth (deg) */
   azimuth_offset_deg: number;
-  /** elevations on the grid (row-major): Float32 with NaN nodata, or Int16 with −32768 nodata when dem_int16 */
+  /**
+   * elevations on the grid (row-major): Float32 with NaN nodata, or Int16 with −32768 nodata
+   * when dem_int16; the buffer may be longer than the grid (terrain/shared-grid.ts), so view
+   * its first width × height samples
+   */
   dem: SharedArrayBuffer;
   dem_int16: boolean;
   /** result: Float32 received level (dBm) or Uint8 visibility, prefilled with nodata */

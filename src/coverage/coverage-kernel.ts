@@ -17,7 +17,7 @@ export function coverageUnits(job: CoverageJob): number {
  * and, for small jobs, in the calling thread.
  */
 export function createChunkRunner(job: CoverageJob): { run(from: number, to: number): TallyData } {
-  const dem: Elevations = job.dem_int16 ? new Int16Array(job.dem) : new Float32Array(job.dem);
+  const dem: Elevations = job.dem_int16 ? new Int16Array(job.dem, 0, job.width * job.height) : new Float32Array(job.dem, 0, job.width * job.height);
   if (job.method === "hata") {
     return {
       run(from, to) {

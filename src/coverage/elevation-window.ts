@@ -3,6 +3,7 @@ import { INT16_NODATA, type PixelWindow, type RowProgress } from "../terrain/tif
 import type { Terrain } from "../terrain/terrain.ts";
 import { cellCentreLatLon, type CoverageGrid } from "./coverage-grid.ts";
 import { uniformMetric } from "./radial-sweep.ts";
+import { sharedFloat32 } from "../terrain/shared-grid.ts";
 
 /** Spacing (m, about) of the exactly projected nodes between which cell positions are interpolated. */
 const MESH_M = 500;
@@ -69,7 +70,7 @@ export function elevationWindow(terrain: Terrain, grid: CoverageGrid, onRow?: (d
     onRow?.(H, H);
     return out;
   }
-  const out = new Float32Array(new SharedArrayBuffer(W * H * 4));
+  const out = sharedFloat32(W * H);
   if (src.kind === "raster") {
     const r = terrain.raster!;
     for (let row = 0; row < H; row++) {

@@ -9,6 +9,7 @@ import { bandLayout, decodeBands, readBandFloat32, readBandFloat32AsInt16, readB
 import { readTiffDirectory } from "./tiff-directory.ts";
 import type { RasterGrid } from "./terrain.ts";
 import { TerrainError } from "./terrain-error.ts";
+import { sharedFloat32, sharedInt16 } from "./shared-grid.ts";
 
 /** GeoTIFF GTRasterTypeGeoKey values (GeoTIFF 1.1, §7.4.2 / OGC 19-008r4). */
 const RASTER_PIXEL_IS_POINT = 2;
@@ -145,7 +146,7 @@ class DeferredPixels {
    * asked and the band is Int16; null when a band failed.
    */
   windowShared(w: PixelWindow, share: ShareDecode, int16 = false): Float32Array | Int16Array | null {
-    const out = int16 && this.int16 ? new Int16Array(new SharedArrayBuffer(w.width * w.height * 2)) : new Float32Array(new SharedArrayBuffer(w.width * w.height * 4));
+    const out = int16 && this.int16 ? sharedInt16(w.width * w.height) : sharedFloat32(w.width * w.height);
     const ctrl = new Int32Array(new SharedArrayBuffer(12));
     const src = this.source;
     share(src, w, out, ctrl);
@@ -183,7 +184,7 @@ class DeferredPixels {
       if (int16 && this.layout.kind === "f32") return this.decode((fd) => readBandFloat32AsInt16(fd, this.layout, this.nodata, w)) ?? this.read(w, false, progress);
       return this.read(w, false, progress);
     }
-    const out = new Float32Array(new SharedArrayBuffer(w.width * w.height * 4));
+    const out = sharedFloat32(w.width * w.height);
     const W = this.layout.width;
     for (let r = 0; r < w.height; r++) {
       const from = (w.row0 + r) * W + w.col0;
@@ -332,7 +333,7 @@ class GeoTiffTerrain extends RasterTerrain {
     }
     if (this.pixels !== null) return this.pixels.window(window, int16, progress);
     const { width: W, data } = this.raster;
-    const out = new Float32Array(new SharedArrayBuffer(window.width * window.height * 4));
+    const out = sharedFloat32(window.width * window.height);
     for (let r = 0; r < window.height; r++) {
       const from = (window.row0 + r) * W + window.col0;
       out.set(data.subarray(from, from + window.width), r * window.width);
@@ -453,7 +454,7 @@ async function parseGeoTiff(bytes: Buffer, path: string, label: string): Promise
   } catch (e) {
     throw fail(`its pixels could not be decoded (${(e as Error).message})`, "rewrite it with gdal_translate -co COMPRESS=DEFLATE in.tif out.tif", e);
   }
-  const data = new Float32Array(new SharedArrayBuffer(band.length * 4));
+  const data = sharedFloat32(band.length);
   data.set(band);
   const nodata = image.getGDALNoData();
   if (nodata !== null && !Number.isNaN(nodata)) {

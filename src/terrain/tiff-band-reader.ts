@@ -1,6 +1,7 @@
 import { readSync } from "node:fs";
 import { inflateSync } from "node:zlib";
 import { readAt, type TiffDirectory } from "./tiff-directory.ts";
+import { sharedFloat32, sharedInt16 } from "./shared-grid.ts";
 
 /** A window of a raster in pixels (columns col0…col0+width−1, rows row0…row0+height−1). */
 export interface PixelWindow {
@@ -113,7 +114,7 @@ export const INT16_NODATA = -32768;
  */
 export function readBandFloat32(fd: number, layout: BandLayout, nodata: number | null, window?: PixelWindow, into?: Float32Array, progress?: RowProgress): Float32Array {
   const win = window ?? { col0: 0, row0: 0, width: layout.width, height: layout.height };
-  const out = into ?? new Float32Array(new SharedArrayBuffer(win.width * win.height * 4));
+  const out = into ?? sharedFloat32(win.width * win.height);
   const kind = layout.kind;
   // Nodata in the band's own type: integers only match an integer, Float32 its rounding.
   const nd = nodata === null || Number.isNaN(nodata) || (win.int16NodataKept && kind === "f32" && nodata === INT16_NODATA) ? null : kind === "f32" ? Math.fround(nodata) : Number.isInteger(nodata) ? nodata : null;
@@ -144,7 +145,7 @@ export function readBandFloat32(fd: number, layout: BandLayout, nodata: number |
 export function readBandInt16(fd: number, layout: BandLayout, nodata: number | null, window?: PixelWindow, into?: Int16Array, progress?: RowProgress): Int16Array {
   if (layout.kind !== "i16") throw new Error(`readBandInt16: the band holds ${layout.kind} samples`);
   const win = window ?? { col0: 0, row0: 0, width: layout.width, height: layout.height };
-  const out = into ?? new Int16Array(new SharedArrayBuffer(win.width * win.height * 2));
+  const out = into ?? sharedInt16(win.width * win.height);
   const nd = nodata !== null && Number.isInteger(nodata) && nodata !== INT16_NODATA ? nodata : null;
   if (readRowsDirect(fd, layout, win, out, nd === null ? undefined : (from, to) => markInt16Nodata(out, from, to, nd), progress)) return out;
   decodeWindow(fd, layout, win, (samples, src, dst, n) => {
@@ -174,7 +175,7 @@ export function readBandFloat32AsInt16(fd: number, layout: BandLayout, nodata: n
     decodeWindow(fd, layout, win, (samples, src, dst, n) => {
       if (out === null) {
         if (!wholeToInt16(samples as Float32Array, src, new Int16Array(n), 0, n, nd)) throw notWhole;
-        out = new Int16Array(new SharedArrayBuffer(win.width * win.height * 2));
+        out = sharedInt16(win.width * win.height);
       }
       if (!wholeToInt16(samples as Float32Array, src, out, dst, n, nd)) throw notWhole;
     });
@@ -182,7 +183,7 @@ export function readBandFloat32AsInt16(fd: number, layout: BandLayout, nodata: n
     if (e === notWhole) return null;
     throw e;
   }
-  return out ?? new Int16Array(new SharedArrayBuffer(win.width * win.height * 2));
+  return out ?? sharedInt16(win.width * win.height);
 }
 
 /** Copy n Float32 samples to Int16 (NaN and `nd` as INT16_NODATA); false at the first sample that is not a whole number from −32767 to 32767. */
