@@ -2,7 +2,8 @@
 // - visibility: whole process `bin/ridgeline.js coverage …`, run as the installed command is,
 //   beside `gdal_viewshed` on the same DEM, same observer, heights and k, timed alternately in
 //   the same run (median of runs); all of it on the Int16 DEM and on the same relief as a
-//   Float32 DEM of fractional metres, alternating within each round. Two configurations per DEM
+//   Float32 DEM of fractional metres, alternating within each round (GDAL first in every other
+//   round). Two configurations per DEM
 //   type, each with the same malloc settings for both tools (the README quotes the worse and
 //   the better): both as installed; both with glibc's huge-page tunable
 //   (GLIBC_TUNABLES=glibc.malloc.hugetlb=1, transparent huge pages for large allocations).
@@ -156,15 +157,29 @@ export async function benchCoverage(options: CoverageBenchOptions = {}): Promise
     const pathTuned = { ...path, GLIBC_TUNABLES: tuned.GLIBC_TUNABLES };
     const loadBefore = loadavg().map((x) => Math.round(x * 100) / 100);
     const gdalArgsFor = (dem: string) => ["-q", "-ox", String(X), "-oy", String(Y), "-oz", "30", "-tz", "2", "-md", String(radius_km * 1000), "-cc", String(1 / (4 / 3)), "-vv", "1", "-iv", "0", "-ov", "255", dem, gdalVis];
-    // Whole processes, alternating ours / GDAL, as installed and both with the tunable, Int16 then Float32, in each round.
+    // Whole processes, alternating ours / GDAL, as installed and both with the tunable, Int16 then
+    // Float32, in each round; GDAL first in every other round. The order matters with the tunable:
+    // a process faulting huge pages just after another freed memory often gets them warm, and
+    // after a run in 4 kB pages often cold (DEVELOPERS.md § Visibility against gdal_viewshed).
     for (let k = 0; k < runs; k++) {
       for (const type of ["int16", "float32"] as const) {
         const r = runsOf[type];
         const common = ["--site", `${lat},${lon}`, "--antenna-m", "30", "--receiver-m", "2", "--terrain", dems[type], "--radius-km", String(radius_km), "--resolution-m", String(res), "--frequency-ghz", "0.9", "--k", "4/3"];
-        r.ours.push(timed(join(ROOT, "bin/ridgeline.js"), ["coverage", ...common, "--method", "visibility", "--out", oursVis], path));
-        r.gdal.push(timed("gdal_viewshed", gdalArgsFor(dems[type])));
-        r.oursTuned.push(timed(join(ROOT, "bin/ridgeline.js"), ["coverage", ...common, "--method", "visibility", "--out", oursVis], pathTuned));
-        r.gdalTuned.push(timed("gdal_viewshed", gdalArgsFor(dems[type]), tuned));
+        const configurations = [
+          { mine: r.ours, theirs: r.gdal, oursEnv: path, gdalEnv: process.env },
+          { mine: r.oursTuned, theirs: r.gdalTuned, oursEnv: pathTuned, gdalEnv: tuned },
+        ];
+        for (const c of configurations) {
+          const ours = () => c.mine.push(timed(join(ROOT, "bin/ridgeline.js"), ["coverage", ...common, "--method", "visibility", "--out", oursVis], c.oursEnv));
+          const gdal = () => c.theirs.push(timed("gdal_viewshed", gdalArgsFor(dems[type]), c.gdalEnv));
+          if (k % 2 === 0) {
+            ours();
+            gdal();
+          } else {
+            gdal();
+            ours();
+          }
+        }
         for (const x of [r.ours[k], r.gdal[k], r.oursTuned[k], r.gdalTuned[k]]) if (x.status !== 0) throw new Error(`benchmark process failed:\n${x.stderr}`);
       }
     }
@@ -190,6 +205,8 @@ export async function benchCoverage(options: CoverageBenchOptions = {}): Promise
         gdal_viewshed_cpu_median_s: r3(gc),
         ridgeline_wall_s: r.ours.map((x) => r3(x.wall_s)),
         gdal_viewshed_wall_s: r.gdal.map((x) => r3(x.wall_s)),
+        ridgeline_hugetlb_wall_s: r.oursTuned.map((x) => r3(x.wall_s)),
+        gdal_viewshed_hugetlb_wall_s: r.gdalTuned.map((x) => r3(x.wall_s)),
         /** wall-time ratio, both as installed (the same malloc settings) */
         ratio: r3(o / g),
         /** both with glibc's huge-page tunable (the same malloc settings: both with huge pages) */
