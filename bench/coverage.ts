@@ -160,7 +160,7 @@ export async function benchCoverage(options: CoverageBenchOptions = {}): Promise
     // Whole processes, alternating ours / GDAL, as installed and both with the tunable, Int16 then
     // Float32, in each round; GDAL first in every other round. The order matters with the tunable:
     // a process faulting huge pages just after another freed memory often gets them warm, and
-    // after a run in 4 kB pages often cold (DEVELOPERS.md § Visibility against gdal_viewshed).
+    // after a run in 4 kB pages often cold (DEVELOPERS.md, coverage: the first write to fresh memory).
     for (let k = 0; k < runs; k++) {
       for (const type of ["int16", "float32"] as const) {
         const r = runsOf[type];

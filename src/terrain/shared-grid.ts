@@ -9,8 +9,9 @@
  * virtual machine that hands free memory back to its host, a huge page taken cold is backed
  * again by the host as well: reading the coverage bench's Float32 grid (178 MB) took
  * 0.3–0.85 s in those runs, against 0.16–0.18 s in 4 kB pages and 0.10 s in huge pages taken
- * warm (2026-12-05, DEVELOPERS.md § Visibility against gdal_viewshed). Taken from the engine,
- * the grid costs the same whatever the malloc settings.
+ * warm (2026-12-05; DEVELOPERS.md, coverage: the first write to fresh memory). Taken from the
+ * engine, the grid costs the same whatever the malloc settings (a kernel set to give every
+ * mapping huge pages, transparent_hugepage "always", still does so).
  *
  * The buffer's length is rounded up to 64 KiB (a WebAssembly page): use the view, whose length
  * is the grid's, never a new view of the whole buffer. Below 2 MiB, above what one
