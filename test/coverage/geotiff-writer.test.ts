@@ -1,5 +1,5 @@
 import { execFileSync } from "node:child_process";
-import { mkdtempSync, rmSync } from "node:fs";
+import { mkdtempSync, readdirSync, readFileSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { afterAll, describe, expect, it } from "vitest";
@@ -88,6 +88,26 @@ describe("GeoTIFF writer: GDAL reads what we write", () => {
     for (const r of [0, 1, 254, 255, 256, 509, 510, 511, 599]) pts.push([0, r], [2, r], [3, r], [W - 1, r]);
     const got = gdalValues(path, pts);
     pts.forEach(([c, r], i) => expect(got[i], `pixel ${c},${r}`).toBe(c < 3 ? 100 + (r % 50) : data[r * W + c]));
+  });
+
+  it("replaces a file already there; a failed write leaves that file as it was and nothing beside it", () => {
+    const path = join(dir, "again.tif");
+    writeGeoTiff(path, cases[0].raster);
+    const first = readFileSync(path);
+    writeGeoTiff(path, cases[2].raster);
+    expect(gdalinfo(path).bands[0].type).toBe("Int16");
+    const second = readFileSync(path);
+    expect(Buffer.compare(first, second)).not.toBe(0);
+    // fails half-way, its partial file already open beside the target
+    const failing: GeoTiffRaster = {
+      ...cases[1].raster,
+      fillStrip: () => {
+        throw new Error("disk full");
+      },
+    };
+    expect(() => writeGeoTiff(path, failing)).toThrow("disk full");
+    expect(Buffer.compare(readFileSync(path), second)).toBe(0);
+    expect(readdirSync(dir).filter((f) => f.startsWith("again.tif."))).toEqual([]);
   });
 
   it("a failed write leaves no file under the target name", () => {
