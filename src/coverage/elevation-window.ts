@@ -1,9 +1,9 @@
 import type { ShareDecode } from "../terrain/geotiff.ts";
+import { sharedFloat32 } from "../terrain/shared-grid.ts";
 import { INT16_NODATA, type PixelWindow, type RowProgress } from "../terrain/tiff-band-reader.ts";
 import type { Terrain } from "../terrain/terrain.ts";
 import { cellCentreLatLon, type CoverageGrid } from "./coverage-grid.ts";
 import { uniformMetric } from "./radial-sweep.ts";
-import { sharedFloat32 } from "../terrain/shared-grid.ts";
 
 /** Spacing (m, about) of the exactly projected nodes between which cell positions are interpolated. */
 const MESH_M = 500;

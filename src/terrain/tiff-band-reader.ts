@@ -1,7 +1,7 @@
 import { readSync } from "node:fs";
 import { inflateSync } from "node:zlib";
-import { readAt, type TiffDirectory } from "./tiff-directory.ts";
 import { sharedFloat32, sharedInt16 } from "./shared-grid.ts";
+import { readAt, type TiffDirectory } from "./tiff-directory.ts";
 
 /** A window of a raster in pixels (columns col0…col0+width−1, rows row0…row0+height−1). */
 export interface PixelWindow {
